@@ -1,0 +1,2 @@
+// Package cmd holds the project's commands; the one users run is clatter.
+package cmd
