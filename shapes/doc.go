@@ -1,7 +1,8 @@
 // Package shapes holds the geometry of one body: convex shapes (sphere, box,
 // capsule, cylinder, convex hull), compounds of convex pieces, static planes
-// and triangle meshes, their mass properties, and the resting-face analysis
-// of a part on a flat support.
+// and triangle meshes, and their mass properties. The resting-face analysis
+// of a part on a flat support lives in package shapes/resting, STL import and
+// triangle-mesh solids in package shapes/mesh.
 //
 // Every shape lives in its own local frame. Convex shapes answer support
 // queries (the farthest point along a direction), which is all the narrow
