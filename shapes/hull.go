@@ -68,8 +68,18 @@ func (h *Hull) SupportIndex(d Vec3) int {
 	}
 }
 
-// Bounds implements Convex.
-func (h *Hull) Bounds() AABB { return h.bounds }
+// Bounds implements Convex. A hull assembled by hand rather than by
+// NewHull has no cached bounds; they are then computed on each call.
+func (h *Hull) Bounds() AABB {
+	if h.bounds == (AABB{}) {
+		b := EmptyAABB()
+		for _, v := range h.Vertices {
+			b = b.Extend(v)
+		}
+		return b
+	}
+	return h.bounds
+}
 
 // Mass implements Convex: the polyhedral integrals over the faces, each
 // fanned into triangles.
@@ -94,4 +104,4 @@ func (h *Hull) Triangles() [][3]int32 {
 
 // Size is the length of the diagonal of the hull's bounds, the scale that
 // relative tolerances refer to.
-func (h *Hull) Size() float64 { return h.bounds.Size().Len() }
+func (h *Hull) Size() float64 { return h.Bounds().Size().Len() }
