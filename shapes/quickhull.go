@@ -72,6 +72,10 @@ func NewHull(points []Vec3) (*Hull, error) {
 			continue
 		}
 		h := assembleHull(local, points, tris, hullMergeTol*scale*size)
+		if len(h.Faces) < 4 || len(h.Vertices) < 4 {
+			// Thinner than the merge tolerance: the faces collapsed into one plane.
+			return nil, fmt.Errorf("shapes: thinner than %.1g of its size: %w", hullMergeTol*scale, ErrDegenerate)
+		}
 		h.bounds = EmptyAABB()
 		for _, v := range h.Vertices {
 			h.bounds = h.bounds.Extend(v)
@@ -149,7 +153,7 @@ func (q *quickhull) initialSimplex() ([4]int, error) {
 		}
 	}
 	if best <= q.tol*q.tol {
-		return s, fmt.Errorf("all points on one line: %w", ErrDegenerate)
+		return s, ErrDegenerate
 	}
 	n := q.pts[s[1]].Sub(a).Cross(q.pts[s[2]].Sub(a)).Normalize()
 	best = -1
@@ -159,7 +163,7 @@ func (q *quickhull) initialSimplex() ([4]int, error) {
 		}
 	}
 	if best <= q.tol {
-		return s, fmt.Errorf("all points on one plane: %w", ErrDegenerate)
+		return s, ErrDegenerate
 	}
 	return s, nil
 }
