@@ -1,0 +1,244 @@
+package collide
+
+import "math"
+
+// The general convex path: GJK on the cores for the distance and normal of
+// shapes apart, EPA for the depth and normal of shapes that overlap, then a
+// manifold from the features of both shapes along the normal.
+
+const (
+	// coreTouch: core distances below this fraction of the shapes' size are
+	// treated as overlap and go to EPA, whose normal is well defined where
+	// the GJK direction (from two nearly equal points) is not.
+	coreTouch = 1e-9
+	// satMaxEdgePairs: hull pairs with more edge pairs than this take the
+	// general path instead of the separating-axis test (whose edge loop is
+	// quadratic in the hull size).
+	satMaxEdgePairs = 20000
+)
+
+// nearest is the normal and the closest (or deepest) surface points of two
+// convex views, from A toward B.
+type nearest struct {
+	n      vec3
+	sep    float64
+	pa, pb vec3 // surface points of A and B
+	failed bool // EPA measured no depth; n is the line of centres
+}
+
+// distance finds the normal and separation of views a and b by GJK, EPA when
+// the cores overlap. It reports false when the separation exceeds margin.
+func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
+	var r nearest
+	if a.rounded() && b.rounded() {
+		return roundNearest(a, b, margin)
+	}
+	g := d.gjk(a, b, false)
+	scale := a.size + b.size
+	if !g.overlap && g.dist > coreTouch*scale {
+		r.sep = g.dist - a.rad - b.rad
+		if r.sep > margin {
+			return r, false
+		}
+		r.n = g.v.Mul(-1 / g.dist) // v = pa - pb
+		r.pa = g.pa.Add(r.n.Mul(a.rad))
+		r.pb = g.pb.Sub(r.n.Mul(b.rad))
+		return r, true
+	}
+	e := d.epa(a, b, false)
+	if !e.ok && (a.rad > 0 || b.rad > 0) {
+		// Flat cores (a segment on a triangle): EPA on the whole shapes.
+		d.gjk(a, b, true)
+		e = d.epa(a, b, true)
+		if e.ok {
+			e.depth -= a.rad + b.rad
+		}
+	}
+	if !e.ok {
+		// No depth could be measured (D is flat): fall back to the line of
+		// centres, or the last GJK direction.
+		n, l := unit(b.center().Sub(a.center()))
+		if l == 0 {
+			n, l = unit(g.v.Mul(-1))
+		}
+		if l == 0 {
+			n = vec3{0, 0, 1}
+		}
+		e = epaResult{normal: n, pa: g.pa, pb: g.pb}
+		r.failed = true
+	}
+	r.n = e.normal
+	r.sep = -e.depth - a.rad - b.rad
+	r.pa = e.pa.Add(r.n.Mul(a.rad))
+	r.pb = e.pb.Sub(r.n.Mul(b.rad))
+	return r, r.sep <= margin
+}
+
+func (v *view) rounded() bool { return v.kind == kSphere || v.kind == kCapsule }
+
+// segment returns the core segment of a sphere (both ends equal) or capsule.
+func (v *view) segment() (vec3, vec3) {
+	if v.kind == kSphere {
+		return v.pos, v.pos
+	}
+	ax := v.axis().Mul(v.half[2])
+	return v.pos.Sub(ax), v.pos.Add(ax)
+}
+
+// roundNearest is the exact nearest pair of two spheres or capsules: the
+// closest points of the core segments. Coincident cores take the normal
+// across both axes, across the one axis, or along z for two spheres,
+// pointing from A's centre toward B's.
+func roundNearest(a, b *view, margin float64) (nearest, bool) {
+	a0, a1 := a.segment()
+	b0, b1 := b.segment()
+	_, _, ca, cb := closestSegmentSegment(a0, a1, b0, b1)
+	dv := cb.Sub(ca)
+	dist := dv.Len()
+	r := nearest{sep: dist - a.rad - b.rad}
+	if r.sep > margin {
+		return r, false
+	}
+	if dist > coreTouch*(a.size+b.size) {
+		r.n = dv.Mul(1 / dist)
+	} else {
+		da, db := a1.Sub(a0), b1.Sub(b0)
+		n, l := unit(da.Cross(db))
+		if l <= satParallel*da.Len()*db.Len() || l == 0 {
+			switch {
+			case da != (vec3{}):
+				n = perpendicular(da.Normalize())
+			case db != (vec3{}):
+				n = perpendicular(db.Normalize())
+			default:
+				n = vec3{0, 0, 1}
+			}
+		}
+		if n.Dot(b.pos.Sub(a.pos)) < 0 {
+			n = n.Mul(-1)
+		}
+		r.n = n
+	}
+	r.pa = ca.Add(r.n.Mul(a.rad))
+	r.pb = cb.Sub(r.n.Mul(b.rad))
+	return r, true
+}
+
+// general is the whole general path: it leaves the points in d.cand and
+// returns the normal from a to b.
+func (d *Detector) general(a, b *view, margin float64) (vec3, bool) {
+	r, ok := d.distance(a, b, margin)
+	if !ok {
+		return vec3{}, false
+	}
+	return d.featureContact(a, b, r, margin), true
+}
+
+// featureContact builds the manifold of a and b from their features along
+// r.n and returns its normal. When a face is involved its normal becomes the
+// manifold's, and the other shape's feature is taken again along that exact
+// normal (a curved shape's support point moves with the direction).
+//
+// When both offer faces, the better aligned one is the reference, A's on a
+// tie, except that a mesh triangle (b) is the reference whenever it is one
+// of the two: its normal is the surface's.
+func (d *Detector) featureContact(a, b *view, r nearest, margin float64) vec3 {
+	fa, fb := &d.featA, &d.featB
+	a.extreme(r.n, fa)
+	b.extreme(r.n.Mul(-1), fb)
+	d.cand = d.cand[:0]
+	scale := a.size + b.size
+	na, nb := len(fa.pts), len(fb.pts)
+	alignA, alignB := fa.normal.Dot(r.n), -fb.normal.Dot(r.n)
+	polyA := fa.polygon() && alignA >= featCos
+	polyB := fb.polygon() && alignB >= featCos
+	refA := polyA && (!polyB || (b.kind != kTriangle && alignA >= alignB))
+	refB := !refA && polyB
+	n := r.n
+	switch {
+	case refA:
+		n = fa.normal
+		if a.kind == kCylinder {
+			a.cylinderExtreme(n, fa, true) // a cap reference is drawn finer
+		}
+		b.extreme(n.Mul(-1), fb)
+		d.faceFeature(fa, fb, false, margin, scale)
+	case refB:
+		n = fb.normal.Mul(-1)
+		if b.kind == kCylinder {
+			b.cylinderExtreme(fb.normal, fb, true)
+		}
+		a.extreme(n, fa)
+		d.faceFeature(fb, fa, true, margin, scale)
+	case na == 2 && nb == 2 && !fa.set && !fb.set:
+		d.parallelSegments(fa, fb, r.n, margin)
+	}
+	if len(d.cand) == 0 {
+		n = r.n
+		if r.sep <= margin {
+			d.cand = append(d.cand, candPoint{p: r.pa.Add(r.pb).Mul(0.5), sep: r.sep, id: faceID(false, fa.base, fb.base, 0xFE, 0)})
+		}
+	}
+	return n
+}
+
+// faceFeature clips incident feature inc against reference polygon ref (of
+// B when flip). A single incident point counts only inside the reference
+// face's prism; elsewhere the contact is not on the face.
+func (d *Detector) faceFeature(ref, inc *feature, flip bool, margin, scale float64) {
+	if len(inc.pts) >= 2 && !inc.set {
+		d.clipToPolygon(ref.pts, ref.normal, inc.pts, inc.rad, flip, ref.base, inc.base, margin, scale)
+		return
+	}
+	tol := clipTolerance * scale
+	rd := ref.normal.Dot(ref.pts[0])
+next:
+	for i, p := range inc.pts {
+		for k := range ref.pts {
+			a, b := ref.pts[k], ref.pts[(k+1)%len(ref.pts)]
+			sn, l := unit(b.Sub(a).Cross(ref.normal))
+			if l > 0 && sn.Dot(p.Sub(a)) > tol {
+				continue next
+			}
+		}
+		d.addRefPoint(p, ref.normal, rd, inc.rad, flip, ref.base, inc.base, codeV(i), 0, margin)
+	}
+}
+
+// parallelSegments gives two points for two segment features that are
+// parallel (capsules or cylinders lying side by side): B's segment clipped to
+// the extent of A's.
+func (d *Detector) parallelSegments(fa, fb *feature, n vec3, margin float64) {
+	a0, a1 := fa.pts[0], fa.pts[1]
+	b0, b1 := fb.pts[0], fb.pts[1]
+	da, db := a1.Sub(a0), b1.Sub(b0)
+	la, lb := da.Len(), db.Len()
+	if la == 0 || lb == 0 || math.Abs(da.Dot(db)) < featCos*la*lb {
+		return
+	}
+	aa := da.Dot(da)
+	t0 := b0.Sub(a0).Dot(da) / aa
+	t1 := b1.Sub(a0).Dot(da) / aa
+	lo, hi := math.Max(0, math.Min(t0, t1)), math.Min(1, math.Max(t0, t1))
+	if lo > hi {
+		return
+	}
+	for k, t := range [2]float64{lo, hi} {
+		qa := a0.Add(da.Mul(t))
+		// The point of B's segment over qa.
+		s := (t - t0) / (t1 - t0)
+		if t1 == t0 {
+			s = 0
+		}
+		qb := b0.Add(db.Mul(clamp01(s)))
+		pa := qa.Add(n.Mul(fa.rad))
+		pb := qb.Sub(n.Mul(fb.rad))
+		sep := pb.Sub(pa).Dot(n)
+		if sep <= margin {
+			d.cand = append(d.cand, candPoint{p: pa.Add(pb).Mul(0.5), sep: sep, id: faceID(false, fa.base, fb.base, codeV(k), 0)})
+		}
+		if hi == lo {
+			break
+		}
+	}
+}

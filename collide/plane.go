@@ -1,0 +1,90 @@
+package collide
+
+import (
+	"math"
+
+	"clatter/shapes"
+)
+
+// Convex shapes against a static half-space, by support points: every vertex
+// of a box or hull within the margin of the plane is a contact point (the
+// reduction then keeps four), a sphere gives its lowest point, a capsule the
+// lowest points of its two end spheres, and a cylinder rim points of both
+// caps, laid out from the exact deepest point of each rim.
+
+var worldFrame = frame{rot: identity3}
+
+// planeConvex collides plane pl at frame fp with convex shape s at fs. When
+// planeIsA the plane is shape A of the pair (the normal then points out of
+// the plane), otherwise B.
+func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shapes.Shape, fs frame, margin float64, planeIsA bool, subA, subB int32) []Manifold {
+	var v view
+	if !v.setConvex(s, fs.rot, fs.pos) {
+		return dst
+	}
+	nw := mul(fp.rot, pl.Normal)
+	if l := nw.Len(); l > 0 && math.Abs(l-1) > 1e-12 {
+		nw = nw.Mul(1 / l)
+	} else if l == 0 {
+		return dst
+	}
+	dw := nw.Dot(fp.pos.Add(mul(fp.rot, pl.Normal.Mul(pl.Offset))))
+	d.cand = d.cand[:0]
+	add := func(p vec3, id uint32) {
+		sep := nw.Dot(p) - dw
+		if sep <= margin {
+			d.cand = append(d.cand, candPoint{p: p.Sub(nw.Mul(0.5 * sep)), sep: sep, id: id})
+		}
+	}
+	down := nw.Mul(-1)
+	switch v.kind {
+	case kSphere:
+		add(v.pos.Add(down.Mul(v.rad)), 0)
+	case kCapsule:
+		ax := v.axis().Mul(v.half[2])
+		add(v.pos.Sub(ax).Add(down.Mul(v.rad)), 0)
+		add(v.pos.Add(ax).Add(down.Mul(v.rad)), 1)
+	case kBox:
+		// Cull by the box's extent along the normal before looking at corners.
+		l := mulT(v.rot, nw)
+		ext := math.Abs(l[0])*v.half[0] + math.Abs(l[1])*v.half[1] + math.Abs(l[2])*v.half[2]
+		if nw.Dot(v.pos)-dw-ext > margin {
+			return dst
+		}
+		for i := 0; i < 8; i++ {
+			add(v.pos.Add(mul(v.rot, boxVertex(v.half, i))), uint32(i))
+		}
+	case kHull:
+		l := mulT(v.rot, down)
+		lo := v.pos.Add(mul(v.rot, v.hull.Vertices[v.hull.SupportIndex(l)]))
+		if nw.Dot(lo)-dw > margin {
+			return dst
+		}
+		for i, p := range v.hull.Vertices {
+			add(v.pos.Add(mul(v.rot, p)), uint32(i))
+		}
+	case kCylinder:
+		ax := v.axis()
+		c := down.Dot(ax)
+		u, rl := unit(down.Sub(ax.Mul(c)))
+		mode := uint32(0)
+		if rl <= cylFlatSin {
+			u, mode = col(v.rot, 0), 8
+		}
+		w := ax.Cross(u)
+		for cp := 0; cp < 2; cp++ {
+			center := v.pos.Add(ax.Mul(v.half[2] * float64(1-2*cp)))
+			for k := 0; k < 4; k++ {
+				cu, cw := [4]float64{1, 0, -1, 0}[k], [4]float64{0, 1, 0, -1}[k]
+				add(center.Add(u.Mul(v.cylR*cu)).Add(w.Mul(v.cylR*cw)), mode+uint32(4*cp+k))
+			}
+		}
+	default:
+		add(v.supportFull(down), 0)
+	}
+	n := nw
+	if !planeIsA {
+		n = n.Mul(-1)
+	}
+	return d.emit(dst, worldFrame, n, subA, subB)
+}

@@ -1,0 +1,743 @@
+package contact
+
+import (
+	"cmp"
+	"fmt"
+	"math"
+	"slices"
+
+	"clatter/shapes"
+)
+
+type vec = shapes.Vec3
+
+// impactRelTol ends the Gauss-Seidel sweeps over one pair's points in the
+// impact phase once no row changes a velocity by more than this fraction of
+// the pair's impact speed: far below any measurable bounce height.
+const impactRelTol = 1e-12
+
+// row is one scalar constraint in solver form: Jacobian J, the velocity
+// changes per unit impulse M^-1 J^T, k = J M^-1 J^T and the effective mass 1/k.
+type row struct {
+	a, b                   int32
+	linA, angA, linB, angB vec
+	dvA, dwA, dvB, dwB     vec
+	k, mass                float64
+	target                 float64
+	lo, hi                 float64
+	lambda                 float64
+}
+
+// pstate is the solver's per-point state beside the point's three rows.
+type pstate struct {
+	muS, muK, mu, e     float64
+	sep                 float64
+	inv11, inv12, inv22 float64 // inverse of the 2x2 friction block, zero if singular
+	miso                float64 // 1 / largest eigenvalue of the friction block
+	found, sat          bool
+	prevSliding         bool    // last step used the kinetic coefficient
+	prevSlips           uint8   // consecutive steps that ended at the cone's limit and slipping
+	active              bool    // takes part in the current impact processing
+	iTarget             float64 // normal target velocity of the current impact processing
+	iN, iT1, iT2        float64 // impulses of the current impact processing
+	pending             float64 // approach speed of an impact deferred from the last step, 0 if none
+	deferred            float64 // approach speed of an impact deferred to the next step, 0 if none
+	pN, pTarget, pLo    float64 // position pass
+}
+
+// jpos is a joint row's state in the position pass.
+type jpos struct {
+	on             bool
+	target, lo, hi float64
+	lambda         float64
+}
+
+type warmPoint struct {
+	key      uint64
+	normal   float64
+	friction vec // world vector, so that a new tangent basis can take it over
+	sliding  bool
+	slips    uint8
+	pending  float64 // approach speed of a deferred impact
+}
+
+type warmRow struct {
+	key     uint64
+	impulse float64
+}
+
+// Solver holds the rows, the warm-start memory and the scratch space of the
+// contact solve. Reuse one Solver per world: it allocates only while its
+// slices grow. A Solver is not safe for concurrent use.
+type Solver struct {
+	Settings Settings
+
+	rows   []row // 3 per point (normal, tangent 1, tangent 2), then the extra rows
+	pts    []pstate
+	jp     []jpos
+	groups []int32 // start of each run of points of one pair, then len(points)
+
+	prevPts, curPts   []warmPoint // sorted by key
+	prevRows, curRows []warmRow
+	prevDt            float64
+}
+
+// NewSolver returns a solver with the given settings and no warm-start memory.
+func NewSolver(s Settings) *Solver { return &Solver{Settings: s} }
+
+// Reset forgets the impulses remembered from earlier steps.
+func (s *Solver) Reset() {
+	s.prevPts, s.prevRows, s.prevDt = s.prevPts[:0], s.prevRows[:0], 0
+}
+
+// Solve runs one step of the contact solve on bodies whose velocities already
+// include this step's gravity and applied forces:
+//
+//  1. rows from the points (normal and two tangents each) and the extra rows;
+//  2. warm start: last step's impulses, matched by Key, scaled by WarmStart
+//     and the ratio of step sizes (Catto 2005);
+//  3. sticking or sliding per point, choosing the static or kinetic coefficient;
+//  4. impacts: Newton restitution pair by pair in sequence (Guendelman,
+//     Bridson and Fedkiw 2003);
+//  5. velocity iterations: projected Gauss-Seidel with accumulated clamping
+//     (Catto 2005), friction in the disk |f_t| <= mu f_n;
+//  6. the position pass, which writes the pseudo-velocities Vp, Wp.
+//
+// It writes V, W, Vp, Wp of the bodies, the output fields of points and
+// Impulse of rows. A bad index or a non-finite value is an error, and then
+// nothing is changed.
+func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (Report, error) {
+	var rep Report
+	if err := s.Settings.Validate(); err != nil {
+		return rep, err
+	}
+	if !(dt > 0) || math.IsInf(dt, 1) {
+		return rep, fmt.Errorf("contact: step %v s: must be a finite time > 0", dt)
+	}
+	if err := check(bodies, points, rows); err != nil {
+		return rep, err
+	}
+	s.prepare(dt, bodies, points, rows)
+	s.warmStart(dt, bodies, points, rows)
+	s.classify(bodies, points)
+	s.impacts(dt, bodies, points, &rep)
+	s.velocities(bodies, points, rows, &rep)
+	s.store(dt, bodies, points, rows, &rep)
+	s.positions(dt, bodies, points, rows)
+	return rep, nil
+}
+
+func finite3(v vec) bool {
+	return !math.IsNaN(v[0]+v[1]+v[2]) && !math.IsInf(v[0]+v[1]+v[2], 0)
+}
+
+func check(bodies []Body, points []Point, rows []Row) error {
+	n := int32(len(bodies))
+	for i := range points {
+		p := &points[i]
+		if p.A < 0 || p.A >= n || p.B < 0 || p.B >= n {
+			return fmt.Errorf("contact: point %d (key %#x): bodies %d, %d: index out of range [0, %d)", i, p.Key, p.A, p.B, n)
+		}
+		if p.A == p.B {
+			return fmt.Errorf("contact: point %d (key %#x): body %d touches itself; a point needs two bodies", i, p.Key, p.A)
+		}
+		if l := p.Normal.Dot(p.Normal); !(math.Abs(l-1) <= 1e-6) {
+			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: normal %v must be a unit vector", i, p.Key, p.A, p.B, p.Normal)
+		}
+		if !finite3(p.Position) || !finite3(p.SurfaceVelocity) || math.IsNaN(p.Separation) || math.IsInf(p.Separation, 0) ||
+			math.IsNaN(p.Friction+p.StaticFriction+p.Restitution) || math.IsInf(p.Friction+p.StaticFriction+p.Restitution, 0) {
+			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: position, separation, surface velocity and coefficients must be finite", i, p.Key, p.A, p.B)
+		}
+	}
+	for j := range rows {
+		r := &rows[j]
+		if r.A < 0 || r.A >= n || r.B < 0 || r.B >= n {
+			return fmt.Errorf("contact: row %d (key %#x): bodies %d, %d: index out of range [0, %d)", j, r.Key, r.A, r.B, n)
+		}
+		if r.A == r.B {
+			return fmt.Errorf("contact: row %d (key %#x): both ends on body %d; a row needs two bodies (use a static body for the world)", j, r.Key, r.A)
+		}
+		if !(r.Lo <= r.Hi) || math.IsNaN(r.Target+r.Drift) || math.IsInf(r.Target+r.Drift, 0) ||
+			!finite3(r.LinA) || !finite3(r.AngA) || !finite3(r.LinB) || !finite3(r.AngB) {
+			return fmt.Errorf("contact: row %d (key %#x): needs finite Jacobian, Target and Drift and Lo <= Hi, got Lo %v, Hi %v", j, r.Key, r.Lo, r.Hi)
+		}
+	}
+	return nil
+}
+
+// tangents returns an orthonormal basis of the plane normal to unit n,
+// without a branch on a near-zero component: Duff, Burgess, Christensen,
+// Hery, Kensler, Liani and Villemin, "Building an orthonormal basis,
+// revisited", JCGT 6(1), 2017.
+func tangents(n vec) (t1, t2 vec) {
+	sign := math.Copysign(1, n[2])
+	a := -1 / (sign + n[2])
+	b := n[0] * n[1] * a
+	t1 = vec{1 + sign*n[0]*n[0]*a, sign * b, -sign * n[0]}
+	t2 = vec{b, sign + n[1]*n[1]*a, -n[1]}
+	return t1, t2
+}
+
+func grow[T any](s []T, n int) []T {
+	if cap(s) < n {
+		return make([]T, n, n+n/4)
+	}
+	return s[:n]
+}
+
+func (r *row) setup(bodies []Body, a, b int32, linA, angA, linB, angB vec) {
+	A, B := &bodies[a], &bodies[b]
+	r.a, r.b = a, b
+	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
+	r.dvA = linA.Mul(A.InvMass)
+	r.dwA = A.InvInertia.Mul3x1(angA)
+	r.dvB = linB.Mul(B.InvMass)
+	r.dwB = B.InvInertia.Mul3x1(angB)
+	r.k = linA.Dot(r.dvA) + angA.Dot(r.dwA) + linB.Dot(r.dvB) + angB.Dot(r.dwB)
+	r.mass = 0
+	if r.k > 0 && !math.IsInf(r.k, 1) {
+		r.mass = 1 / r.k
+	}
+	r.lambda = 0
+}
+
+// The hot loops below are written out by component: the vector methods
+// pass 24-byte arrays by value and cost about twice as much here.
+
+func dot3(a, b *vec) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
+
+func addScaled(v *vec, a *vec, d float64) {
+	v[0] += a[0] * d
+	v[1] += a[1] * d
+	v[2] += a[2] * d
+}
+
+func (r *row) cdot(bodies []Body) float64 {
+	A, B := &bodies[r.a], &bodies[r.b]
+	return dot3(&r.linA, &A.V) + dot3(&r.angA, &A.W) + dot3(&r.linB, &B.V) + dot3(&r.angB, &B.W)
+}
+
+func (r *row) apply(bodies []Body, d float64) {
+	A, B := &bodies[r.a], &bodies[r.b]
+	addScaled(&A.V, &r.dvA, d)
+	addScaled(&A.W, &r.dwA, d)
+	addScaled(&B.V, &r.dvB, d)
+	addScaled(&B.W, &r.dwB, d)
+}
+
+func (r *row) cdotPseudo(bodies []Body) float64 {
+	A, B := &bodies[r.a], &bodies[r.b]
+	return dot3(&r.linA, &A.Vp) + dot3(&r.angA, &A.Wp) + dot3(&r.linB, &B.Vp) + dot3(&r.angB, &B.Wp)
+}
+
+func (r *row) applyPseudo(bodies []Body, d float64) {
+	A, B := &bodies[r.a], &bodies[r.b]
+	addScaled(&A.Vp, &r.dvA, d)
+	addScaled(&A.Wp, &r.dwA, d)
+	addScaled(&B.Vp, &r.dvB, d)
+	addScaled(&B.Wp, &r.dwB, d)
+}
+
+// solveScalar is one projected Gauss-Seidel update of a row with its own
+// accumulator: the impulse that brings Cdot to target, with the accumulated
+// impulse (not the increment) clamped to [lo, hi] (Catto 2005). It returns
+// the velocity change along the row.
+func solveScalar(bodies []Body, r *row, target, lo, hi float64, lambda *float64) float64 {
+	if r.mass == 0 {
+		return 0
+	}
+	old := *lambda
+	nl := min(max(old+r.mass*(target-r.cdot(bodies)), lo), hi)
+	d := nl - old
+	if d == 0 {
+		return 0
+	}
+	*lambda = nl
+	r.apply(bodies, d)
+	return math.Abs(d) * r.k
+}
+
+// solvePseudo is solveScalar on the pseudo-velocities.
+func solvePseudo(bodies []Body, r *row, target, lo, hi float64, lambda *float64) float64 {
+	if r.mass == 0 {
+		return 0
+	}
+	old := *lambda
+	nl := min(max(old+r.mass*(target-r.cdotPseudo(bodies)), lo), hi)
+	d := nl - old
+	if d == 0 {
+		return 0
+	}
+	*lambda = nl
+	r.applyPseudo(bodies, d)
+	return math.Abs(d) * r.k
+}
+
+// solveFriction updates the two tangent rows of point i together: the 2x2
+// block impulse that brings the tangential relative velocity to the rows'
+// targets, then the accumulated pair (l1, l2) projected radially onto the
+// disk of radius bound (Coulomb's cone as a disk, not a pyramid). It returns
+// the velocity change and whether the disk limited the impulse.
+func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *float64) (float64, bool) {
+	p := &s.pts[i]
+	if p.inv11 == 0 && p.inv22 == 0 {
+		return 0, false
+	}
+	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
+	e1 := r1.target - r1.cdot(bodies)
+	e2 := r2.target - r2.cdot(bodies)
+	n1 := *l1 + p.inv11*e1 + p.inv12*e2
+	n2 := *l2 + p.inv12*e1 + p.inv22*e2
+	clamped := false
+	if n1*n1+n2*n2 > bound*bound {
+		// Static friction cannot hold. The block step projected radially
+		// would settle with the impulse along K^-1 times the slip, not
+		// against the slip; an isotropic step (scalar mass 1/lambda_max(K))
+		// has its fixed point on the disk exactly where the impulse opposes
+		// the remaining slip, the direction of maximal dissipation.
+		clamped = true
+		n1, n2 = *l1+p.miso*e1, *l2+p.miso*e2
+		if m2 := n1*n1 + n2*n2; m2 > bound*bound {
+			if bound > 0 {
+				f := bound / math.Sqrt(m2)
+				n1, n2 = n1*f, n2*f
+			} else {
+				n1, n2 = 0, 0
+			}
+		}
+	}
+	d1, d2 := n1-*l1, n2-*l2
+	*l1, *l2 = n1, n2
+	if d1 != 0 {
+		r1.apply(bodies, d1)
+	}
+	if d2 != 0 {
+		r2.apply(bodies, d2)
+	}
+	return max(math.Abs(d1)*r1.k, math.Abs(d2)*r2.k), clamped
+}
+
+func samePair(p, q *Point) bool {
+	return (p.A == q.A && p.B == q.B) || (p.A == q.B && p.B == q.A)
+}
+
+func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) {
+	n := len(points)
+	s.rows = grow(s.rows, 3*n+len(rows))
+	s.pts = grow(s.pts, n)
+	s.jp = grow(s.jp, len(rows))
+	s.groups = s.groups[:0]
+	for i := range points {
+		if i == 0 || !samePair(&points[i-1], &points[i]) {
+			s.groups = append(s.groups, int32(i))
+		}
+	}
+	s.groups = append(s.groups, int32(n))
+
+	for i := range points {
+		p := &points[i]
+		A, B := &bodies[p.A], &bodies[p.B]
+		rA, rB := p.Position.Sub(A.Position), p.Position.Sub(B.Position)
+		nr := p.Normal
+		t1, t2 := tangents(nr)
+
+		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+		rn.setup(bodies, p.A, p.B, nr.Mul(-1), rA.Cross(nr).Mul(-1), nr, rB.Cross(nr))
+		// A speculative point may approach by its gap within the step.
+		rn.target = -max(p.Separation, 0) / dt
+		rn.lo, rn.hi = 0, math.Inf(1)
+		r1.setup(bodies, p.A, p.B, t1.Mul(-1), rA.Cross(t1).Mul(-1), t1, rB.Cross(t1))
+		r1.target = t1.Dot(p.SurfaceVelocity)
+		r2.setup(bodies, p.A, p.B, t2.Mul(-1), rA.Cross(t2).Mul(-1), t2, rB.Cross(t2))
+		r2.target = t2.Dot(p.SurfaceVelocity)
+
+		ps := &s.pts[i]
+		*ps = pstate{}
+		ps.muK = max(p.Friction, 0)
+		ps.muS = max(p.StaticFriction, ps.muK)
+		ps.e = max(p.Restitution, 0)
+		ps.sep = p.Separation
+		// Off-diagonal of the friction block; the linear parts cancel (t1·t2 = 0).
+		k12 := r1.linA.Dot(r2.dvA) + r1.angA.Dot(r2.dwA) + r1.linB.Dot(r2.dvB) + r1.angB.Dot(r2.dwB)
+		if det := r1.k*r2.k - k12*k12; det > 1e-12*r1.k*r2.k && det > 0 {
+			ps.inv11, ps.inv12, ps.inv22 = r2.k/det, -k12/det, r1.k/det
+			h := 0.5 * (r1.k - r2.k)
+			ps.miso = 1 / (0.5*(r1.k+r2.k) + math.Sqrt(h*h+k12*k12))
+		}
+
+		p.NormalImpulse, p.FrictionImpulse = 0, vec{}
+		p.ImpactImpulse, p.ImpactFriction, p.ImpactSpeed = 0, vec{}, 0
+		p.Sliding = false
+	}
+	for j := range rows {
+		r, jr := &rows[j], &s.rows[3*n+j]
+		jr.setup(bodies, r.A, r.B, r.LinA, r.AngA, r.LinB, r.AngB)
+		jr.target, jr.lo, jr.hi = r.Target, r.Lo, r.Hi
+		r.Impulse = 0
+	}
+}
+
+func keyOrder(w warmPoint, k uint64) int  { return cmp.Compare(w.key, k) }
+func rowKeyOrder(w warmRow, k uint64) int { return cmp.Compare(w.key, k) }
+
+// warmStart applies last step's impulses to the points and rows whose keys
+// persist (Catto 2005). Friction is remembered as a world vector and
+// projected onto this step's tangents, so a turned basis loses nothing.
+func (s *Solver) warmStart(dt float64, bodies []Body, points []Point, rows []Row) {
+	f := s.Settings.WarmStart
+	if s.prevDt > 0 {
+		f *= dt / s.prevDt // impulses of a steady load scale with the step
+	}
+	for i := range points {
+		k, ok := slices.BinarySearchFunc(s.prevPts, points[i].Key, keyOrder)
+		if !ok {
+			continue
+		}
+		w := &s.prevPts[k]
+		ps := &s.pts[i]
+		ps.found, ps.prevSliding, ps.prevSlips, ps.pending = true, w.sliding, w.slips, w.pending
+		if f == 0 {
+			continue
+		}
+		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+		ln := f * w.normal
+		l1, l2 := f*w.friction.Dot(r1.linB), f*w.friction.Dot(r2.linB)
+		if m, b := math.Hypot(l1, l2), ps.muS*ln; m > b {
+			l1, l2 = l1*b/m, l2*b/m
+		}
+		if rn.mass > 0 {
+			rn.lambda = ln
+			rn.apply(bodies, ln)
+		}
+		if ps.inv11 != 0 || ps.inv22 != 0 {
+			r1.lambda, r2.lambda = l1, l2
+			r1.apply(bodies, l1)
+			r2.apply(bodies, l2)
+		}
+	}
+	if f == 0 {
+		return
+	}
+	n := len(points)
+	for j := range rows {
+		k, ok := slices.BinarySearchFunc(s.prevRows, rows[j].Key, rowKeyOrder)
+		if !ok {
+			continue
+		}
+		jr := &s.rows[3*n+j]
+		if jr.mass == 0 {
+			continue
+		}
+		jr.lambda = min(max(f*s.prevRows[k].impulse, jr.lo), jr.hi)
+		jr.apply(bodies, jr.lambda)
+	}
+}
+
+// classify picks the friction coefficient of every point. A point slides
+// (kinetic coefficient) if its tangential speed relative to the surface
+// velocity, measured after the warm start, exceeds SlipSpeed. Otherwise a
+// new point sticks (static coefficient), and a persisting one keeps its
+// state until the evidence turns: a sliding point keeps sliding while its
+// steps end with friction at the cone's limit and slip above CreepSpeed (so
+// kinetic friction has not stopped it); a sticking point breaks loose after
+// two such steps in a row. One step would do for a converged solve, but an
+// unconverged step (a new contact, a stack) can end at the limit with a
+// little slip that the next, warm-started step removes; taking that for
+// sliding would hand a block that static friction holds over to kinetic
+// friction for good.
+func (s *Solver) classify(bodies []Body, points []Point) {
+	for i := range points {
+		ps := &s.pts[i]
+		r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
+		slip := math.Hypot(r1.cdot(bodies)-r1.target, r2.cdot(bodies)-r2.target)
+		sliding := slip > s.Settings.SlipSpeed
+		if !sliding && ps.found {
+			if ps.prevSliding {
+				sliding = ps.prevSlips >= 1 // kinetic friction has not stopped it
+			} else {
+				sliding = ps.prevSlips >= 2 // static friction failed twice running
+			}
+		}
+		ps.mu = ps.muS
+		if sliding {
+			ps.mu = ps.muK
+		}
+		points[i].Sliding = sliding
+	}
+}
+
+// impacts is the restitution phase of Guendelman, Bridson and Fedkiw,
+// "Nonconvex rigid bodies with stacking", SIGGRAPH 2003: pairs are visited in
+// their given order, and each pair with a point approaching faster than
+// BounceThreshold gets the impulses that turn the current approach speed of
+// each such point into e times that speed away, with friction clamped to mu
+// times the normal impulse. Passes repeat while anything impacts, so an
+// impact travels through a chain (Newton's cradle).
+//
+// The points of one pair are solved together by Gauss-Seidel sweeps (to
+// convergence) on their own accumulators: a flat face landing on four points
+// gets four equal impulses and no spin, which a point-by-point sequence would
+// not give. Touching points of the pair that do not impact keep the velocity
+// solve's target (no approach; a speculative point its gap per step).
+// A speculative point counts only if it would close its gap within the step.
+func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
+	set := &s.Settings
+	if set.PairIterations == 0 {
+		return
+	}
+	inf := math.Inf(1)
+	for pass := 0; pass < set.ImpactPasses; pass++ {
+		hitAny := false
+		for g := 0; g+1 < len(s.groups); g++ {
+			lo, hi := int(s.groups[g]), int(s.groups[g+1])
+			vmax := 0.0
+			for i := lo; i < hi; i++ {
+				ps, rn := &s.pts[i], &s.rows[3*i]
+				ps.active = false
+				if rn.mass == 0 {
+					continue
+				}
+				approach := -rn.cdot(bodies)
+				if ps.sep > 0 && approach*dt <= ps.sep {
+					continue // stays apart this step
+				}
+				if ps.sep > set.Slop {
+					// Closing within the step but not yet touching: the
+					// velocity solve lets it arrive exactly (approach sep/dt)
+					// and the impact is deferred to the next step with this
+					// approach speed. Bouncing now would reverse the bodies a
+					// gap short of each other; moving them to make up for it
+					// would change angular momentum.
+					if approach > set.BounceThreshold || ps.pending > 0 {
+						ps.deferred = max(ps.deferred, approach, ps.pending)
+					}
+					continue
+				}
+				if ps.pending > approach && approach > -set.BounceThreshold {
+					// The impact deferred from the last step arrives now.
+					approach = ps.pending
+				}
+				ps.pending = 0
+				ps.active = true
+				ps.iTarget = rn.target
+				if approach > set.BounceThreshold {
+					ps.iTarget = ps.e * approach
+					vmax = max(vmax, approach)
+					points[i].ImpactSpeed = max(points[i].ImpactSpeed, approach)
+				}
+			}
+			if vmax == 0 {
+				continue
+			}
+			hitAny = true
+			for i := lo; i < hi; i++ {
+				ps := &s.pts[i]
+				ps.iN, ps.iT1, ps.iT2 = 0, 0, 0
+			}
+			tol := impactRelTol * vmax
+			for it := 0; it < set.PairIterations; it++ {
+				res := 0.0
+				for i := lo; i < hi; i++ {
+					ps := &s.pts[i]
+					if !ps.active {
+						continue
+					}
+					res = max(res, solveScalar(bodies, &s.rows[3*i], ps.iTarget, 0, inf, &ps.iN))
+					d, _ := s.solveFriction(bodies, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
+					res = max(res, d)
+				}
+				if res <= tol {
+					break
+				}
+			}
+			for i := lo; i < hi; i++ {
+				ps, p := &s.pts[i], &points[i]
+				if !ps.active {
+					continue
+				}
+				p.ImpactImpulse += ps.iN
+				p.ImpactFriction = p.ImpactFriction.Add(s.rows[3*i+1].linB.Mul(ps.iT1)).Add(s.rows[3*i+2].linB.Mul(ps.iT2))
+			}
+		}
+		if !hitAny {
+			break
+		}
+		rep.ImpactPasses++
+	}
+	for i := range points {
+		if v := points[i].ImpactSpeed; v > 0 {
+			rep.Impacts++
+			rep.MaxImpactSpeed = max(rep.MaxImpactSpeed, v)
+		}
+	}
+}
+
+// solvePoint is one Gauss-Seidel update of point i in the velocity solve:
+// the normal row, then its friction disk, so that friction is clamped with
+// the normal impulse the update ends with and the impulses always lie in the
+// cone.
+func (s *Solver) solvePoint(bodies []Body, i int) float64 {
+	ps, rn := &s.pts[i], &s.rows[3*i]
+	res := solveScalar(bodies, rn, rn.target, 0, math.Inf(1), &rn.lambda)
+	bound := ps.mu * rn.lambda
+	d, clamped := s.solveFriction(bodies, i, bound, &s.rows[3*i+1].lambda, &s.rows[3*i+2].lambda)
+	ps.sat = clamped && bound > 0
+	return max(res, d)
+}
+
+// coldRelTol ends the pre-solve of a cold pair once a sweep changes
+// velocities by less than this fraction of what its first sweep changed.
+const coldRelTol = 1e-6
+
+// velocities runs the projected Gauss-Seidel sweeps (Catto 2005): extra rows
+// first, then the points.
+//
+// Pairs with a point that has no warm start are first solved on their own to
+// convergence (at most PairIterations sweeps over their points). Sweeping
+// the corners of a new manifold once in sequence leaves a rocking and
+// turning motion (the first corner takes all the load) that plain sweeps
+// remove only slowly, and that slip could make static friction look broken.
+func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Report) {
+	n := len(points)
+	if s.Settings.VelocityIterations > 0 {
+		for g := 0; g+1 < len(s.groups); g++ {
+			lo, hi := int(s.groups[g]), int(s.groups[g+1])
+			cold := false
+			for i := lo; i < hi; i++ {
+				cold = cold || !s.pts[i].found
+			}
+			if !cold {
+				continue
+			}
+			first := -1.0
+			for it := 0; it < s.Settings.PairIterations; it++ {
+				res := 0.0
+				for i := lo; i < hi; i++ {
+					res = max(res, s.solvePoint(bodies, i))
+				}
+				if first < 0 {
+					first = res
+				}
+				if res <= coldRelTol*first {
+					break
+				}
+			}
+		}
+	}
+	for it := 0; it < s.Settings.VelocityIterations; it++ {
+		res := 0.0
+		for j := range rows {
+			r := &s.rows[3*n+j]
+			res = max(res, solveScalar(bodies, r, r.target, r.lo, r.hi, &r.lambda))
+		}
+		for i := 0; i < n; i++ {
+			res = max(res, s.solvePoint(bodies, i))
+		}
+		rep.Iterations++
+		rep.Residual = res
+		if res <= s.Settings.Tolerance {
+			break
+		}
+	}
+}
+
+// store writes the outputs and remembers this step's impulses by key.
+func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, rep *Report) {
+	n := len(points)
+	s.curPts = s.curPts[:0]
+	for i := range points {
+		p := &points[i]
+		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+		p.NormalImpulse = rn.lambda
+		p.FrictionImpulse = r1.linB.Mul(r1.lambda).Add(r2.linB.Mul(r2.lambda))
+		rep.NormalImpulse += p.NormalImpulse + p.ImpactImpulse
+		// At the cone's limit and still slipping: count the steps in a row.
+		ps := &s.pts[i]
+		slips := uint8(0)
+		if ps.sat && math.Hypot(r1.cdot(bodies)-r1.target, r2.cdot(bodies)-r2.target) > s.Settings.CreepSpeed {
+			slips = min(ps.prevSlips, 254) + 1
+		}
+		w := warmPoint{key: p.Key, normal: rn.lambda, friction: p.FrictionImpulse, sliding: p.Sliding, slips: slips, pending: ps.deferred}
+		if ps.deferred > 0 {
+			// The impulse that stopped a deferred impact at the gap is no
+			// steady load: the impact itself replaces it next step.
+			w.normal, w.friction = 0, vec{}
+		}
+		s.curPts = append(s.curPts, w)
+	}
+	slices.SortFunc(s.curPts, func(a, b warmPoint) int { return cmp.Compare(a.key, b.key) })
+	s.prevPts, s.curPts = s.curPts, s.prevPts
+
+	s.curRows = s.curRows[:0]
+	for j := range rows {
+		rows[j].Impulse = s.rows[3*n+j].lambda
+		s.curRows = append(s.curRows, warmRow{key: rows[j].Key, impulse: rows[j].Impulse})
+	}
+	slices.SortFunc(s.curRows, func(a, b warmRow) int { return cmp.Compare(a.key, b.key) })
+	s.prevRows, s.curRows = s.curRows, s.prevRows
+	s.prevDt = dt
+}
+
+// positions is the position pass with pseudo-velocities (split impulses):
+// its own projected Gauss-Seidel sweeps over the normal rows, from zero
+// impulses, drive each point's relative pseudo-velocity toward Correction
+// times its penetration beyond Slop per step. The penetration is the one
+// predicted at the end of the step, Separation + vn dt with the solved real
+// normal velocity vn, because the engine integrates with V+Vp. The real
+// velocities are never touched, so this adds no kinetic energy.
+//
+// A point that impacted while still apart (speculative) is instead moved to
+// the gap that the impact within the step would have left.
+func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row) {
+	for i := range bodies {
+		bodies[i].Vp, bodies[i].Wp = vec{}, vec{}
+	}
+	set := &s.Settings
+	if set.PositionIterations == 0 {
+		return
+	}
+	n := len(points)
+	inf := math.Inf(1)
+	for i := 0; i < n; i++ {
+		ps, rn := &s.pts[i], &s.rows[3*i]
+		ps.pN, ps.pTarget, ps.pLo = 0, 0, 0
+		if rn.mass == 0 {
+			continue
+		}
+		pred := ps.sep + rn.cdot(bodies)*dt
+		if pen := -pred - set.Slop; pen > 0 {
+			ps.pTarget = set.Correction * pen / dt
+		}
+	}
+	for j := range rows {
+		r, jp := &rows[j], &s.jp[j]
+		*jp = jpos{on: r.Correct}
+		if !r.Correct {
+			continue
+		}
+		jr := &s.rows[3*n+j]
+		jp.target = -set.Correction * (r.Drift + jr.cdot(bodies)*dt) / dt
+		jp.lo, jp.hi = 0, 0
+		if r.Lo < 0 {
+			jp.lo = -inf
+		}
+		if r.Hi > 0 {
+			jp.hi = inf
+		}
+	}
+	for it := 0; it < set.PositionIterations; it++ {
+		res := 0.0
+		for j := range rows {
+			if jp := &s.jp[j]; jp.on {
+				res = max(res, solvePseudo(bodies, &s.rows[3*n+j], jp.target, jp.lo, jp.hi, &jp.lambda))
+			}
+		}
+		for i := 0; i < n; i++ {
+			ps := &s.pts[i]
+			res = max(res, solvePseudo(bodies, &s.rows[3*i], ps.pTarget, ps.pLo, inf, &ps.pN))
+		}
+		if res <= set.Tolerance {
+			break
+		}
+	}
+}
