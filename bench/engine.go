@@ -1,0 +1,122 @@
+package bench
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"clatter/engine"
+	"clatter/shapes"
+
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+func init() {
+	Register(
+		Benchmark{Name: "Pile1000", Fn: Pile1000},
+		Benchmark{Name: "DropTrial", Fn: DropTrial},
+	)
+}
+
+// randomPart returns the hull of a seeded cloud of points: a part of about
+// 40 hull vertices and 3 cm across.
+func randomPart(rng *rand.Rand, vertices int) *shapes.Hull {
+	pts := make([]shapes.Vec3, vertices)
+	for i := range pts {
+		d := shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
+		pts[i] = shapes.Vec3{d[0] * 0.015, d[1] * 0.012, d[2] * 0.008}
+	}
+	h, err := shapes.NewHull(pts)
+	if err != nil {
+		panic(err) // points on an ellipsoid always span a solid
+	}
+	return h
+}
+
+// pileWorld drops 1000 mixed convex bodies into a bin and lets them come to
+// rest with sleeping off, so every step does the full work of a pile.
+func pileWorld(b *testing.B) *engine.World {
+	cfg := engine.DefaultConfig()
+	cfg.NoSleep = true
+	cfg.NoEvents = true
+	cfg.VelocityIterations = 8
+	w, err := engine.NewWorld(cfg)
+	if err != nil {
+		b.Fatal(err)
+	}
+	mat, _ := w.AddMaterial(engine.Material{Name: "abs", Friction: 0.4, Restitution: 0.3})
+	add := func(d engine.BodyDef) {
+		if _, err := w.AddBody(d); err != nil {
+			b.Fatal(err)
+		}
+	}
+	add(engine.BodyDef{Name: "floor", Kind: engine.Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
+	const half = 0.25
+	for _, n := range []shapes.Vec3{{1, 0, 0}, {-1, 0, 0}, {0, 1, 0}, {0, -1, 0}} {
+		add(engine.BodyDef{Name: "wall", Kind: engine.Static, Shape: shapes.Plane{Normal: n}, Material: mat, Position: n.Mul(-half)})
+	}
+	rng := rand.New(rand.NewPCG(1000, 1))
+	parts := []*shapes.Hull{randomPart(rng, 40), randomPart(rng, 40), randomPart(rng, 40)}
+	for i := 0; i < 1000; i++ {
+		pos := shapes.Vec3{-0.2 + 0.04*float64(i%11), -0.2 + 0.04*float64((i/11)%11), 0.03 + 0.04*float64(i/121)}
+		q := mgl64.QuatRotate(rng.Float64()*math.Pi, shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize())
+		var s shapes.Shape
+		switch i % 3 {
+		case 0:
+			s = shapes.Box{Half: shapes.Vec3{0.015, 0.01, 0.008}}
+		case 1:
+			s = shapes.Cylinder{Radius: 0.01, HalfLength: 0.012}
+		default:
+			s = parts[i%len(parts)]
+		}
+		add(engine.BodyDef{Name: "part", Shape: s, Density: 1050, Material: mat, Position: pos, Orientation: q})
+	}
+	for i := 0; i < 1500; i++ {
+		if err := w.Step(1e-3); err != nil {
+			b.Fatal(err)
+		}
+	}
+	return w
+}
+
+// Pile1000 is one 1 ms step of 1000 resting mixed convex bodies in a bin
+// (boxes, cylinders and 40-vertex hulls), 8 velocity iterations, no sleeping.
+func Pile1000(b *testing.B) {
+	w := pileWorld(b)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if err := w.Step(1e-3); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// DropTrial is one trial of a drop study: a 40-vertex part dropped 0.2 m
+// onto a floor at a random orientation and stepped at 1 ms until settled.
+func DropTrial(b *testing.B) {
+	rng := rand.New(rand.NewPCG(7, 7))
+	part := randomPart(rng, 40)
+	b.ReportAllocs()
+	b.ResetTimer()
+	steps := 0
+	for i := 0; i < b.N; i++ {
+		cfg := engine.DefaultConfig()
+		cfg.NoEvents = true
+		w, _ := engine.NewWorld(cfg)
+		mat, _ := w.AddMaterial(engine.Material{Name: "abs", Friction: 0.4, Restitution: 0.3})
+		w.AddBody(engine.BodyDef{Name: "floor", Kind: engine.Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
+		q := mgl64.QuatRotate(rng.Float64()*2*math.Pi, shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize())
+		w.AddBody(engine.BodyDef{Name: "part", Shape: part, Density: 1050, Material: mat, Position: shapes.Vec3{0, 0, 0.2}, Orientation: q})
+		for n := 0; n < 5000; n++ {
+			if err := w.Step(1e-3); err != nil {
+				b.Fatal(err)
+			}
+			if ok, _ := w.Settled(); ok {
+				break
+			}
+		}
+		steps += w.Steps()
+	}
+	b.ReportMetric(float64(steps)/float64(b.N), "steps/trial")
+}

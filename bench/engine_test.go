@@ -1,0 +1,6 @@
+package bench
+
+import "testing"
+
+func BenchmarkPile1000(b *testing.B)  { Pile1000(b) }
+func BenchmarkDropTrial(b *testing.B) { DropTrial(b) }

@@ -1,0 +1,272 @@
+package engine
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"clatter/collide"
+	"clatter/collide/broad"
+	"clatter/contact"
+	"clatter/shapes"
+)
+
+// collisionState holds the broad phase, the narrow phase, the solver and
+// their per-step buffers, all reused from step to step.
+type collisionState struct {
+	bp     *broad.SAP
+	det    *collide.Detector
+	solver *contact.Solver
+	margin []float64 // speculative margin of each body this step
+
+	pairs     [][2]int32
+	manifolds []collide.Manifold
+	points    []contact.Point
+	bodies    []contact.Body
+	rows      []contact.Row
+
+	touching, prevTouching []touchPair
+
+	parent, size []int32
+	islandRest   []float64
+}
+
+// touchPair is a pair of bodies with at least one contact point at or
+// inside the slop this step, and where its largest impulse acted.
+type touchPair struct{ a, b BodyID }
+
+func (w *World) initCollision() {
+	c := &w.collision
+	c.bp = broad.New()
+	c.det = collide.NewDetector()
+	s := contact.DefaultSettings()
+	s.VelocityIterations = w.cfg.VelocityIterations
+	s.PositionIterations = w.cfg.PositionIterations
+	s.Slop = w.cfg.Slop
+	s.BounceThreshold = w.cfg.BounceThreshold
+	c.solver = contact.NewSolver(s)
+}
+
+// prepareShape turns a static triangle mesh into the narrow phase's mesh
+// with its bounding volume hierarchy, built once.
+func (w *World) prepareShape(s shapes.Shape) shapes.Shape {
+	if m, ok := s.(*shapes.TriMesh); ok {
+		return collide.NewMesh(m)
+	}
+	return s
+}
+
+func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) {
+	c := &w.collision
+	c.margin = append(c.margin, 0)
+	kind := broad.Dynamic
+	if w.b.kind[id] == Static {
+		kind = broad.Static
+	}
+	w.b.bounds[id] = w.worldBounds(id, 0)
+	// Ids are dense and the box finite or infinite but never NaN (checked in
+	// AddBody), so Insert cannot fail.
+	_ = c.bp.Insert(int32(id), w.b.bounds[id], kind)
+	_ = c.bp.SetFilter(int32(id), cat, mask)
+}
+
+func (w *World) setActive(id BodyID, active bool) {
+	_ = w.collision.bp.SetAsleep(int32(id), !active)
+}
+
+// worldBounds is the body's shape bounds in the world, grown by margin.
+func (w *World) worldBounds(id BodyID, margin float64) shapes.AABB {
+	b := w.b.shape[id].Bounds()
+	if !finiteVec(b.Min) || !finiteVec(b.Max) {
+		return b // a plane: unbounded
+	}
+	return b.Transform(w.ShapePose(id)).Grow(margin)
+}
+
+// collide runs the broad and narrow phases and fills the contact points.
+func (w *World) collide(dt float64) {
+	c := &w.collision
+	slop := w.cfg.Slop
+	for i, k := range w.b.kind {
+		if k == Static || !w.b.awake[i] {
+			continue
+		}
+		// Speculative margin: how far the body's surface can travel this
+		// step, plus the slop (DESIGN.md section 1, step 2).
+		m := (w.b.vel[i].Len()+w.b.spin[i].Len()*w.b.radius[i])*dt + slop
+		c.margin[i] = m
+		w.b.bounds[i] = w.worldBounds(BodyID(i), m)
+		_ = c.bp.Move(int32(i), w.b.bounds[i])
+	}
+	c.pairs = c.bp.Pairs(c.pairs[:0])
+	c.points = c.points[:0]
+	c.prevTouching, c.touching = c.touching, c.prevTouching[:0]
+	nmat := len(w.materials)
+	for _, p := range c.pairs {
+		a, b := BodyID(p[0]), BodyID(p[1])
+		ka, kb := w.b.kind[a], w.b.kind[b]
+		if ka != Dynamic && kb != Dynamic {
+			continue // kinematic against static or kinematic: nothing to solve
+		}
+		// A sleeping body touched by an awake one wakes up.
+		if !w.b.awake[a] || !w.b.awake[b] {
+			if ka == Dynamic && !w.b.awake[a] {
+				w.wake(a)
+			}
+			if kb == Dynamic && !w.b.awake[b] {
+				w.wake(b)
+			}
+		}
+		margin := c.margin[a] + c.margin[b]
+		if ka == Static {
+			margin = c.margin[b]
+		} else if kb == Static {
+			margin = c.margin[a]
+		}
+		c.manifolds = c.det.Collide(c.manifolds[:0], w.b.shape[a], w.ShapePose(a), w.b.shape[b], w.ShapePose(b), margin)
+		coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
+		touch := false
+		for _, mf := range c.manifolds {
+			for k := 0; k < mf.Count; k++ {
+				pt := mf.Points[k]
+				if pt.Separation <= slop {
+					touch = true
+				}
+				c.points = append(c.points, contact.Point{
+					A: int32(a), B: int32(b),
+					Position:       pt.Position,
+					Normal:         mf.Normal,
+					Separation:     pt.Separation,
+					Friction:       coef.Friction,
+					StaticFriction: coef.StaticFriction,
+					Restitution:    coef.Restitution,
+					Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
+				})
+			}
+		}
+		if touch {
+			c.touching = append(c.touching, touchPair{a, b})
+		}
+	}
+	w.contactEvents()
+}
+
+// contactKey mixes the bodies, the sub-shapes and the feature id into the
+// solver's warm-start key (splitmix64 finaliser; S. Vigna, 2014): equal
+// features give equal keys, and distinct ones collide with probability
+// about 2^-64 per pair.
+func contactKey(a, b BodyID, subA, subB int32, id uint32) uint64 {
+	x := uint64(uint32(a))<<32 | uint64(uint32(b))
+	for _, v := range [2]uint64{uint64(uint32(subA))<<32 | uint64(uint32(subB)), uint64(id)} {
+		x ^= v + 0x9e3779b97f4a7c15 + (x << 6) + (x >> 2)
+		x = (x ^ (x >> 30)) * 0xbf58476d1ce4e5b9
+		x = (x ^ (x >> 27)) * 0x94d049bb133111eb
+		x ^= x >> 31
+	}
+	return x
+}
+
+// contactEvents compares this step's touching pairs with the last step's
+// (both in the broad phase's sorted order) and emits begin and end events.
+func (w *World) contactEvents() {
+	if w.cfg.NoEvents {
+		return
+	}
+	c := &w.collision
+	cur, prev := c.touching, c.prevTouching
+	less := func(x, y touchPair) int {
+		if x.a != y.a {
+			return int(x.a) - int(y.a)
+		}
+		return int(x.b) - int(y.b)
+	}
+	i, j := 0, 0
+	for i < len(cur) || j < len(prev) {
+		switch {
+		case j >= len(prev) || (i < len(cur) && less(cur[i], prev[j]) < 0):
+			w.emit(Event{Kind: ContactBegin, Time: w.time, A: cur[i].a, B: cur[i].b})
+			i++
+		case i >= len(cur) || less(cur[i], prev[j]) > 0:
+			// A pair that merely fell asleep has not ended its contact.
+			if w.b.awake[prev[j].a] || w.b.awake[prev[j].b] {
+				w.emit(Event{Kind: ContactEnd, Time: w.time, A: prev[j].a, B: prev[j].b})
+			} else {
+				c.touching = append(c.touching, prev[j])
+			}
+			j++
+		default:
+			i++
+			j++
+		}
+	}
+	if len(c.touching) > len(cur) {
+		slices.SortFunc(c.touching, less)
+	}
+}
+
+// solve runs the contact solver and records impacts.
+func (w *World) solve(dt float64) error {
+	c := &w.collision
+	if len(c.points) == 0 && len(c.rows) == 0 {
+		return nil
+	}
+	n := len(w.b.kind)
+	if cap(c.bodies) < n {
+		c.bodies = make([]contact.Body, n)
+	}
+	c.bodies = c.bodies[:n]
+	for i := 0; i < n; i++ {
+		sb := &c.bodies[i]
+		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
+		if w.b.kind[i] == Dynamic && w.b.awake[i] {
+			sb.InvMass = w.b.invM[i]
+			_, sb.InvInertia = w.inertiaWorld(BodyID(i))
+		}
+	}
+	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
+		// Inputs are checked finite when bodies are added and after every
+		// step, so this is a blow-up within this step.
+		return fmt.Errorf("simulation diverged at t = %.6g s in the contact solve: %w; the step is likely too large for the sizes and speeds in the scene (try a smaller step or more sub-steps)", w.time, err)
+	}
+	for i := 0; i < n; i++ {
+		if w.b.kind[i] == Dynamic && w.b.awake[i] {
+			w.b.vel[i], w.b.spin[i] = c.bodies[i].V, c.bodies[i].W
+		}
+	}
+	w.impactEvents()
+	return nil
+}
+
+// impactEvents emits one impact event per body pair that the impact phase
+// processed this step, at its fastest point.
+func (w *World) impactEvents() {
+	pts := w.collision.points
+	for i := 0; i < len(pts); {
+		j := i
+		best := -1
+		impulse := 0.0
+		for ; j < len(pts) && pts[j].A == pts[i].A && pts[j].B == pts[i].B; j++ {
+			impulse += pts[j].ImpactImpulse
+			if pts[j].ImpactSpeed > 0 && (best < 0 || pts[j].ImpactSpeed > pts[best].ImpactSpeed) {
+				best = j
+			}
+		}
+		if best >= 0 {
+			p := pts[best]
+			a, b := BodyID(p.A), BodyID(p.B)
+			w.b.maxHit[a] = math.Max(w.b.maxHit[a], p.ImpactSpeed)
+			w.b.maxHit[b] = math.Max(w.b.maxHit[b], p.ImpactSpeed)
+			w.emit(Event{Kind: Impact, Time: w.time, A: a, B: b, Point: p.Position, Speed: p.ImpactSpeed, Impulse: impulse})
+		}
+		i = j
+	}
+}
+
+// pseudoVelocity returns the position correction's pseudo-velocities of a body.
+func (w *World) pseudoVelocity(id BodyID) (shapes.Vec3, shapes.Vec3) {
+	c := &w.collision
+	if int(id) >= len(c.bodies) || len(c.points) == 0 && len(c.rows) == 0 {
+		return shapes.Vec3{}, shapes.Vec3{}
+	}
+	return c.bodies[id].Vp, c.bodies[id].Wp
+}

@@ -1,0 +1,63 @@
+package engine
+
+import "clatter/shapes"
+
+// KineticEnergy is the total kinetic energy of the dynamic bodies, J.
+func (w *World) KineticEnergy() float64 {
+	e := 0.0
+	for i := range w.b.kind {
+		e += w.kinetic(BodyID(i))
+	}
+	return e
+}
+
+func (w *World) kinetic(id BodyID) float64 {
+	if w.b.kind[id] != Dynamic {
+		return 0
+	}
+	v := w.b.vel[id]
+	wb := w.b.rot[id].Mul(w.b.axes[id]).Conjugate().Rotate(w.b.spin[id])
+	m := w.b.moments[id]
+	return 0.5*w.b.mass[id]*v.Dot(v) + 0.5*(m[0]*wb[0]*wb[0]+m[1]*wb[1]*wb[1]+m[2]*wb[2]*wb[2])
+}
+
+// PotentialEnergy is the gravitational potential energy of the dynamic
+// bodies relative to the world origin, -m g . x, J.
+func (w *World) PotentialEnergy() float64 {
+	e := 0.0
+	for i := range w.b.kind {
+		if w.b.kind[i] == Dynamic {
+			e -= w.b.mass[i] * w.cfg.Gravity.Dot(w.b.pos[i])
+		}
+	}
+	return e
+}
+
+// Energy is kinetic plus potential energy of the dynamic bodies, J.
+func (w *World) Energy() float64 { return w.KineticEnergy() + w.PotentialEnergy() }
+
+// LinearMomentum is the total momentum of the dynamic bodies, kg m/s.
+func (w *World) LinearMomentum() shapes.Vec3 {
+	var p shapes.Vec3
+	for i := range w.b.kind {
+		if w.b.kind[i] == Dynamic {
+			p = p.Add(w.b.vel[i].Mul(w.b.mass[i]))
+		}
+	}
+	return p
+}
+
+// AngularMomentum is the total angular momentum of the dynamic bodies about
+// the point o: sum of (x - o) x m v + I w, kg m^2/s.
+func (w *World) AngularMomentum(o shapes.Vec3) shapes.Vec3 {
+	var l shapes.Vec3
+	for i := range w.b.kind {
+		if w.b.kind[i] != Dynamic {
+			continue
+		}
+		id := BodyID(i)
+		in, _ := w.inertiaWorld(id)
+		l = l.Add(w.b.pos[i].Sub(o).Cross(w.b.vel[i].Mul(w.b.mass[i]))).Add(in.Mul3x1(w.b.spin[i]))
+	}
+	return l
+}

@@ -1,0 +1,50 @@
+package engine
+
+import "clatter/shapes"
+
+// EventKind names what happened.
+type EventKind uint8
+
+const (
+	// Impact: two bodies struck with a normal approach speed above the bounce threshold.
+	Impact EventKind = iota
+	// ContactBegin and ContactEnd: a pair of bodies started or stopped touching.
+	ContactBegin
+	ContactEnd
+	// Sleep and Wake: a body's island fell asleep or was woken.
+	Sleep
+	Wake
+	// Settled: every dynamic body is at rest (once per run).
+	Settled
+)
+
+func (k EventKind) String() string {
+	return [...]string{"impact", "contact_begin", "contact_end", "sleep", "wake", "settled"}[k]
+}
+
+// Event is one thing that happened during a step. A and B are the bodies
+// (B is -1 for events of one body, both -1 for Settled).
+type Event struct {
+	Kind EventKind
+	Time float64
+	A, B BodyID
+	// Point, Speed (normal approach speed, m/s) and Impulse (N s) of an impact.
+	Point   shapes.Vec3
+	Speed   float64
+	Impulse float64
+}
+
+// Events returns the events of the steps since the last call; the slice is
+// reused by the next step, so copy what must be kept.
+func (w *World) Events() []Event {
+	ev := w.events
+	w.events = w.events[:0]
+	return ev
+}
+
+func (w *World) emit(e Event) {
+	if w.cfg.NoEvents {
+		return
+	}
+	w.events = append(w.events, e)
+}

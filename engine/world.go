@@ -1,0 +1,363 @@
+package engine
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"clatter/shapes"
+)
+
+// StandardGravity is 9.80665 m/s^2 (CGPM 1901).
+const StandardGravity = 9.80665
+
+// Config holds a world's settings. The zero value of a field means its default.
+type Config struct {
+	// Gravity, m/s^2, used as given (DefaultConfig sets standard gravity along -z).
+	Gravity shapes.Vec3
+	// SubSteps splits each Step into this many equal steps (default 1).
+	SubSteps int
+	// VelocityIterations and PositionIterations of the contact solver (default 8 and 3).
+	VelocityIterations, PositionIterations int
+	// Slop is the penetration, m, left alone by position correction and the
+	// extra margin of speculative contacts (default 0.2 mm).
+	Slop float64
+	// BounceThreshold, m/s: slower impacts get no restitution (default 0.1 m/s).
+	BounceThreshold float64
+	// RestSpeed (m/s), RestSpin (rad/s) and RestTime (s): a body slower than
+	// both for RestTime is at rest; an island at rest sleeps (defaults 5 mm/s,
+	// 0.05 rad/s, 0.25 s).
+	RestSpeed, RestSpin, RestTime float64
+	// NoSleep keeps every body awake (rest is still tracked for Settled).
+	NoSleep bool
+	// NoEvents turns off event collection, for headless trials.
+	NoEvents bool
+	// NoDivergenceCheck turns off the energy-jump guard (NaN is always checked).
+	NoDivergenceCheck bool
+}
+
+func (c *Config) fill() error {
+	if !finiteVec(c.Gravity) {
+		return errors.New("gravity must be finite")
+	}
+	def := func(v *float64, d float64, name string) error {
+		if *v == 0 {
+			*v = d
+		}
+		if !(*v > 0) || math.IsInf(*v, 0) {
+			return fmt.Errorf("%s must be a positive number, got %g", name, *v)
+		}
+		return nil
+	}
+	defInt := func(v *int, d int, name string) error {
+		if *v == 0 {
+			*v = d
+		}
+		if *v < 1 || *v > 10000 {
+			return fmt.Errorf("%s must be between 1 and 10000, got %d", name, *v)
+		}
+		return nil
+	}
+	for _, e := range []error{
+		defInt(&c.SubSteps, 1, "sub-steps"),
+		defInt(&c.VelocityIterations, 8, "velocity iterations"),
+		defInt(&c.PositionIterations, 3, "position iterations"),
+		def(&c.Slop, 2e-4, "slop"),
+		def(&c.BounceThreshold, 0.1, "bounce threshold"),
+		def(&c.RestSpeed, 5e-3, "rest speed"),
+		def(&c.RestSpin, 0.05, "rest spin"),
+		def(&c.RestTime, 0.25, "rest time"),
+	} {
+		if e != nil {
+			return e
+		}
+	}
+	return nil
+}
+
+// DefaultConfig is the zero Config with standard gravity along -z.
+func DefaultConfig() Config { return Config{Gravity: shapes.Vec3{0, 0, -StandardGravity}} }
+
+// World is a set of bodies and the state of their simulation. It is not
+// safe for concurrent use; run one world per goroutine.
+type World struct {
+	cfg          Config
+	materials    []Material
+	pairOverride map[[2]int]PairCoefficients
+	pairs        []PairCoefficients
+	b            bodyData
+	kicks        []kick
+	events       []Event
+	time         float64
+	steps        int
+	settledAt    float64
+	settled      bool
+	err          error
+	prevPreSolve float64 // energy before the last step's contact solve
+
+	collision collisionState
+}
+
+// kick is an impulse applied at a moment.
+type kick struct {
+	body    BodyID
+	time    float64
+	impulse shapes.Vec3
+	at      shapes.Vec3
+	hasAt   bool
+}
+
+// NewWorld returns an empty world with the default material at index 0.
+func NewWorld(cfg Config) (*World, error) {
+	if err := cfg.fill(); err != nil {
+		return nil, fmt.Errorf("world: %w", err)
+	}
+	w := &World{cfg: cfg, settledAt: math.NaN(), prevPreSolve: math.Inf(-1)}
+	w.materials = []Material{{Name: "default", Friction: 0.5, StaticFriction: 0.5}}
+	w.buildPairTable()
+	w.initCollision()
+	return w, nil
+}
+
+// Config returns the world's settings with defaults filled in.
+func (w *World) Config() Config { return w.cfg }
+
+// Time is the simulated time, s.
+func (w *World) Time() float64 { return w.time }
+
+// Steps is the number of steps taken (sub-steps count one each).
+func (w *World) Steps() int { return w.steps }
+
+// Settled reports whether every dynamic body has come to rest, and when.
+func (w *World) Settled() (bool, float64) { return w.settled, w.settledAt }
+
+// Kick schedules an impulse (N s, world frame) on a body at time t, applied
+// at the world point at (at the centre of mass if atCenter is true).
+func (w *World) Kick(id BodyID, t float64, impulse, at shapes.Vec3, atCenter bool) error {
+	if id < 0 || int(id) >= len(w.b.kind) {
+		return fmt.Errorf("kick: no body %d", id)
+	}
+	if w.b.kind[id] != Dynamic {
+		return fmt.Errorf("kick: body %q is %s; only dynamic bodies can be kicked", w.b.name[id], w.b.kind[id])
+	}
+	if !finiteVec(impulse) || !finiteVec(at) || math.IsNaN(t) || math.IsInf(t, 0) {
+		return fmt.Errorf("kick on %q: time, impulse and point must be finite", w.b.name[id])
+	}
+	w.kicks = append(w.kicks, kick{body: id, time: t, impulse: impulse, at: at, hasAt: !atCenter})
+	sort.SliceStable(w.kicks, func(i, j int) bool { return w.kicks[i].time < w.kicks[j].time })
+	return nil
+}
+
+// ApplyImpulse changes a dynamic body's velocity now by an impulse J (N s)
+// at world point p.
+func (w *World) ApplyImpulse(id BodyID, j, p shapes.Vec3) {
+	if w.b.kind[id] != Dynamic {
+		return
+	}
+	w.b.vel[id] = w.b.vel[id].Add(j.Mul(w.b.invM[id]))
+	_, inv := w.inertiaWorld(id)
+	w.b.spin[id] = w.b.spin[id].Add(inv.Mul3x1(p.Sub(w.b.pos[id]).Cross(j)))
+	w.wake(id)
+}
+
+// DivergenceError reports a simulation that blew up.
+type DivergenceError struct {
+	Body  BodyID
+	Name  string
+	Time  float64
+	Cause string
+}
+
+func (e *DivergenceError) Error() string {
+	return fmt.Sprintf("simulation diverged at t = %.6g s on body %q: %s", e.Time, e.Name, e.Cause)
+}
+
+// Err returns the error that stopped the world, if any.
+func (w *World) Err() error { return w.err }
+
+// Step advances the world by dt seconds (in Config.SubSteps equal steps).
+// After an error the world stays stopped and returns the same error.
+func (w *World) Step(dt float64) error {
+	if w.err != nil {
+		return w.err
+	}
+	if !(dt > 0) || math.IsInf(dt, 0) {
+		return fmt.Errorf("step: time step must be positive, got %g", dt)
+	}
+	h := dt / float64(w.cfg.SubSteps)
+	for s := 0; s < w.cfg.SubSteps; s++ {
+		if err := w.step(h); err != nil {
+			w.err = err
+			return err
+		}
+	}
+	return nil
+}
+
+func (w *World) step(dt float64) error {
+	e0, k0 := 0.0, 0.0
+	guard := !w.cfg.NoDivergenceCheck && !w.driven()
+	if guard {
+		k0 = w.KineticEnergy()
+		e0 = k0 + w.PotentialEnergy()
+	}
+	kicked := w.applyKicks(dt)
+
+	g := w.cfg.Gravity.Mul(dt)
+	for i, k := range w.b.kind {
+		if k == Dynamic && w.b.awake[i] {
+			w.b.vel[i] = w.b.vel[i].Add(g)
+		}
+	}
+
+	w.collide(dt)
+	// A deferred impact (contact.Solver) gives back next step the energy its
+	// speculative stop took this step, so the guard measures against the
+	// larger of this step's start and the last step's energy before its solve.
+	ePre := 0.0
+	if guard {
+		ePre = w.Energy()
+	}
+	if err := w.solve(dt); err != nil {
+		return err
+	}
+	w.integrate(dt)
+	w.time += dt
+	w.steps++
+	w.updateRest(dt)
+
+	if err := w.checkFinite(); err != nil {
+		return err
+	}
+	if guard && !kicked {
+		if err := w.checkEnergy(math.Max(e0, w.prevPreSolve), k0); err != nil {
+			return err
+		}
+	}
+	w.prevPreSolve = ePre
+	return nil
+}
+
+// driven reports whether something outside the bodies can do work on them
+// (moving kinematic bodies), so energy need not decrease.
+func (w *World) driven() bool {
+	for i, k := range w.b.kind {
+		if k == Kinematic && (w.b.vel[i] != (shapes.Vec3{}) || w.b.spin[i] != (shapes.Vec3{})) {
+			return true
+		}
+	}
+	return false
+}
+
+// applyKicks applies the kicks due in [time, time+dt) and reports whether any was.
+func (w *World) applyKicks(dt float64) bool {
+	any := false
+	for len(w.kicks) > 0 && w.kicks[0].time < w.time+dt {
+		k := w.kicks[0]
+		w.kicks = w.kicks[1:]
+		at := w.b.pos[k.body]
+		if k.hasAt {
+			at = k.at
+		}
+		w.ApplyImpulse(k.body, k.impulse, at)
+		any = true
+	}
+	return any
+}
+
+// integrate moves the awake bodies: semi-implicit Euler for translation,
+// the free-rotation splitting for orientation, plus the position
+// correction's pseudo-velocities, which are then dropped.
+func (w *World) integrate(dt float64) {
+	for i, k := range w.b.kind {
+		if k == Static || !w.b.awake[i] {
+			continue
+		}
+		id := BodyID(i)
+		vp, wp := w.pseudoVelocity(id)
+		w.b.pos[i] = w.b.pos[i].Add(w.b.vel[i].Add(vp).Mul(dt))
+		q := w.b.rot[i]
+		if k == Dynamic {
+			qp := q.Mul(w.b.axes[i])
+			qp, w.b.spin[i] = freeRotation(qp, w.b.moments[i], w.b.spin[i], dt)
+			q = qp.Mul(w.b.axes[i].Conjugate())
+		} else {
+			q = integrateQuat(q, w.b.spin[i], dt)
+		}
+		if wp != (shapes.Vec3{}) {
+			before := q
+			q = integrateQuat(q, wp, dt)
+			if k == Dynamic {
+				// The correction turns the body without a torque: keep its
+				// spin angular momentum, as a real rotation would (the
+				// body-frame angular velocity is carried along unchanged).
+				wb := before.Conjugate().Rotate(w.b.spin[i])
+				w.b.spin[i] = q.Rotate(wb)
+			}
+		}
+		w.b.rot[i] = q.Normalize()
+	}
+}
+
+// checkFinite stops the run on the first body whose state is not finite.
+func (w *World) checkFinite() error {
+	for i, k := range w.b.kind {
+		if k == Static {
+			continue
+		}
+		if !finiteVec(w.b.pos[i]) || !finiteVec(w.b.vel[i]) || !finiteVec(w.b.spin[i]) || math.IsNaN(w.b.rot[i].W) {
+			return &DivergenceError{Body: BodyID(i), Name: w.b.name[i], Time: w.time,
+				Cause: "its position or velocity is no longer a finite number; the step is likely too large for the sizes and speeds in the scene, or masses differ too much (try a smaller step or more sub-steps)"}
+		}
+	}
+	return nil
+}
+
+// energyJumpFraction is the growth of total energy in one step, as a
+// fraction of the kinetic energy plus a floor, above which the run is
+// stopped. Contact with e <= 1 and position correction by pseudo-velocities
+// cannot add energy, so any large gain is a numerical blow-up.
+const energyJumpFraction = 0.5
+
+// checkEnergy compares the energy after the step with e0 before it.
+func (w *World) checkEnergy(e0, k0 float64) error {
+	k1 := w.KineticEnergy()
+	e1 := k1 + w.PotentialEnergy()
+	// Floor: the energy of each body lifted by its own size, so resting
+	// bodies' rounding never trips the guard.
+	floor := 0.0
+	for i, k := range w.b.kind {
+		if k == Dynamic {
+			floor += w.b.mass[i] * w.cfg.Gravity.Len() * w.b.radius[i] * 0.01
+		}
+	}
+	if e1-e0 <= energyJumpFraction*(k0+floor) {
+		return nil
+	}
+	worst, gain := BodyID(0), math.Inf(-1)
+	for i, k := range w.b.kind {
+		if k == Dynamic {
+			if ke := w.kinetic(BodyID(i)); ke > gain {
+				worst, gain = BodyID(i), ke
+			}
+		}
+	}
+	return &DivergenceError{Body: worst, Name: w.b.name[worst], Time: w.time,
+		Cause: fmt.Sprintf("the total energy jumped from %.6g J to %.6g J in one step with no kick or driver to explain it; the step is likely too large for the sizes and speeds in the scene, or masses differ too much (try a smaller step or more sub-steps)", e0, e1)}
+}
+
+// SetGravity changes gravity from the next step on (a slowly tilting
+// support can be simulated by turning gravity instead of the support).
+func (w *World) SetGravity(g shapes.Vec3) error {
+	if !finiteVec(g) {
+		return fmt.Errorf("gravity must be finite, got %v", g)
+	}
+	w.cfg.Gravity = g
+	for i, k := range w.b.kind {
+		if k == Dynamic {
+			w.wake(BodyID(i))
+		}
+	}
+	return nil
+}
