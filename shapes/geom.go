@@ -64,8 +64,14 @@ func (b AABB) Extend(v Vec3) AABB {
 	return b
 }
 
-// Union returns the smallest box containing both.
-func (b AABB) Union(c AABB) AABB { return b.Extend(c.Min).Extend(c.Max) }
+// Union returns the smallest box containing both (an empty box adds nothing).
+func (b AABB) Union(c AABB) AABB {
+	for i := 0; i < 3; i++ {
+		b.Min[i] = math.Min(b.Min[i], c.Min[i])
+		b.Max[i] = math.Max(b.Max[i], c.Max[i])
+	}
+	return b
+}
 
 // Overlaps reports whether the two boxes intersect (touching counts).
 func (b AABB) Overlaps(c AABB) bool {
