@@ -88,6 +88,14 @@ type bodyData struct {
 	maxHit  []float64 // largest impact speed seen
 }
 
+// truncate drops the bodies from n on, undoing a failed AddBody.
+func (b *bodyData) truncate(n int) {
+	b.name, b.kind, b.shape, b.mat = b.name[:n], b.kind[:n], b.shape[:n], b.mat[:n]
+	b.offset, b.pos, b.rot, b.vel, b.spin = b.offset[:n], b.pos[:n], b.rot[:n], b.vel[:n], b.spin[:n]
+	b.mass, b.invM, b.axes, b.moments = b.mass[:n], b.invM[:n], b.axes[:n], b.moments[:n]
+	b.radius, b.bounds, b.awake, b.restFor, b.maxHit = b.radius[:n], b.bounds[:n], b.awake[:n], b.restFor[:n], b.maxHit[:n]
+}
+
 // ErrBadBody is wrapped by every error that rejects a BodyDef.
 var ErrBadBody = errors.New("bad body")
 
@@ -204,7 +212,10 @@ func (w *World) AddBody(def BodyDef) (BodyID, error) {
 	if mask == 0 {
 		mask = ^uint32(0)
 	}
-	w.addToBroadPhase(id, cat, mask)
+	if err := w.addToBroadPhase(id, cat, mask); err != nil {
+		w.b.truncate(int(id))
+		return -1, w.bodyErr(&def, "its shape has no valid bounds (%v); is it empty?", err)
+	}
 	return id, nil
 }
 

@@ -56,18 +56,18 @@ func (w *World) prepareShape(s shapes.Shape) shapes.Shape {
 	return s
 }
 
-func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) {
+func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) error {
 	c := &w.collision
-	c.margin = append(c.margin, 0)
 	kind := broad.Dynamic
 	if w.b.kind[id] == Static {
 		kind = broad.Static
 	}
 	w.b.bounds[id] = w.worldBounds(id, 0)
-	// Ids are dense and the box finite or infinite but never NaN (checked in
-	// AddBody), so Insert cannot fail.
-	_ = c.bp.Insert(int32(id), w.b.bounds[id], kind)
-	_ = c.bp.SetFilter(int32(id), cat, mask)
+	if err := c.bp.Insert(int32(id), w.b.bounds[id], kind); err != nil {
+		return err
+	}
+	c.margin = append(c.margin, 0)
+	return c.bp.SetFilter(int32(id), cat, mask)
 }
 
 func (w *World) setActive(id BodyID, active bool) {

@@ -113,6 +113,7 @@ func TestBadBodies(t *testing.T) {
 		{BodyDef{Name: "d", Shape: shapes.Sphere{Radius: 1}, Density: 1, Position: shapes.Vec3{math.NaN(), 0, 0}}, `must be finite`},
 		{BodyDef{Name: "e", Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Density: 1}, `only be static`},
 		{BodyDef{Name: "f", Shape: shapes.Sphere{Radius: 1}, Density: 1, Material: 7}, `unknown material`},
+		{BodyDef{Name: "g", Kind: Static, Shape: &shapes.Compound{}}, `no valid bounds`},
 	}
 	for _, c := range cases {
 		_, err := w.AddBody(c.def)
