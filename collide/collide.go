@@ -127,6 +127,9 @@ func (d *Detector) Collide(dst []Manifold, a shapes.Shape, pa shapes.Pose, b sha
 	if !(margin >= 0) || math.IsInf(margin, 0) {
 		margin = 0
 	}
+	if !finitePose(pa) || !finitePose(pb) {
+		return dst // a body with a broken pose touches nothing
+	}
 	return d.collide(dst, a, poseFrame(pa), 0, b, poseFrame(pb), 0, margin)
 }
 
@@ -172,6 +175,11 @@ func (d *Detector) collide(dst []Manifold, a shapes.Shape, fa frame, subA int32,
 		return d.meshConvex(dst, m, fb, a, fa, margin, false, subA, subB)
 	}
 	return d.convexConvex(dst, a, fa, subA, b, fb, subB, margin)
+}
+
+func finitePose(p shapes.Pose) bool {
+	q := p.Orientation
+	return finite(p.Position) && finite(q.V) && !math.IsNaN(q.W) && !math.IsInf(q.W, 0)
 }
 
 func asPlane(s shapes.Shape) (shapes.Plane, bool) {

@@ -1,8 +1,46 @@
-// Package collide finds which pairs of bodies touch and where: a
-// sweep-and-prune broad phase over world bounds, a narrow phase (GJK and EPA
-// for general convex pairs, exact fast paths and separating-axis tests for the
-// common ones), contact manifolds of up to four points with feature ids, and
-// bounding volume hierarchies over static triangle meshes.
+// Package collide finds which pairs of bodies touch and where: the narrow
+// phase (this package), the sweep-and-prune broad phase (package
+// collide/broad) and bounding volume hierarchies over static triangle
+// meshes (package collide/bvh).
+//
+// A Detector answers, for one candidate pair at a time,
+//
+//	dst = det.Collide(dst[:0], shapeA, poseA, shapeB, poseB, margin)
+//
+// with contact manifolds: a world normal from A toward B and at most four
+// points, each with its signed separation (negative when penetrating,
+// positive up to margin for speculative contacts of shapes still apart) and
+// a feature id that stays the same while the same features touch, so that
+// impulses carry over between steps. A Detector keeps scratch buffers and
+// allocates nothing once they have grown; use one per world.
+//
+// Methods, by pair:
+//   - spheres and capsules: exactly, through their core point or segment;
+//     two points for capsules lying side by side;
+//   - a sphere against a box, cylinder or hull: the exact closest point (GJK
+//     on the centre for hulls), the nearest face when the centre is inside;
+//   - boxes and hulls against each other: the separating-axis test on face
+//     normals and edge cross products (edge pairs pruned on the Gauss map;
+//     15 axes for two boxes), then the incident face clipped against the
+//     reference face (Sutherland and Hodgman 1974) for up to four points;
+//   - every other convex pair (cylinders, a capsule against a box or hull,
+//     any other shapes.Convex): GJK distance with the signed-volumes
+//     sub-simplex step (Gilbert, Johnson and Keerthi 1988; Montanari,
+//     Petrinic and Barbieri 2017) and EPA depth (van den Bergen 2001/2003),
+//     then the features of both shapes along the normal clipped into a
+//     manifold (a cylinder's cap as a rim polygon, its side as a line);
+//   - a convex shape against a static Plane: its support points within the
+//     margin (box and hull vertices, cylinder rim points, capsule ends);
+//   - a convex shape against a static Mesh (see NewMesh): each triangle the
+//     hierarchy returns as a thin convex, with internal-edge correction from
+//     the mesh's edge adjacency, and the contacts of coplanar triangles
+//     merged into one manifold, so that a part sliding over a tessellated
+//     flat sees the same contact as on a plane;
+//   - a shapes.Compound: each piece against the other shape, SubA/SubB
+//     naming the piece.
+//
+// Distance and Penetration expose the GJK and EPA queries themselves.
+// Iterative methods are bounded; Stats counts their fallbacks.
 //
 // It imports package shapes and nothing above it.
 package collide

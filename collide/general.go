@@ -12,9 +12,13 @@ const (
 	// the GJK direction (from two nearly equal points) is not.
 	coreTouch = 1e-9
 	// satMaxEdgePairs: hull pairs with more edge pairs than this take the
-	// general path instead of the separating-axis test (whose edge loop is
-	// quadratic in the hull size).
-	satMaxEdgePairs = 20000
+	// general path instead of the separating-axis test, whose edge loop is
+	// quadratic in the hull size: measured in bench/collide.go, two
+	// 40-vertex hulls (about 13,000 edge pairs) take several times longer by
+	// the test than by GJK, EPA and face clipping, while for boxes and
+	// small prisms (up to about 40 edges each) the test is as fast and gives
+	// its face contacts without iteration.
+	satMaxEdgePairs = 1600
 )
 
 // nearest is the normal and the closest (or deepest) surface points of two
@@ -171,15 +175,61 @@ func (d *Detector) featureContact(a, b *view, r nearest, margin float64) vec3 {
 		a.extreme(n, fa)
 		d.faceFeature(fb, fa, true, margin, scale)
 	case na == 2 && nb == 2 && !fa.set && !fb.set:
-		d.parallelSegments(fa, fb, r.n, margin)
+		// Two round sides (cylinders, capsules): the exact normal is the
+		// common perpendicular of the axes, where EPA on curved sides is
+		// only as good as its tolerance allows.
+		if ns, ok := sideNormal(a, b); ok && ns.Dot(r.n) >= featCos {
+			n, r.n = ns, ns
+			a.extreme(n, fa)
+			b.extreme(n.Mul(-1), fb)
+			r.pa, r.pb, r.sep = nearestOnFeatures(fa, fb, n)
+		}
+		if len(fa.pts) == 2 && len(fb.pts) == 2 {
+			d.parallelSegments(fa, fb, n, margin)
+		}
 	}
 	if len(d.cand) == 0 {
 		n = r.n
+		if !fa.set && !fb.set && len(fa.pts) <= 2 && len(fb.pts) <= 2 && !refA && !refB {
+			// Point and segment features: their exact nearest points along
+			// the normal (EPA's barycentric points are only as good as its
+			// tolerance on curved shapes).
+			r.pa, r.pb, r.sep = nearestOnFeatures(fa, fb, n)
+		}
 		if r.sep <= margin {
 			d.cand = append(d.cand, candPoint{p: r.pa.Add(r.pb).Mul(0.5), sep: r.sep, id: faceID(false, fa.base, fb.base, 0xFE, 0)})
 		}
 	}
 	return n
+}
+
+// nearestOnFeatures returns the nearest surface points of two point or
+// segment features and their separation along n.
+func nearestOnFeatures(fa, fb *feature, n vec3) (pa, pb vec3, sep float64) {
+	a0, a1 := fa.pts[0], fa.pts[len(fa.pts)-1]
+	b0, b1 := fb.pts[0], fb.pts[len(fb.pts)-1]
+	_, _, ca, cb := closestSegmentSegment(a0, a1, b0, b1)
+	pa = ca.Add(n.Mul(fa.rad))
+	pb = cb.Sub(n.Mul(fb.rad))
+	return pa, pb, pb.Sub(pa).Dot(n)
+}
+
+// sideNormal is the common perpendicular of the axes of two cylinders or
+// capsules, from a toward b, when it meets both axis segments (or the axes
+// are parallel): then the sides touch along it.
+func sideNormal(a, b *view) (vec3, bool) {
+	round := func(v *view) bool { return v.kind == kCylinder || v.kind == kCapsule }
+	if !round(a) || !round(b) {
+		return vec3{}, false
+	}
+	axA, axB := a.axis(), b.axis()
+	ea, eb := axA.Mul(a.half[2]), axB.Mul(b.half[2])
+	_, _, ca, cb := closestSegmentSegment(a.pos.Sub(ea), a.pos.Add(ea), b.pos.Sub(eb), b.pos.Add(eb))
+	n, l := unit(cb.Sub(ca))
+	if l == 0 || math.Abs(n.Dot(axA)) > 1e-9 || math.Abs(n.Dot(axB)) > 1e-9 {
+		return vec3{}, false
+	}
+	return n, true
 }
 
 // faceFeature clips incident feature inc against reference polygon ref (of

@@ -2,6 +2,7 @@ package collide
 
 import (
 	"math"
+	"slices"
 	"sort"
 
 	"clatter/collide/bvh"
@@ -38,7 +39,11 @@ type triAdj struct {
 	kind  [3]uint8
 	side  [3]vec3    // outward unit normal of edge i in the triangle's plane
 	angle [3]float64 // for a convex edge: the angle from this normal to the neighbour's, toward side
-	snapV [3]bool    // corner i: every mesh edge at it is flat or concave
+	// smooth marks an edge whose neighbour is within the merge angle
+	// (meshGroupAngle): the two share a manifold, so points clipped at
+	// the edge are seams inside it.
+	smooth [3]bool
+	snapV  [3]bool // corner i: every mesh edge at it is flat or concave
 	// region is the smallest triangle index of the flat region (triangles
 	// joined by flat edges) this triangle belongs to.
 	region int32
@@ -211,6 +216,7 @@ func (m *Mesh) buildAdjacency(valid []bool) {
 				n, nn := m.normals[me.t], m.normals[nb.t]
 				s := ad.side[me.e]
 				ang := math.Atan2(nn.Dot(s), nn.Dot(n))
+				ad.smooth[me.e] = math.Abs(ang) < meshGroupAngle
 				switch {
 				case ang > meshFlatAngle:
 					ad.kind[me.e] = edgeConvex
@@ -341,6 +347,8 @@ func (m *Mesh) query(b shapes.AABB, out []int32) []int32 {
 // by the smallest region among its triangles.
 type meshGroup struct {
 	n      vec3 // from the convex toward the mesh, in the mesh frame
+	sum    vec3 // sum of the members' normals
+	mixed  bool // members with different normals (n is their mean)
 	region int32
 }
 
@@ -350,9 +358,15 @@ type meshCand struct {
 	g int
 }
 
-// meshGroupCos: triangles whose contact normals agree to this cosine share a
-// manifold (coplanar neighbours of a tessellated flat, after correction).
-const meshGroupCos = 1 - 1e-12
+// meshGroupCos: triangle contacts whose normals agree to this cosine share
+// a manifold. Coplanar neighbours agree exactly and keep their normal; the
+// triangles of a tessellated curved surface (a dished tray) differ by a
+// small angle, and 0.02 rad (about 1.1 degrees) merges them into one
+// manifold with their mean normal instead of one per triangle, while a real
+// crease of a fixture stays two.
+const meshGroupAngle = 0.02
+
+var meshGroupCos = math.Cos(meshGroupAngle)
 
 // meshConvex collides static mesh m (frame fm) with convex shape s (frame
 // fs). meshIsA tells the pair's order.
@@ -373,6 +387,9 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 	d.groups = d.groups[:0]
 	d.meshCands = d.meshCands[:0]
 	center := v.center()
+	if v.kind == kBox || v.kind == kHull {
+		d.polyP.set(&v) // the same for every triangle
+	}
 	var tv view
 	for _, ti := range d.tris {
 		t := int(ti)
@@ -386,6 +403,10 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		if n.Dot(center.Sub(a)) < 0 {
 			continue
 		}
+		// Beyond the margin from the triangle's plane: no contact.
+		if n.Dot(v.supportFull(n.Mul(-1)).Sub(a)) > margin {
+			continue
+		}
 		tv.setTriangle(a, b, c, n)
 		nPQ, ok := d.triContact(&v, &tv, m, t, margin)
 		if !ok {
@@ -395,7 +416,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		if len(d.cand) == 0 {
 			continue
 		}
-		d.addToGroup(nPQ, ti, m.adj[t].region, v.size)
+		d.addToGroup(nPQ, ti, m.adj[t].region)
 	}
 	// Emit one manifold per group.
 	for gi, g := range d.groups {
@@ -405,6 +426,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 				d.cand = append(d.cand, c.candPoint)
 			}
 		}
+		d.dedupe(1e-9 * v.size)
 		n := g.n
 		if meshIsA {
 			n = n.Mul(-1)
@@ -417,9 +439,9 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 }
 
 // addToGroup moves the points in d.cand (from triangle t, normal n) into
-// the group of their normal, dropping points that another triangle already
-// gave (a corner on a shared edge) and making ids unique.
-func (d *Detector) addToGroup(n vec3, t, region int32, size float64) {
+// the group of their normal, folding the triangle into the ids of points
+// that belong to it.
+func (d *Detector) addToGroup(n vec3, t, region int32) {
 	gi := -1
 	for i := range d.groups {
 		if d.groups[i].n.Dot(n) >= meshGroupCos {
@@ -428,38 +450,71 @@ func (d *Detector) addToGroup(n vec3, t, region int32, size float64) {
 		}
 	}
 	if gi < 0 {
-		d.groups = append(d.groups, meshGroup{n: n, region: region})
+		d.groups = append(d.groups, meshGroup{n: n, sum: n, region: region})
 		gi = len(d.groups) - 1
+	} else {
+		g := &d.groups[gi]
+		if n != g.n || g.mixed {
+			g.mixed = true
+			g.sum = g.sum.Add(n)
+			g.n, _ = unit(g.sum)
+		} else {
+			g.sum = g.sum.Add(n)
+		}
+		if region < g.region {
+			g.region = region
+		}
 	}
-	if region < d.groups[gi].region {
-		d.groups[gi].region = region
-	}
-	tol := 1e-9 * size
 	for _, c := range d.cand {
 		if !pureConvexID(c.id) {
 			c.id = c.id&0x8000FFFF | uint32(1+int(t)%0x7FFE)<<16
-		}
-		dup := false
-		for k := range d.meshCands {
-			o := &d.meshCands[k]
-			if o.g == gi && o.p.Sub(c.p).Len() <= tol {
-				if c.sep < o.sep {
-					o.candPoint = c
-				}
-				dup = true
-				break
-			}
-		}
-		if dup {
-			continue
 		}
 		d.meshCands = append(d.meshCands, meshCand{c, gi})
 	}
 }
 
+// dedupe drops from d.cand the points that another triangle already gave
+// (a corner of the shape over a shared edge, a sphere over a shared
+// vertex): points within tol of each other, keeping the deeper. It sorts
+// by x and compares near neighbours only.
+func (d *Detector) dedupe(tol float64) {
+	c := d.cand
+	slices.SortFunc(c, func(a, b candPoint) int {
+		switch {
+		case a.p[0] < b.p[0]:
+			return -1
+		case a.p[0] > b.p[0]:
+			return 1
+		case a.id < b.id:
+			return -1
+		case a.id > b.id:
+			return 1
+		}
+		return 0
+	})
+	k := 0
+	for i := range c {
+		dup := false
+		for j := k - 1; j >= 0 && c[i].p[0]-c[j].p[0] <= tol; j-- {
+			if c[j].p.Sub(c[i].p).Len() <= tol {
+				if c[i].sep < c[j].sep {
+					c[j] = c[i]
+				}
+				dup = true
+				break
+			}
+		}
+		if !dup {
+			c[k] = c[i]
+			k++
+		}
+	}
+	d.cand = c[:k]
+}
+
 // dropSeamPoints removes the points that clipping against the triangle's
-// flat edges made: with the coplanar neighbour they lie inside one flat
-// face, where a plane would have no point, and would only crowd the
+// flat (or smooth) edges made: with the neighbour they lie inside one
+// surface, where a plane would have no point, and would only crowd the
 // manifold (a box on a tessellated flat keeps its corners, as on a plane).
 func (d *Detector) dropSeamPoints(m *Mesh, t int) {
 	ad := &m.adj[t]
@@ -468,7 +523,7 @@ func (d *Detector) dropSeamPoints(m *Mesh, t int) {
 		if c.id&(1<<31) != 0 {
 			seam := false
 			for _, code := range [2]uint32{c.id >> 8 & 0xFF, c.id & 0xFF} {
-				if code >= 128 && ad.kind[(code-128)%3] == edgeFlat {
+				if e := (code - 128) % 3; code >= 128 && (ad.kind[e] == edgeFlat || ad.smooth[e]) {
 					seam = true
 				}
 			}
@@ -529,15 +584,23 @@ func (d *Detector) triContact(v, tv *view, m *Mesh, t int, margin float64) (vec3
 		d.cand = append(d.cand, candPoint{p: ps.Sub(nc.Mul(0.5 * sep)), sep: sep, id: 0})
 		return nc.Mul(-1), true
 	case kBox, kHull:
-		p, q := &d.polyP, &d.polyQ
-		p.set(v)
-		q.set(tv)
-		if len(p.edges)*3 > satMaxEdgePairs {
-			break
+		p, q := &d.polyP, &d.polyQ // p was set from v by the caller
+		var r satResult
+		var ok bool
+		if v.kind == kBox {
+			r, ok = satBoxTriangle(v, tv, margin)
+		} else {
+			if len(p.edges)*3 > satMaxEdgePairs {
+				break
+			}
+			q.set(tv)
+			r, ok = sat(p, q, margin)
 		}
-		r, ok := sat(p, q, margin)
 		if !ok {
 			return vec3{}, false
+		}
+		if v.kind == kBox {
+			q.set(tv)
 		}
 		if r.kind != satFaceQ {
 			var nT vec3

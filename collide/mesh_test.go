@@ -224,3 +224,26 @@ func TestMeshBadTriangles(t *testing.T) {
 		t.Error("an empty mesh has empty bounds")
 	}
 }
+
+// TestMeshSlideIDs: a box sliding across the tessellated flat keeps one
+// manifold with the same name and the same four point ids (its corners), so
+// warm starting carries over as the corners cross triangle edges.
+func TestMeshSlideIDs(t *testing.T) {
+	mesh := NewMesh(gridMesh(10, 1, flatZero))
+	box := shapes.Box{Half: vec3{0.15, 0.1, 0.05}}
+	d := NewDetector()
+	q := mgl64.QuatRotate(0.3, vec3{0, 0, 1})
+	var ref []uint64
+	for x := -0.6; x <= 0.6; x += 0.0123 {
+		ms := d.Collide(nil, mesh, shapes.IdentityPose, box, shapes.Pose{Position: vec3{x, 0.1, 0.049}, Orientation: q}, 0.002)
+		got := idSet(ms)
+		if len(ms) != 1 || len(got) != 4 {
+			t.Fatalf("x=%g: %d manifolds, ids %x", x, len(ms), got)
+		}
+		if ref == nil {
+			ref = got
+		} else if !sameIDs(got, ref) {
+			t.Fatalf("x=%g: ids %x, want %x", x, got, ref)
+		}
+	}
+}

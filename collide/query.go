@@ -24,9 +24,13 @@ type DistanceResult struct {
 
 // Distance returns the distance between convex shapes a at pose pa and b at
 // pose pb by GJK with the signed-volumes sub-simplex step. Spheres and
-// capsules are measured exactly through their core point or segment.
+// capsules are measured exactly through their core point or segment. A pose
+// that is not finite gives the zero result.
 func (d *Detector) Distance(a shapes.Convex, pa shapes.Pose, b shapes.Convex, pb shapes.Pose) DistanceResult {
 	var res DistanceResult
+	if !finitePose(pa) || !finitePose(pb) {
+		return res
+	}
 	fa, fb := poseFrame(pa), poseFrame(pb)
 	var va, vb view
 	rot, pos := fa.relative(fb)
@@ -70,6 +74,10 @@ type PenetrationResult struct {
 // and b by GJK and EPA: the signed separation is -Depth.
 func (d *Detector) Penetration(a shapes.Convex, pa shapes.Pose, b shapes.Convex, pb shapes.Pose) PenetrationResult {
 	var res PenetrationResult
+	if !finitePose(pa) || !finitePose(pb) {
+		res.Failed = true
+		return res
+	}
 	fa, fb := poseFrame(pa), poseFrame(pb)
 	var va, vb view
 	rot, pos := fa.relative(fb)

@@ -73,49 +73,61 @@ func main() {
 	}
 
 	type row struct {
+		b                 bench.Benchmark
+		ns, allocs, bytes []float64
+		extras            map[string][]float64
+		failed            bool
+	}
+	var rows []*row
+	for _, b := range all {
+		if selected[b.Name] {
+			rows = append(rows, &row{b: b, extras: map[string][]float64{}})
+		}
+	}
+	// Rounds over all benchmarks rather than all runs of one benchmark
+	// after another, so that a change in machine load hits a benchmark and
+	// its baseline alike.
+	for i := 0; i < *count; i++ {
+		for _, rw := range rows {
+			if rw.failed {
+				continue
+			}
+			fmt.Fprintf(os.Stderr, "round %d/%d: %s\n", i+1, *count, rw.b.Name)
+			r := testing.Benchmark(rw.b.Fn)
+			if r.N == 0 {
+				rw.failed = true
+				continue
+			}
+			rw.ns = append(rw.ns, float64(r.T.Nanoseconds())/float64(r.N))
+			rw.allocs = append(rw.allocs, float64(r.MemAllocs)/float64(r.N))
+			rw.bytes = append(rw.bytes, float64(r.MemBytes)/float64(r.N))
+			for k, v := range r.Extra {
+				rw.extras[k] = append(rw.extras[k], v)
+			}
+		}
+	}
+	type result struct {
 		b             bench.Benchmark
 		ns, allocs, B float64
 		extra         map[string]float64
 		failed        bool
 	}
-	var rows []row
-	byName := map[string]*row{}
-	for _, b := range all {
-		if !selected[b.Name] {
-			continue
-		}
-		fmt.Fprintf(os.Stderr, "running %s x%d\n", b.Name, *count)
-		var ns, allocs, bytes []float64
-		extras := map[string][]float64{}
-		failed := false
-		for i := 0; i < *count; i++ {
-			r := testing.Benchmark(b.Fn)
-			if r.N == 0 {
-				failed = true
-				break
-			}
-			ns = append(ns, float64(r.T.Nanoseconds())/float64(r.N))
-			allocs = append(allocs, float64(r.MemAllocs)/float64(r.N))
-			bytes = append(bytes, float64(r.MemBytes)/float64(r.N))
-			for k, v := range r.Extra {
-				extras[k] = append(extras[k], v)
+	results := make([]result, len(rows))
+	byName := map[string]*result{}
+	for i, rw := range rows {
+		res := result{b: rw.b, failed: rw.failed, extra: map[string]float64{}}
+		if !rw.failed {
+			res.ns, res.allocs, res.B = median(rw.ns), median(rw.allocs), median(rw.bytes)
+			for k, v := range rw.extras {
+				res.extra[k] = median(v)
 			}
 		}
-		rw := row{b: b, failed: failed, extra: map[string]float64{}}
-		if !failed {
-			rw.ns, rw.allocs, rw.B = median(ns), median(allocs), median(bytes)
-			for k, v := range extras {
-				rw.extra[k] = median(v)
-			}
-		}
-		rows = append(rows, rw)
-	}
-	for i := range rows {
-		byName[rows[i].b.Name] = &rows[i]
+		results[i] = res
+		byName[rw.b.Name] = &results[i]
 	}
 
 	table := [][]string{{"benchmark", "ns/op", "allocs/op", "B/op", "speed-up", "over", "metrics"}}
-	for _, r := range rows {
+	for _, r := range results {
 		if r.failed {
 			table = append(table, []string{r.b.Name, "FAILED", "", "", "", "", ""})
 			continue
