@@ -1,0 +1,195 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"text/tabwriter"
+
+	"clatter/engine/report"
+	"clatter/engine/scene"
+)
+
+var cmdRun = &command{
+	name:    "run",
+	summary: "simulate one scene and write its results",
+	usage:   "clatter run SCENE.toml [-o DIR] [--sample SECONDS] [--json] [--quiet]",
+	help: `
+Simulates the scene to its [world] duration, or until every moving body has
+settled when until_settled is true, and writes into DIR (default clatter-out):
+
+  summary.json     final pose, velocity, resting face and largest impact of
+                   every moving body; energy and momentum at start and end
+  trajectory.csv   time,body,x,y,z,qw,qx,qy,qz,vx,vy,vz,wx,wy,wz: a row per
+                   moving body every --sample seconds (default 0.01) and at the end
+  events.jsonl     impacts, sleep and wake, settling and errors, one JSON
+                   object a line
+
+Everything is in the scene's units (units = { length, mass }), time in s,
+angles in degrees, angular velocity in rad/s, energy in J. A table of the
+final state goes to stdout; --json prints summary.json there instead.
+
+A [sweep] section is read and checked, and ignored.
+
+Exit codes: 0 the run completed, 1 the simulation failed (diverged or was
+interrupted; the files keep everything up to its last good state and the
+error), 2 bad input (the scene's errors name file and line).
+
+Options:
+  -o DIR           where to write the results (default clatter-out)
+  --sample SECONDS trajectory sample interval (default 0.01; a unit may be
+                   given, e.g. "5 ms")
+  --json           print the summary as JSON instead of a table
+  --quiet, -q      no progress bar or informational messages`,
+}
+
+func runScene(e *env, args []string) int {
+	fs := newFlags(e, cmdRun)
+	dir := fs.String("o", "clatter-out", "")
+	sampleText := fs.String("sample", "0.01", "")
+	asJSON := fs.Bool("json", false, "")
+	pos, code := parse(e, cmdRun, fs, args)
+	if code >= 0 {
+		return code
+	}
+	if len(pos) != 1 {
+		e.errorf("run: give one scene file, e.g. clatter run testdata/scenes/slide.toml (got %d arguments)", len(pos))
+		return exitBad
+	}
+	sample, err := parseSeconds(*sampleText)
+	if err != nil {
+		e.errorf("run: --sample: %v", err)
+		return exitBad
+	}
+	s, err := scene.Load(pos[0])
+	if err != nil {
+		fmt.Fprintln(e.stderr, err)
+		return exitBad
+	}
+	for _, w := range s.Warnings {
+		fmt.Fprintln(e.stderr, "warning: "+w)
+	}
+	if s.Sweep != nil {
+		e.infof("note: the [sweep] section is read and checked, and ignored by run")
+	}
+	if *dir != "" {
+		if err := os.MkdirAll(*dir, 0o755); err != nil {
+			e.errorf("run: -o %s: cannot make the output folder: %v", *dir, err)
+			return exitBad
+		}
+	}
+	p := newProgress(e, "simulating")
+	sum, err := report.Run(e.ctx, s, report.Options{Dir: *dir, Sample: sample, Progress: p.update})
+	p.done()
+	if sum == nil {
+		fmt.Fprintln(e.stderr, err)
+		if errors.Is(err, scene.ErrBadScene) {
+			return exitBad
+		}
+		return exitFailed
+	}
+	if *asJSON {
+		e.stdout.Write(sum.JSON())
+		if !e.quiet {
+			fmt.Fprintln(e.stderr, safetyNote)
+		}
+	} else {
+		writeRunTable(e.stdout, s, sum, *dir)
+	}
+	if err != nil {
+		e.errorf("run failed: %v", err)
+		if *dir != "" {
+			e.errorf("the results up to t = %g s and the error are in %s", sum.Time, *dir)
+		}
+		return exitFailed
+	}
+	if *dir != "" {
+		e.infof("wrote %s", strings.Join([]string{filepath.Join(*dir, report.SummaryFile), report.TrajectoryFile, report.EventsFile}, ", "))
+	}
+	return exitOK
+}
+
+// parseSeconds reads a time: a plain number of seconds or a value with a unit.
+func parseSeconds(s string) (float64, error) {
+	v, d, err := scene.ParseQuantity(s)
+	if err != nil {
+		return 0, err
+	}
+	if d != scene.Dimensionless && d != scene.Time {
+		return 0, fmt.Errorf("%q is %s, not a time", s, d)
+	}
+	if !(v > 0) {
+		return 0, fmt.Errorf("must be a positive number of seconds, got %q", s)
+	}
+	return v, nil
+}
+
+func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string) {
+	u := s.Units
+	fmt.Fprintf(w, "scene    %s (lengths in %s, masses in %s)\n", s.File, u.Length, u.Mass)
+	status := "not settled"
+	if sum.SettledAt != nil {
+		status = fmt.Sprintf("every moving body settled at %.4g s", *sum.SettledAt)
+	}
+	fmt.Fprintf(w, "ran      %.4g s in %d steps; %s\n", sum.Time, sum.Steps, status)
+	if sum.Error != "" {
+		fmt.Fprintf(w, "stopped  %s\n", sum.Error)
+	}
+	fmt.Fprintln(w)
+	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+	speed := u.Symbol(scene.Speed)
+	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tlargest impact (%s)\n", u.Length, speed)
+	for _, b := range sum.Bodies {
+		face := "-"
+		if b.RestingFace != nil {
+			face = fmt.Sprint(*b.RestingFace)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.4g\n", b.Name, fmtVec(b.Position[:]), fmtOrientation(b.Orientation), face, b.MaxImpactSpeed)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
+	if dir != "" {
+		fmt.Fprintf(w, "results  %s: %s, %s, %s\n", dir, report.SummaryFile, report.TrajectoryFile, report.EventsFile)
+	}
+	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round")
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, safetyNote)
+}
+
+func fmtVec(v []float64) string {
+	s := make([]string, len(v))
+	for i, x := range v {
+		if math.Abs(x) < 5e-7*maxAbs(v) {
+			x = 0
+		}
+		s[i] = fmt.Sprintf("%.6g", x)
+	}
+	return strings.Join(s, ", ")
+}
+
+func maxAbs(v []float64) float64 {
+	m := 0.0
+	for _, x := range v {
+		m = math.Max(m, math.Abs(x))
+	}
+	return m
+}
+
+// fmtOrientation writes a quaternion [w, x, y, z] as an angle about an axis.
+func fmtOrientation(q [4]float64) string {
+	w := math.Max(-1, math.Min(1, q[0]))
+	if w < 0 {
+		w, q = -w, [4]float64{-q[0], -q[1], -q[2], -q[3]}
+	}
+	angle := 2 * math.Acos(w) * 180 / math.Pi
+	n := math.Sqrt(q[1]*q[1] + q[2]*q[2] + q[3]*q[3])
+	if angle < 0.05 || n == 0 {
+		return "unturned"
+	}
+	return fmt.Sprintf("%.1f deg about (%.3f, %.3f, %.3f)", angle, q[1]/n, q[2]/n, q[3]/n)
+}

@@ -1,0 +1,431 @@
+package report
+
+import (
+	"bufio"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+
+	"clatter/engine"
+	"clatter/engine/scene"
+	"clatter/shapes"
+	"clatter/shapes/resting"
+)
+
+// DefaultSample is the trajectory sample interval, s.
+const DefaultSample = 0.01
+
+// Names of the files Run writes.
+const (
+	SummaryFile    = "summary.json"
+	TrajectoryFile = "trajectory.csv"
+	EventsFile     = "events.jsonl"
+)
+
+// TrajectoryHeader is the first line of trajectory.csv.
+const TrajectoryHeader = "time,body,x,y,z,qw,qx,qy,qz,vx,vy,vz,wx,wy,wz"
+
+// Options control a run.
+type Options struct {
+	// Dir is where the files go; empty writes none.
+	Dir string
+	// Sample is the trajectory sample interval, s (default DefaultSample).
+	Sample float64
+	// Progress, if set, is called now and then with the fraction of the
+	// duration simulated.
+	Progress func(fraction float64)
+}
+
+// SimulationError is a run that could not finish: the simulation diverged
+// or was interrupted. The files hold everything up to its last good state.
+type SimulationError struct {
+	Time float64
+	Err  error
+}
+
+func (e *SimulationError) Error() string { return e.Err.Error() }
+func (e *SimulationError) Unwrap() error { return e.Err }
+
+// bodyState is the state of one body, kept so that a failed step can be
+// undone for the summary.
+type bodyState struct {
+	pos, vel, spin shapes.Vec3
+	rot            shapes.Quat
+}
+
+type runner struct {
+	s    *scene.Scene
+	w    *engine.World
+	ids  []engine.BodyID
+	dyn  []int // indices of the moving bodies in s.Bodies
+	opt  Options
+	u    scene.Units
+	traj *bufio.Writer
+	ev   *bufio.Writer
+	row  []byte
+	// touching counts, per body id, the bodies it touches.
+	touching []int
+	pairs    map[[2]engine.BodyID]bool
+	faces    map[int][]resting.Face
+	lastRow  float64
+	prev     []bodyState
+	prevT    float64
+	prevN    int
+}
+
+// Run simulates the scene to its duration, or until every moving body has
+// settled when the scene says until_settled, writing the result files into
+// opt.Dir. It returns the summary; on a failed run the summary of its last
+// good state together with a *SimulationError. A scene that cannot be
+// built gives no summary and an error that wraps scene.ErrBadScene.
+func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
+	if opt.Sample == 0 {
+		opt.Sample = DefaultSample
+	}
+	if !(opt.Sample > 0) || math.IsInf(opt.Sample, 0) {
+		return nil, fmt.Errorf("%w: the sample interval must be a positive number of seconds, got %g", scene.ErrBadScene, opt.Sample)
+	}
+	w, ids, err := s.Build()
+	if err != nil {
+		return nil, err
+	}
+	r := &runner{s: s, w: w, ids: ids, opt: opt, u: s.Units, pairs: map[[2]engine.BodyID]bool{},
+		touching: make([]int, w.NumBodies()), faces: map[int][]resting.Face{}, lastRow: math.NaN()}
+	for i, b := range s.Bodies {
+		if !b.Static {
+			r.dyn = append(r.dyn, i)
+		}
+	}
+	var files []*os.File
+	closeAll := func() error {
+		var first error
+		for _, bw := range []*bufio.Writer{r.traj, r.ev} {
+			if bw != nil {
+				if err := bw.Flush(); err != nil && first == nil {
+					first = err
+				}
+			}
+		}
+		for _, f := range files {
+			if err := f.Close(); err != nil && first == nil {
+				first = err
+			}
+		}
+		files = nil
+		return first
+	}
+	defer closeAll()
+	if opt.Dir != "" {
+		if err := os.MkdirAll(opt.Dir, 0o755); err != nil {
+			return nil, fmt.Errorf("cannot make the output folder: %w", err)
+		}
+		for _, f := range []struct {
+			name string
+			bw   **bufio.Writer
+		}{{TrajectoryFile, &r.traj}, {EventsFile, &r.ev}} {
+			fh, err := os.Create(filepath.Join(opt.Dir, f.name))
+			if err != nil {
+				return nil, fmt.Errorf("cannot write results: %w", err)
+			}
+			files = append(files, fh)
+			*f.bw = bufio.NewWriterSize(fh, 1<<16)
+		}
+		r.traj.WriteString(TrajectoryHeader + "\n")
+	}
+
+	sum := &Summary{Units: UnitsOf(r.u)}
+	sum.Energy.Initial = w.Energy()
+	sum.Momentum.Linear.Initial = r.u.VecFromSI(w.LinearMomentum(), scene.Impulse)
+	sum.Momentum.Angular.Initial = r.u.VecFromSI(w.AngularMomentum(shapes.Vec3{}), angularMomentum)
+
+	dt := s.World.Step
+	total := int(math.Ceil(s.World.Duration/dt - 1e-9))
+	every := max(1, total/200)
+	r.sample(0)
+	next := opt.Sample
+	var simErr error
+	diverged := false
+	r.prev = make([]bodyState, w.NumBodies())
+	for n := 0; n < total; n++ {
+		if n%64 == 0 && ctx.Err() != nil {
+			simErr = &SimulationError{Time: w.Time(), Err: fmt.Errorf("interrupted at t = %.6g s: %w", w.Time(), ctx.Err())}
+			r.event(eventJSON{Time: w.Time(), Event: "error", Message: simErr.Error()})
+			break
+		}
+		r.keep()
+		if err := w.Step(dt); err != nil {
+			r.events()
+			msg := eventJSON{Time: clean(w.Time()), Event: "error", Message: err.Error()}
+			var de *engine.DivergenceError
+			if errors.As(err, &de) {
+				msg.Body = de.Name
+				msg.Time = clean(de.Time)
+			}
+			r.event(msg)
+			r.restore()
+			diverged = true
+			simErr = &SimulationError{Time: r.prevT, Err: err}
+			break
+		}
+		r.events()
+		t := w.Time()
+		if t >= next-1e-9*opt.Sample {
+			r.sample(t)
+			next = (math.Floor(t/opt.Sample+1e-9) + 1) * opt.Sample
+		}
+		if opt.Progress != nil && n%every == 0 {
+			opt.Progress(t / s.World.Duration)
+		}
+		if settled, _ := w.Settled(); settled && s.World.UntilSettled {
+			break
+		}
+	}
+	if opt.Progress != nil {
+		opt.Progress(1)
+	}
+	end := w.Time()
+	if diverged {
+		end = r.prevT
+	}
+	if end != r.lastRow {
+		r.sample(end)
+	}
+	r.summarise(sum, simErr)
+	if err := closeAll(); err != nil {
+		return sum, fmt.Errorf("cannot write results: %w", err)
+	}
+	if opt.Dir != "" {
+		if err := writeAtomic(filepath.Join(opt.Dir, SummaryFile), sum.JSON()); err != nil {
+			return sum, fmt.Errorf("cannot write results: %w", err)
+		}
+	}
+	if simErr != nil {
+		return sum, simErr
+	}
+	return sum, nil
+}
+
+var angularMomentum = scene.Dim{L: 2, M: 1, T: -1}
+
+// keep saves the state before a step, so that a failed step can be undone.
+func (r *runner) keep() {
+	w := r.w
+	for _, i := range r.dyn {
+		id := r.ids[i]
+		r.prev[id] = bodyState{pos: w.Position(id), vel: w.Velocity(id), spin: w.Spin(id), rot: w.Orientation(id)}
+	}
+	r.prevT, r.prevN = w.Time(), w.Steps()
+}
+
+// restore puts the last good state back after a failed step.
+func (r *runner) restore() {
+	for _, i := range r.dyn {
+		id := r.ids[i]
+		p := r.prev[id]
+		r.w.SetPose(id, p.pos, p.rot)
+		r.w.SetVelocity(id, p.vel, p.spin)
+	}
+}
+
+func (r *runner) summarise(sum *Summary, simErr error) {
+	w := r.w
+	sum.Time, sum.Steps = clean(w.Time()), w.Steps()
+	if simErr != nil {
+		var se *SimulationError
+		if errors.As(simErr, &se) && se.Time < w.Time() {
+			sum.Time, sum.Steps = clean(r.prevT), r.prevN
+		}
+		sum.Error = simErr.Error()
+	}
+	if ok, at := w.Settled(); ok {
+		sum.Settled = true
+		a := clean(at)
+		sum.SettledAt = &a
+	}
+	sum.Bodies = []Body{}
+	for _, i := range r.dyn {
+		id := r.ids[i]
+		q := w.Orientation(id)
+		b := Body{
+			Name:           r.s.Bodies[i].Name,
+			Position:       clean3(r.u.VecFromSI(w.Position(id), scene.Length)),
+			Orientation:    [4]float64{clean(q.W), clean(q.V[0]), clean(q.V[1]), clean(q.V[2])},
+			Velocity:       clean3(r.u.VecFromSI(w.Velocity(id), scene.Speed)),
+			Spin:           clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
+			RestingFace:    r.restingFace(i),
+			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
+		}
+		sum.Bodies = append(sum.Bodies, b)
+	}
+	sum.Energy.Initial = clean(sum.Energy.Initial)
+	sum.Energy.Final = clean(w.Energy())
+	sum.Momentum.Linear.Initial = clean3(sum.Momentum.Linear.Initial)
+	sum.Momentum.Angular.Initial = clean3(sum.Momentum.Angular.Initial)
+	sum.Momentum.Linear.Final = clean3(r.u.VecFromSI(w.LinearMomentum(), scene.Impulse))
+	sum.Momentum.Angular.Final = clean3(r.u.VecFromSI(w.AngularMomentum(shapes.Vec3{}), angularMomentum))
+}
+
+// restingFace returns the face body i rests on, or nil: it must touch
+// something, be at rest, and have a face within resting.FaceDownTolerance
+// of the gravity direction.
+func (r *runner) restingFace(i int) *int {
+	w := r.w
+	id := r.ids[i]
+	if r.touching[id] == 0 {
+		return nil
+	}
+	cfg := w.Config()
+	if w.Awake(id) && (w.Velocity(id).Len() >= cfg.RestSpeed || w.Spin(id).Len() >= cfg.RestSpin) {
+		return nil
+	}
+	faces, ok := r.faces[i]
+	if !ok {
+		pose := w.ShapePose(id)
+		com := pose.ApplyInv(w.Position(id))
+		var err error
+		faces, err = resting.OfShape(w.Shape(id), com)
+		if err != nil {
+			faces = nil
+		}
+		r.faces[i] = faces
+	}
+	if len(faces) == 0 {
+		return nil
+	}
+	down := w.ShapePose(id).RotateInv(cfg.Gravity)
+	f := resting.FaceDown(faces, down)
+	if f < 0 {
+		return nil
+	}
+	return &f
+}
+
+// sample writes a trajectory row per moving body.
+func (r *runner) sample(t float64) {
+	r.lastRow = t
+	if r.traj == nil {
+		return
+	}
+	w := r.w
+	for _, i := range r.dyn {
+		id := r.ids[i]
+		p := r.u.VecFromSI(w.Position(id), scene.Length)
+		q := w.Orientation(id)
+		v := r.u.VecFromSI(w.Velocity(id), scene.Speed)
+		s := r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)
+		b := r.row[:0]
+		b = strconv.AppendFloat(b, t, 'g', sigDigits, 64)
+		b = append(b, ',')
+		b = appendCSVField(b, r.s.Bodies[i].Name)
+		for _, x := range []float64{p[0], p[1], p[2], q.W, q.V[0], q.V[1], q.V[2], v[0], v[1], v[2], s[0], s[1], s[2]} {
+			b = append(b, ',')
+			b = strconv.AppendFloat(b, x, 'g', sigDigits, 64)
+		}
+		b = append(b, '\n')
+		r.traj.Write(b)
+		r.row = b
+	}
+}
+
+// appendCSVField quotes a name that holds a comma, quote or line break
+// (RFC 4180).
+func appendCSVField(b []byte, s string) []byte {
+	needs := false
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c == ',' || c == '"' || c == '\n' || c == '\r' {
+			needs = true
+			break
+		}
+	}
+	if !needs {
+		return append(b, s...)
+	}
+	b = append(b, '"')
+	for i := 0; i < len(s); i++ {
+		if s[i] == '"' {
+			b = append(b, '"')
+		}
+		b = append(b, s[i])
+	}
+	return append(b, '"')
+}
+
+// eventJSON is one line of events.jsonl.
+type eventJSON struct {
+	Time        float64     `json:"time"`
+	Event       string      `json:"event"`
+	Body        string      `json:"body,omitempty"`
+	Bodies      []string    `json:"bodies,omitempty"`
+	Point       *[3]float64 `json:"point,omitempty"`
+	NormalSpeed *float64    `json:"normal_speed,omitempty"`
+	Impulse     *float64    `json:"impulse,omitempty"`
+	Message     string      `json:"message,omitempty"`
+}
+
+// events takes the world's events of the last step: it writes impacts,
+// sleep, wake and settling, and tracks which bodies touch.
+func (r *runner) events() {
+	w := r.w
+	for _, e := range w.Events() {
+		switch e.Kind {
+		case engine.ContactBegin, engine.ContactEnd:
+			key := [2]engine.BodyID{min(e.A, e.B), max(e.A, e.B)}
+			if e.A < 0 || e.B < 0 || int(key[1]) >= len(r.touching) {
+				continue
+			}
+			on := e.Kind == engine.ContactBegin
+			if r.pairs[key] != on {
+				r.pairs[key] = on
+				d := 1
+				if !on {
+					d = -1
+				}
+				r.touching[key[0]] += d
+				r.touching[key[1]] += d
+			}
+		case engine.Impact:
+			p := clean3(r.u.VecFromSI(e.Point, scene.Length))
+			sp := clean(r.u.FromSI(e.Speed, scene.Speed))
+			im := clean(r.u.FromSI(e.Impulse, scene.Impulse))
+			r.event(eventJSON{Time: clean(e.Time), Event: "impact", Bodies: []string{r.name(e.A), r.name(e.B)}, Point: &p, NormalSpeed: &sp, Impulse: &im})
+		case engine.Sleep, engine.Wake:
+			r.event(eventJSON{Time: clean(e.Time), Event: e.Kind.String(), Body: r.name(e.A)})
+		case engine.Settled:
+			r.event(eventJSON{Time: clean(e.Time), Event: "settled"})
+		}
+	}
+}
+
+func (r *runner) name(id engine.BodyID) string {
+	if id < 0 || int(id) >= r.w.NumBodies() {
+		return ""
+	}
+	return r.w.Name(id)
+}
+
+func (r *runner) event(e eventJSON) {
+	if r.ev == nil {
+		return
+	}
+	b, err := json.Marshal(e)
+	if err != nil {
+		return // every number is cleaned, so this does not happen
+	}
+	r.ev.Write(b)
+	r.ev.WriteByte('\n')
+}
+
+// writeAtomic writes a file through a temporary one, so that a reader never
+// sees half of it.
+func writeAtomic(path string, data []byte) error {
+	tmp := path + ".tmp"
+	if err := os.WriteFile(tmp, data, 0o644); err != nil {
+		return err
+	}
+	return os.Rename(tmp, path)
+}

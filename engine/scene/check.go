@@ -1,0 +1,176 @@
+package scene
+
+import (
+	"fmt"
+	"math"
+
+	"clatter/shapes"
+)
+
+// Limits on the time step relative to the scene's sizes and speeds. The
+// solver resolves contact once per step: a part that moves more than its
+// own thickness in one step can pass through a thin fixture or land deep
+// inside it, and a part that gravity alone moves by a sizeable fraction of
+// its thickness in one step rattles and creeps where it should rest.
+const (
+	// travelRefuse and travelWarn: the largest travel in one step, as a
+	// fraction of a body's smallest size, refused and warned of.
+	travelRefuse = 1.0
+	travelWarn   = 0.5
+	// sagRefuse and sagWarn: g step^2 (the distance gravity moves a body
+	// from rest in one step, twice over) as a fraction of its smallest size.
+	sagRefuse = 0.1
+	sagWarn   = 0.02
+	// slopSizeWarn: bodies smaller than this many times the engine's
+	// default contact slop (0.2 mm) rest visibly sunk into their supports.
+	slopSizeWarn = 5
+	defaultSlop  = 2e-4
+	// manySteps warns of a run that will take long.
+	manySteps = 2e6
+)
+
+// checkStep refuses a step the solver cannot hold for the sizes and speeds
+// of the scene, and warns of borderline ones.
+func (r *reader) checkStep() {
+	s := r.s
+	w := s.World
+	stepPath := []string{"world", "step"}
+	if _, given := r.stepGiven(); !given {
+		stepPath = nil
+	}
+	g := w.Gravity.Len()
+	up := shapes.Vec3{0, 0, 1}
+	if g > 0 {
+		up = w.Gravity.Mul(-1 / g)
+	}
+	lowest, anyStatic := math.Inf(1), false
+	for _, b := range s.Bodies {
+		if !b.Static {
+			continue
+		}
+		anyStatic = true
+		bb := b.Shape.Bounds()
+		if _, plane := b.Shape.(shapes.Plane); plane || !finite(bb.Min) || !finite(bb.Max) {
+			lowest = math.Min(lowest, up.Dot(b.Position))
+			continue
+		}
+		pose := shapes.Pose{Position: b.Position, Orientation: b.Orientation}
+		wb := bb.Transform(pose)
+		for k := 0; k < 8; k++ {
+			c := wb.Min
+			for a := 0; a < 3; a++ {
+				if k&(1<<a) != 0 {
+					c[a] = wb.Max[a]
+				}
+			}
+			lowest = math.Min(lowest, up.Dot(c))
+		}
+	}
+	kickSpeed := map[string]float64{}
+	for _, k := range s.Kicks {
+		i := s.BodyIndex(k.Body)
+		// A kick off the centre also spins the body; twice the translation
+		// speed bounds the surface speed for ordinary parts.
+		kickSpeed[k.Body] += 2 * k.Impulse.Len() / s.Bodies[i].Props.Mass
+	}
+	for _, b := range s.Bodies {
+		if b.Static {
+			continue
+		}
+		bb := b.Shape.Bounds()
+		sz := bb.Size()
+		size := math.Min(sz[0], math.Min(sz[1], sz[2]))
+		radius := sz.Len() / 2
+		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name]
+		fall := g * w.Duration
+		if anyStatic && g > 0 {
+			h := math.Max(0, up.Dot(b.Position)-lowest)
+			fall = math.Min(fall, math.Sqrt(2*g*h))
+		}
+		v := math.Sqrt(v0*v0 + fall*fall)
+		if v0+g*w.Duration < v {
+			v = v0 + g*w.Duration
+		}
+		travel := v * w.Step
+		sag := g * w.Step * w.Step
+		fix := math.Inf(1)
+		if v > 0 {
+			fix = math.Min(fix, travelWarn*size/v)
+		}
+		if g > 0 {
+			fix = math.Min(fix, math.Sqrt(sagWarn*size/g))
+		}
+		u := s.Units
+		what := fmt.Sprintf("[world] step %g s", w.Step)
+		if stepPath == nil {
+			what = fmt.Sprintf("the default step %g s", w.Step)
+		}
+		sizeText := fmt.Sprintf("%.3g %s", u.FromSI(size, Length), u.Length)
+		switch {
+		case travel > travelRefuse*size:
+			r.errAt(r.pathOr(stepPath, b), "%s is too large for body %q (smallest size %s): at the %.3g %s it can reach it would move %.3g %s in one step, more than its own size; use a step of at most %s s",
+				what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), u.FromSI(travel, Length), u.Length, roundDown(fix))
+		case sag > sagRefuse*size:
+			r.errAt(r.pathOr(stepPath, b), "%s is too large for body %q (smallest size %s): gravity alone moves it %.3g %s per step squared (g step^2), over %g of its size, so it cannot rest steadily; use a step of at most %s s",
+				what, b.Name, sizeText, u.FromSI(sag, Length), u.Length, sagRefuse, roundDown(fix))
+		case travel > travelWarn*size || sag > sagWarn*size:
+			r.warnAt(r.pathOr(stepPath, b), "%s is borderline for body %q (smallest size %s, speeds up to %.3g %s); results may be rough: a step of %s s is safer",
+				what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), roundDown(fix))
+		}
+		if size < slopSizeWarn*defaultSlop {
+			r.warnAt(r.pathOr(nil, b), "body %q is only %s thick; the solver's contact slop of 0.2 mm is a large part of it, so it will rest visibly sunk into its support", b.Name, sizeText)
+		}
+	}
+	if n := w.Duration / w.Step; n > manySteps {
+		r.warnAt(stepPath, "the run takes %.3g steps (duration %g s / step %g s); it may take a while", n, w.Duration, w.Step)
+	}
+}
+
+func (r *reader) stepGiven() (any, bool) {
+	wm, ok := r.s.raw["world"].(map[string]any)
+	if !ok {
+		return nil, false
+	}
+	v, ok := wm["step"]
+	return v, ok
+}
+
+// pathOr returns p, or the path of body b's section when p is nil.
+func (r *reader) pathOr(p []string, b Body) []string {
+	if p != nil {
+		return p
+	}
+	for i := range r.s.Bodies {
+		if r.s.Bodies[i].Name == b.Name {
+			return []string{"body", fmt.Sprint(i)}
+		}
+	}
+	return nil
+}
+
+// roundDown writes x rounded down to 1, 2 or 5 times a power of ten.
+func roundDown(x float64) string {
+	if !(x > 0) || math.IsInf(x, 0) {
+		return fmt.Sprint(x)
+	}
+	p := math.Pow(10, math.Floor(math.Log10(x)))
+	m := x / p
+	switch {
+	case m >= 5:
+		m = 5
+	case m >= 2:
+		m = 2
+	default:
+		m = 1
+	}
+	return fmt.Sprintf("%g", m*p)
+}
+
+func finite(v shapes.Vec3) bool {
+	for _, c := range v {
+		if math.IsNaN(c) || math.IsInf(c, 0) {
+			return false
+		}
+	}
+	return true
+}

@@ -1,0 +1,950 @@
+package scene
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io/fs"
+	"math"
+	"math/rand/v2"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+
+	"clatter/engine"
+	"clatter/shapes"
+	"clatter/shapes/mesh"
+
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+// Defaults of [world], chosen for parts of centimetres to decimetres.
+const (
+	DefaultStep     = 0.001 // s: resolves impacts of such parts at a few m/s
+	DefaultDuration = 5.0   // s: long enough for dropped parts to settle
+	DefaultSeed     = 1
+)
+
+// section is a table of the document with what errors need to name it.
+type section struct {
+	m    map[string]any
+	path []string // for line numbers
+	name string   // "[world]", "body \"cap\"": where unknown keys are
+	pre  string   // prefix of value errors: "[world] ", "body \"cap\": "
+}
+
+type reader struct {
+	s    *Scene
+	errs Errors
+	warn []string
+	n    int // problems found, including those past maxErrors
+}
+
+func (r *reader) errAt(path []string, format string, args ...any) {
+	r.n++
+	if len(r.errs) >= maxErrors {
+		return
+	}
+	r.errs = append(r.errs, &Error{File: r.s.File, Line: r.s.lines.line(path), Msg: fmt.Sprintf(format, args...)})
+}
+
+func (r *reader) warnAt(path []string, format string, args ...any) {
+	r.warn = append(r.warn, fmt.Sprintf("%s:%d: %s", r.s.File, r.s.lines.line(path), fmt.Sprintf(format, args...)))
+}
+
+func sub(p []string, k ...string) []string { return append(append([]string{}, p...), k...) }
+
+// keys refuses keys of sec that are not in allowed, suggesting the nearest,
+// and returns how many it refused.
+func (r *reader) keys(sec section, allowed ...string) int {
+	names := make([]string, 0, len(sec.m))
+	for k := range sec.m {
+		names = append(names, k)
+	}
+	sort.Strings(names)
+	ok := map[string]bool{}
+	for _, a := range allowed {
+		ok[a] = true
+	}
+	bad := 0
+	for _, k := range names {
+		if !ok[k] {
+			r.errAt(sub(sec.path, k), "unknown key %q in %s%s", k, sec.name, Suggest(k, allowed))
+			bad++
+		}
+	}
+	return bad
+}
+
+func typeName(v any) string {
+	switch v.(type) {
+	case string:
+		return "a string"
+	case int64:
+		return "an integer"
+	case float64:
+		return "a number"
+	case bool:
+		return "true or false"
+	case []any:
+		return "an array"
+	case map[string]any:
+		return "a table"
+	case []map[string]any:
+		return "an array of tables"
+	}
+	return fmt.Sprintf("a %T", v)
+}
+
+func show(v any) string {
+	switch t := v.(type) {
+	case string:
+		return strconv.Quote(t)
+	case []any, map[string]any, []map[string]any:
+		return typeName(v)
+	}
+	return fmt.Sprint(v)
+}
+
+// quantity converts a value of dimension d to SI: a plain number in the
+// file's units or a string with its own unit.
+func (r *reader) quantity(v any, d Dim, path []string, what string) (float64, bool) {
+	switch t := v.(type) {
+	case int64:
+		return float64(t) * r.s.Units.Plain(d), true
+	case float64:
+		if math.IsNaN(t) || math.IsInf(t, 0) {
+			r.errAt(path, "%s must be a finite number, got %v", what, t)
+			return 0, false
+		}
+		return t * r.s.Units.Plain(d), true
+	case string:
+		x, qd, err := ParseQuantity(t)
+		if err != nil {
+			r.errAt(path, "%s: %v; write a number, or a number and a unit such as %s", what, err, exampleOr(d))
+			return 0, false
+		}
+		if qd == Dimensionless {
+			return x * r.s.Units.Plain(d), true
+		}
+		if qd != d {
+			if d == Dimensionless {
+				r.errAt(path, "%s is a plain number without unit, got %q (%s)", what, t, qd)
+			} else {
+				r.errAt(path, "%s must be %s, got %q, which is %s (e.g. %s)", what, d, t, qd, d.example())
+			}
+			return 0, false
+		}
+		return x, true
+	}
+	r.errAt(path, "%s must be %s (a number or a string with a unit), got %s", what, d, show(v))
+	return 0, false
+}
+
+func exampleOr(d Dim) string {
+	if e := d.example(); e != "" && d != Dimensionless {
+		return e
+	}
+	return `"2 mm"`
+}
+
+// number reads an optional scalar of sec.
+func (r *reader) number(sec section, key string, d Dim, def float64) (float64, bool) {
+	v, ok := sec.m[key]
+	if !ok {
+		return def, false
+	}
+	x, good := r.quantity(v, d, sub(sec.path, key), sec.pre+key)
+	if !good {
+		return def, false
+	}
+	return x, true
+}
+
+// vector reads an optional 3-vector of sec.
+func (r *reader) vector(sec section, key string, d Dim, def shapes.Vec3) (shapes.Vec3, bool) {
+	v, ok := sec.m[key]
+	if !ok {
+		return def, false
+	}
+	return r.vec(v, d, sub(sec.path, key), sec.pre+key, 3)
+}
+
+// vec reads an array of n quantities.
+func (r *reader) vec(v any, d Dim, path []string, what string, n int) (shapes.Vec3, bool) {
+	a, ok := v.([]any)
+	if !ok || len(a) != n {
+		got := show(v)
+		if ok {
+			got = fmt.Sprintf("%d elements", len(a))
+		}
+		r.errAt(path, "%s must be an array of %d numbers, got %s", what, n, got)
+		return shapes.Vec3{}, false
+	}
+	var out shapes.Vec3
+	good := true
+	for i, x := range a {
+		q, ok := r.quantity(x, d, sub(path, strconv.Itoa(i)), fmt.Sprintf("%s[%d]", what, i))
+		good = good && ok
+		if i < 3 {
+			out[i] = q
+		}
+	}
+	return out, good
+}
+
+func (r *reader) str(sec section, key string) (string, bool) {
+	v, ok := sec.m[key]
+	if !ok {
+		return "", false
+	}
+	s, ok := v.(string)
+	if !ok {
+		r.errAt(sub(sec.path, key), "%s%s must be a string, got %s", sec.pre, key, show(v))
+		return "", false
+	}
+	return s, true
+}
+
+func (r *reader) boolean(sec section, key string, def bool) (bool, bool) {
+	v, ok := sec.m[key]
+	if !ok {
+		return def, false
+	}
+	b, ok := v.(bool)
+	if !ok {
+		r.errAt(sub(sec.path, key), "%s%s must be true or false, got %s", sec.pre, key, show(v))
+		return def, false
+	}
+	return b, true
+}
+
+func (r *reader) integer(sec section, key string, def int64) (int64, bool) {
+	v, ok := sec.m[key]
+	if !ok {
+		return def, false
+	}
+	i, ok := v.(int64)
+	if !ok {
+		r.errAt(sub(sec.path, key), "%s%s must be a whole number, got %s", sec.pre, key, show(v))
+		return def, false
+	}
+	return i, true
+}
+
+func (r *reader) table(parent section, key, name, pre string) (section, bool) {
+	v, ok := parent.m[key]
+	if !ok {
+		return section{}, false
+	}
+	m, ok := v.(map[string]any)
+	if !ok {
+		r.errAt(sub(parent.path, key), "%s%s must be a table, got %s", parent.pre, key, show(v))
+		return section{}, false
+	}
+	return section{m: m, path: sub(parent.path, key), name: name, pre: pre}, true
+}
+
+// read checks the decoded document and fills the scene.
+func (s *Scene) read() (*Scene, error) {
+	r := &reader{s: s}
+	s.Units = SI
+	root := section{m: s.raw, name: "the scene's top level"}
+	r.keys(root, "units", "world", "material", "pair", "body", "kick", "sweep")
+	r.units(root)
+	r.world(root)
+	r.materials(root)
+	r.pairs(root)
+	r.bodies(root)
+	r.kicks(root)
+	r.sweep(root)
+	if r.n == 0 {
+		r.checkStep()
+	}
+	s.Warnings = r.warn
+	if len(r.errs) > 0 {
+		sort.SliceStable(r.errs, func(i, j int) bool { return r.errs[i].Line < r.errs[j].Line })
+		return nil, r.errs
+	}
+	return s, nil
+}
+
+func (r *reader) units(root section) {
+	v, ok := root.m["units"]
+	if !ok {
+		return
+	}
+	m, ok := v.(map[string]any)
+	if !ok {
+		r.errAt([]string{"units"}, `units must be a table such as units = { length = "mm", mass = "g" }, got %s`, show(v))
+		return
+	}
+	sec := section{m: m, path: []string{"units"}, name: "units", pre: "units: "}
+	r.keys(sec, "length", "mass")
+	l, m0 := "m", "kg"
+	if x, ok := r.str(sec, "length"); ok {
+		if _, known := LengthUnits[x]; !known {
+			r.errAt(sub(sec.path, "length"), "units: unknown length unit %q%s", x, Suggest(x, keysOf(LengthUnits)))
+		} else {
+			l = x
+		}
+	}
+	if x, ok := r.str(sec, "mass"); ok {
+		if _, known := MassUnits[x]; !known {
+			r.errAt(sub(sec.path, "mass"), "units: unknown mass unit %q%s", x, Suggest(x, keysOf(MassUnits)))
+		} else {
+			m0 = x
+		}
+	}
+	u, err := NewUnits(l, m0)
+	if err == nil {
+		r.s.Units = u
+	}
+}
+
+func (r *reader) world(root section) {
+	w := &r.s.World
+	*w = World{
+		Gravity:      shapes.Vec3{0, 0, -engine.StandardGravity},
+		Step:         DefaultStep,
+		Duration:     DefaultDuration,
+		UntilSettled: true,
+		RestSpeed:    5e-3,
+		RestSpin:     0.05,
+		RestTime:     0.25,
+		Seed:         DefaultSeed,
+	}
+	sec, ok := r.table(root, "world", "[world]", "[world] ")
+	if !ok {
+		return
+	}
+	r.keys(sec, "gravity", "step", "duration", "until_settled", "rest_speed", "rest_spin", "rest_time", "seed")
+	w.Gravity, _ = r.vector(sec, "gravity", Acceleration, w.Gravity)
+	positive := func(key string, d Dim, v *float64) {
+		x, ok := r.number(sec, key, d, *v)
+		if !ok {
+			return
+		}
+		if !(x > 0) {
+			r.errAt(sub(sec.path, key), "[world] %s must be positive, got %s", key, show(sec.m[key]))
+			return
+		}
+		*v = x
+	}
+	positive("step", Time, &w.Step)
+	positive("duration", Time, &w.Duration)
+	positive("rest_speed", Speed, &w.RestSpeed)
+	positive("rest_spin", AngularSpeed, &w.RestSpin)
+	positive("rest_time", Time, &w.RestTime)
+	w.UntilSettled, _ = r.boolean(sec, "until_settled", true)
+	if seed, ok := r.integer(sec, "seed", DefaultSeed); ok {
+		if seed < 0 {
+			r.errAt(sub(sec.path, "seed"), "[world] seed must be a whole number >= 0, got %d", seed)
+		} else {
+			w.Seed = uint64(seed)
+		}
+	}
+	if w.Step > w.Duration {
+		r.errAt(sub(sec.path, "step"), "[world] step %g s is longer than the duration %g s", w.Step, w.Duration)
+	}
+}
+
+// coefficients reads friction, static_friction and restitution of a
+// material or pair section; missing ones are nil.
+func (r *reader) coefficients(sec section) (f, fs, e *float64) {
+	get := func(key string) *float64 {
+		x, ok := r.number(sec, key, Dimensionless, 0)
+		if !ok {
+			return nil
+		}
+		return &x
+	}
+	f, fs, e = get("friction"), get("static_friction"), get("restitution")
+	if f != nil && *f < 0 {
+		r.errAt(sub(sec.path, "friction"), "%sfriction must be >= 0, got %g", sec.pre, *f)
+		f = nil
+	}
+	if fs != nil && *fs < 0 {
+		r.errAt(sub(sec.path, "static_friction"), "%sstatic_friction must be >= 0, got %g", sec.pre, *fs)
+		fs = nil
+	}
+	if f != nil && fs != nil && *fs < *f {
+		r.errAt(sub(sec.path, "static_friction"), "%sstatic_friction %g must be at least friction %g (a contact that sticks holds at least as well as one that slides)", sec.pre, *fs, *f)
+		fs = nil
+	}
+	if e != nil && (*e < 0 || *e > 1) {
+		r.errAt(sub(sec.path, "restitution"), "%srestitution must be between 0 and 1, got %g", sec.pre, *e)
+		e = nil
+	}
+	return f, fs, e
+}
+
+func (r *reader) materials(root section) {
+	v, ok := root.m["material"]
+	if !ok {
+		return
+	}
+	all, ok := v.(map[string]any)
+	if !ok {
+		r.errAt([]string{"material"}, "material must be tables such as [material.abs], got %s", show(v))
+		return
+	}
+	names := make([]string, 0, len(all))
+	for n := range all {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		path := []string{"material", n}
+		m, ok := all[n].(map[string]any)
+		if !ok {
+			r.errAt(path, "material %q must be a table [material.%s] with friction and restitution, got %s", n, n, show(all[n]))
+			continue
+		}
+		if n == "" {
+			r.errAt(path, "a material needs a name: [material.NAME]")
+			continue
+		}
+		sec := section{m: m, path: path, name: fmt.Sprintf("[material.%s]", n), pre: fmt.Sprintf("material %q: ", n)}
+		unknown := r.keys(sec, "friction", "static_friction", "restitution")
+		f, fs, e := r.coefficients(sec)
+		mat := Material{Name: n, Line: r.s.lines.line(path)}
+		if f == nil {
+			if _, given := m["friction"]; !given && unknown == 0 {
+				r.errAt(path, "material %q: friction is missing; give the kinetic Coulomb coefficient measured for this material, e.g. friction = 0.35", n)
+			}
+		} else {
+			mat.Friction = *f
+		}
+		mat.StaticFriction = mat.Friction
+		if fs != nil {
+			mat.StaticFriction = *fs
+		}
+		if e != nil {
+			mat.Restitution = *e
+		}
+		r.s.Materials = append(r.s.Materials, mat)
+	}
+}
+
+// knownMaterial checks a material name used by a body or pair.
+func (r *reader) knownMaterial(name string, path []string, pre string) bool {
+	if r.s.MaterialIndex(name) >= 0 || name == DefaultMaterial {
+		return true
+	}
+	cands := []string{DefaultMaterial}
+	for _, m := range r.s.Materials {
+		cands = append(cands, m.Name)
+	}
+	r.errAt(path, "%sunknown material %q%s (materials are defined as [material.NAME])", pre, name, Suggest(name, cands))
+	return false
+}
+
+// DefaultMaterial names the engine's default material (friction 0.5, no
+// restitution), used by bodies that name none.
+const DefaultMaterial = "default"
+
+func arrayOfTables(v any) ([]map[string]any, bool) {
+	switch t := v.(type) {
+	case []map[string]any:
+		return t, true
+	case []any:
+		out := make([]map[string]any, len(t))
+		for i, x := range t {
+			m, ok := x.(map[string]any)
+			if !ok {
+				return nil, false
+			}
+			out[i] = m
+		}
+		return out, true
+	}
+	return nil, false
+}
+
+func (r *reader) pairs(root section) {
+	v, ok := root.m["pair"]
+	if !ok {
+		return
+	}
+	list, ok := arrayOfTables(v)
+	if !ok {
+		r.errAt([]string{"pair"}, "pair must be an array of tables: write each as [[pair]], got %s", show(v))
+		return
+	}
+	seen := map[[2]string]int{}
+	for i, m := range list {
+		path := []string{"pair", strconv.Itoa(i)}
+		sec := section{m: m, path: path, name: fmt.Sprintf("[[pair]] number %d", i+1), pre: fmt.Sprintf("[[pair]] number %d: ", i+1)}
+		r.keys(sec, "materials", "friction", "static_friction", "restitution")
+		p := Pair{Line: r.s.lines.line(path)}
+		mv, ok := m["materials"]
+		if !ok {
+			r.errAt(path, "%smaterials is missing: name the two materials, e.g. materials = [\"abs\", \"steel\"]", sec.pre)
+			continue
+		}
+		a, ok := mv.([]any)
+		var names []string
+		for _, x := range a {
+			if s, isStr := x.(string); isStr {
+				names = append(names, s)
+			}
+		}
+		if !ok || len(a) != 2 || len(names) != 2 {
+			r.errAt(sub(path, "materials"), "%smaterials must name two materials, e.g. [\"abs\", \"steel\"], got %s", sec.pre, show(mv))
+			continue
+		}
+		sec.pre = fmt.Sprintf("[[pair]] %s/%s: ", names[0], names[1])
+		good := r.knownMaterial(names[0], sub(path, "materials"), sec.pre)
+		good = r.knownMaterial(names[1], sub(path, "materials"), sec.pre) && good
+		key := [2]string{min(names[0], names[1]), max(names[0], names[1])}
+		if j, dup := seen[key]; dup {
+			r.errAt(path, "%sthis pair of materials is already given in the [[pair]] at line %d", sec.pre, r.s.Pairs[j].Line)
+			continue
+		}
+		p.A, p.B = names[0], names[1]
+		p.Friction, p.StaticFriction, p.Restitution = r.coefficients(sec)
+		if p.Friction == nil && p.StaticFriction == nil && p.Restitution == nil && len(m) == 1 {
+			r.errAt(path, "%sgive at least one of friction, static_friction and restitution", sec.pre)
+		}
+		if good {
+			seen[key] = len(r.s.Pairs)
+			r.s.Pairs = append(r.s.Pairs, p)
+		}
+	}
+}
+
+var shapeKinds = []string{"box", "sphere", "cylinder", "capsule", "plane", "mesh"}
+
+func (r *reader) bodies(root section) {
+	v, ok := root.m["body"]
+	if !ok {
+		r.errAt(nil, "the scene has no bodies: add at least one [[body]] section")
+		return
+	}
+	list, ok := arrayOfTables(v)
+	if !ok {
+		r.errAt([]string{"body"}, "body must be an array of tables: write each as [[body]], got %s", show(v))
+		return
+	}
+	names := map[string]int{}
+	dynamic := 0
+	for i, m := range list {
+		b, ok := r.body(i, m)
+		if !ok {
+			continue
+		}
+		if j, dup := names[b.Name]; dup {
+			r.errAt([]string{"body", strconv.Itoa(i), "name"}, "body %q: the name is already used by the body at line %d; names must be unique", b.Name, r.s.Bodies[j].Line)
+			continue
+		}
+		names[b.Name] = len(r.s.Bodies)
+		if !b.Static {
+			dynamic++
+		}
+		r.s.Bodies = append(r.s.Bodies, b)
+	}
+	if dynamic == 0 && r.n == 0 {
+		r.errAt([]string{"body"}, "the scene has no moving body: every body is static; give one a density or mass and leave out static = true")
+	}
+}
+
+func (r *reader) body(i int, m map[string]any) (Body, bool) {
+	path := []string{"body", strconv.Itoa(i)}
+	sec := section{m: m, path: path, name: fmt.Sprintf("[[body]] number %d", i+1), pre: fmt.Sprintf("[[body]] number %d: ", i+1)}
+	b := Body{Line: r.s.lines.line(path), Orientation: mgl64.QuatIdent()}
+	name, ok := r.str(sec, "name")
+	if !ok || strings.TrimSpace(name) == "" {
+		if _, given := m["name"]; !given || ok {
+			r.errAt(path, "%sname is missing: every body needs a unique name = \"...\"", sec.pre)
+		}
+		return b, false
+	}
+	b.Name = name
+	sec.name = fmt.Sprintf("body %q", name)
+	sec.pre = fmt.Sprintf("body %q: ", name)
+	nerr := r.n
+	r.keys(sec, "name", "shape", "static", "material", "density", "mass", "position", "orientation", "velocity", "spin")
+
+	static, staticGiven := r.boolean(sec, "static", false)
+	b.Static = static
+	if mat, ok := r.str(sec, "material"); ok {
+		if r.knownMaterial(mat, sub(path, "material"), sec.pre) {
+			b.Material = mat
+		}
+	}
+	b.Position, _ = r.vector(sec, "position", Length, shapes.Vec3{})
+	b.Velocity, _ = r.vector(sec, "velocity", Speed, shapes.Vec3{})
+	b.Spin, _ = r.vector(sec, "spin", AngularSpeed, shapes.Vec3{})
+	r.orientation(sec, &b, i)
+
+	shapeSec, ok := r.table(sec, "shape", fmt.Sprintf("the shape of body %q", name), sec.pre+"shape ")
+	if !ok {
+		if _, given := m["shape"]; !given {
+			r.errAt(path, "%sshape is missing: give one of shape = { box = [x, y, z] }, { sphere = r }, { cylinder = [r, length] }, { capsule = [r, length] }, { plane = [nx, ny, nz] }, { mesh = \"part.stl\" }", sec.pre)
+		}
+		return b, false
+	}
+	r.shape(shapeSec, &b, staticGiven)
+
+	density, hasDensity := r.number(sec, "density", Density, 0)
+	mass, hasMass := r.number(sec, "mass", Mass, 0)
+	_, densityGiven := m["density"]
+	_, massGiven := m["mass"]
+	if b.Static {
+		why := "remove it, or leave out static = true"
+		if !static {
+			why = "remove it (planes and meshes kept as triangles are always static)"
+		}
+		for _, k := range []string{"density", "mass", "velocity", "spin"} {
+			if _, given := m[k]; given {
+				r.errAt(sub(path, k), "%sa static body does not move, so it takes no %s; %s", sec.pre, k, why)
+			}
+		}
+	} else {
+		switch {
+		case densityGiven && massGiven:
+			r.errAt(sub(path, "mass"), "%sgive either density or mass, not both", sec.pre)
+		case !densityGiven && !massGiven:
+			r.errAt(path, "%sa moving body needs a density (e.g. density = \"1.05 g/cm3\") or a mass; or set static = true", sec.pre)
+		case hasDensity && !(density > 0):
+			r.errAt(sub(path, "density"), "%sdensity must be positive, got %s", sec.pre, show(m["density"]))
+		case hasMass && !(mass > 0):
+			r.errAt(sub(path, "mass"), "%smass must be positive, got %s", sec.pre, show(m["mass"]))
+		case hasDensity:
+			b.Density = density
+		case hasMass:
+			b.Mass = mass
+		}
+	}
+	if r.n > nerr || b.Shape == nil {
+		return b, false
+	}
+	if !b.Static {
+		r.massProps(&b, sub(path, "shape"), sec.pre)
+	}
+	return b, r.n == nerr
+}
+
+// massProps fills b.Props for a dynamic body.
+func (r *reader) massProps(b *Body, path []string, pre string) {
+	var unit shapes.Mass // at density 1
+	switch {
+	case b.Part != nil:
+		unit = b.Part.Mass(1)
+	default:
+		c, ok := b.Shape.(shapes.Convex)
+		if !ok {
+			r.errAt(path, "%sthis shape cannot move", pre)
+			return
+		}
+		unit = c.Mass(1)
+	}
+	if !(unit.Volume > 0) || math.IsInf(unit.Volume, 0) {
+		r.errAt(path, "%sthe shape has no volume, so it has no mass", pre)
+		return
+	}
+	if b.Density > 0 {
+		b.Props = unit.Scaled(b.Density)
+	} else {
+		b.Props = unit.WithMass(b.Mass)
+	}
+	if !(b.Props.Mass > 0) || math.IsInf(b.Props.Mass, 0) {
+		r.errAt(path, "%smass must be positive and finite, got %g kg", pre, b.Props.Mass)
+	}
+}
+
+func (r *reader) orientation(sec section, b *Body, index int) {
+	v, ok := sec.m["orientation"]
+	if !ok {
+		return
+	}
+	path := sub(sec.path, "orientation")
+	if s, isStr := v.(string); isStr {
+		if s != "random" {
+			r.errAt(path, "%sorientation must be \"random\" or a table { axis = [x, y, z], angle = degrees }, got %q", sec.pre, s)
+			return
+		}
+		b.RandomOrientation = true
+		rng := rand.New(rand.NewPCG(r.s.World.Seed, uint64(index)))
+		b.Orientation = RandomOrientation(rng)
+		return
+	}
+	m, isMap := v.(map[string]any)
+	if !isMap {
+		r.errAt(path, "%sorientation must be \"random\" or a table { axis = [x, y, z], angle = degrees }, got %s", sec.pre, show(v))
+		return
+	}
+	osec := section{m: m, path: path, name: fmt.Sprintf("the orientation of body %q", b.Name), pre: sec.pre + "orientation "}
+	r.keys(osec, "axis", "angle", "quaternion")
+	if qv, has := m["quaternion"]; has {
+		if _, a := m["axis"]; a {
+			r.errAt(path, "%sorientation: give either quaternion or axis and angle, not both", sec.pre)
+			return
+		}
+		if _, a := m["angle"]; a {
+			r.errAt(path, "%sorientation: give either quaternion or axis and angle, not both", sec.pre)
+			return
+		}
+		a, isArr := qv.([]any)
+		if !isArr || len(a) != 4 {
+			r.errAt(sub(path, "quaternion"), "%sorientation quaternion must be [w, x, y, z], got %s", sec.pre, show(qv))
+			return
+		}
+		var q [4]float64
+		for i, x := range a {
+			f, ok := r.quantity(x, Dimensionless, sub(path, "quaternion", strconv.Itoa(i)), sec.pre+"orientation quaternion")
+			if !ok {
+				return
+			}
+			q[i] = f
+		}
+		quat := mgl64.Quat{W: q[0], V: mgl64.Vec3{q[1], q[2], q[3]}}
+		if l := quat.Len(); !(l > 1e-9) {
+			r.errAt(sub(path, "quaternion"), "%sorientation quaternion must not be zero", sec.pre)
+			return
+		}
+		b.Orientation = quat.Normalize()
+		return
+	}
+	axis, okA := r.vector(osec, "axis", Dimensionless, shapes.Vec3{})
+	angle, okN := r.number(osec, "angle", Angle, 0)
+	_, axisGiven := m["axis"]
+	_, angleGiven := m["angle"]
+	if !axisGiven || !angleGiven {
+		r.errAt(path, "%sorientation needs both axis = [x, y, z] and angle = degrees", sec.pre)
+		return
+	}
+	if !okA || !okN {
+		return
+	}
+	if !(axis.Len() > 1e-12) {
+		r.errAt(sub(path, "axis"), "%sorientation axis must not be zero", sec.pre)
+		return
+	}
+	b.Orientation = mgl64.QuatRotate(angle, axis.Normalize())
+}
+
+// RandomOrientation draws a rotation uniformly from all rotations
+// (K. Shoemake, "Uniform random rotations", Graphics Gems III, 1992).
+func RandomOrientation(rng *rand.Rand) shapes.Quat {
+	u1, u2, u3 := rng.Float64(), rng.Float64(), rng.Float64()
+	a, b := math.Sqrt(1-u1), math.Sqrt(u1)
+	t1, t2 := 2*math.Pi*u2, 2*math.Pi*u3
+	return mgl64.Quat{W: b * math.Cos(t2), V: mgl64.Vec3{a * math.Sin(t1), a * math.Cos(t1), b * math.Sin(t2)}}
+}
+
+func (r *reader) shape(sec section, b *Body, staticGiven bool) {
+	unknown := r.keys(sec, append(append([]string{}, shapeKinds...), "as", "units")...)
+	var kinds []string
+	for _, k := range shapeKinds {
+		if _, ok := sec.m[k]; ok {
+			kinds = append(kinds, k)
+		}
+	}
+	if len(kinds) != 1 {
+		if len(kinds) == 0 && unknown > 0 {
+			return // an unknown key was already reported
+		}
+		r.errAt(sec.path, "%sshape must have exactly one of box, sphere, cylinder, capsule, plane and mesh, got %d", r.bodyPre(b), len(kinds))
+		return
+	}
+	k := kinds[0]
+	b.Kind = k
+	pre := r.bodyPre(b)
+	kpath := sub(sec.path, k)
+	if k != "mesh" {
+		for _, extra := range []string{"as", "units"} {
+			if _, ok := sec.m[extra]; ok {
+				r.errAt(sub(sec.path, extra), "%sshape key %q belongs to a mesh shape only", pre, extra)
+			}
+		}
+	}
+	positive := func(x float64, what string) bool {
+		if !(x > 0) {
+			r.errAt(kpath, "%s%s must be positive, got %g %s", pre, what, r.s.Units.FromSI(x, Length), r.s.Units.Length)
+			return false
+		}
+		return true
+	}
+	switch k {
+	case "box":
+		e, ok := r.vec(sec.m[k], Length, kpath, pre+"box", 3)
+		if ok && positive(e[0], "box x edge") && positive(e[1], "box y edge") && positive(e[2], "box z edge") {
+			b.Shape = shapes.Box{Half: e.Mul(0.5)}
+		}
+	case "sphere":
+		rad, ok := r.quantity(sec.m[k], Length, kpath, pre+"sphere radius")
+		if ok && positive(rad, "sphere radius") {
+			b.Shape = shapes.Sphere{Radius: rad}
+		}
+	case "cylinder", "capsule":
+		v, ok := r.vec2(sec.m[k], kpath, pre+k+" [radius, length]")
+		if !ok || !positive(v[0], k+" radius") {
+			return
+		}
+		if k == "cylinder" {
+			if positive(v[1], "cylinder length") {
+				b.Shape = shapes.Cylinder{Radius: v[0], HalfLength: v[1] / 2}
+			}
+		} else if v[1] < 0 {
+			r.errAt(kpath, "%scapsule length must be >= 0, got %g %s", pre, r.s.Units.FromSI(v[1], Length), r.s.Units.Length)
+		} else {
+			b.Shape = shapes.Capsule{Radius: v[0], HalfLength: v[1] / 2}
+		}
+	case "plane":
+		n, ok := r.vec(sec.m[k], Dimensionless, kpath, pre+"plane normal", 3)
+		if !ok {
+			return
+		}
+		if !(n.Len() > 1e-12) {
+			r.errAt(kpath, "%splane normal must not be zero", pre)
+			return
+		}
+		r.mustBeStatic(b, staticGiven, kpath, "a plane")
+		b.Shape = shapes.Plane{Normal: n.Normalize()}
+	case "mesh":
+		r.meshShape(sec, b, staticGiven)
+	}
+}
+
+func (r *reader) bodyPre(b *Body) string { return fmt.Sprintf("body %q: ", b.Name) }
+
+func (r *reader) vec2(v any, path []string, what string) ([2]float64, bool) {
+	a, ok := v.([]any)
+	if !ok || len(a) != 2 {
+		r.errAt(path, "%s must be an array of 2 numbers, got %s", what, show(v))
+		return [2]float64{}, false
+	}
+	var out [2]float64
+	for i, x := range a {
+		q, ok := r.quantity(x, Length, sub(path, strconv.Itoa(i)), fmt.Sprintf("%s[%d]", what, i))
+		if !ok {
+			return out, false
+		}
+		out[i] = q
+	}
+	return out, true
+}
+
+func (r *reader) mustBeStatic(b *Body, staticGiven bool, path []string, what string) {
+	if staticGiven && !b.Static {
+		r.errAt(path, "%s%s is always static; remove static = false (a moving part needs a convex shape or a mesh kept as its hull)", r.bodyPre(b), what)
+	}
+	b.Static = true
+}
+
+func (r *reader) meshShape(sec section, b *Body, staticGiven bool) {
+	pre := r.bodyPre(b)
+	file, ok := r.str(sec, "mesh")
+	if !ok {
+		return
+	}
+	if strings.TrimSpace(file) == "" {
+		r.errAt(sub(sec.path, "mesh"), "%smesh must name an STL file", pre)
+		return
+	}
+	as, asGiven := r.str(sec, "as")
+	if asGiven && as != "hull" && as != "triangles" {
+		r.errAt(sub(sec.path, "as"), "%sshape as must be \"hull\" (the default: its convex hull, for moving parts) or \"triangles\" (a static fixture kept as its triangles), got %q%s", pre, as, Suggest(as, []string{"hull", "triangles"}))
+		return
+	}
+	unit := mesh.Unit(r.s.Units.L)
+	if us, ok := r.str(sec, "units"); ok {
+		u, known := LengthUnits[us]
+		if !known {
+			r.errAt(sub(sec.path, "units"), "%sunknown mesh length unit %q%s", pre, us, Suggest(us, keysOf(LengthUnits)))
+			return
+		}
+		unit = mesh.Unit(u)
+	}
+	p, data, err := r.s.readFile(file)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			if abs, aerr := filepath.Abs(p); aerr == nil && r.s.opt.FS == nil {
+				p = abs
+			}
+			r.errAt(sub(sec.path, "mesh"), "%smesh file %q not found (looked for %s; paths are relative to the scene file)", pre, file, p)
+		} else {
+			r.errAt(sub(sec.path, "mesh"), "%scannot read mesh file %q: %v", pre, file, unwrapPath(err))
+		}
+		return
+	}
+	m, err := mesh.ReadSTL(bytes.NewReader(data), file, unit)
+	if err != nil {
+		r.errAt(sub(sec.path, "mesh"), "%s%v", pre, err)
+		return
+	}
+	b.MeshFile = p
+	if as == "triangles" {
+		r.mustBeStatic(b, staticGiven, sub(sec.path, "as"), "a mesh kept as triangles")
+		b.Triangles = true
+		b.Shape = m.TriMesh()
+		return
+	}
+	part, err := mesh.NewPart(m)
+	if err != nil {
+		r.errAt(sub(sec.path, "mesh"), "%s%v", pre, err)
+		return
+	}
+	for _, w := range part.Warnings {
+		r.warnAt(sub(sec.path, "mesh"), "%s%s", pre, w)
+	}
+	b.Part = part
+	b.Shape = part.Hull
+}
+
+func (r *reader) kicks(root section) {
+	v, ok := root.m["kick"]
+	if !ok {
+		return
+	}
+	list, ok := arrayOfTables(v)
+	if !ok {
+		r.errAt([]string{"kick"}, "kick must be an array of tables: write each as [[kick]], got %s", show(v))
+		return
+	}
+	for i, m := range list {
+		path := []string{"kick", strconv.Itoa(i)}
+		sec := section{m: m, path: path, name: fmt.Sprintf("[[kick]] number %d", i+1), pre: fmt.Sprintf("[[kick]] number %d: ", i+1)}
+		r.keys(sec, "body", "time", "impulse", "at")
+		k := Kick{Line: r.s.lines.line(path), AtCenter: true}
+		name, ok := r.str(sec, "body")
+		if !ok {
+			if _, given := m["body"]; !given {
+				r.errAt(path, "%sbody is missing: name the body to kick", sec.pre)
+			}
+			continue
+		}
+		sec.pre = fmt.Sprintf("kick on %q: ", name)
+		bi := r.s.BodyIndex(name)
+		switch {
+		case bi < 0:
+			var cands []string
+			for _, b := range r.s.Bodies {
+				cands = append(cands, b.Name)
+			}
+			r.errAt(sub(path, "body"), "%sno body is named %q%s", sec.pre, name, Suggest(name, cands))
+			continue
+		case r.s.Bodies[bi].Static:
+			r.errAt(sub(path, "body"), "%sbody %q is static; only moving bodies can be kicked", sec.pre, name)
+			continue
+		}
+		k.Body = name
+		t, _ := r.number(sec, "time", Time, 0)
+		if t < 0 {
+			r.errAt(sub(path, "time"), "%stime must be >= 0, got %g s", sec.pre, t)
+		}
+		k.Time = t
+		if _, given := m["impulse"]; !given {
+			r.errAt(path, "%simpulse is missing: give impulse = [x, y, z] (mass x length / s, world frame)", sec.pre)
+			continue
+		}
+		k.Impulse, _ = r.vector(sec, "impulse", Impulse, shapes.Vec3{})
+		if at, given := r.vector(sec, "at", Length, shapes.Vec3{}); given {
+			k.At, k.AtCenter = at, false
+		}
+		r.s.Kicks = append(r.s.Kicks, k)
+	}
+}

@@ -1,0 +1,342 @@
+package scene
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"clatter/shapes"
+)
+
+// Sweep is the [sweep] section: a study of many trials. It is read and
+// checked here; `clatter run` ignores it.
+type Sweep struct {
+	Trials int
+	Seed   uint64
+	// Vary lists the varied keys; every combination of their values is a case.
+	Vary []Vary
+	// RandomOrientation names the bodies whose starting orientation is drawn
+	// per trial; Jitter the bodies whose position is jittered.
+	RandomOrientation []string
+	Jitter            []Jitter
+	Line              int
+}
+
+// Vary is one [[sweep.vary]]: a numeric key of the scene by its dotted path
+// and the values it takes, plain numbers in the file's units.
+type Vary struct {
+	Key    string
+	Values []float64
+	Line   int
+}
+
+// Jitter is a uniform jitter of +- Amount (m, per world axis) around a
+// body's position.
+type Jitter struct {
+	Body   string
+	Amount shapes.Vec3
+}
+
+// Cases is the number of combinations of the varied values.
+func (s *Sweep) Cases() int {
+	n := 1
+	for _, v := range s.Vary {
+		n *= len(v.Values)
+	}
+	return n
+}
+
+// maxSweepValues bounds the values of one varied key, and maxTrials the
+// trials of a case: beyond them a study is more likely a typing slip than
+// an intention.
+const (
+	maxSweepValues = 10000
+	maxTrials      = 10000000
+)
+
+func (r *reader) sweep(root section) {
+	sec, ok := r.table(root, "sweep", "[sweep]", "[sweep] ")
+	if !ok {
+		return
+	}
+	r.keys(sec, "trials", "seed", "vary", "randomize")
+	sw := &Sweep{Trials: 1, Seed: DefaultSeed, Line: r.s.lines.line(sec.path)}
+	if t, ok := r.integer(sec, "trials", 1); ok {
+		if t < 1 || t > maxTrials {
+			r.errAt(sub(sec.path, "trials"), "[sweep] trials must be between 1 and %d, got %d", maxTrials, t)
+		} else {
+			sw.Trials = int(t)
+		}
+	}
+	if seed, ok := r.integer(sec, "seed", DefaultSeed); ok {
+		if seed < 0 {
+			r.errAt(sub(sec.path, "seed"), "[sweep] seed must be a whole number >= 0, got %d", seed)
+		} else {
+			sw.Seed = uint64(seed)
+		}
+	}
+	if v, ok := sec.m["vary"]; ok {
+		list, ok := arrayOfTables(v)
+		if !ok {
+			r.errAt(sub(sec.path, "vary"), "[sweep] vary must be an array of tables: write each as [[sweep.vary]], got %s", show(v))
+		}
+		seen := map[string]bool{}
+		for i, m := range list {
+			if vr, ok := r.vary(sub(sec.path, "vary", strconv.Itoa(i)), m, i); ok {
+				if seen[vr.Key] {
+					r.errAt(sub(sec.path, "vary", strconv.Itoa(i)), "[[sweep.vary]] key %q is varied twice", vr.Key)
+					continue
+				}
+				seen[vr.Key] = true
+				sw.Vary = append(sw.Vary, vr)
+			}
+		}
+	}
+	if rs, ok := r.table(sec, "randomize", "[sweep.randomize]", "[sweep.randomize] "); ok {
+		r.keys(rs, "orientation", "position")
+		if v, ok := rs.m["orientation"]; ok {
+			a, isArr := v.([]any)
+			if !isArr {
+				r.errAt(sub(rs.path, "orientation"), "[sweep.randomize] orientation must list body names, e.g. [\"cap\"], got %s", show(v))
+			}
+			for i, x := range a {
+				p := sub(rs.path, "orientation", strconv.Itoa(i))
+				name, isStr := x.(string)
+				if !isStr {
+					r.errAt(p, "[sweep.randomize] orientation must list body names, got %s", show(x))
+					continue
+				}
+				if r.movingBody(name, p, "[sweep.randomize] orientation: ") {
+					sw.RandomOrientation = append(sw.RandomOrientation, name)
+				}
+			}
+		}
+		if v, ok := rs.m["position"]; ok {
+			m, isMap := v.(map[string]any)
+			if !isMap {
+				r.errAt(sub(rs.path, "position"), "[sweep.randomize] position must be a table of body = [dx, dy, dz], got %s", show(v))
+			}
+			names := make([]string, 0, len(m))
+			for n := range m {
+				names = append(names, n)
+			}
+			sort.Strings(names)
+			for _, n := range names {
+				p := sub(rs.path, "position", n)
+				if !r.movingBody(n, p, "[sweep.randomize] position: ") {
+					continue
+				}
+				amt, ok := r.vec(m[n], Length, p, fmt.Sprintf("[sweep.randomize] position of %q", n), 3)
+				if !ok {
+					continue
+				}
+				if amt[0] < 0 || amt[1] < 0 || amt[2] < 0 {
+					r.errAt(p, "[sweep.randomize] position of %q: jitter amounts must be >= 0", n)
+					continue
+				}
+				sw.Jitter = append(sw.Jitter, Jitter{Body: n, Amount: amt})
+			}
+		}
+	}
+	r.s.Sweep = sw
+}
+
+func (r *reader) movingBody(name string, path []string, pre string) bool {
+	i := r.s.BodyIndex(name)
+	if i < 0 {
+		var cands []string
+		for _, b := range r.s.Bodies {
+			cands = append(cands, b.Name)
+		}
+		r.errAt(path, "%sno body is named %q%s", pre, name, Suggest(name, cands))
+		return false
+	}
+	if r.s.Bodies[i].Static {
+		r.errAt(path, "%sbody %q is static and cannot be randomized", pre, name)
+		return false
+	}
+	return true
+}
+
+func (r *reader) vary(path []string, m map[string]any, i int) (Vary, bool) {
+	sec := section{m: m, path: path, name: fmt.Sprintf("[[sweep.vary]] number %d", i+1), pre: fmt.Sprintf("[[sweep.vary]] number %d: ", i+1)}
+	r.keys(sec, "key", "values", "from", "to", "count", "log")
+	vr := Vary{Line: r.s.lines.line(path)}
+	key, ok := r.str(sec, "key")
+	if !ok {
+		if _, given := m["key"]; !given {
+			r.errAt(path, "%skey is missing: name a numeric key of the scene, e.g. key = \"material.abs.friction\"", sec.pre)
+		}
+		return vr, false
+	}
+	sec.pre = fmt.Sprintf("[[sweep.vary]] %q: ", key)
+	if _, err := resolveKey(r.s.raw, key); err != nil {
+		r.errAt(sub(path, "key"), "%s%v", sec.pre, err)
+		return vr, false
+	}
+	vr.Key = key
+	nerr := r.n
+	_, hasValues := m["values"]
+	_, hasFrom := m["from"]
+	_, hasTo := m["to"]
+	_, hasCount := m["count"]
+	_, hasLog := m["log"]
+	switch {
+	case hasValues && (hasFrom || hasTo || hasCount || hasLog):
+		r.errAt(path, "%sgive either values or from, to and count, not both", sec.pre)
+	case hasValues:
+		a, isArr := m["values"].([]any)
+		if !isArr || len(a) == 0 {
+			r.errAt(sub(path, "values"), "%svalues must be a non-empty array of numbers, got %s", sec.pre, show(m["values"]))
+			break
+		}
+		if len(a) > maxSweepValues {
+			r.errAt(sub(path, "values"), "%sat most %d values, got %d", sec.pre, maxSweepValues, len(a))
+			break
+		}
+		for j, x := range a {
+			f, ok := plainNumber(x)
+			if !ok {
+				r.errAt(sub(path, "values", strconv.Itoa(j)), "%svalues must be plain finite numbers in the file's units, got %s", sec.pre, show(x))
+				continue
+			}
+			vr.Values = append(vr.Values, f)
+		}
+	case hasFrom && hasTo && hasCount:
+		from, ok1 := plainNumber(m["from"])
+		to, ok2 := plainNumber(m["to"])
+		count, ok3 := m["count"].(int64)
+		logScale, _ := r.boolean(sec, "log", false)
+		switch {
+		case !ok1 || !ok2:
+			r.errAt(path, "%sfrom and to must be plain finite numbers in the file's units", sec.pre)
+		case !ok3 || count < 2 || count > maxSweepValues:
+			r.errAt(sub(path, "count"), "%scount must be a whole number from 2 to %d, got %s", sec.pre, maxSweepValues, show(m["count"]))
+		case logScale && (from <= 0 || to <= 0):
+			r.errAt(path, "%sa geometric series (log = true) needs from and to above 0, got %g and %g", sec.pre, from, to)
+		default:
+			for j := int64(0); j < count; j++ {
+				f := float64(j) / float64(count-1)
+				if logScale {
+					vr.Values = append(vr.Values, from*math.Pow(to/from, f))
+				} else {
+					vr.Values = append(vr.Values, from+(to-from)*f)
+				}
+			}
+		}
+	default:
+		r.errAt(path, "%sgive values = [...] or from, to and count", sec.pre)
+	}
+	return vr, r.n == nerr
+}
+
+func plainNumber(v any) (float64, bool) {
+	switch t := v.(type) {
+	case int64:
+		return float64(t), true
+	case float64:
+		return t, !math.IsNaN(t) && !math.IsInf(t, 0)
+	}
+	return 0, false
+}
+
+// keyRef is a resolved numeric key of a document: a slot to set.
+type keyRef struct {
+	set func(v float64)
+}
+
+// resolveKey finds the numeric value at a dotted path of the document:
+// "world.step", "material.abs.friction", "body.cap.position.2" (bodies by
+// name), "kick.0.time" and "pair.0.friction" (by index from 0); array
+// elements by index.
+func resolveKey(raw map[string]any, key string) (keyRef, error) {
+	seg := strings.Split(key, ".")
+	if key == "" || len(seg) < 2 {
+		return keyRef{}, fmt.Errorf("key %q must be a dotted path such as \"material.abs.friction\" or \"body.cap.position.2\"", key)
+	}
+	var cur any = raw
+	var setParent func(v any)
+	walked := []string{}
+	for i := 0; i < len(seg); i++ {
+		s := seg[i]
+		switch t := cur.(type) {
+		case map[string]any:
+			next, ok := t[s]
+			if !ok {
+				cands := make([]string, 0, len(t))
+				for k := range t {
+					cands = append(cands, k)
+				}
+				sort.Strings(cands)
+				return keyRef{}, fmt.Errorf("key %q: %q has no %q%s", key, strings.Join(walked, "."), s, Suggest(s, cands))
+			}
+			m := t
+			k := s
+			setParent = func(v any) { m[k] = v }
+			cur = next
+		case []map[string]any:
+			idx := -1
+			if len(walked) == 1 && walked[0] == "body" {
+				for j, b := range t {
+					if n, _ := b["name"].(string); n == s {
+						idx = j
+					}
+				}
+				if idx < 0 {
+					var cands []string
+					for _, b := range t {
+						if n, ok := b["name"].(string); ok {
+							cands = append(cands, n)
+						}
+					}
+					return keyRef{}, fmt.Errorf("key %q: no body is named %q%s", key, s, Suggest(s, cands))
+				}
+			} else {
+				j, err := strconv.Atoi(s)
+				if err != nil || j < 0 || j >= len(t) {
+					return keyRef{}, fmt.Errorf("key %q: %q is not an index from 0 to %d", key, s, len(t)-1)
+				}
+				idx = j
+			}
+			cur = t[idx]
+			setParent = nil
+		case []any:
+			j, err := strconv.Atoi(s)
+			if err != nil || j < 0 || j >= len(t) {
+				return keyRef{}, fmt.Errorf("key %q: %q is not an index from 0 to %d", key, s, len(t)-1)
+			}
+			a := t
+			setParent = func(v any) { a[j] = v }
+			cur = t[j]
+		default:
+			return keyRef{}, fmt.Errorf("key %q: %q is a value, not a table or array", key, strings.Join(walked, "."))
+		}
+		walked = append(walked, s)
+	}
+	switch v := cur.(type) {
+	case int64, float64:
+	case string:
+		if _, _, err := ParseQuantity(v); err != nil {
+			return keyRef{}, fmt.Errorf("key %q is %q, not a number", key, v)
+		}
+	default:
+		return keyRef{}, fmt.Errorf("key %q is %s, not a number; name one element, e.g. %q", key, typeName(v), key+".0")
+	}
+	if setParent == nil {
+		return keyRef{}, fmt.Errorf("key %q is not a number", key)
+	}
+	if _, isInt := cur.(int64); isInt {
+		// Whole-number keys (a seed) stay whole numbers.
+		set := setParent
+		return keyRef{set: func(v float64) {
+			if v == math.Trunc(v) && math.Abs(v) < 1<<53 {
+				set(int64(v))
+				return
+			}
+			set(v)
+		}}, nil
+	}
+	return keyRef{set: func(v float64) { setParent(v) }}, nil
+}
