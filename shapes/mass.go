@@ -132,36 +132,51 @@ func PolyhedronMass(verts []Vec3, tris [][3]int32, density float64) (Mass, error
 		m4 = 1.0 / 120
 	)
 	var intg [10]float64 // 1, x, y, z, x2, y2, z2, xy, yz, zx
-	sub := func(w0, w1, w2 float64) (f1, f2, f3, g0, g1, g2 float64) {
-		t0 := w0 + w1
-		f1 = t0 + w2
-		t1 := w0 * w0
-		t2 := t1 + w1*t0
-		f2 = t2 + w2*f1
-		f3 = w0*t1 + w1*t2 + w2*f2
-		g0 = f2 + w0*(f1+w0)
-		g1 = f2 + w1*(f1+w1)
-		g2 = f2 + w2*(f1+w2)
-		return
-	}
+	nv := len(verts)
 	for _, t := range tris {
-		p0, p1, p2 := verts[t[0]].Sub(o), verts[t[1]].Sub(o), verts[t[2]].Sub(o)
-		a := p1.Sub(p0)
-		b := p2.Sub(p0)
-		d := a.Cross(b)
-		f1x, f2x, f3x, g0x, g1x, g2x := sub(p0[0], p1[0], p2[0])
-		_, f2y, f3y, g0y, g1y, g2y := sub(p0[1], p1[1], p2[1])
-		_, f2z, f3z, g0z, g1z, g2z := sub(p0[2], p1[2], p2[2])
-		intg[0] += d[0] * f1x
-		intg[1] += d[0] * f2x
-		intg[2] += d[1] * f2y
-		intg[3] += d[2] * f2z
-		intg[4] += d[0] * f3x
-		intg[5] += d[1] * f3y
-		intg[6] += d[2] * f3z
-		intg[7] += d[0] * (p0[1]*g0x + p1[1]*g1x + p2[1]*g2x)
-		intg[8] += d[1] * (p0[2]*g0y + p1[2]*g1y + p2[2]*g2y)
-		intg[9] += d[2] * (p0[0]*g0z + p1[0]*g1z + p2[0]*g2z)
+		if int(t[0]) >= nv || int(t[1]) >= nv || int(t[2]) >= nv || t[0] < 0 || t[1] < 0 || t[2] < 0 {
+			return Mass{}, fmt.Errorf("shapes: triangle %v indexes past the %d vertices", t, nv)
+		}
+		v0, v1, v2 := &verts[t[0]], &verts[t[1]], &verts[t[2]]
+		x0, y0, z0 := v0[0]-o[0], v0[1]-o[1], v0[2]-o[2]
+		x1, y1, z1 := v1[0]-o[0], v1[1]-o[1], v1[2]-o[2]
+		x2, y2, z2 := v2[0]-o[0], v2[1]-o[1], v2[2]-o[2]
+		// Edge cross product: the (unnormalised) outward normal.
+		ax, ay, az := x1-x0, y1-y0, z1-z0
+		bx, by, bz := x2-x0, y2-y0, z2-z0
+		dx, dy, dz := ay*bz-az*by, az*bx-ax*bz, ax*by-ay*bx
+		// Eberly's subexpressions, written out per axis.
+		t0 := x0 + x1
+		f1x := t0 + x2
+		t1 := x0 * x0
+		t2 := t1 + x1*t0
+		f2x := t2 + x2*f1x
+		f3x := x0*t1 + x1*t2 + x2*f2x
+		g0x, g1x, g2x := f2x+x0*(f1x+x0), f2x+x1*(f1x+x1), f2x+x2*(f1x+x2)
+		t0 = y0 + y1
+		f1y := t0 + y2
+		t1 = y0 * y0
+		t2 = t1 + y1*t0
+		f2y := t2 + y2*f1y
+		f3y := y0*t1 + y1*t2 + y2*f2y
+		g0y, g1y, g2y := f2y+y0*(f1y+y0), f2y+y1*(f1y+y1), f2y+y2*(f1y+y2)
+		t0 = z0 + z1
+		f1z := t0 + z2
+		t1 = z0 * z0
+		t2 = t1 + z1*t0
+		f2z := t2 + z2*f1z
+		f3z := z0*t1 + z1*t2 + z2*f2z
+		g0z, g1z, g2z := f2z+z0*(f1z+z0), f2z+z1*(f1z+z1), f2z+z2*(f1z+z2)
+		intg[0] += dx * f1x
+		intg[1] += dx * f2x
+		intg[2] += dy * f2y
+		intg[3] += dz * f2z
+		intg[4] += dx * f3x
+		intg[5] += dy * f3y
+		intg[6] += dz * f3z
+		intg[7] += dx * (y0*g0x + y1*g1x + y2*g2x)
+		intg[8] += dy * (z0*g0y + z1*g1y + z2*g2y)
+		intg[9] += dz * (x0*g0z + x1*g1z + x2*g2z)
 	}
 	intg[0] *= m1
 	intg[1] *= m2
