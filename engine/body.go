@@ -239,7 +239,8 @@ func (w *World) Name(id BodyID) string { return w.b.name[id] }
 // KindOf returns a body's kind.
 func (w *World) KindOf(id BodyID) Kind { return w.b.kind[id] }
 
-// Shape returns a body's shape as it was given.
+// Shape returns a body's shape; a static *shapes.TriMesh comes back as the
+// *collide.Mesh built from it (its TriMesh method returns the original).
 func (w *World) Shape(id BodyID) shapes.Shape { return w.b.shape[id] }
 
 // Position returns a body's centre of mass (dynamic) or shape origin.
