@@ -250,7 +250,7 @@ func writeInspectTable(w io.Writer, p *inspectJSON, faces []resting.Face, densit
 	if !p.Solid {
 		massFrom = "its convex hull (the mesh bounds no solid)"
 	}
-	dens := fmt.Sprintf("%g kg/m3", density)
+	dens := fmt.Sprintf("%.6g kg/m3", density)
 	if defaulted {
 		dens += " (the default; --density sets it)"
 	}
