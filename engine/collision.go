@@ -108,6 +108,9 @@ func (w *World) collide(dt float64) {
 		if ka != Dynamic && kb != Dynamic {
 			continue // kinematic against static or kinematic: nothing to solve
 		}
+		if w.jointedApart(a, b) {
+			continue // linked by a joint (joint.go)
+		}
 		// A sleeping body touched by an awake one wakes up.
 		if !w.b.awake[a] || !w.b.awake[b] {
 			if ka == Dynamic && !w.b.awake[a] {
@@ -142,6 +145,7 @@ func (w *World) collide(dt float64) {
 					Restitution:    coef.Restitution,
 					Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
 				})
+				c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
 			}
 		}
 		if touch {
@@ -207,7 +211,7 @@ func (w *World) contactEvents() {
 // solve runs the contact solver and records impacts.
 func (w *World) solve(dt float64) error {
 	c := &w.collision
-	if len(c.points) == 0 && len(c.rows) == 0 {
+	if len(c.points) == 0 && len(w.mech.joints) == 0 {
 		return nil
 	}
 	n := len(w.b.kind)
@@ -223,11 +227,13 @@ func (w *World) solve(dt float64) error {
 			_, sb.InvInertia = w.inertiaWorld(BodyID(i))
 		}
 	}
+	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step.
 		return fmt.Errorf("simulation diverged at t = %.6g s in the contact solve: %w; the step is likely too large for the sizes and speeds in the scene (try a smaller step or more sub-steps)", w.time, err)
 	}
+	w.afterJointSolve(dt) // exact joint projection and joint forces (joint.go)
 	for i := 0; i < n; i++ {
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			w.b.vel[i], w.b.spin[i] = c.bodies[i].V, c.bodies[i].W
@@ -265,7 +271,7 @@ func (w *World) impactEvents() {
 // pseudoVelocity returns the position correction's pseudo-velocities of a body.
 func (w *World) pseudoVelocity(id BodyID) (shapes.Vec3, shapes.Vec3) {
 	c := &w.collision
-	if int(id) >= len(c.bodies) || len(c.points) == 0 && len(c.rows) == 0 {
+	if int(id) >= len(c.bodies) || len(c.points) == 0 && len(c.rows) == 0 && len(w.mech.joints) == 0 {
 		return shapes.Vec3{}, shapes.Vec3{}
 	}
 	return c.bodies[id].Vp, c.bodies[id].Wp

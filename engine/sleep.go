@@ -67,6 +67,7 @@ func (w *World) updateRest(dt float64) {
 			w.union(int32(a), int32(b))
 		}
 	}
+	w.unionJoints() // jointed bodies share an island (joint.go)
 	if anyDynamic && allRest && !w.settled {
 		w.settled, w.settledAt = true, w.time
 		w.emit(Event{Kind: Settled, Time: w.time, A: -1, B: -1})
@@ -95,6 +96,7 @@ func (w *World) updateRest(dt float64) {
 			}
 		}
 	}
+	w.jointsKeepAwake() // jointed to a moving kinematic body (joint.go)
 	for i, k := range w.b.kind {
 		if k != Dynamic || !w.b.awake[i] {
 			continue
@@ -123,5 +125,6 @@ func (w *World) wake(id BodyID) {
 	}
 	w.b.awake[id] = true
 	w.setActive(id, true)
+	w.wakeJointed(id) // (joint.go)
 	w.emit(Event{Kind: Wake, Time: w.time, A: id, B: -1})
 }

@@ -97,6 +97,7 @@ type World struct {
 	prevPreSolve float64 // energy before the last step's contact solve
 
 	collision collisionState
+	mech      mechanisms // joints and drivers (joint.go, driver.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -196,6 +197,7 @@ func (w *World) Step(dt float64) error {
 }
 
 func (w *World) step(dt float64) error {
+	w.drive(dt) // driven kinematic bodies: velocities for this step (driver.go)
 	e0, k0 := 0.0, 0.0
 	guard := !w.cfg.NoDivergenceCheck && !w.driven()
 	if guard {
@@ -242,6 +244,9 @@ func (w *World) step(dt float64) error {
 // driven reports whether something outside the bodies can do work on them
 // (moving kinematic bodies), so energy need not decrease.
 func (w *World) driven() bool {
+	if w.mechanismDriven() { // motors, driven bodies, conveyors (joint.go)
+		return true
+	}
 	for i, k := range w.b.kind {
 		if k == Kinematic && (w.b.vel[i] != (shapes.Vec3{}) || w.b.spin[i] != (shapes.Vec3{})) {
 			return true

@@ -9,6 +9,7 @@ import (
 	"os"
 	"os/signal"
 	"strings"
+	"syscall"
 )
 
 // Exit codes.
@@ -23,7 +24,9 @@ const safetyNote = "Note: simulation informs design; it does not replace the phy
 	"standards and local codes require. Results that protect people or goods need review by a qualified engineer."
 
 func main() {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	// Ctrl-C, and the SIGTERM with which cluster schedulers stop a job,
+	// end a run or sweep cleanly with its results so far.
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
 	stop()
 	os.Exit(code)
@@ -159,17 +162,4 @@ func flagSuggestion(fs *flag.FlagSet, err error) string {
 		return fmt.Sprintf(" (did you mean --%s?)", n)
 	}
 	return ""
-}
-
-func notBuilt(name string) func(e *env, args []string) int {
-	return func(e *env, args []string) int {
-		for _, a := range args {
-			if a == "-h" || a == "--help" || a == "-help" {
-				writeHelp(e.stdout, findCommand(name))
-				return exitOK
-			}
-		}
-		e.errorf("%s: not built yet. `clatter run` reads and checks a scene's [sweep] section and ignores it; sweeps of many trials come in a later version", name)
-		return exitBad
-	}
 }

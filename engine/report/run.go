@@ -270,39 +270,49 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 	sum.Momentum.Angular.Final = clean3(r.u.VecFromSI(w.AngularMomentum(shapes.Vec3{}), angularMomentum))
 }
 
-// restingFace returns the face body i rests on, or nil: it must touch
-// something, be at rest, and have a face within resting.FaceDownTolerance
-// of the gravity direction.
+// restingFace returns the face body i rests on, or nil (see RestingFace).
 func (r *runner) restingFace(i int) *int {
-	w := r.w
 	id := r.ids[i]
-	if r.touching[id] == 0 {
-		return nil
-	}
-	cfg := w.Config()
-	if w.Awake(id) && (w.Velocity(id).Len() >= cfg.RestSpeed || w.Spin(id).Len() >= cfg.RestSpin) {
-		return nil
-	}
 	faces, ok := r.faces[i]
 	if !ok {
-		pose := w.ShapePose(id)
-		com := pose.ApplyInv(w.Position(id))
-		var err error
-		faces, err = resting.OfShape(w.Shape(id), com)
-		if err != nil {
-			faces = nil
-		}
+		faces = Faces(r.w, id)
 		r.faces[i] = faces
 	}
-	if len(faces) == 0 {
-		return nil
-	}
-	down := w.ShapePose(id).RotateInv(cfg.Gravity)
-	f := resting.FaceDown(faces, down)
+	f := RestingFace(r.w, id, faces, r.touching[id] > 0)
 	if f < 0 {
 		return nil
 	}
 	return &f
+}
+
+// Faces returns the resting analysis of a body's shape, its faces indexed
+// as `clatter inspect` lists them, or nil when the shape has none (a ball,
+// a static shape). It depends only on the shape and its centre of mass, so
+// it can be computed once per shape and reused.
+func Faces(w *engine.World, id engine.BodyID) []resting.Face {
+	pose := w.ShapePose(id)
+	com := pose.ApplyInv(w.Position(id))
+	faces, err := resting.OfShape(w.Shape(id), com)
+	if err != nil {
+		return nil
+	}
+	return faces
+}
+
+// RestingFace returns the index in faces of the face a body rests on, or
+// -1: it must touch something (touching), be at rest (asleep, or slower
+// than the world's rest speed and spin), and have a face within
+// resting.FaceDownTolerance of the gravity direction.
+func RestingFace(w *engine.World, id engine.BodyID, faces []resting.Face, touching bool) int {
+	if !touching || len(faces) == 0 {
+		return -1
+	}
+	cfg := w.Config()
+	if w.Awake(id) && (w.Velocity(id).Len() >= cfg.RestSpeed || w.Spin(id).Len() >= cfg.RestSpin) {
+		return -1
+	}
+	down := w.ShapePose(id).RotateInv(cfg.Gravity)
+	return resting.FaceDown(faces, down)
 }
 
 // sample writes a trajectory row per moving body.

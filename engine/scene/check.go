@@ -81,10 +81,11 @@ func (r *reader) checkStep() {
 		sz := bb.Size()
 		size := math.Min(sz[0], math.Min(sz[1], sz[2]))
 		radius := sz.Len() / 2
-		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name]
+		top, extra := s.sweepReach(b.Name, radius)
+		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name] + extra
 		fall := g * w.Duration
 		if anyStatic && g > 0 {
-			h := math.Max(0, up.Dot(b.Position)-lowest)
+			h := math.Max(0, math.Max(up.Dot(b.Position), top)-lowest)
 			fall = math.Min(fall, math.Sqrt(2*g*h))
 		}
 		v := math.Sqrt(v0*v0 + fall*fall)
@@ -173,4 +174,51 @@ func finite(v shapes.Vec3) bool {
 		}
 	}
 	return true
+}
+
+// sweepReach returns the highest starting height that the [sweep] section
+// can draw for a body (-Inf if none) and the largest speed its draws can
+// add to its surface (velocity jitter and spin times radius), so that the
+// step is checked for the fastest trial.
+func (s *Scene) sweepReach(body string, radius float64) (top, extra float64) {
+	top = math.Inf(-1)
+	sw := s.Sweep
+	if sw == nil {
+		return top, 0
+	}
+	for _, h := range sw.Height {
+		if h.Body == body {
+			top = h.High
+		}
+	}
+	for _, j := range sw.Jitter {
+		if j.Body == body {
+			top = math.Max(top, s.bodyUp(body)+j.Amount.Len())
+		}
+	}
+	for _, sp := range sw.Spin {
+		if sp.Body == body {
+			extra += sp.High * radius
+		}
+	}
+	for _, v := range sw.VelocityJitter {
+		if v.Body == body {
+			extra += v.Amount.Len()
+		}
+	}
+	return top, extra
+}
+
+// bodyUp is the height of a body's position along the direction opposite
+// gravity (z when there is no gravity).
+func (s *Scene) bodyUp(body string) float64 {
+	i := s.BodyIndex(body)
+	if i < 0 {
+		return math.Inf(-1)
+	}
+	up := shapes.Vec3{0, 0, 1}
+	if g := s.World.Gravity.Len(); g > 0 {
+		up = s.World.Gravity.Mul(-1 / g)
+	}
+	return up.Dot(s.Bodies[i].Position)
 }

@@ -21,7 +21,25 @@ type Sweep struct {
 	// per trial; Jitter the bodies whose position is jittered.
 	RandomOrientation []string
 	Jitter            []Jitter
-	Line              int
+	// Height draws the starting height of a body's centre of mass (m,
+	// along the direction opposite gravity) uniformly from a range: the
+	// drop height. Spin adds a starting spin about a uniformly random axis
+	// whose size (rad/s) is uniform in a range. VelocityJitter is a uniform
+	// jitter of +- Amount (m/s, per world axis) around a body's velocity.
+	// All are sorted by body name.
+	Height         []Range
+	Spin           []Range
+	VelocityJitter []Jitter
+	// GroupFaces asks that the statistics count faces equal by symmetry as
+	// one (faces with the same area, height and resting probability).
+	GroupFaces bool
+	Line       int
+}
+
+// Range is a uniform draw from [Low, High] for one body, in SI.
+type Range struct {
+	Body      string
+	Low, High float64
 }
 
 // Vary is one [[sweep.vary]]: a numeric key of the scene by its dotted path
@@ -29,7 +47,9 @@ type Sweep struct {
 type Vary struct {
 	Key    string
 	Values []float64
-	Line   int
+	// Log is set for a geometric series (from, to, count and log = true).
+	Log  bool
+	Line int
 }
 
 // Jitter is a uniform jitter of +- Amount (m, per world axis) around a
@@ -61,7 +81,7 @@ func (r *reader) sweep(root section) {
 	if !ok {
 		return
 	}
-	r.keys(sec, "trials", "seed", "vary", "randomize")
+	r.keys(sec, "trials", "seed", "vary", "randomize", "group_faces")
 	sw := &Sweep{Trials: 1, Seed: DefaultSeed, Line: r.s.lines.line(sec.path)}
 	if t, ok := r.integer(sec, "trials", 1); ok {
 		if t < 1 || t > maxTrials {
@@ -77,6 +97,7 @@ func (r *reader) sweep(root section) {
 			sw.Seed = uint64(seed)
 		}
 	}
+	sw.GroupFaces, _ = r.boolean(sec, "group_faces", false)
 	if v, ok := sec.m["vary"]; ok {
 		list, ok := arrayOfTables(v)
 		if !ok {
@@ -95,7 +116,7 @@ func (r *reader) sweep(root section) {
 		}
 	}
 	if rs, ok := r.table(sec, "randomize", "[sweep.randomize]", "[sweep.randomize] "); ok {
-		r.keys(rs, "orientation", "position")
+		r.keys(rs, "orientation", "position", "height", "spin", "velocity")
 		if v, ok := rs.m["orientation"]; ok {
 			a, isArr := v.([]any)
 			if !isArr {
@@ -113,34 +134,97 @@ func (r *reader) sweep(root section) {
 				}
 			}
 		}
-		if v, ok := rs.m["position"]; ok {
-			m, isMap := v.(map[string]any)
-			if !isMap {
-				r.errAt(sub(rs.path, "position"), "[sweep.randomize] position must be a table of body = [dx, dy, dz], got %s", show(v))
-			}
-			names := make([]string, 0, len(m))
-			for n := range m {
-				names = append(names, n)
-			}
-			sort.Strings(names)
-			for _, n := range names {
-				p := sub(rs.path, "position", n)
-				if !r.movingBody(n, p, "[sweep.randomize] position: ") {
-					continue
-				}
-				amt, ok := r.vec(m[n], Length, p, fmt.Sprintf("[sweep.randomize] position of %q", n), 3)
-				if !ok {
-					continue
-				}
-				if amt[0] < 0 || amt[1] < 0 || amt[2] < 0 {
-					r.errAt(p, "[sweep.randomize] position of %q: jitter amounts must be >= 0", n)
-					continue
-				}
-				sw.Jitter = append(sw.Jitter, Jitter{Body: n, Amount: amt})
-			}
-		}
+		sw.Jitter = r.jitters(rs, "position", Length)
+		sw.Height = r.ranges(rs, "height", Length, false)
+		sw.Spin = r.ranges(rs, "spin", AngularSpeed, true)
+		sw.VelocityJitter = r.jitters(rs, "velocity", Speed)
 	}
 	r.s.Sweep = sw
+}
+
+// bodyTable returns the body names of a [sweep.randomize] table such as
+// height = { cap = [50, 300] }, sorted, with each name checked to be a
+// moving body.
+func (r *reader) bodyTable(rs section, key, example string) (map[string]any, []string) {
+	v, ok := rs.m[key]
+	if !ok {
+		return nil, nil
+	}
+	m, isMap := v.(map[string]any)
+	if !isMap {
+		r.errAt(sub(rs.path, key), "[sweep.randomize] %s must be a table of body = %s, got %s", key, example, show(v))
+		return nil, nil
+	}
+	all := make([]string, 0, len(m))
+	for n := range m {
+		all = append(all, n)
+	}
+	sort.Strings(all)
+	var names []string
+	for _, n := range all {
+		if r.movingBody(n, sub(rs.path, key, n), "[sweep.randomize] "+key+": ") {
+			names = append(names, n)
+		}
+	}
+	return m, names
+}
+
+// ranges reads a table of body = [low, high] (or body = high, from 0,
+// when fromZero) of dimension d.
+func (r *reader) ranges(rs section, key string, d Dim, fromZero bool) []Range {
+	example := "[low, high]"
+	if fromZero {
+		example = "[low, high] or body = high"
+	}
+	m, names := r.bodyTable(rs, key, example)
+	var out []Range
+	for _, n := range names {
+		p := sub(rs.path, key, n)
+		what := fmt.Sprintf("[sweep.randomize] %s of %q", key, n)
+		var lo, hi float64
+		if _, isArr := m[n].([]any); !isArr && fromZero {
+			x, ok := r.quantity(m[n], d, p, what)
+			if !ok {
+				continue
+			}
+			hi = x
+		} else {
+			v, ok := r.vec(m[n], d, p, what+" [low, high]", 2)
+			if !ok {
+				continue
+			}
+			lo, hi = v[0], v[1]
+		}
+		u := r.s.Units
+		switch {
+		case fromZero && lo < 0:
+			r.errAt(p, "%s: the range must not go below 0, got low %g %s", what, u.FromSI(lo, d), u.Symbol(d))
+		case hi < lo:
+			r.errAt(p, "%s: low must not be above high, got low %g and high %g %s", what, u.FromSI(lo, d), u.FromSI(hi, d), u.Symbol(d))
+		default:
+			out = append(out, Range{Body: n, Low: lo, High: hi})
+		}
+	}
+	return out
+}
+
+// jitters reads a table of body = [dx, dy, dz] amounts of dimension d.
+func (r *reader) jitters(rs section, key string, d Dim) []Jitter {
+	m, names := r.bodyTable(rs, key, "[dx, dy, dz]")
+	var out []Jitter
+	for _, n := range names {
+		p := sub(rs.path, key, n)
+		amt, ok := r.vec(m[n], d, p, fmt.Sprintf("[sweep.randomize] %s of %q", key, n), 3)
+		if !ok {
+			continue
+		}
+		if amt[0] < 0 || amt[1] < 0 || amt[2] < 0 {
+			r.errAt(p, "[sweep.randomize] %s of %q: jitter amounts must be >= 0", key, n)
+			continue
+		}
+		out = append(out, Jitter{Body: n, Amount: amt})
+	}
+	return out
 }
 
 func (r *reader) movingBody(name string, path []string, pre string) bool {
@@ -217,6 +301,7 @@ func (r *reader) vary(path []string, m map[string]any, i int) (Vary, bool) {
 		case logScale && (from <= 0 || to <= 0):
 			r.errAt(path, "%sa geometric series (log = true) needs from and to above 0, got %g and %g", sec.pre, from, to)
 		default:
+			vr.Log = logScale
 			for j := int64(0); j < count; j++ {
 				f := float64(j) / float64(count-1)
 				if logScale {
