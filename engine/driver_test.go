@@ -225,3 +225,44 @@ func TestConveyor(t *testing.T) {
 		}
 	}
 }
+
+func TestPartHingedToDrivenBody(t *testing.T) {
+	// A part welded to a kinematic arm that turns at a constant rate about
+	// a horizontal axis moves rigidly with it: its pose relative to the arm
+	// stays what it was (the weld's error stays below 1e-9 m and rad), and
+	// the weld carries the part's weight plus the centripetal force m w^2 r
+	// toward the axis (Newton's second law), which at 2 rad/s and r = 0.2 m
+	// is 0.8 m; 1e-3 of m g: the mean over a step of a force that turns
+	// with the arm by w dt = 2e-3 rad.
+	const dt, rate, r = 1e-3, 2.0, 0.2
+	w := newTestWorld(t, DefaultConfig())
+	arm := mustAdd(t, w, BodyDef{Name: "arm", Kind: Kinematic, Shape: shapes.Box{Half: shapes.Vec3{0.15, 0.01, 0.01}}, Position: shapes.Vec3{0.1, 0, 0}})
+	// Started moving with the arm, so no start-up impulse.
+	part := mustAdd(t, w, BodyDef{Name: "part", Shape: shapes.Sphere{Radius: 0.02}, Density: 1000, Position: shapes.Vec3{r, 0, 0},
+		Velocity: shapes.Vec3{0, 0, -rate * r}, Spin: shapes.Vec3{0, rate, 0}})
+	j := mustJoint(t, w, JointDef{Kind: Fixed, A: part, B: arm, Anchor: shapes.Vec3{r, 0, 0}})
+	if err := w.SetMotion(arm, &Tilt{Axis: shapes.Vec3{0, 1, 0}, Rate: rate}); err != nil {
+		t.Fatal(err)
+	}
+	mg := w.MassOf(part) * g0
+	worst, worstF := 0.0, 0.0
+	run(t, w, dt, 1, func() {
+		l, a := w.JointError(j)
+		worst = math.Max(worst, math.Max(l, a))
+		q := w.Orientation(arm)
+		radial := q.Rotate(shapes.Vec3{1, 0, 0}) // from the axis to the part
+		want := shapes.Vec3{0, 0, mg}.Sub(radial.Mul(w.MassOf(part) * rate * rate * r))
+		f, _ := w.JointReaction(j)
+		if w.Steps() > 1 {
+			// The first step turns the given velocity (the tangent at t = 0)
+			// by half a step's angle only, into the chord of the step.
+			worstF = math.Max(worstF, f.Sub(want).Len()/mg)
+		}
+	})
+	if worst > 1e-9 {
+		t.Errorf("weld to the driven arm off by up to %.3g", worst)
+	}
+	if worstF > 1e-3 {
+		t.Errorf("weld force off weight plus centripetal force by up to %.3g of m g", worstF)
+	}
+}

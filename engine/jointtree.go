@@ -573,9 +573,9 @@ func (w *World) projectJoints(pseudo bool) {
 			dv := shapes.Vec3{nd.x[0], nd.x[1], nd.x[2]}
 			dw := shapes.Vec3{nd.x[3], nd.x[4], nd.x[5]}
 			if pseudo {
-				b.Vp, b.Wp = b.Vp.Add(dv), b.Wp.Add(dw)
+				b.Vp, b.Wp = flushTiny(b.Vp.Add(dv)), flushTiny(b.Wp.Add(dw))
 			} else {
-				b.V, b.W = b.V.Add(dv), b.W.Add(dw)
+				b.V, b.W = flushTiny(b.V.Add(dv)), flushTiny(b.W.Add(dw))
 			}
 		} else if !pseudo {
 			jt := &w.mech.joints[nd.joint]
@@ -595,4 +595,21 @@ func (w *World) endValues(jt *joint, out *[6]float64) {
 	g := jointGeomAt(jt, pa, qa, pb, qb)
 	eqValues(jt, &g, qb, &jt.basis, out)
 	jt.chol.apply(out)
+}
+
+// tinyVelocity (m/s or rad/s) is far below anything physical. A motion the
+// joints forbid exactly (the out-of-plane turning of a planar linkage)
+// starts at rounding level and is cut by the projection every step, so
+// left alone it would sink into subnormal numbers, on which arithmetic is
+// some ten times slower (measured: a hundred-link chain's step slowed from
+// 1.2 to 8 ms within 1.5 s of simulated time). Components below it are 0.
+const tinyVelocity = 1e-100
+
+func flushTiny(v shapes.Vec3) shapes.Vec3 {
+	for k, x := range v {
+		if math.Abs(x) < tinyVelocity {
+			v[k] = 0
+		}
+	}
+	return v
 }
