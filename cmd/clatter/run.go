@@ -33,7 +33,7 @@ Everything is in the scene's units (units = { length, mass }), time in s,
 angles in degrees, angular velocity in rad/s, energy in J. A table of the
 final state goes to stdout; --json prints summary.json there instead.
 
-A [sweep] section is read and checked, and ignored.
+A [sweep] section is read and checked, and ignored: clatter sweep runs it.
 
 Exit codes: 0 the run completed, 1 the simulation failed (diverged or was
 interrupted; the files keep everything up to its last good state and the
@@ -74,7 +74,7 @@ func runScene(e *env, args []string) int {
 		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
 	if s.Sweep != nil {
-		e.infof("note: the [sweep] section is read and checked, and ignored by run")
+		e.infof("note: run simulates the scene once and ignores its [sweep] section; clatter sweep runs the study")
 	}
 	if *dir != "" {
 		if err := os.MkdirAll(*dir, 0o755); err != nil {

@@ -22,6 +22,8 @@ const (
 	// maxPlotFaces is how many faces one plot shows (the most frequent):
 	// beyond a handful the lines cannot be told apart.
 	maxPlotFaces = 8
+	// maxValueTicks: up to this many varied values each get a tick.
+	maxValueTicks = 12
 )
 
 // writePlots writes the PNG plots of a finished folder and returns their
@@ -145,12 +147,12 @@ func newPlot(title, x, y string) *plot.Plot {
 }
 
 func faceTitle(m *Meta, body string, shown, all int) string {
-	t := fmt.Sprintf("%s: fraction of trials resting on each face (95%% Wilson intervals)", body)
+	t := fmt.Sprintf("%s: fraction of trials resting on each face, 95%% Wilson intervals", body)
 	if shown < all {
 		t += fmt.Sprintf(", the %d most frequent faces", shown)
 	}
 	if m.GroupFaces {
-		t += ", symmetric faces grouped"
+		t += "; symmetric faces grouped"
 	}
 	return t
 }
@@ -168,6 +170,14 @@ func facesAgainst(m *Meta, st *stats, b, k int, faces []int) (*plot.Plot, error)
 	if logX {
 		p.X.Scale = plot.LogScale{}
 		p.X.Tick.Marker = plot.LogTicks{Prec: -1}
+	}
+	if len(vary.Values) <= maxValueTicks {
+		// Ticks at the values the study ran.
+		ticks := make(plot.ConstantTicks, len(vary.Values))
+		for i, x := range vary.Values {
+			ticks[i] = plot.Tick{Value: x, Label: fmt.Sprintf("%g", x)}
+		}
+		p.X.Tick.Marker = ticks
 	}
 	stride := int64(1)
 	for j := k + 1; j < len(m.Vary); j++ {
@@ -192,6 +202,14 @@ func facesAgainst(m *Meta, st *stats, b, k int, faces []int) (*plot.Plot, error)
 			return x + d*(hi-lo)
 		}
 		return x + d
+	}
+	// Room at the ends for the points set apart.
+	switch {
+	case logX && hi > lo:
+		r := math.Pow(hi/lo, 0.05)
+		p.X.Min, p.X.Max = lo/r, hi*r
+	case hi > lo:
+		p.X.Min, p.X.Max = lo-0.05*(hi-lo), hi+0.05*(hi-lo)
 	}
 	top := 0.0
 	for i, f := range faces {

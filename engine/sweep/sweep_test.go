@@ -132,6 +132,10 @@ func TestCubeRestsOnEachFaceEqually(t *testing.T) {
 	if chi2 > crit {
 		t.Errorf("face counts %v of %d: chi-square %.2f above %.2f", counts, n, chi2, crit)
 	}
+	// Without varied keys the face plot is one chart of the faces.
+	if strings.Join(res.Meta.Files, " ") != "trials.csv cases.csv faces-cube.png settle-times.png" {
+		t.Errorf("files %v", res.Meta.Files)
+	}
 	// The quasi-static probability of each face is 1/6 too (solid angle
 	// of a face seen from the centre: 4 pi / 6).
 	for _, r := range res.Rows {
@@ -212,6 +216,12 @@ func TestLongBoxTowardQuasiStatic(t *testing.T) {
 	}
 	for k, d := range tv {
 		t.Logf("restitution %g friction %g: distance to quasi-static %.3f, chi-square %.2f", k[0], k[1], d, chi[k])
+	}
+	// Faces grouped: +x with -x (0), +y with -y (2), +z with -z (4).
+	for _, r := range res.Rows {
+		if r.Face != 0 && r.Face != 2 && r.Face != 4 && r.Face != -1 {
+			t.Errorf("face %d listed: the faces of a box should be grouped as 0, 2 and 4", r.Face)
+		}
 	}
 	bouncy, dead := [2]float64{0.8, 0.05}, [2]float64{0, 1}
 	if !(tv[dead]+minGain < tv[bouncy]) {
@@ -485,5 +495,23 @@ func TestMeshDigest(t *testing.T) {
 	faces, err := resting.OfHull(st.Scene.Bodies[1].Part.Hull, st.Scene.Bodies[1].Props.Center)
 	if err != nil || len(m.Bodies[0].Faces) != len(faces) {
 		t.Errorf("%d faces recorded, inspect lists %d (%v)", len(m.Bodies[0].Faces), len(faces), err)
+	}
+}
+
+func TestExampleStudiesRead(t *testing.T) {
+	// The shipped example studies read without errors or warnings.
+	files, err := filepath.Glob("../../testdata/sweeps/*.toml")
+	if err != nil || len(files) < 2 {
+		t.Fatalf("examples %v, %v", files, err)
+	}
+	for _, f := range files {
+		st, err := Open(f)
+		if err != nil {
+			t.Errorf("%s: %v", f, err)
+			continue
+		}
+		if len(st.Warnings) > 0 {
+			t.Errorf("%s: warnings %q", f, st.Warnings)
+		}
 	}
 }
