@@ -19,6 +19,8 @@ func init() {
 		Benchmark{Name: "CollideBoxBoxRandom", Fn: CollideBoxBoxRandom},
 		Benchmark{Name: "CollideHullHullResting", Fn: CollideHullHullResting},
 		Benchmark{Name: "CollideHullHullRandom", Fn: CollideHullHullRandom},
+		Benchmark{Name: "CollideBoxHullRandom", Fn: CollideBoxHullRandom},
+		Benchmark{Name: "CollidePairApart", Fn: CollidePairApart},
 		Benchmark{Name: "CollideBoxPlane", Fn: CollideBoxPlane},
 		Benchmark{Name: "CollideCylinderBox", Fn: CollideCylinderBox},
 		Benchmark{Name: "CollideBoxMesh", Fn: CollideBoxMesh},
@@ -166,6 +168,41 @@ func CollideHullHullRandom(b *testing.B) {
 	rng := rand.New(rand.NewPCG(4, 0xb0b))
 	ha, hb := sphereHull(b, rng, 40, 0.05), sphereHull(b, rng, 40, 0.05)
 	runCollide(b, ha, shapes.IdentityPose, hb, pairPoses(rng, 0.05, 0.099), 0.005)
+}
+
+// CollideBoxHullRandom measures the manifold of a box and a 40-vertex hull
+// at random overlapping poses (the box-hull separating-axis test).
+func CollideBoxHullRandom(b *testing.B) {
+	rng := rand.New(rand.NewPCG(9, 0xb0b))
+	box := shapes.Box{Half: shapes.Vec3{0.05, 0.04, 0.03}}
+	runCollide(b, box, shapes.IdentityPose, sphereHull(b, rng, 40, 0.05), pairPoses(rng, 0.05, 0.099), 0.005)
+}
+
+// CollidePairApart measures CollidePair on pairs that stay apart from step
+// to step (a 40-vertex hull and a cylinder whose bounds overlap, as in a
+// pile): after the first step each query is answered by the remembered
+// separating direction. ns/op is the time per pair query.
+func CollidePairApart(b *testing.B) {
+	rng := rand.New(rand.NewPCG(10, 0xb0b))
+	hull := sphereHull(b, rng, 40, 0.05)
+	cyl := shapes.Cylinder{Radius: 0.03, HalfLength: 0.04}
+	poses := pairPoses(rng, 0.11, 0.13) // apart, within the shapes' bounds
+	d := collide.NewDetector()
+	dst := make([]collide.Manifold, 0, 16)
+	step := func() {
+		for k, p := range poses {
+			dst = d.CollidePair(dst[:0], uint64(k), hull, shapes.IdentityPose, cyl, p, 0.002)
+		}
+		d.NextStep()
+	}
+	step()
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i += len(poses) {
+		step()
+	}
+	st := d.Stats()
+	b.ReportMetric(float64(st.Remembered)/float64(max(st.Remembered+st.GJKCalls, 1)), "remembered")
 }
 
 // CollideBoxPlane measures a box resting on the floor plane.

@@ -8,6 +8,8 @@ func BenchmarkCollideBoxBoxResting(b *testing.B)   { CollideBoxBoxResting(b) }
 func BenchmarkCollideBoxBoxRandom(b *testing.B)    { CollideBoxBoxRandom(b) }
 func BenchmarkCollideHullHullResting(b *testing.B) { CollideHullHullResting(b) }
 func BenchmarkCollideHullHullRandom(b *testing.B)  { CollideHullHullRandom(b) }
+func BenchmarkCollideBoxHullRandom(b *testing.B)   { CollideBoxHullRandom(b) }
+func BenchmarkCollidePairApart(b *testing.B)       { CollidePairApart(b) }
 func BenchmarkCollideBoxPlane(b *testing.B)        { CollideBoxPlane(b) }
 func BenchmarkCollideCylinderBox(b *testing.B)     { CollideCylinderBox(b) }
 func BenchmarkCollideBoxMesh(b *testing.B)         { CollideBoxMesh(b) }

@@ -34,21 +34,24 @@ type Manifold struct {
 	SubA, SubB int32
 }
 
-// Stats counts the queries of a Detector and how often the iterative
-// methods fell back: a capped GJK returns the best distance found so far, a
+// Stats counts the queries of a Detector, how often the iterative
+// methods fell back, and how often CollidePair's memory answered: a capped GJK returns the best distance found so far, a
 // capped EPA the best face found so far (a lower bound on the depth), and a
 // failed EPA (the Minkowski difference is flat) leaves the pair to the
 // shape's face normal or to the GJK direction.
 type Stats struct {
 	GJKCalls, GJKCapped            int
 	EPACalls, EPACapped, EPAFailed int
+	// Remembered counts the CollidePair queries that the axis remembered
+	// from the pair's last query proved apart.
+	Remembered int
 }
 
 // A Detector is the narrow phase. It holds scratch space so that queries
 // allocate nothing once the buffers have grown; use one per world (it is not
 // safe for concurrent use).
 type Detector struct {
-	smp simplex
+	smp, smp2 simplex // GJK's simplex, and the buffer it reduces into
 
 	epaW, epaA, epaB []vec3
 	epaFaces         []epaFace
@@ -65,6 +68,9 @@ type Detector struct {
 	tris      []int32
 	meshCands []meshCand
 	groups    []meshGroup
+
+	cache   pairCache
+	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
 
 	stats Stats
 }

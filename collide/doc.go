@@ -14,6 +14,16 @@
 // impulses carry over between steps. A Detector keeps scratch buffers and
 // allocates nothing once they have grown; use one per world.
 //
+// A world that queries the same pairs step after step calls
+//
+//	dst = det.CollidePair(dst[:0], key, shapeA, poseA, shapeB, poseB, margin)
+//
+// with a key per pair (the two body ids), and det.NextStep() after each
+// step's queries. The results are those of Collide; the Detector remembers
+// per key the axis that last proved a pair apart and tries it first, so a
+// pair still apart costs two support queries (most candidate pairs of a
+// resting pile are apart).
+//
 // Methods, by pair:
 //   - spheres and capsules: exactly, through their core point or segment;
 //     two points for capsules lying side by side;
@@ -21,8 +31,10 @@
 //     on the centre for hulls), the nearest face when the centre is inside;
 //   - boxes and hulls against each other: the separating-axis test on face
 //     normals and edge cross products (edge pairs pruned on the Gauss map;
-//     15 axes for two boxes), then the incident face clipped against the
-//     reference face (Sutherland and Hodgman 1974) for up to four points;
+//     15 axes for two boxes; a box's arcs found from the coordinate planes
+//     of its frame, so a box against a hull of any size costs one pass over
+//     the hull), then the incident face clipped against the reference face
+//     (Sutherland and Hodgman 1974) for up to four points;
 //   - every other convex pair (cylinders, a capsule against a box or hull,
 //     any other shapes.Convex): GJK distance with the signed-volumes
 //     sub-simplex step (Gilbert, Johnson and Keerthi 1988; Montanari,

@@ -28,6 +28,19 @@ const (
 
 var featCos = math.Sqrt(1 - featSin*featSin)
 
+// rimCos4 and rimCos16 hold the cosine and sine of the angles 2 pi k / n of
+// the rim points of a cylinder cap (n = 4 and cylRefPoints).
+var rimCos4, rimCos16 = rimTable(4), rimTable(cylRefPoints)
+
+func rimTable(n int) [][2]float64 {
+	t := make([][2]float64, n)
+	for k := range t {
+		th := 2 * math.Pi * float64(k) / float64(n)
+		t[k] = [2]float64{math.Cos(th), math.Sin(th)}
+	}
+	return t
+}
+
 // feature is the extreme part of a shape along a direction, in the frame.
 // Points lie on the core; the rounding radius rad is added by the caller.
 type feature struct {
@@ -216,9 +229,12 @@ func (v *view) cylinderExtreme(n vec3, f *feature, ref bool) {
 			mode, np = 2, cylRefPoints
 		}
 		w := capN.Cross(u) // u, w, capN right-handed: counter-clockwise seen from outside
+		cs := rimCos4
+		if np == cylRefPoints {
+			cs = rimCos16
+		}
 		for k := 0; k < np; k++ {
-			th := 2 * math.Pi * float64(k) / float64(np)
-			f.pts = append(f.pts, center.Add(u.Mul(v.cylR*math.Cos(th))).Add(w.Mul(v.cylR*math.Sin(th))))
+			f.pts = append(f.pts, center.Add(u.Mul(v.cylR*cs[k][0])).Add(w.Mul(v.cylR*cs[k][1])))
 		}
 		f.normal = capN
 		f.base = 2*mode + b2i(c < 0)

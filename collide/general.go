@@ -11,9 +11,10 @@ const (
 	// treated as overlap and go to EPA, whose normal is well defined where
 	// the GJK direction (from two nearly equal points) is not.
 	coreTouch = 1e-9
-	// satMaxEdgePairs: hull pairs with more edge pairs than this take the
-	// general path instead of the separating-axis test, whose edge loop is
-	// quadratic in the hull size: measured in bench/collide.go, two
+	// satMaxEdgePairs: pairs of hulls with more edge pairs than this take
+	// the general path instead of the separating-axis test, whose edge loop
+	// is quadratic in the hull size (a box against a hull has its own,
+	// linear test: boxhull.go): measured in bench/collide.go, two
 	// 40-vertex hulls (about 13,000 edge pairs) take several times longer by
 	// the test than by GJK, EPA and face clipping, while for boxes and
 	// small prisms (up to about 40 edges each) the test is as fast and gives
@@ -41,10 +42,10 @@ func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
 	scale := a.size + b.size
 	if !g.overlap && g.dist > coreTouch*scale {
 		r.sep = g.dist - a.rad - b.rad
+		r.n = g.v.Mul(-1 / g.dist) // v = pa - pb
 		if r.sep > margin {
 			return r, false
 		}
-		r.n = g.v.Mul(-1 / g.dist) // v = pa - pb
 		r.pa = g.pa.Add(r.n.Mul(a.rad))
 		r.pb = g.pb.Sub(r.n.Mul(b.rad))
 		return r, true
@@ -131,8 +132,12 @@ func roundNearest(a, b *view, margin float64) (nearest, bool) {
 // general is the whole general path: it leaves the points in d.cand and
 // returns the normal from a to b.
 func (d *Detector) general(a, b *view, margin float64) (vec3, bool) {
+	c := &d.cache
 	r, ok := d.distance(a, b, margin)
 	if !ok {
+		if c.on && r.n != (vec3{}) {
+			c.out.kind, c.out.dir = hintDir, r.n
+		}
 		return vec3{}, false
 	}
 	return d.featureContact(a, b, r, margin), true

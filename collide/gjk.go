@@ -177,12 +177,16 @@ func closestOf(s *[4]vec3, mask uint8, lam *[4]float64) vec3 {
 
 // reduce runs the signed-volumes step on the simplex, keeps the supporting
 // sub-simplex and returns the closest point to the origin.
-func (s *simplex) reduce() vec3 {
+func (s *simplex) reduce() vec3 { return s.reduceInto(s) }
+
+// reduceInto is reduce writing the kept sub-simplex into out (which may be
+// s), so that s survives when out is another simplex.
+func (s *simplex) reduceInto(out *simplex) vec3 {
 	var lam [4]float64
 	var mask uint8
 	switch s.n {
 	case 1:
-		s.lam[0] = 1
+		out.n, out.w[0], out.a[0], out.b[0], out.lam[0] = 1, s.w[0], s.a[0], s.b[0], 1
 		return s.w[0]
 	case 2:
 		mask = sd1(&s.w, 0, 1, &lam)
@@ -197,11 +201,11 @@ func (s *simplex) reduce() vec3 {
 		if mask&(1<<i) == 0 {
 			continue
 		}
-		s.w[n], s.a[n], s.b[n], s.lam[n] = s.w[i], s.a[i], s.b[i], lam[i]
-		v = v.Add(s.w[n].Mul(lam[i]))
+		out.w[n], out.a[n], out.b[n], out.lam[n] = s.w[i], s.a[i], s.b[i], lam[i]
+		v = v.Add(out.w[n].Mul(lam[i]))
 		n++
 	}
-	s.n = n
+	out.n = n
 	return v
 }
 
@@ -225,7 +229,7 @@ func (d *Detector) gjk(a, b *view, full bool) gjkResult {
 		}
 		return v.support(dir)
 	}
-	s := &d.smp
+	s, next := &d.smp, &d.smp2
 	dir := b.center().Sub(a.center())
 	if dir.Dot(dir) == 0 {
 		dir = vec3{1, 0, 0}
@@ -267,28 +271,36 @@ func (d *Detector) gjk(a, b *view, full bool) gjkResult {
 		if dup {
 			break
 		}
-		prev := *s
+		// The reduced simplex goes to the other buffer, so that s stays
+		// as it was should the step make no progress.
 		s.w[s.n], s.a[s.n], s.b[s.n] = w, pa, pb
 		s.n++
 		maxww = math.Max(maxww, w.Dot(w))
-		nv := s.reduce()
-		if s.n == 4 {
+		nv := s.reduceInto(next)
+		if next.n == 4 {
 			res.overlap = true
 			v = nv
+			s, next = next, s
 			break
 		}
 		nvv := nv.Dot(nv)
 		if nvv <= gjkTouchTol*gjkTouchTol*maxww {
 			res.overlap = true
 			v = nv
+			s, next = next, s
 			break
 		}
 		if nvv >= vv {
 			// No progress: rounding has taken over; keep the better simplex.
-			*s = prev
+			s.n--
 			break
 		}
 		v, vv = nv, nvv
+		s, next = next, s
+	}
+	if s != &d.smp {
+		d.smp = *s // EPA starts from d.smp
+		s = &d.smp
 	}
 	res.v = v
 	res.pa, res.pb = s.points()

@@ -27,6 +27,7 @@ func rank(k kind) int { return int(k) }
 // normal from a toward b; false when they are farther apart than margin.
 func (d *Detector) pair(a, b *view, margin float64) (vec3, bool) {
 	if rank(a.kind) > rank(b.kind) {
+		d.cache.swapped = true
 		n, ok := d.pairOrdered(b, a, margin)
 		return n.Mul(-1), ok
 	}
@@ -172,28 +173,45 @@ func (d *Detector) solidSphere(s *view, c vec3, r float64, margin float64) (vec3
 }
 
 // polytopes runs the separating-axis test for boxes and hulls, or the
-// general path when the edge loop would be too long.
+// general path when the edge loop would be too long. The remembered axis
+// of a CollidePair query is tried first.
 func (d *Detector) polytopes(a, b *view, margin float64) (vec3, bool) {
 	p, q := &d.polyP, &d.polyQ
+	var h pairHint
+	if d.cache.on {
+		h = d.cache.in
+	}
 	var r satResult
-	ok := false
-	if a.kind == kBox && b.kind == kBox {
-		if r, ok = satBoxes(a, b, margin); !ok {
+	switch {
+	case a.kind == kBox && b.kind == kBox:
+		if !satBoxesHint(a, b, margin, h, &r) {
+			d.remember(r)
 			return vec3{}, false
 		}
 		p.set(a)
 		q.set(b)
-	} else {
-		p.set(a)
-		q.set(b)
-		if len(p.edges)*len(q.edges) > satMaxEdgePairs {
+	case a.kind == kBox && b.kind == kHull:
+		// Linear in the hull's size (boxhull.go), so for hulls of any size.
+		return d.boxHull(a, b, margin, h)
+	default:
+		if polyEdges(a)*polyEdges(b) > satMaxEdgePairs {
 			return d.general(a, b, margin)
 		}
-		r, ok = sat(p, q, margin)
-	}
-	if !ok {
-		return vec3{}, false
+		p.set(a)
+		q.set(b)
+		if !satHint(p, q, margin, h, &r) {
+			d.remember(r)
+			return vec3{}, false
+		}
 	}
 	n := d.polyContact(p, q, r, margin)
 	return n, len(d.cand) > 0
+}
+
+// polyEdges is the number of edges of a box or hull view.
+func polyEdges(v *view) int {
+	if v.kind == kHull {
+		return len(v.hull.Edges)
+	}
+	return len(boxEdges)
 }

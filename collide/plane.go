@@ -60,12 +60,24 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		if nw.Dot(lo)-dw > margin {
 			return dst
 		}
+		// Vertices clearly beyond the margin are skipped by their height in
+		// the hull's frame (one dot product); the others are measured in the
+		// world as before. tol covers the two sums' different rounding.
+		h0 := nw.Dot(v.pos) - dw
+		tol := 1e-9 * (v.size + math.Abs(h0))
 		for i, p := range v.hull.Vertices {
+			if h0-l.Dot(p) > margin+tol {
+				continue
+			}
 			add(v.pos.Add(mul(v.rot, p)), uint32(i))
 		}
 	case kCylinder:
 		ax := v.axis()
 		c := down.Dot(ax)
+		// Cull by the cylinder's extent along the normal (its lowest point).
+		if ext := v.half[2]*math.Abs(c) + v.cylR*math.Sqrt(math.Max(0, 1-c*c)); nw.Dot(v.pos)-dw-ext > margin {
+			return dst
+		}
 		u, rl := unit(down.Sub(ax.Mul(c)))
 		mode := uint32(0)
 		if rl <= cylFlatSin {

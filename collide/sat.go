@@ -40,6 +40,9 @@ type polytope struct {
 	vbuf []vec3
 	pbuf []plane
 	arcs []edgeArc
+	// sideCos holds, while sat runs, the cosines of this polytope's face
+	// normals with the plane normal of one arc of the other.
+	sideCos []float64
 	// arcsFor records which side arcs holds (0 none, 1 as P, 2 as Q), so
 	// that a polytope tested against many triangles prepares them once.
 	arcsFor int8
@@ -180,9 +183,15 @@ func (p *polytope) set(v *view) {
 			p.verts = p.vbuf
 		}
 		p.pbuf = p.pbuf[:0]
-		for _, f := range h.Faces {
-			n := mul(v.rot, f.Normal)
-			p.pbuf = append(p.pbuf, plane{n, f.Offset + n.Dot(v.pos)})
+		if v.rot == identity3 && v.pos == (vec3{}) {
+			for _, f := range h.Faces {
+				p.pbuf = append(p.pbuf, plane{f.Normal, f.Offset})
+			}
+		} else {
+			for _, f := range h.Faces {
+				n := mul(v.rot, f.Normal)
+				p.pbuf = append(p.pbuf, plane{n, f.Offset + n.Dot(v.pos)})
+			}
 		}
 		p.planes, p.faces, p.edges = p.pbuf, h.Faces, h.Edges
 	case kTriangle:
@@ -223,6 +232,8 @@ type satResult struct {
 	p0, p1 vec3
 	q0, q1 vec3
 	axis   vec3
+	fail   pairHint // the axis that separated the pair, when the test fails
+	hinted bool     // the remembered axis was that axis
 }
 
 // arcsCross reports whether the great-circle arc x.a-x.b crosses arc
@@ -262,28 +273,81 @@ const (
 // only its front face is a face axis.
 func sat(p, q *polytope, margin float64) (satResult, bool) {
 	var r satResult
+	ok := satHint(p, q, margin, pairHint{}, &r)
+	return r, ok
+}
+
+// satFaceGap is the gap of Q beyond plane pl of P (or of P beyond Q's).
+func satFaceGap(pl plane, other *polytope) float64 {
+	_, m := other.minAlong(pl.n)
+	return m - pl.d
+}
+
+// satEdgeGap is the gap on the cross product of edge arcs x (of P) and y
+// (of Q, negated), oriented outward from P; ok is false when the arcs do
+// not cross on the Gauss map or the edges are parallel.
+func satEdgeGap(x, y *edgeArc) (s float64, ax vec3, ok bool) {
+	if !arcsCross(x, y) {
+		return 0, ax, false
+	}
+	ax = x.dp.Cross(y.dp)
+	l := ax.Len()
+	if l <= satParallel*x.dp.Len()*y.dp.Len() {
+		return 0, ax, false
+	}
+	ax = ax.Mul(1 / l)
+	if ax.Dot(x.a.Add(x.b)) < 0 {
+		ax = ax.Mul(-1)
+	}
+	return ax.Dot(y.p0.Sub(x.p0)), ax, true
+}
+
+// satHint is sat writing into r, trying the remembered axis h first; on a
+// separation beyond margin r.fail names the separating axis (edge pairs by
+// their arc indices).
+func satHint(p, q *polytope, margin float64, h pairHint, r *satResult) bool {
+	nq := len(q.planes)
+	if q.flat {
+		nq = 1
+	}
+	switch h.kind {
+	case hintFaceP:
+		if int(h.i) < len(p.planes) && satFaceGap(p.planes[h.i], q) > margin {
+			r.fail, r.hinted = h, true
+			return false
+		}
+	case hintFaceQ:
+		if int(h.i) < nq && satFaceGap(q.planes[h.i], p) > margin {
+			r.fail, r.hinted = h, true
+			return false
+		}
+	case hintEdge:
+		p.prepareArcs(false)
+		q.prepareArcs(true)
+		if int(h.i) < len(p.arcs) && int(h.j) < len(q.arcs) {
+			if s, _, ok := satEdgeGap(&p.arcs[h.i], &q.arcs[h.j]); ok && s > margin {
+				r.fail, r.hinted = h, true
+				return false
+			}
+		}
+	}
 	bestP, bestPi := math.Inf(-1), -1
 	for i, pl := range p.planes {
-		_, m := q.minAlong(pl.n)
-		s := m - pl.d
+		s := satFaceGap(pl, q)
 		if s > margin {
-			return r, false
+			r.fail = pairHint{kind: hintFaceP, i: int32(i)}
+			return false
 		}
 		if s > bestP {
 			bestP, bestPi = s, i
 		}
 	}
 	bestQ, bestQi := math.Inf(-1), -1
-	nq := len(q.planes)
-	if q.flat {
-		nq = 1
-	}
 	for i := 0; i < nq; i++ {
-		pl := q.planes[i]
-		_, m := p.minAlong(pl.n)
-		s := m - pl.d
+		s := satFaceGap(q.planes[i], p)
 		if s > margin {
-			return r, false
+			r.fail = pairHint{kind: hintFaceQ, i: int32(i)}
+			return false
 		}
 		if s > bestQ {
 			bestQ, bestQi = s, i
@@ -303,25 +367,38 @@ func sat(p, q *polytope, margin float64) (satResult, bool) {
 	bestE := math.Inf(-1)
 	p.prepareArcs(false)
 	q.prepareArcs(true)
+	// For a solid Q, the first test of arcsCross (Q's arc crosses the plane
+	// of P's arc) takes the cosines of Q's face normals with that plane's
+	// normal, computed once per arc of P rather than twice per pair; a Q
+	// arc runs between the negated normals of its edge's faces, so these
+	// are the same numbers up to sign.
+	pre := !q.flat
+	if pre {
+		d := &q.sideCos
+		*d = growF(*d, len(q.planes))
+	}
 	for i := range p.arcs {
 		x := &p.arcs[i]
+		if pre {
+			for f := range q.planes {
+				q.sideCos[f] = q.planes[f].n.Dot(x.u)
+			}
+		}
 		for j := range q.arcs {
 			y := &q.arcs[j]
-			if !arcsCross(x, y) {
+			if pre {
+				e := &q.edges[y.edge]
+				if cu, du := -q.sideCos[e.F[0]], -q.sideCos[e.F[1]]; cu*du >= 0 {
+					continue
+				}
+			}
+			s, ax, ok := satEdgeGap(x, y)
+			if !ok {
 				continue
 			}
-			ax := x.dp.Cross(y.dp)
-			l := ax.Len()
-			if l <= satParallel*x.dp.Len()*y.dp.Len() {
-				continue
-			}
-			ax = ax.Mul(1 / l)
-			if ax.Dot(x.a.Add(x.b)) < 0 {
-				ax = ax.Mul(-1)
-			}
-			s := ax.Dot(y.p0.Sub(x.p0))
 			if s > margin {
-				return r, false
+				r.fail = pairHint{kind: hintEdge, i: int32(i), j: int32(j)}
+				return false
 			}
 			if s > bestE {
 				bestE = s
@@ -334,7 +411,7 @@ func sat(p, q *polytope, margin float64) (satResult, bool) {
 			}
 		}
 	}
-	return r, true
+	return true
 }
 
 // incidentFace returns the face of q most anti-parallel to n.
@@ -380,26 +457,103 @@ func (d *Detector) polyContact(p, q *polytope, r satResult, margin float64) vec3
 // polytopes, at a fraction of the cost.
 func satBoxes(a, b *view, margin float64) (satResult, bool) {
 	var r satResult
-	t := b.pos.Sub(a.pos)
-	var ua, ub [3]vec3
-	var rr, ar [3][3]float64 // cosines ua_i . ub_j and their absolute values
+	ok := satBoxesHint(a, b, margin, pairHint{}, &r)
+	return r, ok
+}
+
+// boxPair holds what the 15 axes of two boxes share: the offset of the
+// centres, both sets of axes and their cosines.
+type boxPair struct {
+	t      vec3
+	ua, ub [3]vec3
+	ar     [3][3]float64 // |ua_i . ub_j|
+	ha, hb vec3
+}
+
+func (bp *boxPair) init(a, b *view) {
+	bp.t = b.pos.Sub(a.pos)
 	for i := 0; i < 3; i++ {
-		ua[i], ub[i] = col(a.rot, i), col(b.rot, i)
+		bp.ua[i], bp.ub[i] = col(a.rot, i), col(b.rot, i)
 	}
 	for i := 0; i < 3; i++ {
 		for j := 0; j < 3; j++ {
-			rr[i][j] = ua[i].Dot(ub[j])
-			ar[i][j] = math.Abs(rr[i][j])
+			bp.ar[i][j] = math.Abs(bp.ua[i].Dot(bp.ub[j]))
+		}
+	}
+	bp.ha, bp.hb = a.half, b.half
+}
+
+// faceP is the gap on A's axis i and the distance of the centres along it.
+func (bp *boxPair) faceP(i int) (s, dist float64) {
+	dist = bp.t.Dot(bp.ua[i])
+	hb, ar := bp.hb, &bp.ar
+	return math.Abs(dist) - bp.ha[i] - (hb[0]*ar[i][0] + hb[1]*ar[i][1] + hb[2]*ar[i][2]), dist
+}
+
+// faceQ is the gap on B's axis j.
+func (bp *boxPair) faceQ(j int) (s, dist float64) {
+	dist = bp.t.Dot(bp.ub[j])
+	ha, ar := bp.ha, &bp.ar
+	return math.Abs(dist) - bp.hb[j] - (ha[0]*ar[0][j] + ha[1]*ar[1][j] + ha[2]*ar[2][j]), dist
+}
+
+// edge is the gap on ua_i x ub_j (oriented from A toward B), with the
+// axis and its cosines with each box's axes; ok is false for parallel axes.
+func (bp *boxPair) edge(i, j int) (s float64, ax vec3, pa, pb [3]float64, ok bool) {
+	ax = bp.ua[i].Cross(bp.ub[j])
+	l := ax.Len()
+	if l <= satParallel {
+		return 0, ax, pa, pb, false
+	}
+	ax = ax.Mul(1 / l)
+	dist := bp.t.Dot(ax)
+	if dist < 0 {
+		ax, dist = ax.Mul(-1), -dist
+	}
+	ra, rb := 0.0, 0.0
+	for k := 0; k < 3; k++ {
+		pa[k], pb[k] = ax.Dot(bp.ua[k]), ax.Dot(bp.ub[k])
+		ra += bp.ha[k] * math.Abs(pa[k])
+		rb += bp.hb[k] * math.Abs(pb[k])
+	}
+	return dist - ra - rb, ax, pa, pb, true
+}
+
+// satBoxesHint is satBoxes writing into r, trying the remembered axis h
+// first; on a separation beyond margin r.fail names the separating axis.
+func satBoxesHint(a, b *view, margin float64, h pairHint, r *satResult) bool {
+	var bp boxPair
+	bp.init(a, b)
+	// Face hints name a face (0..5: axis i/2), edge hints two axes.
+	if h.i < 0 || h.i > 5 || h.j < 0 || h.j > 2 || (h.kind == hintEdge && h.i > 2) {
+		h.kind = hintNone // not an axis of two boxes
+	}
+	switch h.kind {
+	case hintFaceP:
+		if s, _ := bp.faceP(int(h.i / 2)); s > margin {
+			r.fail, r.hinted = h, true
+			return false
+		}
+	case hintFaceQ:
+		if s, _ := bp.faceQ(int(h.i / 2)); s > margin {
+			r.fail, r.hinted = h, true
+			return false
+		}
+	case hintEdge:
+		if s, _, _, _, ok := bp.edge(int(h.i), int(h.j)); ok && s > margin {
+			r.fail, r.hinted = h, true
+			return false
 		}
 	}
 	ha, hb := a.half, b.half
+	ua, ub := &bp.ua, &bp.ub
 	scale := a.size + b.size
 	bestP, bestPi := math.Inf(-1), 0
 	for i := 0; i < 3; i++ {
-		dist := t.Dot(ua[i])
-		s := math.Abs(dist) - ha[i] - (hb[0]*ar[i][0] + hb[1]*ar[i][1] + hb[2]*ar[i][2])
+		s, dist := bp.faceP(i)
 		if s > margin {
-			return r, false
+			r.fail = pairHint{kind: hintFaceP, i: int32(2*i + b2i(dist < 0))}
+			return false
 		}
 		if s > bestP {
 			bestP, bestPi = s, 2*i+b2i(dist < 0)
@@ -407,10 +561,10 @@ func satBoxes(a, b *view, margin float64) (satResult, bool) {
 	}
 	bestQ, bestQi := math.Inf(-1), 0
 	for j := 0; j < 3; j++ {
-		dist := t.Dot(ub[j])
-		s := math.Abs(dist) - hb[j] - (ha[0]*ar[0][j] + ha[1]*ar[1][j] + ha[2]*ar[2][j])
+		s, dist := bp.faceQ(j)
 		if s > margin {
-			return r, false
+			r.fail = pairHint{kind: hintFaceQ, i: int32(2*j + b2i(dist > 0))}
+			return false
 		}
 		// B's face toward A: -ub_j when B lies on the +ub_j side.
 		if s > bestQ {
@@ -425,26 +579,13 @@ func satBoxes(a, b *view, margin float64) (satResult, bool) {
 	bestE := math.Inf(-1)
 	for i := 0; i < 3; i++ {
 		for j := 0; j < 3; j++ {
-			ax := ua[i].Cross(ub[j])
-			l := ax.Len()
-			if l <= satParallel {
+			s, ax, pa, pb, ok := bp.edge(i, j)
+			if !ok {
 				continue
 			}
-			ax = ax.Mul(1 / l)
-			dist := t.Dot(ax)
-			if dist < 0 {
-				ax, dist = ax.Mul(-1), -dist
-			}
-			var pa, pb [3]float64 // cosines of the axis with each box's axes
-			ra, rb := 0.0, 0.0
-			for k := 0; k < 3; k++ {
-				pa[k], pb[k] = ax.Dot(ua[k]), ax.Dot(ub[k])
-				ra += ha[k] * math.Abs(pa[k])
-				rb += hb[k] * math.Abs(pb[k])
-			}
-			s := dist - ra - rb
 			if s > margin {
-				return r, false
+				r.fail = pairHint{kind: hintEdge, i: int32(i), j: int32(j)}
+				return false
 			}
 			if s > bestE {
 				bestE = s
@@ -478,7 +619,7 @@ func satBoxes(a, b *view, margin float64) (satResult, bool) {
 			}
 		}
 	}
-	return r, true
+	return true
 }
 
 // satBoxTriangle is the separating-axis test of a box (P) against a mesh

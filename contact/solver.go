@@ -80,6 +80,12 @@ type Solver struct {
 	prevPts, curPts   []warmPoint // sorted by key
 	prevRows, curRows []warmRow
 	prevDt            float64
+
+	// This step's points in key order (sortKeys): byKey lists them sorted,
+	// rank[i] is point i's place in that order and match[i] its entry in
+	// prevPts (-1 if none).
+	byKey, keyTmp []keyIndex
+	rank, match   []int32
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -377,7 +383,6 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 	}
 }
 
-func keyOrder(w warmPoint, k uint64) int  { return cmp.Compare(w.key, k) }
 func rowKeyOrder(w warmRow, k uint64) int { return cmp.Compare(w.key, k) }
 
 // warmStart applies last step's impulses to the points and rows whose keys
@@ -388,9 +393,10 @@ func (s *Solver) warmStart(dt float64, bodies []Body, points []Point, rows []Row
 	if s.prevDt > 0 {
 		f *= dt / s.prevDt // impulses of a steady load scale with the step
 	}
+	s.sortKeys(points)
 	for i := range points {
-		k, ok := slices.BinarySearchFunc(s.prevPts, points[i].Key, keyOrder)
-		if !ok {
+		k := s.match[i]
+		if k < 0 {
 			continue
 		}
 		w := &s.prevPts[k]
@@ -644,7 +650,7 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 // store writes the outputs and remembers this step's impulses by key.
 func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, rep *Report) {
 	n := len(points)
-	s.curPts = s.curPts[:0]
+	s.curPts = grow(s.curPts, n)
 	for i := range points {
 		p := &points[i]
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
@@ -663,9 +669,8 @@ func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, re
 			// steady load: the impact itself replaces it next step.
 			w.normal, w.friction = 0, vec{}
 		}
-		s.curPts = append(s.curPts, w)
+		s.curPts[s.rank[i]] = w // in key order (sortKeys)
 	}
-	slices.SortFunc(s.curPts, func(a, b warmPoint) int { return cmp.Compare(a.key, b.key) })
 	s.prevPts, s.curPts = s.curPts, s.prevPts
 
 	s.curRows = s.curRows[:0]

@@ -17,7 +17,8 @@ type collisionState struct {
 	bp     *broad.SAP
 	det    *collide.Detector
 	solver *contact.Solver
-	margin []float64 // speculative margin of each body this step
+	margin []float64     // speculative margin of each body this step
+	pose   []shapes.Pose // each body's shape pose this step, computed once
 
 	pairs     [][2]int32
 	manifolds []collide.Manifold
@@ -87,6 +88,10 @@ func (w *World) worldBounds(id BodyID, margin float64) shapes.AABB {
 func (w *World) collide(dt float64) {
 	c := &w.collision
 	slop := w.cfg.Slop
+	c.pose = c.pose[:0]
+	for i := range w.b.kind {
+		c.pose = append(c.pose, w.ShapePose(BodyID(i)))
+	}
 	for i, k := range w.b.kind {
 		if k == Static || !w.b.awake[i] {
 			continue
@@ -95,7 +100,11 @@ func (w *World) collide(dt float64) {
 		// step, plus the slop (DESIGN.md section 1, step 2).
 		m := (w.b.vel[i].Len()+w.b.spin[i].Len()*w.b.radius[i])*dt + slop
 		c.margin[i] = m
-		w.b.bounds[i] = w.worldBounds(BodyID(i), m)
+		if b := w.b.shape[i].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
+			w.b.bounds[i] = b.Transform(c.pose[i]).Grow(m)
+		} else {
+			w.b.bounds[i] = b // a plane: unbounded
+		}
 		_ = c.bp.Move(int32(i), w.b.bounds[i])
 	}
 	c.pairs = c.bp.Pairs(c.pairs[:0])
@@ -126,7 +135,9 @@ func (w *World) collide(dt float64) {
 		} else if kb == Static {
 			margin = c.margin[a]
 		}
-		c.manifolds = c.det.Collide(c.manifolds[:0], w.b.shape[a], w.ShapePose(a), w.b.shape[b], w.ShapePose(b), margin)
+		// The pair's key lets the narrow phase reuse what it found last step.
+		key := uint64(uint32(a))<<32 | uint64(uint32(b))
+		c.manifolds = c.det.CollidePair(c.manifolds[:0], key, w.b.shape[a], c.pose[a], w.b.shape[b], c.pose[b], margin)
 		coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
 		touch := false
 		for _, mf := range c.manifolds {
@@ -152,6 +163,7 @@ func (w *World) collide(dt float64) {
 			c.touching = append(c.touching, touchPair{a, b})
 		}
 	}
+	c.det.NextStep()
 	w.contactEvents()
 }
 

@@ -1,0 +1,276 @@
+package collide
+
+import (
+	"math"
+
+	"clatter/shapes"
+)
+
+// The separating-axis test of a box (P) against a hull (Q), run in the
+// hull's own frame so that its vertices and face planes are used as stored.
+// It finds the axis that sat would find on the same two polytopes, at a
+// fraction of the cost:
+//
+//   - a hull face's gap uses the box's extent along the normal, from the
+//     cosines of the normal with the box's three axes;
+//   - the edge pairs to test are those whose arcs cross on the Gauss map
+//     (see sat.go). The box's arcs are the quarter circles of the
+//     coordinate planes of its frame, so a hull edge's (negated) arc crosses
+//     the arc of box axis i exactly where it passes through the plane x_i = 0
+//     of the box frame, and the signs of the crossing point's other two
+//     coordinates name the box edge. The same cosines give that point, so
+//     each hull edge costs a few comparisons instead of a test against all
+//     twelve box edges.
+
+// boxEdgeAt[i][bits] is the index in boxEdges of the box edge along axis i
+// whose vertices have the sign bits bits on the other two axes (bit i clear).
+var boxEdgeAt = func() (t [3][8]int8) {
+	for i := range t {
+		for k := range t[i] {
+			t[i][k] = -1
+		}
+	}
+	for e, ed := range boxEdges {
+		v0, v1 := int(ed.V[0]), int(ed.V[1])
+		x := v0 ^ v1
+		i := 0
+		for x != 1<<i {
+			i++
+		}
+		t[i][v0&^(1<<i)] = int8(e)
+	}
+	return t
+}()
+
+// boxHull collides box a with hull b (views in the query frame); the
+// contact points are left in d.cand, in the query frame.
+func (d *Detector) boxHull(a, b *view, margin float64, h pairHint) (vec3, bool) {
+	bv := *a
+	bv.rot = mulTM(b.rot, a.rot)
+	bv.pos = mulT(b.rot, a.pos.Sub(b.pos))
+	p := &d.polyP
+	p.set(&bv)
+	var r satResult
+	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r) {
+		d.remember(r)
+		return vec3{}, false
+	}
+	// Touching: the hull's polytope, in its own frame, for the clipping.
+	hv := *b
+	hv.rot, hv.pos = identity3, vec3{}
+	q := &d.polyQ
+	q.set(&hv)
+	n := d.polyContact(p, q, r, margin)
+	if b.rot != identity3 || b.pos != (vec3{}) {
+		for i := range d.cand {
+			d.cand[i].p = b.pos.Add(mul(b.rot, d.cand[i].p))
+		}
+		n = mul(b.rot, n)
+	}
+	if r.kind == satFaceP {
+		// The box face's normal as the query frame has it: exact when the
+		// box is the frame, so that a resting contact's normal carries no
+		// rounding from the change of frame (the reduction's tie-breaks
+		// look at the normal's components).
+		n = col(a.rot, r.face/2)
+		if r.face%2 == 1 {
+			n = n.Mul(-1)
+		}
+	}
+	return n, len(d.cand) > 0
+}
+
+// hullMin is the vertex of h with the least n.x and that value (the same
+// vertex and value as polytope.minAlong on the hull in its own frame).
+func hullMin(h *shapes.Hull, n vec3) (int, float64) {
+	i := h.SupportIndex(n.Mul(-1))
+	return i, n.Dot(h.Vertices[i])
+}
+
+// crossedBoxEdge is the box edge along axis i whose arc the negated arc of
+// a hull edge crosses on the Gauss map, given the cosines ca and cb of the
+// hull edge's two face normals with the box axes, or -1. The negated arc
+// meets the plane x_i = 0 of the box frame where the normals' cosines with
+// axis i change sign, at the point -(ca |cb_i| + cb |ca_i|) (positive
+// weights of its ends), and the signs of that point's other coordinates
+// name the quadrant, so the edge.
+func crossedBoxEdge(ca, cb *vec3, i int) int {
+	if !(ca[i]*cb[i] < 0) {
+		return -1
+	}
+	wa, wb := math.Abs(cb[i]), math.Abs(ca[i])
+	j, k := (i+1)%3, (i+2)%3
+	pj := -(ca[j]*wa + cb[j]*wb)
+	pk := -(ca[k]*wa + cb[k]*wb)
+	if pj == 0 || pk == 0 {
+		return -1 // through a box face normal: a tie, no crossing inside the arc
+	}
+	bits := 0
+	if pj > 0 {
+		bits |= 1 << j
+	}
+	if pk > 0 {
+		bits |= 1 << k
+	}
+	return int(boxEdgeAt[i][bits])
+}
+
+// boxEdgeFrame is a box edge in the computation frame: its start, its
+// direction (and that squared), and the sum of its two faces' normals,
+// which points out of the box across the edge.
+type boxEdgeFrame struct {
+	p0, dp, out vec3
+	dd          float64
+}
+
+// edgeGap is the gap on the cross product of box edge x and the edge from
+// q0 along dq, oriented outward from the box; ok is false for parallel
+// edges (as in sat, the cross product below satParallel of the lengths'
+// product).
+func (x *boxEdgeFrame) edgeGap(q0, dq *vec3) (s float64, ax vec3, ok bool) {
+	ax = x.dp.Cross(*dq)
+	l2 := ax.Dot(ax)
+	if l2 <= satParallel*satParallel*x.dd*dq.Dot(*dq) || l2 == 0 {
+		return 0, ax, false
+	}
+	ax = ax.Mul(1 / math.Sqrt(l2))
+	if ax.Dot(x.out) < 0 {
+		ax = ax.Mul(-1)
+	}
+	return ax.Dot(q0.Sub(x.p0)), ax, true
+}
+
+// satBoxHull is satHint for box polytope p (view bv, in the hull's frame)
+// against hull h in its own frame; scale is the sum of the shapes' sizes.
+func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult) bool {
+	u0, u1, u2 := col(bv.rot, 0), col(bv.rot, 1), col(bv.rot, 2)
+	c, hb := bv.pos, bv.half
+	var be [12]boxEdgeFrame
+	for k, e := range boxEdges {
+		x := &be[k]
+		x.p0 = p.verts[e.V[0]]
+		x.dp = p.verts[e.V[1]].Sub(x.p0)
+		x.dd = x.dp.Dot(x.dp)
+		x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+	}
+	boxFace := func(i int) float64 {
+		pl := &p.planes[i]
+		_, m := hullMin(h, pl.n)
+		return m - pl.d
+	}
+	// A hull face's gap from the box's extent along its normal.
+	hullFace := func(j int) (float64, vec3) {
+		f := &h.Faces[j]
+		n := f.Normal
+		cs := vec3{n.Dot(u0), n.Dot(u1), n.Dot(u2)}
+		return n.Dot(c) - (hb[0]*math.Abs(cs[0]) + hb[1]*math.Abs(cs[1]) + hb[2]*math.Abs(cs[2])) - f.Offset, cs
+	}
+	switch hint.kind {
+	case hintFaceP:
+		if int(hint.i) < len(p.planes) && boxFace(int(hint.i)) > margin {
+			r.fail, r.hinted = hint, true
+			return false
+		}
+	case hintFaceQ:
+		if int(hint.i) < len(h.Faces) {
+			if s, _ := hullFace(int(hint.i)); s > margin {
+				r.fail, r.hinted = hint, true
+				return false
+			}
+		}
+	case hintEdge:
+		if int(hint.i) < len(boxEdges) && int(hint.j) < len(h.Edges) {
+			e := h.Edges[hint.j]
+			_, ca := hullFace(int(e.F[0]))
+			_, cb := hullFace(int(e.F[1]))
+			if crossedBoxEdge(&ca, &cb, int(boxEdgeAxis[hint.i])) == int(hint.i) {
+				q0 := h.Vertices[e.V[0]]
+				dq := h.Vertices[e.V[1]].Sub(q0)
+				if s, _, ok := be[hint.i].edgeGap(&q0, &dq); ok && s > margin {
+					r.fail, r.hinted = hint, true
+					return false
+				}
+			}
+		}
+	}
+	bestP, bestPi := math.Inf(-1), -1
+	for i := range p.planes {
+		s := boxFace(i)
+		if s > margin {
+			r.fail = pairHint{kind: hintFaceP, i: int32(i)}
+			return false
+		}
+		if s > bestP {
+			bestP, bestPi = s, i
+		}
+	}
+	d.faceCos = d.faceCos[:0]
+	bestQ, bestQi := math.Inf(-1), -1
+	for j := range h.Faces {
+		s, cs := hullFace(j)
+		if s > margin {
+			r.fail = pairHint{kind: hintFaceQ, i: int32(j)}
+			return false
+		}
+		d.faceCos = append(d.faceCos, cs)
+		if s > bestQ {
+			bestQ, bestQi = s, j
+		}
+	}
+	r.kind, r.sep, r.face = satFaceP, bestP, bestPi
+	if bestQ > bestP+satFaceBias*scale {
+		r.kind, r.sep, r.face = satFaceQ, bestQ, bestQi
+	}
+	bestFace := r.sep
+	bestE := math.Inf(-1)
+	cos := d.faceCos
+	for he := range h.Edges {
+		e := &h.Edges[he]
+		ca, cb := &cos[e.F[0]], &cos[e.F[1]]
+		for i := 0; i < 3; i++ {
+			bi := crossedBoxEdge(ca, cb, i)
+			if bi < 0 {
+				continue
+			}
+			q0 := h.Vertices[e.V[0]]
+			dq := h.Vertices[e.V[1]].Sub(q0)
+			s, ax, ok := be[bi].edgeGap(&q0, &dq)
+			if !ok {
+				continue
+			}
+			if s > margin {
+				r.fail = pairHint{kind: hintEdge, i: int32(bi), j: int32(he)}
+				return false
+			}
+			if s > bestE {
+				bestE = s
+				if bestE > bestFace+satEdgeBias*scale {
+					bed := boxEdges[bi]
+					r.kind, r.sep, r.axis = satEdge, s, ax
+					r.ep, r.eq = bi, he
+					r.p0, r.p1 = p.verts[bed.V[0]], p.verts[bed.V[1]]
+					r.q0, r.q1 = q0, h.Vertices[e.V[1]]
+				}
+			}
+		}
+	}
+	return true
+}
+
+// boxEdgeAxis is the axis along which each box edge runs.
+var boxEdgeAxis = func() (t [12]int8) {
+	for e, ed := range boxEdges {
+		x := ed.V[0] ^ ed.V[1]
+		for x != 1<<t[e] {
+			t[e]++
+		}
+	}
+	return t
+}()
+
+func growF(s []float64, n int) []float64 {
+	if cap(s) < n {
+		return make([]float64, n, n+n/4)
+	}
+	return s[:n]
+}

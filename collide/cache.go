@@ -1,0 +1,311 @@
+package collide
+
+import (
+	"cmp"
+	"math"
+	"slices"
+
+	"clatter/shapes"
+)
+
+// Temporal coherence between steps: most candidate pairs of a resting pile
+// are apart, and the axis that separated a pair last step almost always
+// separates it again. CollidePair remembers that axis per pair and tests it
+// first. The memory only ever ends a query early when the axis proves what
+// the full query would also find (no contact within the margin), so the
+// results are the same as those of Collide, query by query:
+//
+//   - a direction of the general path gives a lower bound on the distance,
+//     which GJK's distance (an upper bound) cannot undercut;
+//   - an axis of the separating-axis test is one that the test itself
+//     tries: a face normal of one of the shapes at its current pose, or the
+//     cross product of two box axes. Where the Gauss map decides whether an
+//     edge pair is tried (hulls), the test's own loop checks the
+//     remembered pair first, on its own arithmetic.
+//
+// The quick test outside the query's frames works in world coordinates, so
+// it asks for a gap beyond the margin by memBand, far above the rounding of
+// either computation and above GJK's touching tolerance.
+
+// hint kinds: what a pair's memory holds.
+const (
+	hintNone  uint8 = iota
+	hintDir         // a world direction from A to B (general path)
+	hintFaceP       // face i of P (separating-axis test; P and Q as polytopes orders them)
+	hintFaceQ       // face i of Q
+	hintEdge        // edge i of P against edge j of Q (boxes: axis i of P, axis j of Q)
+)
+
+// memBand, relative to the shapes' sizes plus their distances from the
+// origin: how far beyond the margin the quick test wants the gap. Rounding
+// of either computation is about 1e-15 of those lengths; GJK treats cores
+// closer than coreTouch (1e-9) of the sizes as overlapping.
+const memBand = 1e-8
+
+// pairHint is the memory of one pair.
+type pairHint struct {
+	key  uint64
+	kind uint8
+	// swap: the separating-axis test's P is the query's B (the test orders
+	// a box before a hull).
+	swap bool
+	i, j int32
+	// dir is the world direction of hintDir; for face hints the face's
+	// outward normal in its own shape's frame, with off its plane offset.
+	dir vec3
+	off float64
+	// va, vb: the hull vertices of A and B that were last extreme along
+	// the direction, where the next search starts.
+	va, vb int32
+}
+
+// pairCache holds last step's hints sorted by key and this step's as they
+// are made.
+type pairCache struct {
+	prev, cur []pairHint
+	cursor    int // where the next lookup in prev starts (queries come in key order)
+	on        bool
+	swapped   bool     // the current query's pair handler sees B before A
+	in, out   pairHint // the current query's hint from last step, and for the next
+}
+
+func (c *pairCache) lookup(key uint64) pairHint {
+	p := c.prev
+	if c.cursor < len(p) && p[c.cursor].key == key {
+		c.cursor++
+		return p[c.cursor-1]
+	}
+	i, ok := slices.BinarySearchFunc(p, key, func(h pairHint, k uint64) int { return cmp.Compare(h.key, k) })
+	if !ok {
+		c.cursor = i
+		return pairHint{}
+	}
+	c.cursor = i + 1
+	return p[i]
+}
+
+// CollidePair is Collide for a pair that is queried step after step under
+// the same key (for example the two body ids): it returns the same
+// manifolds, and uses what the pair's last query found to answer sooner.
+// Call NextStep once all of a step's pairs have been queried.
+func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
+	c := &d.cache
+	if !plainConvex(a) || !plainConvex(b) {
+		return d.Collide(dst, a, pa, b, pb, margin)
+	}
+	if !(margin >= 0) || math.IsInf(margin, 0) {
+		margin = 0
+	}
+	if !finitePose(pa) || !finitePose(pb) {
+		return dst
+	}
+	h := c.lookup(key)
+	if h.kind != hintNone && d.stillApart(&h, a, pa, b, pb, margin) {
+		c.cur = append(c.cur, h)
+		d.stats.Remembered++
+		return dst
+	}
+	c.in = h
+	c.out = pairHint{key: key}
+	c.on, c.swapped = true, false
+	dst = d.Collide(dst, a, pa, b, pb, margin)
+	c.on = false
+	if o := &c.out; o.kind != hintNone {
+		o.swap = c.swapped
+		switch o.kind {
+		case hintDir:
+			// Found in A's frame, from the handler's first shape to its second.
+			o.dir = pa.Orientation.Rotate(o.dir)
+			if c.swapped {
+				o.dir = o.dir.Mul(-1)
+			}
+		case hintFaceP, hintFaceQ:
+			owner := a
+			if (o.kind == hintFaceQ) != o.swap {
+				owner = b
+			}
+			o.dir, o.off = faceOf(owner, int(o.i))
+		}
+		c.cur = append(c.cur, c.out)
+	}
+	return dst
+}
+
+// NextStep ends a step of CollidePair queries: what they found becomes the
+// memory for the next step, and pairs not queried this step are forgotten.
+func (d *Detector) NextStep() {
+	c := &d.cache
+	if !slices.IsSortedFunc(c.cur, cmpHint) {
+		slices.SortStableFunc(c.cur, cmpHint)
+	}
+	// A key queried twice in one step keeps its last hint.
+	n := 0
+	for i := range c.cur {
+		if n > 0 && c.cur[n-1].key == c.cur[i].key {
+			c.cur[n-1] = c.cur[i]
+			continue
+		}
+		c.cur[n] = c.cur[i]
+		n++
+	}
+	c.prev, c.cur = c.cur[:n], c.prev[:0]
+	c.cursor = 0
+}
+
+func cmpHint(a, b pairHint) int { return cmp.Compare(a.key, b.key) }
+
+// remember keeps the axis that separated the current query for the next step.
+func (d *Detector) remember(r satResult) {
+	c := &d.cache
+	if !c.on || r.fail.kind == hintNone {
+		return
+	}
+	c.out.kind, c.out.i, c.out.j = r.fail.kind, r.fail.i, r.fail.j
+	if r.hinted {
+		d.stats.Remembered++
+	}
+}
+
+// plainConvex reports shapes whose pairs the memory serves: convex shapes
+// other than planes (compounds and meshes have several pieces per pair).
+func plainConvex(s shapes.Shape) bool {
+	switch s.(type) {
+	case shapes.Box, shapes.Cylinder, *shapes.Hull, shapes.Sphere, shapes.Capsule:
+		return true
+	}
+	return false
+}
+
+// faceOf returns face i's outward normal and plane offset in the frame of
+// box or hull s (box faces in the order +x, -x, +y, -y, +z, -z).
+func faceOf(s shapes.Shape, i int) (vec3, float64) {
+	switch c := s.(type) {
+	case shapes.Box:
+		if i >= 0 && i < 6 {
+			var n vec3
+			n[i/2] = 1 - 2*float64(i%2)
+			return n, c.Half[i/2]
+		}
+	case *shapes.Hull:
+		if c != nil && i >= 0 && i < len(c.Faces) {
+			return c.Faces[i].Normal, c.Faces[i].Offset
+		}
+	}
+	return vec3{}, 0
+}
+
+// extent returns the largest value of n.x over shape s at pose p (n a
+// world unit vector), starting a hull's search at vertex *start and leaving
+// the extreme vertex there.
+func extent(s shapes.Shape, p shapes.Pose, n vec3, start *int32) float64 {
+	l := p.Orientation.Conjugate().Rotate(n)
+	e := n.Dot(p.Position)
+	switch c := s.(type) {
+	case shapes.Box:
+		return e + c.Half[0]*math.Abs(l[0]) + c.Half[1]*math.Abs(l[1]) + c.Half[2]*math.Abs(l[2])
+	case shapes.Sphere:
+		return e + c.Radius
+	case shapes.Capsule:
+		return e + c.HalfLength*math.Abs(l[2]) + c.Radius
+	case shapes.Cylinder:
+		return e + c.HalfLength*math.Abs(l[2]) + c.Radius*math.Hypot(l[0], l[1])
+	case *shapes.Hull:
+		i := hullSupportFrom(c, l, *start)
+		*start = int32(i)
+		return e + c.Vertices[i].Dot(l)
+	}
+	return math.Inf(1)
+}
+
+// hullSupportFrom is the index of a vertex of h farthest along d, found by
+// climbing the vertex graph from vertex start (a vertex no neighbour of
+// which is farther is farthest on a convex polytope); small hulls are
+// scanned.
+func hullSupportFrom(h *shapes.Hull, d vec3, start int32) int {
+	if len(h.Vertices) <= 16 || len(h.Neighbors) != len(h.Vertices) {
+		return h.SupportIndex(d)
+	}
+	cur := int(start)
+	if cur < 0 || cur >= len(h.Vertices) {
+		cur = 0
+	}
+	best := h.Vertices[cur].Dot(d)
+	for {
+		moved := false
+		for _, j := range h.Neighbors[cur] {
+			if p := h.Vertices[j].Dot(d); p > best {
+				best, cur, moved = p, int(j), true
+			}
+		}
+		if !moved {
+			return cur
+		}
+	}
+}
+
+// radius is a bound on the distance of s's points from its frame's origin
+// (zero for shapes the memory does not serve).
+func radius(s shapes.Shape) float64 {
+	switch c := s.(type) {
+	case shapes.Box:
+		return c.Half.Len()
+	case shapes.Sphere:
+		return c.Radius
+	case shapes.Capsule:
+		return c.Radius + c.HalfLength
+	case shapes.Cylinder:
+		return math.Hypot(c.Radius, c.HalfLength)
+	case *shapes.Hull:
+		b := c.Bounds()
+		return 0.5*b.Size().Len() + b.Center().Len()
+	}
+	return 0
+}
+
+// stillApart reports whether the remembered axis h still separates shape a
+// at pa from b at pb by more than margin (plus the band), computed on the
+// axis at the current poses.
+func (d *Detector) stillApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) bool {
+	band := memBand * (radius(a) + radius(b) + pa.Position.Len() + pb.Position.Len())
+	var gap float64
+	switch h.kind {
+	case hintDir:
+		n := h.dir
+		gap = -extent(b, pb, n.Mul(-1), &h.vb) - extent(a, pa, n, &h.va)
+	case hintFaceP, hintFaceQ:
+		// The face's owner and the other shape.
+		po, sx, px, vx := pa, b, pb, &h.vb
+		if (h.kind == hintFaceQ) != h.swap {
+			po, sx, px, vx = pb, a, pa, &h.va
+		}
+		n := po.Orientation.Rotate(h.dir)
+		if n == (vec3{}) {
+			return false
+		}
+		gap = -extent(sx, px, n.Mul(-1), vx) - (n.Dot(po.Position) + h.off)
+	case hintEdge:
+		ba, okA := a.(shapes.Box)
+		bb, okB := b.(shapes.Box)
+		if !okA || !okB || h.i < 0 || h.i > 2 || h.j < 0 || h.j > 2 {
+			return false // edges of hulls: the test's own loop checks them
+		}
+		ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
+		pi, qj := int(h.i), int(h.j)
+		if h.swap {
+			pi, qj = qj, pi
+		}
+		ax := col(ra, pi).Cross(col(rb, qj))
+		l := ax.Len()
+		if l <= 2*satParallel {
+			return false
+		}
+		ax = ax.Mul(1 / l)
+		gap = math.Abs(ax.Dot(pb.Position.Sub(pa.Position)))
+		for k := 0; k < 3; k++ {
+			gap -= ba.Half[k]*math.Abs(ax.Dot(col(ra, k))) + bb.Half[k]*math.Abs(ax.Dot(col(rb, k)))
+		}
+	default:
+		return false
+	}
+	return gap > margin+band
+}

@@ -1,0 +1,72 @@
+package contact
+
+// keyIndex is a point's warm-start key and its index in the step's points.
+type keyIndex struct {
+	key uint64
+	i   int32
+}
+
+// sortKeys orders this step's points by key and matches them with last
+// step's (sorted) memory: an LSD radix sort, 8 bits a pass and stable, so
+// that equal keys keep the points' order, and then one merge with prevPts.
+// Both are linear in the number of points, where a comparison sort and a
+// binary search per point cost n log n.
+func (s *Solver) sortKeys(points []Point) {
+	// smallSort: below this many points an insertion sort beats the eight
+	// counting passes (each clears 256 counters).
+	const smallSort = 48
+	n := len(points)
+	s.byKey, s.keyTmp = grow(s.byKey, n), grow(s.keyTmp, n)
+	s.rank, s.match = grow(s.rank, n), grow(s.match, n)
+	for i := range points {
+		s.byKey[i] = keyIndex{points[i].Key, int32(i)}
+	}
+	src, dst := s.byKey, s.keyTmp
+	if n <= smallSort {
+		// Few points (a part on a floor): insertion sort, stable too.
+		for i := 1; i < n; i++ {
+			e := src[i]
+			j := i
+			for j > 0 && src[j-1].key > e.key {
+				src[j] = src[j-1]
+				j--
+			}
+			src[j] = e
+		}
+	}
+	var count [256]int
+	for shift := 0; shift < 64 && n > smallSort; shift += 8 {
+		count = [256]int{}
+		for _, e := range src {
+			count[byte(e.key>>shift)]++
+		}
+		if count[byte(src[0].key>>shift)] == n {
+			continue // every key has this digit
+		}
+		sum := 0
+		for d, c := range count {
+			count[d] = sum
+			sum += c
+		}
+		for _, e := range src {
+			d := byte(e.key >> shift)
+			dst[count[d]] = e
+			count[d]++
+		}
+		src, dst = dst, src
+	}
+	s.byKey, s.keyTmp = src, dst
+	prev := s.prevPts
+	k := 0
+	for r, e := range s.byKey {
+		s.rank[e.i] = int32(r)
+		for k < len(prev) && prev[k].key < e.key {
+			k++
+		}
+		if k < len(prev) && prev[k].key == e.key {
+			s.match[e.i] = int32(k)
+		} else {
+			s.match[e.i] = -1
+		}
+	}
+}
