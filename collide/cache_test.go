@@ -34,12 +34,16 @@ func ellipsoidHull(t testing.TB, rng *rand.Rand, n int, s vec3) *shapes.Hull {
 func TestBoxHullMatchesReference(t *testing.T) {
 	const tol = 1e-12 // projections of the same vertices, coordinates of size 1
 	rng := rand.New(rand.NewSource(23))
-	d := NewDetector()
-	over, apart := 0, 0
-	for i := 0; i < 400; i++ {
-		half := vec3{0.2 + rng.Float64(), 0.2 + rng.Float64(), 0.2 + rng.Float64()}
+	// A few hulls, random clouds and 40-vertex ellipsoids, each with its
+	// brute-force facets (which a rigid motion keeps).
+	type refHull struct {
+		h   *shapes.Hull
+		ref refPoly
+	}
+	var hulls []refHull
+	for k := 0; k < 12; k++ {
 		var hull *shapes.Hull
-		if i%2 == 0 {
+		if k%2 == 0 {
 			h, err := shapes.NewHull(randomCloud(rng, 4+rng.Intn(30), vec3{0.3 + rng.Float64(), 0.3 + rng.Float64(), 0.3 + rng.Float64()}))
 			if err != nil {
 				t.Fatal(err)
@@ -48,6 +52,14 @@ func TestBoxHullMatchesReference(t *testing.T) {
 		} else {
 			hull = ellipsoidHull(t, rng, 40, vec3{0.5 + rng.Float64(), 0.5 + rng.Float64(), 0.3 + rng.Float64()})
 		}
+		hulls = append(hulls, refHull{hull, bruteHull(hull.Vertices)})
+	}
+	d := NewDetector()
+	over, apart := 0, 0
+	for i := 0; i < 400; i++ {
+		half := vec3{0.2 + rng.Float64(), 0.2 + rng.Float64(), 0.2 + rng.Float64()}
+		rh := hulls[i%len(hulls)]
+		hull := rh.h
 		pa := shapes.Pose{Position: vec3{rng.Float64(), rng.Float64(), rng.Float64()}, Orientation: randomRotation(rng)}
 		dir, _ := unit(vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()})
 		pb := shapes.Pose{Position: pa.Position.Add(dir.Mul(2.5 * rng.Float64())), Orientation: randomRotation(rng)}
@@ -55,7 +67,9 @@ func TestBoxHullMatchesReference(t *testing.T) {
 		for k := 0; k < 8; k++ {
 			corners = append(corners, pa.Apply(boxVertex(half, k)))
 		}
-		ref, _ := refGap(bruteHull(corners), bruteHull(place(hull.Vertices, pb)))
+		placed := rh.ref
+		placed.pts = place(hull.Vertices, pb)
+		ref, _ := refGap(bruteHull(corners), placed)
 
 		// The fast test in the hull's frame, as boxHull runs it.
 		fa, fb := poseFrame(pa), poseFrame(pb)
