@@ -88,6 +88,7 @@ type World struct {
 	pairs        []PairCoefficients
 	b            bodyData
 	kicks        []kick
+	motorChanges []motorChange // schedule.go
 	events       []Event
 	time         float64
 	steps        int
@@ -197,7 +198,8 @@ func (w *World) Step(dt float64) error {
 }
 
 func (w *World) step(dt float64) error {
-	w.drive(dt) // driven kinematic bodies: velocities for this step (driver.go)
+	w.applyMotorChanges(dt) // scheduled motors (schedule.go)
+	w.drive(dt)             // driven kinematic bodies: velocities for this step (driver.go)
 	e0, k0 := 0.0, 0.0
 	guard := !w.cfg.NoDivergenceCheck && !w.driven()
 	if guard {
