@@ -56,6 +56,14 @@ type summaryDoc struct {
 			Initial, Final [3]float64
 		} `json:"linear"`
 	} `json:"momentum"`
+	Joints []struct {
+		Name      string   `json:"name"`
+		Kind      string   `json:"kind"`
+		Position  *float64 `json:"position"`
+		Speed     *float64 `json:"speed"`
+		MaxForce  float64  `json:"max_force"`
+		MaxTorque float64  `json:"max_torque"`
+	} `json:"joints"`
 	Error string `json:"error"`
 }
 

@@ -28,6 +28,10 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
                    moving body every --sample seconds (default 0.01) and at the end
   events.jsonl     impacts, sleep and wake, settling and errors, one JSON
                    object a line
+  joints.csv       for a scene with joints: time,joint,fx,fy,fz,tx,ty,tz,
+                   position,speed,effort, a row per joint every sample: the
+                   force and torque the joint applied to its first body, its
+                   angle (deg) or travel, its speed and its motor's effort
 
 Everything is in the scene's units (units = { length, mass }), time in s,
 angles in degrees, angular velocity in rad/s, energy in J. A table of the
@@ -108,7 +112,7 @@ func runScene(e *env, args []string) int {
 		return exitFailed
 	}
 	if *dir != "" {
-		e.infof("wrote %s", strings.Join([]string{filepath.Join(*dir, report.SummaryFile), report.TrajectoryFile, report.EventsFile}, ", "))
+		e.infof("wrote %s", strings.Join(append([]string{filepath.Join(*dir, report.SummaryFile)}, outputFiles(s)[1:]...), ", "))
 	}
 	return exitOK
 }
@@ -152,13 +156,39 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
+	if len(sum.Joints) > 0 {
+		tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
+		fmt.Fprintf(tw, "joint	kind	position	speed	largest force (%s)	largest torque (%s)\n", u.Symbol(scene.Force), u.Symbol(scene.Torque))
+		for _, j := range sum.Joints {
+			pos, speed := "-", "-"
+			if j.Position != nil {
+				unit, rate := u.Length, u.Symbol(scene.Speed)
+				if j.Kind == "hinge" {
+					unit, rate = "deg", "rad/s"
+				}
+				pos, speed = fmt.Sprintf("%.4g %s", *j.Position, unit), fmt.Sprintf("%.4g %s", *j.Speed, rate)
+			}
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.4g\t%.4g\n", j.Name, j.Kind, pos, speed, j.MaxForce, j.MaxTorque)
+		}
+		tw.Flush()
+		fmt.Fprintln(w)
+	}
 	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
 	if dir != "" {
-		fmt.Fprintf(w, "results  %s: %s, %s, %s\n", dir, report.SummaryFile, report.TrajectoryFile, report.EventsFile)
+		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(outputFiles(s), ", "))
 	}
 	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round")
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, safetyNote)
+}
+
+// outputFiles names the files a run of s writes.
+func outputFiles(s *scene.Scene) []string {
+	files := []string{report.SummaryFile, report.TrajectoryFile, report.EventsFile}
+	if len(s.Joints) > 0 {
+		files = append(files, report.JointsFile)
+	}
+	return files
 }
 
 func fmtVec(v []float64) string {

@@ -25,10 +25,18 @@ const (
 	SummaryFile    = "summary.json"
 	TrajectoryFile = "trajectory.csv"
 	EventsFile     = "events.jsonl"
+	JointsFile     = "joints.csv"
 )
 
 // TrajectoryHeader is the first line of trajectory.csv.
 const TrajectoryHeader = "time,body,x,y,z,qw,qx,qy,qz,vx,vy,vz,wx,wy,wz"
+
+// JointsHeader is the first line of joints.csv: the force and torque that
+// each joint applied to its first body (world frame, at its anchor), its
+// position (a hinge's angle in degrees, a slider's travel or a link's
+// length), its speed (rad/s or length/s) and its motor's effort (torque
+// or force along the axis); empty where a kind has no such quantity.
+const JointsHeader = "time,joint,fx,fy,fz,tx,ty,tz,position,speed,effort"
 
 // Options control a run.
 type Options struct {
@@ -67,6 +75,9 @@ type runner struct {
 	u    scene.Units
 	traj *bufio.Writer
 	ev   *bufio.Writer
+	jt   *bufio.Writer // joints.csv, when the scene has joints
+	// peak holds each joint's largest reaction force and torque so far.
+	peak [][2]float64
 	row  []byte
 	// touching counts, per body id, the bodies it touches.
 	touching []int
@@ -104,7 +115,7 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	var files []*os.File
 	closeAll := func() error {
 		var first error
-		for _, bw := range []*bufio.Writer{r.traj, r.ev} {
+		for _, bw := range []*bufio.Writer{r.traj, r.ev, r.jt} {
 			if bw != nil {
 				if err := bw.Flush(); err != nil && first == nil {
 					first = err
@@ -124,10 +135,17 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		if err := os.MkdirAll(opt.Dir, 0o755); err != nil {
 			return nil, fmt.Errorf("cannot make the output folder: %w", err)
 		}
-		for _, f := range []struct {
+		outs := []struct {
 			name string
 			bw   **bufio.Writer
-		}{{TrajectoryFile, &r.traj}, {EventsFile, &r.ev}} {
+		}{{TrajectoryFile, &r.traj}, {EventsFile, &r.ev}}
+		if len(s.Joints) > 0 {
+			outs = append(outs, struct {
+				name string
+				bw   **bufio.Writer
+			}{JointsFile, &r.jt})
+		}
+		for _, f := range outs {
 			fh, err := os.Create(filepath.Join(opt.Dir, f.name))
 			if err != nil {
 				return nil, fmt.Errorf("cannot write results: %w", err)
@@ -136,7 +154,11 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			*f.bw = bufio.NewWriterSize(fh, 1<<16)
 		}
 		r.traj.WriteString(TrajectoryHeader + "\n")
+		if r.jt != nil {
+			r.jt.WriteString(JointsHeader + "\n")
+		}
 	}
+	r.peak = make([][2]float64, len(s.Joints))
 
 	sum := &Summary{Units: UnitsOf(r.u)}
 	sum.Energy.Initial = w.Energy()
@@ -173,6 +195,7 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			break
 		}
 		r.events()
+		r.peaks()
 		t := w.Time()
 		if t >= next-1e-9*opt.Sample {
 			r.sample(t)
@@ -268,6 +291,46 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 	sum.Momentum.Angular.Initial = clean3(sum.Momentum.Angular.Initial)
 	sum.Momentum.Linear.Final = clean3(r.u.VecFromSI(w.LinearMomentum(), scene.Impulse))
 	sum.Momentum.Angular.Final = clean3(r.u.VecFromSI(w.AngularMomentum(shapes.Vec3{}), angularMomentum))
+	for i, sj := range r.s.Joints {
+		j := engine.JointID(i)
+		pos, speed, _ := r.jointMotion(j, sj.Kind)
+		sum.Joints = append(sum.Joints, Joint{
+			Name:      sj.Name,
+			Kind:      sj.KindName(),
+			Position:  pos,
+			Speed:     speed,
+			MaxForce:  clean(r.u.FromSI(r.peak[i][0], scene.Force)),
+			MaxTorque: clean(r.u.FromSI(r.peak[i][1], scene.Torque)),
+		})
+	}
+}
+
+// peaks tracks the largest reaction of every joint.
+func (r *runner) peaks() {
+	for i := range r.peak {
+		f, t := r.w.JointReaction(engine.JointID(i))
+		r.peak[i][0] = math.Max(r.peak[i][0], f.Len())
+		r.peak[i][1] = math.Max(r.peak[i][1], t.Len())
+	}
+}
+
+// jointMotion returns a joint's position and speed in the output units
+// (nil for a kind without them) and whether it has a motor effort.
+func (r *runner) jointMotion(j engine.JointID, k engine.JointKind) (pos, speed *float64, effort bool) {
+	var pd, sd scene.Dim
+	switch k {
+	case engine.Revolute:
+		pd, sd, effort = scene.Angle, scene.AngularSpeed, true
+	case engine.Prismatic:
+		pd, sd, effort = scene.Length, scene.Speed, true
+	case engine.Distance:
+		pd, sd = scene.Length, scene.Speed
+	default:
+		return nil, nil, false
+	}
+	p := clean(r.u.FromSI(r.w.JointPosition(j), pd))
+	v := clean(r.u.FromSI(r.w.JointSpeed(j), sd))
+	return &p, &v, effort
 }
 
 // restingFace returns the face body i rests on, or nil (see RestingFace).
@@ -338,6 +401,45 @@ func (r *runner) sample(t float64) {
 		}
 		b = append(b, '\n')
 		r.traj.Write(b)
+		r.row = b
+	}
+	if r.jt != nil {
+		r.jointRows(t)
+	}
+}
+
+// jointRows writes a joints.csv row per joint.
+func (r *runner) jointRows(t float64) {
+	for i, sj := range r.s.Joints {
+		j := engine.JointID(i)
+		f, tq := r.w.JointReaction(j)
+		fu := r.u.VecFromSI(f, scene.Force)
+		tu := r.u.VecFromSI(tq, scene.Torque)
+		b := r.row[:0]
+		b = strconv.AppendFloat(b, t, 'g', sigDigits, 64)
+		b = append(b, ',')
+		b = appendCSVField(b, sj.Name)
+		for _, x := range []float64{fu[0], fu[1], fu[2], tu[0], tu[1], tu[2]} {
+			b = append(b, ',')
+			b = strconv.AppendFloat(b, x, 'g', sigDigits, 64)
+		}
+		pos, speed, effort := r.jointMotion(j, sj.Kind)
+		for _, x := range []*float64{pos, speed} {
+			b = append(b, ',')
+			if x != nil {
+				b = strconv.AppendFloat(b, *x, 'g', sigDigits, 64)
+			}
+		}
+		b = append(b, ',')
+		if effort {
+			d := scene.Torque
+			if sj.Kind == engine.Prismatic {
+				d = scene.Force
+			}
+			b = strconv.AppendFloat(b, r.u.FromSI(r.w.MotorEffort(j), d), 'g', sigDigits, 64)
+		}
+		b = append(b, '\n')
+		r.jt.Write(b)
 		r.row = b
 	}
 }

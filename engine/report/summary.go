@@ -22,6 +22,9 @@ type Summary struct {
 	Bodies    []Body   `json:"bodies"`
 	Energy    Energy   `json:"energy"`
 	Momentum  Momentum `json:"momentum"`
+	// Joints are the scene's joints at the end, in file order (left out
+	// when there are none).
+	Joints []Joint `json:"joints,omitempty"`
 	// Error says why the run stopped early; empty for a completed run.
 	Error string `json:"error,omitempty"`
 }
@@ -57,6 +60,21 @@ type Body struct {
 	RestingFace *int `json:"resting_face"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`
+}
+
+// Joint is the state of one joint at the end of a run and the largest
+// reaction it carried at the end of any step.
+type Joint struct {
+	Name string `json:"name"`
+	Kind string `json:"kind"`
+	// Position is a hinge's angle (deg), a slider's travel or a link's
+	// length; Speed its rate (rad/s or length/s); null for a ball or weld.
+	Position *float64 `json:"position"`
+	Speed    *float64 `json:"speed"`
+	// MaxForce and MaxTorque are the largest magnitudes of the force and
+	// torque the joint applied to its first body.
+	MaxForce  float64 `json:"max_force"`
+	MaxTorque float64 `json:"max_torque"`
 }
 
 // Energy is kinetic plus potential energy (relative to the world origin)

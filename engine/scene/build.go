@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"clatter/engine"
+	"clatter/shapes"
 )
 
 // Config returns the engine settings of the scene's [world].
@@ -17,7 +18,7 @@ func (s *Scene) Config() engine.Config {
 }
 
 // Build makes a world of the scene with its own settings; ids[i] is the
-// id of s.Bodies[i].
+// id of s.Bodies[i], and s.Joints[i] is the world's joint engine.JointID(i).
 func (s *Scene) Build() (*engine.World, []engine.BodyID, error) {
 	return s.BuildWith(s.Config())
 }
@@ -81,9 +82,12 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 			Velocity:    b.Velocity,
 			Spin:        b.Spin,
 		}
-		if b.Static {
+		switch {
+		case b.Driven:
+			def.Kind = engine.Kinematic
+		case b.Static:
 			def.Kind = engine.Static
-		} else {
+		default:
 			props := b.Props
 			def.Props = &props
 		}
@@ -92,6 +96,35 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 			return nil, nil, fail(b.Line, "body %q: %v", b.Name, err)
 		}
 		ids[i] = id
+	}
+	for _, j := range s.Joints {
+		def := j.Def
+		def.A, def.B = ids[s.BodyIndex(j.A)], engine.Ground
+		if j.B != "" {
+			def.B = ids[s.BodyIndex(j.B)]
+		}
+		id, err := w.AddJoint(def)
+		if err != nil {
+			return nil, nil, fail(j.Line, "%v", err)
+		}
+		for _, c := range j.Program {
+			if err := w.ScheduleMotor(id, c.Time, c.Motor); err != nil {
+				return nil, nil, fail(j.Line, "%v", err)
+			}
+		}
+	}
+	for _, d := range s.Drives {
+		id := ids[s.BodyIndex(d.Body)]
+		if d.Motion != nil {
+			if err := w.SetMotion(id, d.Motion); err != nil {
+				return nil, nil, fail(d.Line, "drive of %q: %v", d.Body, err)
+			}
+		}
+		if d.Conveyor != (shapes.Vec3{}) {
+			if err := w.SetConveyor(id, d.Conveyor); err != nil {
+				return nil, nil, fail(d.Line, "drive of %q: %v", d.Body, err)
+			}
+		}
 	}
 	for _, k := range s.Kicks {
 		id := ids[s.BodyIndex(k.Body)]

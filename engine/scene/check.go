@@ -73,6 +73,8 @@ func (r *reader) checkStep() {
 		// speed bounds the surface speed for ordinary parts.
 		kickSpeed[k.Body] += 2 * k.Impulse.Len() / s.Bodies[i].Props.Mass
 	}
+	mb := s.mechanismBounds()
+	r.checkVibration()
 	for _, b := range s.Bodies {
 		if b.Static {
 			continue
@@ -82,10 +84,13 @@ func (r *reader) checkStep() {
 		size := math.Min(sz[0], math.Min(sz[1], sz[2]))
 		radius := sz.Len() / 2
 		top, extra := s.sweepReach(b.Name, radius)
-		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name] + extra
+		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name] + extra + mb.motor[b.Name] + mb.push
 		fall := g * w.Duration
 		if anyStatic && g > 0 {
 			h := math.Max(0, math.Max(up.Dot(b.Position), top)-lowest)
+			fall = math.Min(fall, math.Sqrt(2*g*h))
+		}
+		if h, held := mb.drop[b.Name]; held {
 			fall = math.Min(fall, math.Sqrt(2*g*h))
 		}
 		v := math.Sqrt(v0*v0 + fall*fall)

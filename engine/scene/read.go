@@ -251,12 +251,14 @@ func (s *Scene) read() (*Scene, error) {
 	r := &reader{s: s}
 	s.Units = SI
 	root := section{m: s.raw, name: "the scene's top level"}
-	r.keys(root, "units", "world", "material", "pair", "body", "kick", "sweep")
+	r.keys(root, "units", "world", "material", "pair", "body", "joint", "drive", "kick", "sweep")
 	r.units(root)
 	r.world(root)
 	r.materials(root)
 	r.pairs(root)
 	r.bodies(root)
+	r.joints(root)
+	r.drives(root)
 	r.kicks(root)
 	r.sweep(root)
 	if r.n == 0 {
@@ -445,6 +447,33 @@ func (r *reader) knownMaterial(name string, path []string, pre string) bool {
 // restitution), used by bodies that name none.
 const DefaultMaterial = "default"
 
+// sections returns the array of tables at key of root, written [[key]];
+// false if there is none or it is something else, which it reports.
+func (r *reader) sections(root section, key string) ([]map[string]any, bool) {
+	v, ok := root.m[key]
+	if !ok {
+		return nil, false
+	}
+	list, ok := arrayOfTables(v)
+	if !ok {
+		r.errAt([]string{key}, "%s must be an array of tables: write each as [[%s]], got %s", key, key, show(v))
+	}
+	return list, ok
+}
+
+// required reads a string key that must be given and not blank; a missing
+// or blank one is reported as "KEY is missing: " followed by hint.
+func (r *reader) required(sec section, key, hint string) (string, bool) {
+	v, ok := r.str(sec, key)
+	if ok && strings.TrimSpace(v) != "" {
+		return v, true
+	}
+	if _, given := sec.m[key]; !given || ok {
+		r.errAt(sec.path, "%s%s is missing: %s", sec.pre, key, hint)
+	}
+	return "", false
+}
+
 func arrayOfTables(v any) ([]map[string]any, bool) {
 	switch t := v.(type) {
 	case []map[string]any:
@@ -464,13 +493,8 @@ func arrayOfTables(v any) ([]map[string]any, bool) {
 }
 
 func (r *reader) pairs(root section) {
-	v, ok := root.m["pair"]
+	list, ok := r.sections(root, "pair")
 	if !ok {
-		return
-	}
-	list, ok := arrayOfTables(v)
-	if !ok {
-		r.errAt([]string{"pair"}, "pair must be an array of tables: write each as [[pair]], got %s", show(v))
 		return
 	}
 	seen := map[[2]string]int{}
@@ -518,14 +542,12 @@ func (r *reader) pairs(root section) {
 var shapeKinds = []string{"box", "sphere", "cylinder", "capsule", "plane", "mesh"}
 
 func (r *reader) bodies(root section) {
-	v, ok := root.m["body"]
-	if !ok {
+	if _, ok := root.m["body"]; !ok {
 		r.errAt(nil, "the scene has no bodies: add at least one [[body]] section")
 		return
 	}
-	list, ok := arrayOfTables(v)
+	list, ok := r.sections(root, "body")
 	if !ok {
-		r.errAt([]string{"body"}, "body must be an array of tables: write each as [[body]], got %s", show(v))
 		return
 	}
 	names := map[string]int{}
@@ -554,21 +576,23 @@ func (r *reader) body(i int, m map[string]any) (Body, bool) {
 	path := []string{"body", strconv.Itoa(i)}
 	sec := section{m: m, path: path, name: fmt.Sprintf("[[body]] number %d", i+1), pre: fmt.Sprintf("[[body]] number %d: ", i+1)}
 	b := Body{Line: r.s.lines.line(path), Orientation: mgl64.QuatIdent()}
-	name, ok := r.str(sec, "name")
-	if !ok || strings.TrimSpace(name) == "" {
-		if _, given := m["name"]; !given || ok {
-			r.errAt(path, "%sname is missing: every body needs a unique name = \"...\"", sec.pre)
-		}
+	name, ok := r.required(sec, "name", "every body needs a unique name = \"...\"")
+	if !ok {
 		return b, false
 	}
 	b.Name = name
 	sec.name = fmt.Sprintf("body %q", name)
 	sec.pre = fmt.Sprintf("body %q: ", name)
 	nerr := r.n
-	r.keys(sec, "name", "shape", "static", "material", "density", "mass", "position", "orientation", "velocity", "spin")
+	r.keys(sec, "name", "shape", "static", "driven", "material", "density", "mass", "position", "orientation", "velocity", "spin")
 
 	static, staticGiven := r.boolean(sec, "static", false)
-	b.Static = static
+	driven, drivenGiven := r.boolean(sec, "driven", false)
+	if static && driven {
+		r.errAt(sub(path, "driven"), "%sa body is either static (it never moves) or driven (it moves as a [[drive]] says), not both", sec.pre)
+	}
+	b.Static, b.Driven = static || driven, driven
+	staticGiven = staticGiven || drivenGiven
 	if mat, ok := r.str(sec, "material"); ok {
 		if r.knownMaterial(mat, sub(path, "material"), sec.pre) {
 			b.Material = mat
@@ -593,13 +617,16 @@ func (r *reader) body(i int, m map[string]any) (Body, bool) {
 	_, densityGiven := m["density"]
 	_, massGiven := m["mass"]
 	if b.Static {
-		why := "remove it, or leave out static = true"
-		if !static {
+		why, what := "remove it, or leave out static = true", "a static body does not move"
+		switch {
+		case driven:
+			why, what = "remove it, or leave out driven = true", "a driven body moves only as its [[drive]] says"
+		case !static:
 			why = "remove it (planes and meshes kept as triangles are always static)"
 		}
 		for _, k := range []string{"density", "mass", "velocity", "spin"} {
 			if _, given := m[k]; given {
-				r.errAt(sub(path, k), "%sa static body does not move, so it takes no %s; %s", sec.pre, k, why)
+				r.errAt(sub(path, k), "%s%s, so it takes no %s; %s", sec.pre, what, k, why)
 			}
 		}
 	} else {
@@ -830,7 +857,7 @@ func (r *reader) vec2(v any, path []string, what string) ([2]float64, bool) {
 
 func (r *reader) mustBeStatic(b *Body, staticGiven bool, path []string, what string) {
 	if staticGiven && !b.Static {
-		r.errAt(path, "%s%s is always static; remove static = false (a moving part needs a convex shape or a mesh kept as its hull)", r.bodyPre(b), what)
+		r.errAt(path, "%s%s is always static or driven; remove static = false (a part that falls and tumbles needs a convex shape or a mesh kept as its hull)", r.bodyPre(b), what)
 	}
 	b.Static = true
 }
@@ -896,13 +923,8 @@ func (r *reader) meshShape(sec section, b *Body, staticGiven bool) {
 }
 
 func (r *reader) kicks(root section) {
-	v, ok := root.m["kick"]
+	list, ok := r.sections(root, "kick")
 	if !ok {
-		return
-	}
-	list, ok := arrayOfTables(v)
-	if !ok {
-		r.errAt([]string{"kick"}, "kick must be an array of tables: write each as [[kick]], got %s", show(v))
 		return
 	}
 	for i, m := range list {
@@ -910,25 +932,17 @@ func (r *reader) kicks(root section) {
 		sec := section{m: m, path: path, name: fmt.Sprintf("[[kick]] number %d", i+1), pre: fmt.Sprintf("[[kick]] number %d: ", i+1)}
 		r.keys(sec, "body", "time", "impulse", "at")
 		k := Kick{Line: r.s.lines.line(path), AtCenter: true}
-		name, ok := r.str(sec, "body")
+		name, ok := r.required(sec, "body", "name the body to kick")
 		if !ok {
-			if _, given := m["body"]; !given {
-				r.errAt(path, "%sbody is missing: name the body to kick", sec.pre)
-			}
 			continue
 		}
 		sec.pre = fmt.Sprintf("kick on %q: ", name)
-		bi := r.s.BodyIndex(name)
+		bi := r.bodyNamed(name, sub(path, "body"), sec.pre)
 		switch {
 		case bi < 0:
-			var cands []string
-			for _, b := range r.s.Bodies {
-				cands = append(cands, b.Name)
-			}
-			r.errAt(sub(path, "body"), "%sno body is named %q%s", sec.pre, name, Suggest(name, cands))
 			continue
 		case r.s.Bodies[bi].Static:
-			r.errAt(sub(path, "body"), "%sbody %q is static; only moving bodies can be kicked", sec.pre, name)
+			r.errAt(sub(path, "body"), "%sbody %q is %s; only bodies moved by gravity and contact can be kicked", sec.pre, name, r.s.Bodies[bi].kindName())
 			continue
 		}
 		k.Body = name

@@ -29,6 +29,9 @@ type Scene struct {
 	Pairs     []Pair
 	Bodies    []Body
 	Kicks     []Kick
+	// Joints and Drives are in file order.
+	Joints []Joint
+	Drives []Drive
 	// Sweep is the study section, or nil when the scene has none.
 	Sweep *Sweep
 	// Warnings are things that are allowed but doubtful, one sentence each,
@@ -72,8 +75,10 @@ type Pair struct {
 type Body struct {
 	Name string
 	Line int
-	// Static bodies never move; planes and triangle meshes are always static.
-	Static bool
+	// Static bodies are not moved by gravity or contact: they never move,
+	// unless Driven, when they follow their [[drive]] (the engine's
+	// kinematic bodies). Planes and triangle meshes are always static.
+	Static, Driven bool
 	// Kind is the shape key: "box", "sphere", "cylinder", "capsule",
 	// "plane" or "mesh"; Triangles is set for a mesh kept as triangles.
 	Kind      string
@@ -96,6 +101,17 @@ type Body struct {
 	// Orientation then holds the draw from World.Seed.
 	RandomOrientation bool
 	Velocity, Spin    shapes.Vec3
+}
+
+// kindName says how the body moves, for messages.
+func (b *Body) kindName() string {
+	switch {
+	case b.Driven:
+		return "driven"
+	case b.Static:
+		return "static"
+	}
+	return "dynamic"
 }
 
 // Kick is one [[kick]] section, in SI.

@@ -228,17 +228,15 @@ func (r *reader) jitters(rs section, key string, d Dim) []Jitter {
 }
 
 func (r *reader) movingBody(name string, path []string, pre string) bool {
-	i := r.s.BodyIndex(name)
-	if i < 0 {
-		var cands []string
-		for _, b := range r.s.Bodies {
-			cands = append(cands, b.Name)
-		}
-		r.errAt(path, "%sno body is named %q%s", pre, name, Suggest(name, cands))
+	i := r.bodyNamed(name, path, pre)
+	switch {
+	case i < 0:
 		return false
-	}
-	if r.s.Bodies[i].Static {
-		r.errAt(path, "%sbody %q is static and cannot be randomized", pre, name)
+	case r.s.Bodies[i].Static:
+		r.errAt(path, "%sbody %q is %s and cannot be randomized", pre, name, r.s.Bodies[i].kindName())
+		return false
+	case r.s.jointed(name):
+		r.errAt(path, "%sbody %q is held by a joint, whose geometry is fixed in the scene; vary the joint's own keys instead", pre, name)
 		return false
 	}
 	return true
@@ -248,11 +246,8 @@ func (r *reader) vary(path []string, m map[string]any, i int) (Vary, bool) {
 	sec := section{m: m, path: path, name: fmt.Sprintf("[[sweep.vary]] number %d", i+1), pre: fmt.Sprintf("[[sweep.vary]] number %d: ", i+1)}
 	r.keys(sec, "key", "values", "from", "to", "count", "log")
 	vr := Vary{Line: r.s.lines.line(path)}
-	key, ok := r.str(sec, "key")
+	key, ok := r.required(sec, "key", "name a numeric key of the scene, e.g. key = \"material.abs.friction\"")
 	if !ok {
-		if _, given := m["key"]; !given {
-			r.errAt(path, "%skey is missing: name a numeric key of the scene, e.g. key = \"material.abs.friction\"", sec.pre)
-		}
 		return vr, false
 	}
 	sec.pre = fmt.Sprintf("[[sweep.vary]] %q: ", key)
@@ -327,6 +322,25 @@ func plainNumber(v any) (float64, bool) {
 	return 0, false
 }
 
+// namedBy says which key names the elements of the top-level array of
+// tables at walked, for dotted paths such as "body.cap.position.2",
+// "joint.flap.motor.speed" and "drive.track.vibration.0.amplitude"; "" for
+// arrays addressed by index.
+func namedBy(walked []string) (nameKey, what string) {
+	if len(walked) != 1 {
+		return "", ""
+	}
+	switch walked[0] {
+	case "body":
+		return "name", "body is named"
+	case "joint":
+		return "name", "joint is named"
+	case "drive":
+		return "body", "drive is of the body"
+	}
+	return "", ""
+}
+
 // keyRef is a resolved numeric key of a document: a slot to set.
 type keyRef struct {
 	set func(v float64)
@@ -363,20 +377,20 @@ func resolveKey(raw map[string]any, key string) (keyRef, error) {
 			cur = next
 		case []map[string]any:
 			idx := -1
-			if len(walked) == 1 && walked[0] == "body" {
+			if nameKey, what := namedBy(walked); nameKey != "" {
 				for j, b := range t {
-					if n, _ := b["name"].(string); n == s {
+					if n, _ := b[nameKey].(string); n == s {
 						idx = j
 					}
 				}
 				if idx < 0 {
 					var cands []string
 					for _, b := range t {
-						if n, ok := b["name"].(string); ok {
+						if n, ok := b[nameKey].(string); ok {
 							cands = append(cands, n)
 						}
 					}
-					return keyRef{}, fmt.Errorf("key %q: no body is named %q%s", key, s, Suggest(s, cands))
+					return keyRef{}, fmt.Errorf("key %q: no %s %q%s", key, what, s, Suggest(s, cands))
 				}
 			} else {
 				j, err := strconv.Atoi(s)

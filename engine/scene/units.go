@@ -26,6 +26,9 @@ var (
 	Angle         = Dim{A: 1}
 	AngularSpeed  = Dim{A: 1, T: -1}
 	Impulse       = Dim{L: 1, M: 1, T: -1}
+	Frequency     = Dim{T: -1}
+	Force         = Dim{L: 1, M: 1, T: -2}
+	Torque        = Dim{L: 2, M: 1, T: -2}
 )
 
 // dimNames describe the dimensions in errors, with an example of each.
@@ -40,6 +43,9 @@ var dimNames = map[Dim][2]string{
 	Angle:         {"an angle", `"30 deg"`},
 	AngularSpeed:  {"an angular speed", `"2 rad/s"`},
 	Impulse:       {"an impulse", `"0.002 kg m/s"`},
+	Frequency:     {"a frequency", `"50 Hz"`},
+	Force:         {"a force", `"20 N"`},
+	Torque:        {"a torque", `"0.5 N m"`},
 }
 
 func (d Dim) String() string {
@@ -93,7 +99,7 @@ var unitTable = map[string]unitDef{
 	"km": {1e3, Length}, "in": {metresPerInch, Length}, "ft": {12 * metresPerInch, Length},
 	"kg": {1, Mass}, "g": {1e-3, Mass}, "mg": {1e-6, Mass}, "lb": {kgPerPound, Mass},
 	"s": {1, Time}, "ms": {1e-3, Time}, "min": {60, Time}, "h": {3600, Time},
-	"N":   {1, Dim{L: 1, M: 1, T: -2}},
+	"N": {1, Force}, "Hz": {1, Frequency},
 	"rad": {1, Angle}, "deg": {math.Pi / 180, Angle}, "rev": {2 * math.Pi, Angle},
 	"rpm": {2 * math.Pi / 60, AngularSpeed},
 }
