@@ -14,6 +14,8 @@ func newTestRand() *rand.Rand { return rand.New(rand.NewPCG(1, 2)) }
 // Parse returns a scene or an error, and a scene it accepts builds.
 func FuzzScene(f *testing.F) {
 	files, _ := filepath.Glob("../../testdata/scenes/*.toml")
+	mechs, _ := filepath.Glob("../../testdata/mechanisms/*.toml")
+	files = append(files, mechs...)
 	for _, p := range files {
 		if b, err := os.ReadFile(p); err == nil {
 			f.Add(b)
@@ -24,6 +26,7 @@ func FuzzScene(f *testing.F) {
 		"[[body]]\nname = \"a\"\nshape = { mesh = \"parts/cube.stl\" }\nmass = 1\norientation = \"random\"\n",
 		"[[body]]\nname=\"x\"\nshape={capsule=[1,0]}\ndensity=1\n[sweep]\n[[sweep.vary]]\nkey=\"body.x.shape.capsule.1\"\nvalues=[1,2]\n",
 		"a = \"\"\"\nb = 1\n\"\"\"\n[[x]]\n[[x.y]]\n[x.y.z]\n",
+		mechBase + "[[drive]]\nbody = \"table\"\npath = \"poses.csv\"\nrepeat = true\n[[joint]]\nname = \"r\"\nkind = \"link\"\nbodies = [\"flap\", \"table\"]\nat = [0, 0, 0]\nat_other = [0, 0, 1]\nlength = [1, 2]\n",
 	} {
 		f.Add([]byte(s))
 	}
@@ -31,7 +34,8 @@ func FuzzScene(f *testing.F) {
 	if err != nil {
 		f.Fatal(err)
 	}
-	fsys := fstest.MapFS{"parts/cube.stl": {Data: stl}, "parts/bracket.stl": {Data: stl}, "../parts/bracket.stl": {Data: stl}}
+	fsys := fstest.MapFS{"parts/cube.stl": {Data: stl}, "parts/bracket.stl": {Data: stl}, "../parts/bracket.stl": {Data: stl},
+		"poses.csv": {Data: []byte("time,x,y,z,qw,qx,qy,qz\n0,0,0,0,1,0,0,0\n1,1,0,0,0,0,0,1\n2,0,0,0,1,0,0,0\n")}}
 	f.Fuzz(func(t *testing.T, data []byte) {
 		s, err := Parse(data, "fuzz.toml", Options{Dir: ".", FS: fsys})
 		if err != nil {

@@ -233,3 +233,24 @@ func TestBadMechanismKeys(t *testing.T) {
 		})
 	}
 }
+
+func TestVaryWarnsOfPlainUnits(t *testing.T) {
+	// A study replaces "1 deg/s" by plain numbers, which are rad/s (angular
+	// speeds in a scene are rad/s): the user is told.
+	src := mechBase + tableDrive + "[sweep]\ntrials = 1\n[[sweep.vary]]\nkey = \"drive.table.tilt.rate\"\nvalues = [0.01, 0.02]\n"
+	s, err := Parse([]byte(src), "mech.toml", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := `mech.toml:17: [[sweep.vary]] "drive.table.tilt.rate": the scene writes "1 deg/s", but the values are plain numbers in the file's units, rad/s`
+	if len(s.Warnings) != 1 || s.Warnings[0] != want {
+		t.Errorf("warnings %q, want %q", s.Warnings, want)
+	}
+	v, err := s.With("drive.table.tilt.rate", 0.02)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := v.Drives[0].Motion.(*engine.Tilt).Rate; r != 0.02 {
+		t.Errorf("varied rate %g rad/s, want 0.02", r)
+	}
+}

@@ -251,9 +251,15 @@ func (r *reader) vary(path []string, m map[string]any, i int) (Vary, bool) {
 		return vr, false
 	}
 	sec.pre = fmt.Sprintf("[[sweep.vary]] %q: ", key)
-	if _, err := resolveKey(r.s.raw, key); err != nil {
+	ref, err := resolveKey(r.s.raw, key)
+	if err != nil {
 		r.errAt(sub(path, "key"), "%s%v", sec.pre, err)
 		return vr, false
+	}
+	if _, d, err := ParseQuantity(ref.written); ref.written != "" && err == nil && d != Dimensionless {
+		// The values replace the string with plain numbers, whose unit
+		// may differ from the one the scene wrote ("2 deg/s" -> rad/s).
+		r.warnAt(sub(path, "key"), "%sthe scene writes %q, but the values are plain numbers in the file's units, %s", sec.pre, ref.written, r.s.Units.Symbol(d))
 	}
 	vr.Key = key
 	nerr := r.n
@@ -344,6 +350,9 @@ func namedBy(walked []string) (nameKey, what string) {
 // keyRef is a resolved numeric key of a document: a slot to set.
 type keyRef struct {
 	set func(v float64)
+	// written is the value as the scene writes it when that is a string
+	// with a unit, such as "2 deg/s".
+	written string
 }
 
 // resolveKey finds the numeric value at a dotted path of the document:
@@ -437,5 +446,6 @@ func resolveKey(raw map[string]any, key string) (keyRef, error) {
 			set(v)
 		}}, nil
 	}
-	return keyRef{set: func(v float64) { setParent(v) }}, nil
+	written, _ := cur.(string)
+	return keyRef{set: func(v float64) { setParent(v) }, written: written}, nil
 }
