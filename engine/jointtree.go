@@ -327,7 +327,7 @@ func (w *World) buildTree() bool {
 		nd.d = mat6{}
 		if nd.body >= 0 {
 			m := 1 / bodies[nd.body].InvMass
-			in, _ := w.inertiaWorld(BodyID(nd.body))
+			in := &c.inertia[nd.body] // this step's, from solve
 			for k := 0; k < 3; k++ {
 				nd.d[k*6+k] = m
 				for j := 0; j < 3; j++ {
@@ -340,7 +340,7 @@ func (w *World) buildTree() bool {
 				nd.d[k*6+k] = -1
 				if k < nd.size {
 					r := w.nodeRow(jt, k)
-					nd.d[k*6+k] = -treeRegularization * coupling(r, responseOf(r, bodies))
+					nd.d[k*6+k] = -treeRegularization * selfCoupling(r, bodies)
 				}
 			}
 		}
@@ -359,17 +359,21 @@ func (w *World) buildTree() bool {
 			continue
 		}
 		p := &t.nodes[nd.parent]
+		// The products below skip what is known to be zero: the rows of jac
+		// from m on (a joint of m < 6 rows), and the padding of a joint's
+		// dinv (zero off its diagonal). Only the lower triangle of D_p is
+		// updated, the part definiteInverse reads.
 		if nd.body >= 0 {
 			// Body below joint p: H_(n,p) = -jac^T, f = D^-1 H = -dinv jac^T,
 			// and D_p -= H^T f = -jac f.
-			mulABt(&nd.f, &nd.dinv, &nd.jac, -1)
-			mulAdd(&p.d, &nd.jac, &nd.f)
+			mulABt(&nd.f, &nd.dinv, &nd.jac, nd.m)
+			mulAddLower(&p.d, &nd.jac, &nd.f, nd.m)
 			continue
 		}
 		// Joint below body p: H_(n,p) = -jac, f = -dinv jac, and
 		// D_p -= H^T f = -jac^T f.
-		mulAB(&nd.f, &nd.dinv, &nd.jac, -1)
-		mulAtBAdd(&p.d, &nd.jac, &nd.f)
+		mulAB(&nd.f, &nd.dinv, &nd.jac, nd.m)
+		mulAtBAddLower(&p.d, &nd.jac, &nd.f, nd.m)
 	}
 	return true
 }
@@ -377,36 +381,47 @@ func (w *World) buildTree() bool {
 // mat6 is a 6 x 6 block, row-major.
 type mat6 = [36]float64
 
-// mulAB sets c = s a b.
-func mulAB(c, a, b *mat6, s float64) {
-	for i := 0; i < 6; i++ {
+// mulAB sets c = -a b for b with zero rows from m on and a (a joint's
+// dinv) zero off its diagonal in rows and columns from m on: the rows of
+// c from m on are zero.
+func mulAB(c, a, b *mat6, m int) {
+	for i := 0; i < m; i++ {
 		for j := 0; j < 6; j++ {
 			v := 0.0
-			for k := 0; k < 6; k++ {
+			for k := 0; k < m; k++ {
 				v += a[i*6+k] * b[k*6+j]
 			}
-			c[i*6+j] = s * v
+			c[i*6+j] = -v
 		}
+	}
+	for i := m * 6; i < 36; i++ {
+		c[i] = 0
 	}
 }
 
-// mulABt sets c = s a b^T.
-func mulABt(c, a, b *mat6, s float64) {
+// mulABt sets c = -a b^T for b with zero rows from m on: the columns of c
+// from m on are zero.
+func mulABt(c, a, b *mat6, m int) {
 	for i := 0; i < 6; i++ {
 		for j := 0; j < 6; j++ {
+			if j >= m {
+				c[i*6+j] = 0
+				continue
+			}
 			v := 0.0
 			for k := 0; k < 6; k++ {
 				v += a[i*6+k] * b[j*6+k]
 			}
-			c[i*6+j] = s * v
+			c[i*6+j] = -v
 		}
 	}
 }
 
-// mulAdd adds a b to c.
-func mulAdd(c, a, b *mat6) {
-	for i := 0; i < 6; i++ {
-		for j := 0; j < 6; j++ {
+// mulAddLower adds a b to the lower triangle of c, for a with zero rows
+// and b with zero columns from m on.
+func mulAddLower(c, a, b *mat6, m int) {
+	for i := 0; i < m; i++ {
+		for j := 0; j <= i; j++ {
 			v := 0.0
 			for k := 0; k < 6; k++ {
 				v += a[i*6+k] * b[k*6+j]
@@ -416,12 +431,13 @@ func mulAdd(c, a, b *mat6) {
 	}
 }
 
-// mulAtBAdd adds a^T b to c.
-func mulAtBAdd(c, a, b *mat6) {
+// mulAtBAddLower adds a^T b to the lower triangle of c, for a and b with
+// zero rows from m on.
+func mulAtBAddLower(c, a, b *mat6, m int) {
 	for i := 0; i < 6; i++ {
-		for j := 0; j < 6; j++ {
+		for j := 0; j <= i; j++ {
 			v := 0.0
-			for k := 0; k < 6; k++ {
+			for k := 0; k < m; k++ {
 				v += a[k*6+i] * b[k*6+j]
 			}
 			c[i*6+j] += v
@@ -592,7 +608,7 @@ func (w *World) projectJoints(pseudo bool) {
 func (w *World) endValues(jt *joint, out *[6]float64) {
 	pa, qa := w.predicted(jt.a)
 	pb, qb := w.predicted(jt.b)
-	g := jointGeomAt(jt, pa, qa, pb, qb)
+	g := jointGeomAt(jt, pa, qa, pb, qb, false)
 	eqValues(jt, &g, qb, &jt.basis, out)
 	jt.chol.apply(out)
 }

@@ -284,8 +284,8 @@ func (w *World) integrate(dt float64) {
 		w.b.pos[i] = w.b.pos[i].Add(w.b.vel[i].Add(vp).Mul(dt))
 		q := w.b.rot[i]
 		if k == Dynamic {
-			qp := q.Mul(w.b.axes[i])
-			qp, w.b.spin[i] = freeRotation(qp, w.b.moments[i], w.b.spin[i], dt)
+			var qp shapes.Quat
+			qp, w.b.spin[i] = w.freeTurn(id, dt)
 			q = qp.Mul(w.b.axes[i].Conjugate())
 		} else {
 			q = integrateQuat(q, w.b.spin[i], dt)
