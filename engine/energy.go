@@ -16,7 +16,8 @@ func (w *World) kinetic(id BodyID) float64 {
 		return 0
 	}
 	v := w.b.vel[id]
-	wb := w.b.rot[id].Mul(w.b.axes[id]).Conjugate().Rotate(w.b.spin[id])
+	q := qmul(&w.b.rot[id], &w.b.axes[id])
+	wb := qrotateInv(&q, &w.b.spin[id])
 	m := w.b.moments[id]
 	return 0.5*w.b.mass[id]*v.Dot(v) + 0.5*(m[0]*wb[0]*wb[0]+m[1]*wb[1]*wb[1]+m[2]*wb[2]*wb[2])
 }

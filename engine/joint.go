@@ -522,9 +522,9 @@ func (w *World) predictAll(dt float64, solved bool) {
 		case solved && w.jointFree(id):
 			// As the step will integrate it, precession included; the
 			// integration reuses it (turnMemo).
-			qp, sp := freeRotation(q.Mul(w.b.axes[id]), w.b.moments[id], s, dt)
+			qp, sp := freeRotation(qmul(&q, &w.b.axes[id]), w.b.moments[id], s, dt)
 			m.turn[id] = turnMemo{step: w.steps, q: q, spin: s, dt: dt, qp: qp, sp: sp}
-			p, q = p.Add(v.Mul(dt)), qp.Mul(w.b.axes[id].Conjugate()).Normalize()
+			p, q = p.Add(v.Mul(dt)), qmulConj(&qp, &w.b.axes[id]).Normalize()
 		case w.b.kind[id] != Static:
 			p, q = p.Add(v.Mul(dt)), integrateQuat(q, s, dt)
 		}
@@ -551,7 +551,7 @@ func (w *World) freeTurn(id BodyID, dt float64) (shapes.Quat, shapes.Vec3) {
 			return m.qp, m.sp
 		}
 	}
-	return freeRotation(w.b.rot[id].Mul(w.b.axes[id]), w.b.moments[id], w.b.spin[id], dt)
+	return freeRotation(qmul(&w.b.rot[id], &w.b.axes[id]), w.b.moments[id], w.b.spin[id], dt)
 }
 
 // predicted returns a jointed body's pose from the last predictAll.

@@ -286,7 +286,7 @@ func (w *World) integrate(dt float64) {
 		if k == Dynamic {
 			var qp shapes.Quat
 			qp, w.b.spin[i] = w.freeTurn(id, dt)
-			q = qp.Mul(w.b.axes[i].Conjugate())
+			q = qmulConj(&qp, &w.b.axes[i])
 		} else {
 			q = integrateQuat(q, w.b.spin[i], dt)
 		}
@@ -297,8 +297,8 @@ func (w *World) integrate(dt float64) {
 				// The correction turns the body without a torque: keep its
 				// spin angular momentum, as a real rotation would (the
 				// body-frame angular velocity is carried along unchanged).
-				wb := before.Conjugate().Rotate(w.b.spin[i])
-				w.b.spin[i] = q.Rotate(wb)
+				wb := qrotateInv(&before, &w.b.spin[i])
+				w.b.spin[i] = qrotate(&q, &wb)
 			}
 		}
 		w.b.rot[i] = q.Normalize()
