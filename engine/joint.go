@@ -818,7 +818,9 @@ func (w *World) appendJointRows(jt *joint, key uint64, dt, scale float64, swept 
 	_, qb := w.frame(jt.b)
 	bs := &jt.basis
 	bs.p1, bs.p2 = perpendiculars(g.axis)
-	bs.p1B, bs.p2B = rotate(qb.Conjugate(), bs.p1), rotate(qb.Conjugate(), bs.p2)
+	if def.Kind == Prismatic { // its off-axis rows turn with B (eqValues)
+		bs.p1B, bs.p2B = rotate(qb.Conjugate(), bs.p1), rotate(qb.Conjugate(), bs.p2)
+	}
 	var cNow, cEnd [6]float64
 	n := eqValues(jt, &g, qb, bs, &cNow)
 	pa1, qa1 := w.predicted(jt.a)

@@ -89,6 +89,22 @@ func growFill[T any](s []T, n int, v T) []T {
 	return s
 }
 
+// push appends a node to the forest, reusing the space of earlier steps'
+// nodes: its Jacobian and f are zero, the other blocks are written before
+// they are read (buildTree, projectJoints). The pointer is valid until the
+// next push.
+func (t *jointTree) push(body, joint int32, size int, parent int32) *treeNode {
+	if len(t.nodes) < cap(t.nodes) {
+		t.nodes = t.nodes[:len(t.nodes)+1]
+	} else {
+		t.nodes = append(t.nodes, treeNode{})
+	}
+	nd := &t.nodes[len(t.nodes)-1]
+	nd.body, nd.joint, nd.size, nd.parent, nd.m = body, joint, size, parent, 0
+	nd.jac, nd.f = mat6{}, mat6{}
+	return nd
+}
+
 // rigidMotor reports whether a joint's motor is an equality: a speed motor
 // without a force cap.
 func rigidMotor(jt *joint) bool {
@@ -277,9 +293,8 @@ func (w *World) buildTree() bool {
 					}
 					t.seen[j] = true
 					jt := &joints[j]
-					nd := treeNode{body: -1, joint: j, size: nodeSize(jt), parent: int32(q)}
+					nd := t.push(-1, j, nodeSize(jt), int32(q))
 					nd.m = w.jacobianOf(jt, b, &nd.jac)
-					t.nodes = append(t.nodes, nd)
 				}
 				continue
 			}
@@ -287,9 +302,8 @@ func (w *World) buildTree() bool {
 			for _, id := range [2]BodyID{jt.a, jt.b} {
 				if b := int32(id); w.jointFree(id) && t.bodyOf[b] < 0 {
 					t.bodyOf[b] = int32(len(t.nodes))
-					nd := treeNode{body: b, joint: -1, size: 6, parent: int32(q)}
+					nd := t.push(b, -1, 6, int32(q))
 					nd.m = w.jacobianOf(jt, b, &nd.jac)
-					t.nodes = append(t.nodes, nd)
 				}
 			}
 		}
@@ -307,7 +321,7 @@ func (w *World) buildTree() bool {
 			continue // its group has a root already
 		}
 		t.seen[j] = true
-		t.nodes = append(t.nodes, treeNode{body: -1, joint: int32(j), size: nodeSize(jt), parent: -1})
+		t.push(-1, int32(j), nodeSize(jt), -1)
 		grow()
 	}
 	for root := int32(0); root < int32(nb); root++ {
@@ -315,7 +329,7 @@ func (w *World) buildTree() bool {
 			continue
 		}
 		t.bodyOf[root] = int32(len(t.nodes))
-		t.nodes = append(t.nodes, treeNode{body: root, joint: -1, size: 6, parent: -1})
+		t.push(root, -1, 6, -1)
 		grow()
 	}
 	// The diagonal blocks. All blocks are stored 6 x 6 (row-major): a
@@ -352,7 +366,11 @@ func (w *World) buildTree() bool {
 		if nd.body < 0 {
 			sign = -1
 		}
-		if !definiteInverse(&nd.d, &nd.dinv, sign) {
+		n := 6
+		if nd.body < 0 {
+			n = nd.size
+		}
+		if !definiteInverse(&nd.d, &nd.dinv, sign, n) {
 			return false
 		}
 		if nd.parent < 0 {
@@ -448,14 +466,18 @@ func mulAtBAddLower(c, a, b *mat6, m int) {
 // definiteInverse writes the inverse of the symmetric 6 x 6 matrix a,
 // positive definite if sign is 1 and negative definite if sign is -1, into
 // inv by way of the Cholesky factor of sign a; it reports false if a is
-// not definite to working precision.
-func definiteInverse(a, inv *mat6, sign float64) bool {
+// not definite to working precision. Only the lower triangle of a is read.
+// Rows and columns from n on are a joint's padding, zero but for the
+// diagonal's sign: their inverse is written without arithmetic.
+func definiteInverse(a, inv *mat6, sign float64, n int) bool {
 	var l, li mat6
-	for i := range l {
-		l[i] = sign * a[i]
+	for i := 0; i < n; i++ {
+		for j := 0; j <= i; j++ {
+			l[i*6+j] = sign * a[i*6+j]
+		}
 	}
 	// Cholesky: l lower with l l^T = sign a.
-	for j := 0; j < 6; j++ {
+	for j := 0; j < n; j++ {
 		d := l[j*6+j]
 		for k := 0; k < j; k++ {
 			d -= l[j*6+k] * l[j*6+k]
@@ -465,7 +487,7 @@ func definiteInverse(a, inv *mat6, sign float64) bool {
 		}
 		d = math.Sqrt(d)
 		l[j*6+j] = d
-		for i := j + 1; i < 6; i++ {
+		for i := j + 1; i < n; i++ {
 			v := l[i*6+j]
 			for k := 0; k < j; k++ {
 				v -= l[i*6+k] * l[j*6+k]
@@ -474,9 +496,9 @@ func definiteInverse(a, inv *mat6, sign float64) bool {
 		}
 	}
 	// li = l^-1, lower triangular.
-	for j := 0; j < 6; j++ {
+	for j := 0; j < n; j++ {
 		li[j*6+j] = 1 / l[j*6+j]
-		for i := j + 1; i < 6; i++ {
+		for i := j + 1; i < n; i++ {
 			v := 0.0
 			for k := j; k < i; k++ {
 				v -= l[i*6+k] * li[k*6+j]
@@ -485,14 +507,20 @@ func definiteInverse(a, inv *mat6, sign float64) bool {
 		}
 	}
 	// a^-1 = sign li^T li.
-	for i := 0; i < 6; i++ {
+	for i := 0; i < n; i++ {
 		for j := 0; j <= i; j++ {
 			v := 0.0
-			for k := i; k < 6; k++ {
+			for k := i; k < n; k++ {
 				v += li[k*6+i] * li[k*6+j]
 			}
 			inv[i*6+j], inv[j*6+i] = sign*v, sign*v
 		}
+	}
+	for i := n; i < 6; i++ {
+		for j := 0; j < 6; j++ {
+			inv[i*6+j], inv[j*6+i] = 0, 0
+		}
+		inv[i*6+i] = sign
 	}
 	return true
 }
