@@ -267,7 +267,7 @@ func (w *World) MaxImpactSpeed(id BodyID) float64 { return w.b.maxHit[id] }
 // ShapePose returns where a body's shape frame is in the world.
 func (w *World) ShapePose(id BodyID) shapes.Pose {
 	q := w.b.rot[id]
-	return shapes.Pose{Position: w.b.pos[id].Add(q.Rotate(w.b.offset[id])), Orientation: q}
+	return shapes.Pose{Position: w.b.pos[id].Add(qrotate(&q, &w.b.offset[id])), Orientation: q}
 }
 
 // SetVelocity sets a body's linear and angular velocity and wakes it.
@@ -285,7 +285,7 @@ func (w *World) SetPose(id BodyID, position shapes.Vec3, orientation shapes.Quat
 // inertiaWorld returns a dynamic body's inertia tensor and its inverse in
 // the world frame.
 func (w *World) inertiaWorld(id BodyID) (in, inv shapes.Mat3) {
-	r := shapes.RotationMatrix(w.b.rot[id].Mul(w.b.axes[id]))
+	r := shapes.RotationMatrix(qmul(&w.b.rot[id], &w.b.axes[id]))
 	m := w.b.moments[id]
 	d := shapes.Mat3{m[0], 0, 0, 0, m[1], 0, 0, 0, m[2]}
 	di := shapes.Mat3{1 / m[0], 0, 0, 0, 1 / m[1], 0, 0, 0, 1 / m[2]}

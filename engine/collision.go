@@ -24,6 +24,7 @@ type collisionState struct {
 	manifolds []collide.Manifold
 	points    []contact.Point
 	bodies    []contact.Body
+	inertia   []shapes.Mat3 // world inertia tensor of each awake dynamic body this step
 	rows      []contact.Row
 
 	touching, prevTouching []touchPair
@@ -231,12 +232,15 @@ func (w *World) solve(dt float64) error {
 		c.bodies = make([]contact.Body, n)
 	}
 	c.bodies = c.bodies[:n]
+	if len(c.inertia) < n {
+		c.inertia = append(c.inertia, make([]shapes.Mat3, n-len(c.inertia))...)
+	}
 	for i := 0; i < n; i++ {
 		sb := &c.bodies[i]
 		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			sb.InvMass = w.b.invM[i]
-			_, sb.InvInertia = w.inertiaWorld(BodyID(i))
+			c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)

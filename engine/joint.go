@@ -180,6 +180,7 @@ type mechanisms struct {
 	jbodies []BodyID      // bodies with a joint, each once
 	predP   []shapes.Vec3 // per body: predicted pose at the end of the step
 	predQ   []shapes.Quat
+	turn    []turnMemo    // per body: the free rotation predictAll worked out for the step
 	rows    []contact.Row // this step's joint rows; the solver gets the swept prefix
 	dt      float64       // this step's length
 }
@@ -469,17 +470,22 @@ type jgeom struct {
 func (w *World) jointGeom(jt *joint) jgeom {
 	pa, qa := w.frame(jt.a)
 	pb, qb := w.frame(jt.b)
-	return jointGeomAt(jt, pa, qa, pb, qb)
+	return jointGeomAt(jt, pa, qa, pb, qb, true)
 }
 
-// jointGeomAt is the joint's geometry with the bodies at the given poses.
-func jointGeomAt(jt *joint, pa shapes.Vec3, qa shapes.Quat, pb shapes.Vec3, qb shapes.Quat) jgeom {
+// jointGeomAt is the joint's geometry with the bodies at the given poses;
+// a revolute joint's raw angle only if angle is true (the equality rows'
+// values do not need it).
+func jointGeomAt(jt *joint, pa shapes.Vec3, qa shapes.Quat, pb shapes.Vec3, qb shapes.Quat, angle bool) jgeom {
 	var g jgeom
 	g.rA, g.rB = rotate(qa, jt.ra), rotate(qb, jt.rb)
 	g.d = pa.Add(g.rA).Sub(pb.Add(g.rB))
 	g.axis, g.axA = rotate(qb, jt.axB), rotate(qa, jt.axA)
 	switch jt.def.Kind {
 	case Revolute:
+		if !angle {
+			break
+		}
 		ub, ua := rotate(qb, jt.refB), rotate(qa, jt.refA)
 		g.raw = math.Atan2(g.axis.Dot(ub.Cross(ua)), ub.Dot(ua))
 	case Prismatic, Fixed:
@@ -502,6 +508,9 @@ func (w *World) predictAll(dt float64, solved bool) {
 	n := len(w.b.kind)
 	m.predP = growFill(m.predP, n, shapes.Vec3{})
 	m.predQ = growFill(m.predQ, n, shapes.Quat{})
+	if solved && len(m.turn) < n {
+		m.turn = append(m.turn, make([]turnMemo, n-len(m.turn))...)
+	}
 	bodies := w.collision.bodies
 	for _, id := range m.jbodies {
 		p, q := w.b.pos[id], w.b.rot[id]
@@ -511,14 +520,38 @@ func (w *World) predictAll(dt float64, solved bool) {
 		}
 		switch {
 		case solved && w.jointFree(id):
-			// As the step will integrate it, precession included.
-			qp, _ := freeRotation(q.Mul(w.b.axes[id]), w.b.moments[id], s, dt)
-			p, q = p.Add(v.Mul(dt)), qp.Mul(w.b.axes[id].Conjugate()).Normalize()
+			// As the step will integrate it, precession included; the
+			// integration reuses it (turnMemo).
+			qp, sp := freeRotation(qmul(&q, &w.b.axes[id]), w.b.moments[id], s, dt)
+			m.turn[id] = turnMemo{step: w.steps, q: q, spin: s, dt: dt, qp: qp, sp: sp}
+			p, q = p.Add(v.Mul(dt)), qmulConj(&qp, &w.b.axes[id]).Normalize()
 		case w.b.kind[id] != Static:
 			p, q = p.Add(v.Mul(dt)), integrateQuat(q, s, dt)
 		}
 		m.predP[id], m.predQ[id] = p, q
 	}
+}
+
+// turnMemo is a free rotation worked out by predictAll for the step
+// numbered step: freeRotation of the body's orientation q (times its
+// principal axes) at spin over dt gave qp and the new spin sp.
+type turnMemo struct {
+	step     int
+	q        shapes.Quat
+	spin, sp shapes.Vec3
+	dt       float64
+	qp       shapes.Quat
+}
+
+// freeTurn is freeRotation of a dynamic body over the step, taken from
+// predictAll's memo when it was worked out for the same step and state.
+func (w *World) freeTurn(id BodyID, dt float64) (shapes.Quat, shapes.Vec3) {
+	if t := w.mech.turn; int(id) < len(t) {
+		if m := &t[id]; m.step == w.steps && m.dt == dt && m.q == w.b.rot[id] && m.spin == w.b.spin[id] {
+			return m.qp, m.sp
+		}
+	}
+	return freeRotation(qmul(&w.b.rot[id], &w.b.axes[id]), w.b.moments[id], w.b.spin[id], dt)
 }
 
 // predicted returns a jointed body's pose from the last predictAll.
@@ -785,12 +818,14 @@ func (w *World) appendJointRows(jt *joint, key uint64, dt, scale float64, swept 
 	_, qb := w.frame(jt.b)
 	bs := &jt.basis
 	bs.p1, bs.p2 = perpendiculars(g.axis)
-	bs.p1B, bs.p2B = rotate(qb.Conjugate(), bs.p1), rotate(qb.Conjugate(), bs.p2)
+	if def.Kind == Prismatic { // its off-axis rows turn with B (eqValues)
+		bs.p1B, bs.p2B = rotate(qb.Conjugate(), bs.p1), rotate(qb.Conjugate(), bs.p2)
+	}
 	var cNow, cEnd [6]float64
 	n := eqValues(jt, &g, qb, bs, &cNow)
 	pa1, qa1 := w.predicted(jt.a)
 	pb1, qb1 := w.predicted(jt.b)
-	ge := jointGeomAt(jt, pa1, qa1, pb1, qb1)
+	ge := jointGeomAt(jt, pa1, qa1, pb1, qb1, false)
 	eqValues(jt, &ge, qb1, bs, &cEnd)
 	add := func(linA, angA, linB, angB shapes.Vec3) {
 		k := len(rows) - eq
@@ -897,6 +932,25 @@ func coupling(r *contact.Row, s minvJ) float64 {
 	return r.LinA.Dot(s.va) + r.AngA.Dot(s.wa) + r.LinB.Dot(s.vb) + r.AngB.Dot(s.wb)
 }
 
+// selfCoupling is J M^-1 J^T of one row: coupling(r, responseOf(r,
+// bodies)) with the same arithmetic, without the temporaries.
+func selfCoupling(r *contact.Row, bodies []contact.Body) float64 {
+	A, B := &bodies[r.A], &bodies[r.B]
+	return linCoupling(&r.LinA, A.InvMass) + angCoupling(&r.AngA, &A.InvInertia) +
+		linCoupling(&r.LinB, B.InvMass) + angCoupling(&r.AngB, &B.InvInertia)
+}
+
+func linCoupling(v *shapes.Vec3, invMass float64) float64 {
+	return v[0]*(v[0]*invMass) + v[1]*(v[1]*invMass) + v[2]*(v[2]*invMass)
+}
+
+func angCoupling(v *shapes.Vec3, inv *shapes.Mat3) float64 {
+	u0 := inv[0]*v[0] + inv[3]*v[1] + inv[6]*v[2]
+	u1 := inv[1]*v[0] + inv[4]*v[1] + inv[7]*v[2]
+	u2 := inv[2]*v[0] + inv[5]*v[1] + inv[8]*v[2]
+	return v[0]*u0 + v[1]*u1 + v[2]*u2
+}
+
 // decoupleTol is the smallest pivot of the Cholesky factor, relative to its
 // row's own diagonal entry, at which a joint's rows still count as
 // independent; below it (a body with no mass in some direction) the rows
@@ -967,7 +1021,7 @@ func normalise(rows []contact.Row, bodies []contact.Body, chol *cholesky) {
 	}
 	for i := range rows {
 		r := &rows[i]
-		k := coupling(r, responseOf(r, bodies))
+		k := selfCoupling(r, bodies)
 		if !(k > 0) || math.IsInf(k, 0) {
 			chol.n = 0
 			return // left as it is; the exact solve then fails and skips

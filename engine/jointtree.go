@@ -89,6 +89,22 @@ func growFill[T any](s []T, n int, v T) []T {
 	return s
 }
 
+// push appends a node to the forest, reusing the space of earlier steps'
+// nodes: its Jacobian and f are zero, the other blocks are written before
+// they are read (buildTree, projectJoints). The pointer is valid until the
+// next push.
+func (t *jointTree) push(body, joint int32, size int, parent int32) *treeNode {
+	if len(t.nodes) < cap(t.nodes) {
+		t.nodes = t.nodes[:len(t.nodes)+1]
+	} else {
+		t.nodes = append(t.nodes, treeNode{})
+	}
+	nd := &t.nodes[len(t.nodes)-1]
+	nd.body, nd.joint, nd.size, nd.parent, nd.m = body, joint, size, parent, 0
+	nd.jac, nd.f = mat6{}, mat6{}
+	return nd
+}
+
 // rigidMotor reports whether a joint's motor is an equality: a speed motor
 // without a force cap.
 func rigidMotor(jt *joint) bool {
@@ -277,9 +293,8 @@ func (w *World) buildTree() bool {
 					}
 					t.seen[j] = true
 					jt := &joints[j]
-					nd := treeNode{body: -1, joint: j, size: nodeSize(jt), parent: int32(q)}
+					nd := t.push(-1, j, nodeSize(jt), int32(q))
 					nd.m = w.jacobianOf(jt, b, &nd.jac)
-					t.nodes = append(t.nodes, nd)
 				}
 				continue
 			}
@@ -287,9 +302,8 @@ func (w *World) buildTree() bool {
 			for _, id := range [2]BodyID{jt.a, jt.b} {
 				if b := int32(id); w.jointFree(id) && t.bodyOf[b] < 0 {
 					t.bodyOf[b] = int32(len(t.nodes))
-					nd := treeNode{body: b, joint: -1, size: 6, parent: int32(q)}
+					nd := t.push(b, -1, 6, int32(q))
 					nd.m = w.jacobianOf(jt, b, &nd.jac)
-					t.nodes = append(t.nodes, nd)
 				}
 			}
 		}
@@ -307,7 +321,7 @@ func (w *World) buildTree() bool {
 			continue // its group has a root already
 		}
 		t.seen[j] = true
-		t.nodes = append(t.nodes, treeNode{body: -1, joint: int32(j), size: nodeSize(jt), parent: -1})
+		t.push(-1, int32(j), nodeSize(jt), -1)
 		grow()
 	}
 	for root := int32(0); root < int32(nb); root++ {
@@ -315,7 +329,7 @@ func (w *World) buildTree() bool {
 			continue
 		}
 		t.bodyOf[root] = int32(len(t.nodes))
-		t.nodes = append(t.nodes, treeNode{body: root, joint: -1, size: 6, parent: -1})
+		t.push(root, -1, 6, -1)
 		grow()
 	}
 	// The diagonal blocks. All blocks are stored 6 x 6 (row-major): a
@@ -327,7 +341,7 @@ func (w *World) buildTree() bool {
 		nd.d = mat6{}
 		if nd.body >= 0 {
 			m := 1 / bodies[nd.body].InvMass
-			in, _ := w.inertiaWorld(BodyID(nd.body))
+			in := &c.inertia[nd.body] // this step's, from solve
 			for k := 0; k < 3; k++ {
 				nd.d[k*6+k] = m
 				for j := 0; j < 3; j++ {
@@ -340,7 +354,7 @@ func (w *World) buildTree() bool {
 				nd.d[k*6+k] = -1
 				if k < nd.size {
 					r := w.nodeRow(jt, k)
-					nd.d[k*6+k] = -treeRegularization * coupling(r, responseOf(r, bodies))
+					nd.d[k*6+k] = -treeRegularization * selfCoupling(r, bodies)
 				}
 			}
 		}
@@ -352,24 +366,32 @@ func (w *World) buildTree() bool {
 		if nd.body < 0 {
 			sign = -1
 		}
-		if !definiteInverse(&nd.d, &nd.dinv, sign) {
+		n := 6
+		if nd.body < 0 {
+			n = nd.size
+		}
+		if !definiteInverse(&nd.d, &nd.dinv, sign, n) {
 			return false
 		}
 		if nd.parent < 0 {
 			continue
 		}
 		p := &t.nodes[nd.parent]
+		// The products below skip what is known to be zero: the rows of jac
+		// from m on (a joint of m < 6 rows), and the padding of a joint's
+		// dinv (zero off its diagonal). Only the lower triangle of D_p is
+		// updated, the part definiteInverse reads.
 		if nd.body >= 0 {
 			// Body below joint p: H_(n,p) = -jac^T, f = D^-1 H = -dinv jac^T,
 			// and D_p -= H^T f = -jac f.
-			mulABt(&nd.f, &nd.dinv, &nd.jac, -1)
-			mulAdd(&p.d, &nd.jac, &nd.f)
+			mulABt(&nd.f, &nd.dinv, &nd.jac, nd.m)
+			mulAddLower(&p.d, &nd.jac, &nd.f, nd.m)
 			continue
 		}
 		// Joint below body p: H_(n,p) = -jac, f = -dinv jac, and
 		// D_p -= H^T f = -jac^T f.
-		mulAB(&nd.f, &nd.dinv, &nd.jac, -1)
-		mulAtBAdd(&p.d, &nd.jac, &nd.f)
+		mulAB(&nd.f, &nd.dinv, &nd.jac, nd.m)
+		mulAtBAddLower(&p.d, &nd.jac, &nd.f, nd.m)
 	}
 	return true
 }
@@ -377,36 +399,47 @@ func (w *World) buildTree() bool {
 // mat6 is a 6 x 6 block, row-major.
 type mat6 = [36]float64
 
-// mulAB sets c = s a b.
-func mulAB(c, a, b *mat6, s float64) {
-	for i := 0; i < 6; i++ {
+// mulAB sets c = -a b for b with zero rows from m on and a (a joint's
+// dinv) zero off its diagonal in rows and columns from m on: the rows of
+// c from m on are zero.
+func mulAB(c, a, b *mat6, m int) {
+	for i := 0; i < m; i++ {
 		for j := 0; j < 6; j++ {
 			v := 0.0
-			for k := 0; k < 6; k++ {
+			for k := 0; k < m; k++ {
 				v += a[i*6+k] * b[k*6+j]
 			}
-			c[i*6+j] = s * v
+			c[i*6+j] = -v
 		}
+	}
+	for i := m * 6; i < 36; i++ {
+		c[i] = 0
 	}
 }
 
-// mulABt sets c = s a b^T.
-func mulABt(c, a, b *mat6, s float64) {
+// mulABt sets c = -a b^T for b with zero rows from m on: the columns of c
+// from m on are zero.
+func mulABt(c, a, b *mat6, m int) {
 	for i := 0; i < 6; i++ {
 		for j := 0; j < 6; j++ {
+			if j >= m {
+				c[i*6+j] = 0
+				continue
+			}
 			v := 0.0
 			for k := 0; k < 6; k++ {
 				v += a[i*6+k] * b[j*6+k]
 			}
-			c[i*6+j] = s * v
+			c[i*6+j] = -v
 		}
 	}
 }
 
-// mulAdd adds a b to c.
-func mulAdd(c, a, b *mat6) {
-	for i := 0; i < 6; i++ {
-		for j := 0; j < 6; j++ {
+// mulAddLower adds a b to the lower triangle of c, for a with zero rows
+// and b with zero columns from m on.
+func mulAddLower(c, a, b *mat6, m int) {
+	for i := 0; i < m; i++ {
+		for j := 0; j <= i; j++ {
 			v := 0.0
 			for k := 0; k < 6; k++ {
 				v += a[i*6+k] * b[k*6+j]
@@ -416,12 +449,13 @@ func mulAdd(c, a, b *mat6) {
 	}
 }
 
-// mulAtBAdd adds a^T b to c.
-func mulAtBAdd(c, a, b *mat6) {
+// mulAtBAddLower adds a^T b to the lower triangle of c, for a and b with
+// zero rows from m on.
+func mulAtBAddLower(c, a, b *mat6, m int) {
 	for i := 0; i < 6; i++ {
-		for j := 0; j < 6; j++ {
+		for j := 0; j <= i; j++ {
 			v := 0.0
-			for k := 0; k < 6; k++ {
+			for k := 0; k < m; k++ {
 				v += a[k*6+i] * b[k*6+j]
 			}
 			c[i*6+j] += v
@@ -432,14 +466,18 @@ func mulAtBAdd(c, a, b *mat6) {
 // definiteInverse writes the inverse of the symmetric 6 x 6 matrix a,
 // positive definite if sign is 1 and negative definite if sign is -1, into
 // inv by way of the Cholesky factor of sign a; it reports false if a is
-// not definite to working precision.
-func definiteInverse(a, inv *mat6, sign float64) bool {
+// not definite to working precision. Only the lower triangle of a is read.
+// Rows and columns from n on are a joint's padding, zero but for the
+// diagonal's sign: their inverse is written without arithmetic.
+func definiteInverse(a, inv *mat6, sign float64, n int) bool {
 	var l, li mat6
-	for i := range l {
-		l[i] = sign * a[i]
+	for i := 0; i < n; i++ {
+		for j := 0; j <= i; j++ {
+			l[i*6+j] = sign * a[i*6+j]
+		}
 	}
 	// Cholesky: l lower with l l^T = sign a.
-	for j := 0; j < 6; j++ {
+	for j := 0; j < n; j++ {
 		d := l[j*6+j]
 		for k := 0; k < j; k++ {
 			d -= l[j*6+k] * l[j*6+k]
@@ -449,7 +487,7 @@ func definiteInverse(a, inv *mat6, sign float64) bool {
 		}
 		d = math.Sqrt(d)
 		l[j*6+j] = d
-		for i := j + 1; i < 6; i++ {
+		for i := j + 1; i < n; i++ {
 			v := l[i*6+j]
 			for k := 0; k < j; k++ {
 				v -= l[i*6+k] * l[j*6+k]
@@ -458,9 +496,9 @@ func definiteInverse(a, inv *mat6, sign float64) bool {
 		}
 	}
 	// li = l^-1, lower triangular.
-	for j := 0; j < 6; j++ {
+	for j := 0; j < n; j++ {
 		li[j*6+j] = 1 / l[j*6+j]
-		for i := j + 1; i < 6; i++ {
+		for i := j + 1; i < n; i++ {
 			v := 0.0
 			for k := j; k < i; k++ {
 				v -= l[i*6+k] * li[k*6+j]
@@ -469,14 +507,20 @@ func definiteInverse(a, inv *mat6, sign float64) bool {
 		}
 	}
 	// a^-1 = sign li^T li.
-	for i := 0; i < 6; i++ {
+	for i := 0; i < n; i++ {
 		for j := 0; j <= i; j++ {
 			v := 0.0
-			for k := i; k < 6; k++ {
+			for k := i; k < n; k++ {
 				v += li[k*6+i] * li[k*6+j]
 			}
 			inv[i*6+j], inv[j*6+i] = sign*v, sign*v
 		}
+	}
+	for i := n; i < 6; i++ {
+		for j := 0; j < 6; j++ {
+			inv[i*6+j], inv[j*6+i] = 0, 0
+		}
+		inv[i*6+i] = sign
 	}
 	return true
 }
@@ -592,7 +636,7 @@ func (w *World) projectJoints(pseudo bool) {
 func (w *World) endValues(jt *joint, out *[6]float64) {
 	pa, qa := w.predicted(jt.a)
 	pb, qb := w.predicted(jt.b)
-	g := jointGeomAt(jt, pa, qa, pb, qb)
+	g := jointGeomAt(jt, pa, qa, pb, qb, false)
 	eqValues(jt, &g, qb, &jt.basis, out)
 	jt.chol.apply(out)
 }

@@ -200,11 +200,12 @@ func (w *World) Step(dt float64) error {
 func (w *World) step(dt float64) error {
 	w.applyMotorChanges(dt) // scheduled motors (schedule.go)
 	w.drive(dt)             // driven kinematic bodies: velocities for this step (driver.go)
-	e0, k0 := 0.0, 0.0
+	e0, k0, rot0, pot0 := 0.0, 0.0, 0.0, 0.0
 	guard := !w.cfg.NoDivergenceCheck && !w.driven()
 	if guard {
-		k0 = w.KineticEnergy()
-		e0 = k0 + w.PotentialEnergy()
+		rot0, pot0 = w.rotationalKinetic(), w.PotentialEnergy()
+		k0 = w.linearKinetic() + rot0
+		e0 = k0 + pot0
 	}
 	kicked := w.applyKicks(dt)
 
@@ -220,8 +221,13 @@ func (w *World) step(dt float64) error {
 	// speculative stop took this step, so the guard measures against the
 	// larger of this step's start and the last step's energy before its solve.
 	ePre := 0.0
-	if guard {
+	switch {
+	case guard && kicked:
 		ePre = w.Energy()
+	case guard:
+		// Only gravity has changed the velocities since e0: the spins and
+		// positions, so the rotational and potential parts, are as they were.
+		ePre = w.linearKinetic() + rot0 + pot0
 	}
 	if err := w.solve(dt); err != nil {
 		return err
@@ -286,9 +292,9 @@ func (w *World) integrate(dt float64) {
 		w.b.pos[i] = w.b.pos[i].Add(w.b.vel[i].Add(vp).Mul(dt))
 		q := w.b.rot[i]
 		if k == Dynamic {
-			qp := q.Mul(w.b.axes[i])
-			qp, w.b.spin[i] = freeRotation(qp, w.b.moments[i], w.b.spin[i], dt)
-			q = qp.Mul(w.b.axes[i].Conjugate())
+			var qp shapes.Quat
+			qp, w.b.spin[i] = w.freeTurn(id, dt)
+			q = qmulConj(&qp, &w.b.axes[i])
 		} else {
 			q = integrateQuat(q, w.b.spin[i], dt)
 		}
@@ -299,8 +305,8 @@ func (w *World) integrate(dt float64) {
 				// The correction turns the body without a torque: keep its
 				// spin angular momentum, as a real rotation would (the
 				// body-frame angular velocity is carried along unchanged).
-				wb := before.Conjugate().Rotate(w.b.spin[i])
-				w.b.spin[i] = q.Rotate(wb)
+				wb := qrotateInv(&before, &w.b.spin[i])
+				w.b.spin[i] = qrotate(&q, &wb)
 			}
 		}
 		w.b.rot[i] = q.Normalize()
@@ -333,10 +339,10 @@ func (w *World) checkEnergy(e0, k0 float64) error {
 	e1 := k1 + w.PotentialEnergy()
 	// Floor: the energy of each body lifted by its own size, so resting
 	// bodies' rounding never trips the guard.
-	floor := 0.0
+	floor, g := 0.0, w.cfg.Gravity.Len()
 	for i, k := range w.b.kind {
 		if k == Dynamic {
-			floor += w.b.mass[i] * w.cfg.Gravity.Len() * w.b.radius[i] * 0.01
+			floor += w.b.mass[i] * g * w.b.radius[i] * 0.01
 		}
 	}
 	if e1-e0 <= energyJumpFraction*(k0+floor) {
