@@ -14,7 +14,7 @@ func init() {
 // chainWorld is a chain of n links of 5 cm, each hinged to the next about
 // y and the first to the ground, released horizontal so that it swings and
 // folds onto itself (contacts between links that are not neighbours).
-func chainWorld(b *testing.B, n int) (*engine.World, []engine.JointID) {
+func chainWorld(b testing.TB, n int) (*engine.World, []engine.JointID) {
 	cfg := engine.DefaultConfig()
 	cfg.NoSleep = true
 	cfg.NoEvents = true
@@ -43,10 +43,15 @@ func chainWorld(b *testing.B, n int) (*engine.World, []engine.JointID) {
 }
 
 // Chain100 is one 1 ms step of a swinging chain of 100 hinged links (the
-// mechanisms target: under 0.5 ms), 8 velocity iterations, no sleeping;
-// it reports the largest joint error at the end, in nm.
+// mechanisms target: under 0.5 ms), 8 velocity iterations, no sleeping.
+// It reports the largest joint error, in nm, over the first 1200 steps of
+// a fresh chain, so that the figure does not depend on b.N. It peaks (at
+// about 0.2 mm) as the chain's free end cracks like a whip near step 1000,
+// its last link turning some 0.4 rad per step: the error of stepping a
+// turn that large, corrected within a few steps, not a solver drift (at
+// other times it is below 1e-6 m).
 func Chain100(b *testing.B) {
-	w, js := chainWorld(b, 100)
+	w, _ := chainWorld(b, 100)
 	for i := 0; i < 200; i++ { // into the swing
 		if err := w.Step(1e-3); err != nil {
 			b.Fatal(err)
@@ -60,10 +65,19 @@ func Chain100(b *testing.B) {
 		}
 	}
 	b.StopTimer()
+	if b.N < 100 {
+		return // a trial run of the benchmark framework
+	}
+	w, js := chainWorld(b, 100)
 	worst := 0.0
-	for _, j := range js {
-		l, _ := w.JointError(j)
-		worst = max(worst, l)
+	for i := 0; i < 1200; i++ {
+		if err := w.Step(1e-3); err != nil {
+			b.Fatal(err)
+		}
+		for _, j := range js {
+			l, _ := w.JointError(j)
+			worst = max(worst, l)
+		}
 	}
 	b.ReportMetric(worst*1e9, "nm-joint-error")
 }
