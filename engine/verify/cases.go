@@ -25,7 +25,7 @@ const dt = 1e-3
 
 // Cases returns the analytic cases in the order `clatter verify` prints them.
 func Cases() []Case {
-	return []Case{
+	return append([]Case{
 		{
 			Name: "free fall, 1 s from rest", Unit: "m",
 			Reference: "drop d = g t^2 / 2", Source: "uniform acceleration (Galileo; any mechanics text)",
@@ -138,7 +138,7 @@ func Cases() []Case {
 			Why: "as the SI case: the stopping step and first contact; unit conversion adds only rounding",
 			Run: sceneSlide,
 		},
-	}
+	}, mechanismCases()...)
 }
 
 // floorWorld returns a world with a static floor z = 0 of material m, and
