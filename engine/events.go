@@ -14,7 +14,9 @@ const (
 	// Sleep and Wake: a body's island fell asleep or was woken.
 	Sleep
 	Wake
-	// Settled: every dynamic body is at rest (once per run).
+	// Settled: every dynamic body is at rest and nothing scheduled will
+	// move them any more: no kick or motor change to come, no driven body
+	// whose motion has not ended (once per run).
 	Settled
 )
 

@@ -44,3 +44,43 @@ func (w *World) applyMotorChanges(dt float64) {
 		_ = w.SetMotor(c.joint, c.motor) // checked when scheduled
 	}
 }
+
+// pending reports whether something scheduled will still move the bodies:
+// a kick or a motor change to come, or a driven body whose motion has not
+// ended. The world is not settled while it is, however still its bodies
+// are: a carton at rest on a tilt table that starts in a second has not
+// settled.
+func (w *World) pending() bool {
+	if len(w.kicks) > 0 || len(w.motorChanges) > 0 {
+		return true
+	}
+	for i := range w.mech.motions {
+		if w.time < motionEnd(w.mech.motions[i].m) {
+			return true
+		}
+	}
+	return false
+}
+
+// motionEnd is the time after which a motion holds its pose: never for a
+// vibration or an endless tilt.
+func motionEnd(m Motion) float64 {
+	switch m := m.(type) {
+	case *Tilt:
+		if m.Angle != 0 && m.Rate != 0 {
+			return m.Start + math.Abs(m.Angle/m.Rate)
+		}
+	case *Vibration:
+		for _, o := range m.Terms {
+			if o.Amplitude != 0 && o.Frequency != 0 {
+				return math.Inf(1)
+			}
+		}
+		return math.Inf(-1)
+	case *PoseTable:
+		if !m.Repeat && len(m.Times) > 0 {
+			return m.Times[len(m.Times)-1]
+		}
+	}
+	return math.Inf(1)
+}

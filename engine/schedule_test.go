@@ -67,3 +67,46 @@ func TestScheduleMotorRefusesBadInput(t *testing.T) {
 		}
 	}
 }
+
+func TestNotSettledWhileSomethingIsToCome(t *testing.T) {
+	// A box at rest on a table is not settled while a kick, a motor change
+	// or the table's tilt is still to come: a run that stops once settled
+	// would otherwise end before they happen.
+	const dt = 1e-3
+	for _, c := range []struct {
+		name  string
+		setup func(w *World, table, box BodyID)
+		after float64 // the world may settle only after this time
+	}{
+		{"a kick at 1 s", func(w *World, _, box BodyID) {
+			if err := w.Kick(box, 1, shapes.Vec3{0.5, 0, 0}, shapes.Vec3{}, true); err != nil {
+				t.Fatal(err)
+			}
+		}, 1},
+		{"a tilt from 1 s to 3 degrees at 1 deg/s", func(w *World, table, _ BodyID) {
+			if err := w.SetMotion(table, &Tilt{Axis: shapes.Vec3{0, 1, 0}, Rate: math.Pi / 180, Start: 1, Angle: 3 * math.Pi / 180}); err != nil {
+				t.Fatal(err)
+			}
+		}, 4},
+		{"a vibration, which never ends", func(w *World, table, _ BodyID) {
+			if err := w.SetMotion(table, &Vibration{Terms: []Oscillation{{Axis: shapes.Vec3{0, 0, 1}, Amplitude: 1e-6, Frequency: 5}}}); err != nil {
+				t.Fatal(err)
+			}
+		}, math.Inf(1)},
+	} {
+		w := newTestWorld(t, DefaultConfig())
+		table := mustAdd(t, w, BodyDef{Name: "table", Kind: Kinematic, Shape: shapes.Box{Half: shapes.Vec3{0.5, 0.5, 0.01}}, Position: shapes.Vec3{0, 0, -0.01}})
+		box := mustAdd(t, w, BodyDef{Name: "box", Shape: shapes.Box{Half: shapes.Vec3{0.05, 0.05, 0.05}}, Density: 500, Position: shapes.Vec3{0, 0, 0.05}})
+		c.setup(w, table, box)
+		run(t, w, dt, 6, nil)
+		ok, at := w.Settled()
+		switch {
+		case math.IsInf(c.after, 1) && ok:
+			t.Errorf("%s: settled at %g s", c.name, at)
+		case !math.IsInf(c.after, 1) && !ok:
+			t.Errorf("%s: never settled in 6 s", c.name)
+		case ok && at < c.after:
+			t.Errorf("%s: settled at %g s, before %g s", c.name, at, c.after)
+		}
+	}
+}

@@ -68,7 +68,7 @@ func (w *World) updateRest(dt float64) {
 		}
 	}
 	w.unionJoints() // jointed bodies share an island (joint.go)
-	if anyDynamic && allRest && !w.settled {
+	if anyDynamic && allRest && !w.settled && !w.pending() {
 		w.settled, w.settledAt = true, w.time
 		w.emit(Event{Kind: Settled, Time: w.time, A: -1, B: -1})
 	}

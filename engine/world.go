@@ -131,7 +131,8 @@ func (w *World) Time() float64 { return w.time }
 // Steps is the number of steps taken (sub-steps count one each).
 func (w *World) Steps() int { return w.steps }
 
-// Settled reports whether every dynamic body has come to rest, and when.
+// Settled reports whether every dynamic body has come to rest with nothing
+// scheduled still to move it (see the Settled event), and when.
 func (w *World) Settled() (bool, float64) { return w.settled, w.settledAt }
 
 // Kick schedules an impulse (N s, world frame) on a body at time t, applied
