@@ -164,11 +164,15 @@ func (tl *Tilt) Pose(t float64, base shapes.Pose) shapes.Pose {
 // than half a turn. Before the first time the body holds the first pose,
 // after the last the last, unless Repeat plays the table again and again
 // with period Times[last] - Times[0] (the last pose should then equal the
-// first). The base pose is ignored: the poses are the body's own.
+// first). The poses are the body's own, unless Relative: then each is a
+// move from the base pose, the body's shape origin shifted by the pose's
+// position and its axes turned by the pose's orientation (world frame), so
+// that a table whose first row is zero starts the body where it stands.
 type PoseTable struct {
-	Times  []float64
-	Poses  []shapes.Pose
-	Repeat bool
+	Times    []float64
+	Poses    []shapes.Pose
+	Repeat   bool
+	Relative bool
 }
 
 func (p *PoseTable) check() error {
@@ -191,7 +195,16 @@ func (p *PoseTable) check() error {
 }
 
 // Pose implements Motion.
-func (p *PoseTable) Pose(t float64, _ shapes.Pose) shapes.Pose {
+func (p *PoseTable) Pose(t float64, base shapes.Pose) shapes.Pose {
+	q := p.at(t)
+	if p.Relative {
+		q = shapes.Pose{Position: base.Position.Add(q.Position), Orientation: q.Orientation.Mul(base.Orientation).Normalize()}
+	}
+	return q
+}
+
+// at interpolates the table at time t.
+func (p *PoseTable) at(t float64) shapes.Pose {
 	n := len(p.Times)
 	t0, t1 := p.Times[0], p.Times[n-1]
 	if p.Repeat && t1 > t0 {

@@ -140,6 +140,21 @@ func TestPoseTable(t *testing.T) {
 	if a, b := rep.Pose(3.25, shapes.IdentityPose), p.Pose(0.25, shapes.IdentityPose); a.Position.Sub(b.Position).Len() > tol {
 		t.Errorf("repeat: t = 3.25 is %v, want the pose at 0.25, %v", a.Position, b.Position)
 	}
+	// Relative: the half-way move (50, 0, 25) mm and an eighth turn about
+	// z, applied to a base at (1, 2, 3) m turned a quarter about x.
+	rel := &PoseTable{Times: p.Times, Poses: p.Poses, Relative: true}
+	base := shapes.Pose{Position: shapes.Vec3{1, 2, 3}, Orientation: mgl64.QuatRotate(math.Pi/2, shapes.Vec3{1, 0, 0})}
+	got := rel.Pose(0.5, base)
+	if e := got.Position.Sub(shapes.Vec3{1.05, 2, 3.025}).Len(); e > tol {
+		t.Errorf("relative: position %v", got.Position)
+	}
+	want := mgl64.QuatRotate(math.Pi/4, shapes.Vec3{0, 0, 1}).Mul(base.Orientation)
+	if e := quatAngle(got.Orientation, want); e > tol {
+		t.Errorf("relative: orientation off by %.3g rad", e)
+	}
+	if got := rel.Pose(-1, base); got.Position.Sub(base.Position).Len() > tol || quatAngle(got.Orientation, base.Orientation) > tol {
+		t.Errorf("relative: a zero first row moves the body to %v", got)
+	}
 }
 
 func TestPoseTableErrors(t *testing.T) {

@@ -305,3 +305,25 @@ func TestExamplePendulum(t *testing.T) {
 	}
 	t.Logf("period %.5f s, want %.5f s (error %.2g)", period, want, relErr(period, want))
 }
+
+func TestExamplePusher(t *testing.T) {
+	// A driven plate follows pusher-path.csv: still for 0.5 s, 120 mm along
+	// +x in 1 s, still again. The carton 30 mm ahead is pushed for the last
+	// 90 mm at v = 120 mm/s and then coasts v^2 / (2 mu_k g) against
+	// Coulomb friction mu_k 0.4 (any dynamics text). Within 0.3 mm: the
+	// contact slop (0.2 mm) plus the step in which the pusher stops.
+	const mu, v, tol = 0.4, 0.12, 0.3
+	dir := mustRun(t, "../../testdata/mechanisms/pusher.toml")
+	s := readSummary(t, dir)
+	if len(s.Bodies) != 1 || s.Bodies[0].Name != "carton" || !s.Settled {
+		t.Fatalf("summary %+v", s)
+	}
+	want := 80 + 90 + v*v/(2*mu*g)*1e3
+	if got := s.Bodies[0].Position[0]; math.Abs(got-want) > tol {
+		t.Errorf("carton ends at x = %.3f mm, want %.3f", got, want)
+	}
+	// It settles only once the path has ended (at 2.5 s) and it has rested.
+	if *s.SettledAt < 2.5 {
+		t.Errorf("settled at %g s, before the pusher's path ended", *s.SettledAt)
+	}
+}

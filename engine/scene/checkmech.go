@@ -127,11 +127,15 @@ func (s *Scene) mechanismBounds() mechBounds {
 		case *engine.Tilt:
 			v += m.Rate * (radius + m.Point.Sub(pos).Len())
 		case *engine.PoseTable:
+			// A scene's table turns the body about its own origin: no point
+			// of it is farther from there than arm.
+			bb := s.worldBounds(i)
+			arm := radius + bb.Min.Add(bb.Max).Mul(0.5).Sub(pos).Len()
 			for k := 1; k < len(m.Times); k++ {
 				dt := m.Times[k] - m.Times[k-1]
 				a, b := m.Poses[k-1], m.Poses[k]
 				turn := 2 * math.Acos(math.Min(1, math.Abs(a.Orientation.Dot(b.Orientation))))
-				v = math.Max(v, (b.Position.Sub(a.Position).Len()+turn*(radius+b.Position.Len()))/dt)
+				v = math.Max(v, (b.Position.Sub(a.Position).Len()+turn*arm)/dt)
 			}
 		}
 		mb.push = math.Max(mb.push, v)

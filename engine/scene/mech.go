@@ -619,6 +619,7 @@ func (r *reader) posePath(sec section) (engine.Motion, string) {
 		r.errAt(sub(sec.path, "path"), "%s%v", sec.pre, err)
 		return nil, ""
 	}
+	table.Relative = true // moves from where the scene puts the body
 	table.Repeat, _ = r.boolean(sec, "repeat", false)
 	if table.Repeat {
 		last := len(table.Times) - 1
