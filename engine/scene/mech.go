@@ -329,9 +329,9 @@ func (r *reader) motor(sec section, k engine.JointKind, free, effort Dim) (engin
 		p := sub(sec.path, "program", strconv.Itoa(i))
 		ps := section{m: m, path: p, name: fmt.Sprintf("program entry %d", i+1), pre: fmt.Sprintf("%sprogram entry %d: ", sec.pre, i+1)}
 		nerr := r.n
-		r.keys(ps, "time", key)
+		unknown := r.keys(ps, "time", key)
 		for _, need := range []string{"time", key} {
-			if _, given := m[need]; !given {
+			if _, given := m[need]; !given && unknown == 0 { // a misspelt key is reported once
 				r.errAt(p, "%s%s is missing (a %s motor's program gives time and %s)", ps.pre, need, kind, key)
 			}
 		}
