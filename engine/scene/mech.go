@@ -517,10 +517,10 @@ func (r *reader) vibration(sec section, b *Body) engine.Motion {
 		p := sub(path, strconv.Itoa(i))
 		ts := section{m: m, path: p, name: fmt.Sprintf("vibration term %d of %q", i+1, b.Name), pre: fmt.Sprintf("%svibration term %d: ", sec.pre, i+1)}
 		nerr := r.n
-		r.keys(ts, "along", "turn", "amplitude", "frequency", "phase")
+		unknown := r.keys(ts, "along", "turn", "amplitude", "frequency", "phase")
 		_, along := m["along"]
 		_, turn := m["turn"]
-		if along == turn {
+		if along == turn && unknown == 0 {
 			r.errAt(p, "%sgive along = [x, y, z] (a linear vibration) or turn = [x, y, z] (a rotary one about that axis), one of them", ts.pre)
 			good = false
 			continue
@@ -535,7 +535,7 @@ func (r *reader) vibration(sec section, b *Body) engine.Motion {
 			r.errAt(sub(p, axisKey), "%s%s must not be zero", ts.pre, axisKey)
 		}
 		for _, k := range []string{"amplitude", "frequency"} {
-			if _, given := m[k]; !given {
+			if _, given := m[k]; !given && unknown == 0 {
 				r.errAt(p, "%s%s is missing", ts.pre, k)
 			}
 		}
@@ -567,9 +567,9 @@ func (r *reader) tilt(sec section, b *Body) engine.Motion {
 		return nil
 	}
 	nerr := r.n
-	r.keys(ts, "axis", "through", "rate", "start", "to")
+	unknown := r.keys(ts, "axis", "through", "rate", "start", "to")
 	for _, k := range []string{"axis", "rate"} {
-		if _, given := ts.m[k]; !given {
+		if _, given := ts.m[k]; !given && unknown == 0 {
 			r.errAt(ts.path, "%s%s is missing (tilt = { axis = [0, 1, 0], rate = \"2 deg/s\" })", ts.pre, k)
 		}
 	}
