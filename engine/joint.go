@@ -163,9 +163,6 @@ type joint struct {
 	nodeN        int32
 	motorRow     int32       // index of the motor row among its rows, -1 if none
 	lever        shapes.Vec3 // A's lever arm to its anchor this step, world
-	force        shapes.Vec3
-	torque       shapes.Vec3
-	effort       float64
 }
 
 // mechanisms holds a world's joints and drivers.
@@ -381,12 +378,34 @@ func (w *World) SetMotor(j JointID, m Motor) error {
 // The base B felt the opposite. Zero while the joint's bodies sleep.
 func (w *World) JointReaction(j JointID) (force, torque shapes.Vec3) {
 	jt := &w.mech.joints[j]
-	return jt.force, jt.torque
+	if jt.count == 0 {
+		return shapes.Vec3{}, shapes.Vec3{}
+	}
+	// Read back from the last step's rows, which stay as the solve left
+	// them until the next step builds new ones: most steps nobody asks.
+	rows := w.mech.rows
+	dt := w.mech.dt
+	var f, t shapes.Vec3
+	for k := jt.first; k < jt.first+jt.count; k++ {
+		r := &rows[k]
+		f = f.Add(r.LinA.Mul(r.Impulse))
+		t = t.Add(r.AngA.Mul(r.Impulse))
+	}
+	f, t = f.Mul(1/dt), t.Mul(1/dt)
+	// The angular part about A's centre includes the moment of the force
+	// at the anchor; what is left is the torque at the anchor.
+	return f, t.Sub(jt.lever.Cross(f))
 }
 
 // MotorEffort returns the torque (N m) or force (N) of a joint's motor
 // during the last step, along the axis, acting on A.
-func (w *World) MotorEffort(j JointID) float64 { return w.mech.joints[j].effort }
+func (w *World) MotorEffort(j JointID) float64 {
+	jt := &w.mech.joints[j]
+	if jt.count == 0 || jt.motorRow < 0 {
+		return 0
+	}
+	return w.mech.rows[jt.first+jt.motorRow].Impulse / w.mech.dt
+}
 
 // JointPosition returns a revolute joint's angle (rad, unwrapped: it counts
 // whole turns), a prismatic joint's travel (m) or a distance joint's
@@ -1142,7 +1161,8 @@ func (w *World) jointScale() float64 {
 
 // afterJointSolve runs after the contact solve: the exact projection of
 // the velocities and pseudo-velocities onto the joints that form a forest
-// (jointtree.go), then the joints' reactions.
+// (jointtree.go). The joints' reactions are read from the rows when asked
+// (JointReaction).
 func (w *World) afterJointSolve(dt float64) {
 	if len(w.mech.joints) == 0 {
 		return
@@ -1152,29 +1172,6 @@ func (w *World) afterJointSolve(dt float64) {
 		if w.collision.solver.Settings.PositionIterations > 0 {
 			w.predictAll(dt, true)
 			w.projectJoints(true)
-		}
-	}
-	w.jointReactions(dt)
-}
-
-// jointReactions reads the joints' impulses back after the solve.
-func (w *World) jointReactions(dt float64) {
-	rows := w.mech.rows
-	for j := range w.mech.joints {
-		jt := &w.mech.joints[j]
-		var f, t shapes.Vec3
-		jt.effort = 0
-		for k := jt.first; k < jt.first+jt.count; k++ {
-			r := &rows[k]
-			f = f.Add(r.LinA.Mul(r.Impulse))
-			t = t.Add(r.AngA.Mul(r.Impulse))
-		}
-		f, t = f.Mul(1/dt), t.Mul(1/dt)
-		// The angular part about A's centre includes the moment of the
-		// force at the anchor; what is left is the torque at the anchor.
-		jt.force, jt.torque = f, t.Sub(jt.lever.Cross(f))
-		if jt.count > 0 && jt.motorRow >= 0 {
-			jt.effort = rows[jt.first+jt.motorRow].Impulse / dt
 		}
 	}
 }

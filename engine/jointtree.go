@@ -90,9 +90,9 @@ func growFill[T any](s []T, n int, v T) []T {
 }
 
 // push appends a node to the forest, reusing the space of earlier steps'
-// nodes: its Jacobian and f are zero, the other blocks are written before
-// they are read (buildTree, projectJoints). The pointer is valid until the
-// next push.
+// nodes: its blocks are written before they are read (jacobianOf and
+// buildTree for a node with a parent; a root's jac and f are not used).
+// The pointer is valid until the next push.
 func (t *jointTree) push(body, joint int32, size int, parent int32) *treeNode {
 	if len(t.nodes) < cap(t.nodes) {
 		t.nodes = t.nodes[:len(t.nodes)+1]
@@ -101,7 +101,6 @@ func (t *jointTree) push(body, joint int32, size int, parent int32) *treeNode {
 	}
 	nd := &t.nodes[len(t.nodes)-1]
 	nd.body, nd.joint, nd.size, nd.parent, nd.m = body, joint, size, parent, 0
-	nd.jac, nd.f = mat6{}, mat6{}
 	return nd
 }
 
@@ -210,7 +209,7 @@ func (w *World) nodeRow(jt *joint, k int) *contact.Row { return &w.mech.rows[jt.
 func nodeSize(jt *joint) int { return int(jt.nodeN) }
 
 // jacobianOf writes the Jacobian of a joint's node rows with respect to
-// solver body b (m x 6).
+// solver body b (m x 6, zero below row m).
 func (w *World) jacobianOf(jt *joint, b int32, out *mat6) int {
 	m := nodeSize(jt)
 	for k := 0; k < m; k++ {
@@ -221,6 +220,7 @@ func (w *World) jacobianOf(jt *joint, b int32, out *mat6) int {
 		}
 		out[k*6], out[k*6+1], out[k*6+2], out[k*6+3], out[k*6+4], out[k*6+5] = l[0], l[1], l[2], a[0], a[1], a[2]
 	}
+	clear(out[m*6:])
 	return m
 }
 
@@ -527,6 +527,13 @@ func definiteInverse(a, inv *mat6, sign float64, n int) bool {
 
 // treeSolve solves H x = b with the factors; the right-hand sides and the
 // solutions are in the nodes' x (zero in a joint's padding).
+//
+// The loops leave out the products with the zeros that buildTree's
+// blocks are known to hold (a root's f is not even written): a body's f
+// has zero columns from m on, a joint's f zero rows from its size on, a
+// joint's dinv is zero off its diagonal in its padding, and a joint's x
+// is zero there. Each sum is the same sum of the same nonzero terms in the
+// same order, so the result is bit for bit that of the full 6 x 6 loops.
 func (t *jointTree) treeSolve() {
 	nodes := t.nodes
 	// Leaves up: y = L^-1 b, b_p -= F_n^T y_n.
@@ -535,11 +542,15 @@ func (t *jointTree) treeSolve() {
 		if nd.parent < 0 {
 			continue
 		}
-		x := nd.x
+		x := &nd.x
 		px := &nodes[nd.parent].x
-		for i := 0; i < 6; i++ {
+		cols, rows := nd.m, 6 // a body's f, below a joint of m rows
+		if nd.body < 0 {
+			cols, rows = 6, nd.m // a joint's f, below a body
+		}
+		for i := 0; i < cols; i++ {
 			v := 0.0
-			for k := 0; k < 6; k++ {
+			for k := 0; k < rows; k++ {
 				v += nd.f[k*6+i] * x[k]
 			}
 			px[i] -= v
@@ -549,14 +560,40 @@ func (t *jointTree) treeSolve() {
 	for q := range nodes {
 		nd := &nodes[q]
 		x := nd.x
-		var z, px [6]float64
-		if nd.parent >= 0 {
-			px = nodes[nd.parent].x
+		var z [6]float64
+		n := 6
+		if nd.body < 0 {
+			n = nd.size
 		}
-		for i := 0; i < 6; i++ {
+		if nd.parent < 0 {
+			for i := 0; i < n; i++ {
+				v := 0.0
+				for k := 0; k < n; k++ {
+					v += nd.dinv[i*6+k] * x[k]
+				}
+				z[i] = v
+			}
+			nd.x = z
+			continue
+		}
+		px := &nodes[nd.parent].x
+		// Columns to m of both products, then the rest of one of them: a
+		// body's dinv (its f is zero there) or a joint's f (its dinv and x
+		// are zero there).
+		m := nd.m
+		for i := 0; i < n; i++ {
 			v := 0.0
-			for k := 0; k < 6; k++ {
+			for k := 0; k < m; k++ {
 				v += nd.dinv[i*6+k]*x[k] - nd.f[i*6+k]*px[k]
+			}
+			if nd.body >= 0 {
+				for k := m; k < 6; k++ {
+					v += nd.dinv[i*6+k] * x[k]
+				}
+			} else {
+				for k := m; k < 6; k++ {
+					v -= nd.f[i*6+k] * px[k]
+				}
 			}
 			z[i] = v
 		}

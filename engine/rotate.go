@@ -55,12 +55,14 @@ func principalRotate(q shapes.Quat, pi, moments shapes.Vec3, k int, t float64) (
 // integrateQuat turns q by the small rotation w*dt (world frame), for the
 // position-correction pseudo-velocities.
 func integrateQuat(q shapes.Quat, w shapes.Vec3, dt float64) shapes.Quat {
-	a := w.Len() * dt
+	l := w.Len()
+	a := l * dt
 	if a == 0 {
 		return q
 	}
 	s, c := math.Sincos(a / 2)
-	r := shapes.Quat{W: c, V: w.Normalize().Mul(s)}
+	inv := 1 / l // w.Normalize() without a second square root
+	r := shapes.Quat{W: c, V: shapes.Vec3{w[0] * inv * s, w[1] * inv * s, w[2] * inv * s}}
 	return qmul(&r, &q).Normalize()
 }
 
