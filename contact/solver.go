@@ -196,10 +196,10 @@ func (r *row) setup(bodies []Body, a, b int32, linA, angA, linB, angB vec) {
 	r.a, r.b = a, b
 	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
 	r.dvA = linA.Mul(A.InvMass)
-	r.dwA = A.InvInertia.Mul3x1(angA)
+	r.dwA = mulMV(&A.InvInertia, &r.angA)
 	r.dvB = linB.Mul(B.InvMass)
-	r.dwB = B.InvInertia.Mul3x1(angB)
-	r.k = linA.Dot(r.dvA) + angA.Dot(r.dwA) + linB.Dot(r.dvB) + angB.Dot(r.dwB)
+	r.dwB = mulMV(&B.InvInertia, &r.angB)
+	r.k = dot3(&r.linA, &r.dvA) + dot3(&r.angA, &r.dwA) + dot3(&r.linB, &r.dvB) + dot3(&r.angB, &r.dwB)
 	r.mass = 0
 	if r.k > 0 && !math.IsInf(r.k, 1) {
 		r.mass = 1 / r.k
@@ -211,6 +211,15 @@ func (r *row) setup(bodies []Body, a, b int32, linA, angA, linB, angB vec) {
 // pass 24-byte arrays by value and cost about twice as much here.
 
 func dot3(a, b *vec) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
+
+// mulMV is m.Mul3x1(v) with the same roundings.
+func mulMV(m *shapes.Mat3, v *vec) vec {
+	return vec{
+		m[0]*v[0] + m[3]*v[1] + m[6]*v[2],
+		m[1]*v[0] + m[4]*v[1] + m[7]*v[2],
+		m[2]*v[0] + m[5]*v[1] + m[8]*v[2],
+	}
+}
 
 func addScaled(v *vec, a *vec, d float64) {
 	v[0] += a[0] * d
