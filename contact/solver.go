@@ -192,12 +192,28 @@ func grow[T any](s []T, n int) []T {
 }
 
 func (r *row) setup(bodies []Body, a, b int32, linA, angA, linB, angB vec) {
+	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
+	r.setupJ(bodies, a, b)
+}
+
+// setupContact is setup for a contact row along unit direction n (from A
+// to B) at lever arms rA and rB: the Jacobian -n, -(rA x n), n, rB x n,
+// written out with the roundings of the vector methods.
+func (r *row) setupContact(bodies []Body, a, b int32, n, rA, rB *vec) {
+	r.linA = vec{n[0] * -1, n[1] * -1, n[2] * -1}
+	r.angA = vec{(rA[1]*n[2] - rA[2]*n[1]) * -1, (rA[2]*n[0] - rA[0]*n[2]) * -1, (rA[0]*n[1] - rA[1]*n[0]) * -1}
+	r.linB = *n
+	r.angB = vec{rB[1]*n[2] - rB[2]*n[1], rB[2]*n[0] - rB[0]*n[2], rB[0]*n[1] - rB[1]*n[0]}
+	r.setupJ(bodies, a, b)
+}
+
+// setupJ fills the rest of r from its Jacobian.
+func (r *row) setupJ(bodies []Body, a, b int32) {
 	A, B := &bodies[a], &bodies[b]
 	r.a, r.b = a, b
-	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
-	r.dvA = linA.Mul(A.InvMass)
+	r.dvA = vec{r.linA[0] * A.InvMass, r.linA[1] * A.InvMass, r.linA[2] * A.InvMass}
 	r.dwA = mulMV(&A.InvInertia, &r.angA)
-	r.dvB = linB.Mul(B.InvMass)
+	r.dvB = vec{r.linB[0] * B.InvMass, r.linB[1] * B.InvMass, r.linB[2] * B.InvMass}
 	r.dwB = mulMV(&B.InvInertia, &r.angB)
 	r.k = dot3(&r.linA, &r.dvA) + dot3(&r.angA, &r.dwA) + dot3(&r.linB, &r.dvB) + dot3(&r.angB, &r.dwB)
 	r.mass = 0
@@ -352,19 +368,19 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 	for i := range points {
 		p := &points[i]
 		A, B := &bodies[p.A], &bodies[p.B]
-		rA, rB := p.Position.Sub(A.Position), p.Position.Sub(B.Position)
-		nr := p.Normal
-		t1, t2 := tangents(nr)
+		rA := vec{p.Position[0] - A.Position[0], p.Position[1] - A.Position[1], p.Position[2] - A.Position[2]}
+		rB := vec{p.Position[0] - B.Position[0], p.Position[1] - B.Position[1], p.Position[2] - B.Position[2]}
+		t1, t2 := tangents(p.Normal)
 
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
-		rn.setup(bodies, p.A, p.B, nr.Mul(-1), rA.Cross(nr).Mul(-1), nr, rB.Cross(nr))
+		rn.setupContact(bodies, p.A, p.B, &p.Normal, &rA, &rB)
 		// A speculative point may approach by its gap within the step.
 		rn.target = -max(p.Separation, 0) / dt
 		rn.lo, rn.hi = 0, math.Inf(1)
-		r1.setup(bodies, p.A, p.B, t1.Mul(-1), rA.Cross(t1).Mul(-1), t1, rB.Cross(t1))
-		r1.target = t1.Dot(p.SurfaceVelocity)
-		r2.setup(bodies, p.A, p.B, t2.Mul(-1), rA.Cross(t2).Mul(-1), t2, rB.Cross(t2))
-		r2.target = t2.Dot(p.SurfaceVelocity)
+		r1.setupContact(bodies, p.A, p.B, &t1, &rA, &rB)
+		r1.target = dot3(&t1, &p.SurfaceVelocity)
+		r2.setupContact(bodies, p.A, p.B, &t2, &rA, &rB)
+		r2.target = dot3(&t2, &p.SurfaceVelocity)
 
 		ps := &s.pts[i]
 		*ps = pstate{}
@@ -373,7 +389,7 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		ps.e = max(p.Restitution, 0)
 		ps.sep = p.Separation
 		// Off-diagonal of the friction block; the linear parts cancel (t1·t2 = 0).
-		k12 := r1.linA.Dot(r2.dvA) + r1.angA.Dot(r2.dwA) + r1.linB.Dot(r2.dvB) + r1.angB.Dot(r2.dwB)
+		k12 := dot3(&r1.linA, &r2.dvA) + dot3(&r1.angA, &r2.dwA) + dot3(&r1.linB, &r2.dvB) + dot3(&r1.angB, &r2.dwB)
 		if det := r1.k*r2.k - k12*k12; det > 1e-12*r1.k*r2.k && det > 0 {
 			ps.inv11, ps.inv12, ps.inv22 = r2.k/det, -k12/det, r1.k/det
 			h := 0.5 * (r1.k - r2.k)
