@@ -212,9 +212,12 @@ func (r *row) setupJ(bodies []Body, a, b int32) {
 	A, B := &bodies[a], &bodies[b]
 	r.a, r.b = a, b
 	r.dvA = vec{r.linA[0] * A.InvMass, r.linA[1] * A.InvMass, r.linA[2] * A.InvMass}
-	r.dwA = mulMV(&A.InvInertia, &r.angA)
 	r.dvB = vec{r.linB[0] * B.InvMass, r.linB[1] * B.InvMass, r.linB[2] * B.InvMass}
-	r.dwB = mulMV(&B.InvInertia, &r.angB)
+	// InvInertia.Mul3x1(ang), with its roundings.
+	m, v := &A.InvInertia, &r.angA
+	r.dwA = vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
+	m, v = &B.InvInertia, &r.angB
+	r.dwB = vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
 	r.k = dot3(&r.linA, &r.dvA) + dot3(&r.angA, &r.dwA) + dot3(&r.linB, &r.dvB) + dot3(&r.angB, &r.dwB)
 	r.mass = 0
 	if r.k > 0 && !math.IsInf(r.k, 1) {
@@ -227,15 +230,6 @@ func (r *row) setupJ(bodies []Body, a, b int32) {
 // pass 24-byte arrays by value and cost about twice as much here.
 
 func dot3(a, b *vec) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
-
-// mulMV is m.Mul3x1(v) with the same roundings.
-func mulMV(m *shapes.Mat3, v *vec) vec {
-	return vec{
-		m[0]*v[0] + m[3]*v[1] + m[6]*v[2],
-		m[1]*v[0] + m[4]*v[1] + m[7]*v[2],
-		m[2]*v[0] + m[5]*v[1] + m[8]*v[2],
-	}
-}
 
 func addScaled(v *vec, a *vec, d float64) {
 	v[0] += a[0] * d
@@ -277,14 +271,21 @@ func solveScalar(bodies []Body, r *row, target, lo, hi float64, lambda *float64)
 	if r.mass == 0 {
 		return 0
 	}
+	// r.cdot and r.apply written out: they are too large to be inlined, and
+	// the calls cost about as much as their arithmetic.
+	A, B := &bodies[r.a], &bodies[r.b]
+	cdot := dot3(&r.linA, &A.V) + dot3(&r.angA, &A.W) + dot3(&r.linB, &B.V) + dot3(&r.angB, &B.W)
 	old := *lambda
-	nl := min(max(old+r.mass*(target-r.cdot(bodies)), lo), hi)
+	nl := min(max(old+r.mass*(target-cdot), lo), hi)
 	d := nl - old
 	if d == 0 {
 		return 0
 	}
 	*lambda = nl
-	r.apply(bodies, d)
+	addScaled(&A.V, &r.dvA, d)
+	addScaled(&A.W, &r.dwA, d)
+	addScaled(&B.V, &r.dvB, d)
+	addScaled(&B.W, &r.dwB, d)
 	return math.Abs(d) * r.k
 }
 
@@ -315,8 +316,11 @@ func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *floa
 		return 0, false
 	}
 	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
-	e1 := r1.target - r1.cdot(bodies)
-	e2 := r2.target - r2.cdot(bodies)
+	// Both rows join the point's bodies; cdot and apply written out as in
+	// solveScalar.
+	A, B := &bodies[r1.a], &bodies[r1.b]
+	e1 := r1.target - (dot3(&r1.linA, &A.V) + dot3(&r1.angA, &A.W) + dot3(&r1.linB, &B.V) + dot3(&r1.angB, &B.W))
+	e2 := r2.target - (dot3(&r2.linA, &A.V) + dot3(&r2.angA, &A.W) + dot3(&r2.linB, &B.V) + dot3(&r2.angB, &B.W))
 	n1 := *l1 + p.inv11*e1 + p.inv12*e2
 	n2 := *l2 + p.inv12*e1 + p.inv22*e2
 	clamped := false
@@ -340,10 +344,16 @@ func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *floa
 	d1, d2 := n1-*l1, n2-*l2
 	*l1, *l2 = n1, n2
 	if d1 != 0 {
-		r1.apply(bodies, d1)
+		addScaled(&A.V, &r1.dvA, d1)
+		addScaled(&A.W, &r1.dwA, d1)
+		addScaled(&B.V, &r1.dvB, d1)
+		addScaled(&B.W, &r1.dwB, d1)
 	}
 	if d2 != 0 {
-		r2.apply(bodies, d2)
+		addScaled(&A.V, &r2.dvA, d2)
+		addScaled(&A.W, &r2.dwA, d2)
+		addScaled(&B.V, &r2.dvB, d2)
+		addScaled(&B.W, &r2.dwB, d2)
 	}
 	return max(math.Abs(d1)*r1.k, math.Abs(d2)*r2.k), clamped
 }
