@@ -69,6 +69,12 @@ type Detector struct {
 	meshCands []meshCand
 	groups    []meshGroup
 
+	// planeConvex's walk over a hull's lowest vertices (hullCap): marks of
+	// visited vertices by stamp, and the vertices to visit.
+	capMark  []uint32
+	capStamp uint32
+	capWalk  []int32
+
 	cache   pairCache
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
 
@@ -88,6 +94,7 @@ func NewDetector() *Detector {
 	d.clip1 = make([]clipVert, 0, 32)
 	d.cand = make([]candPoint, 0, 32)
 	d.tris = make([]int32, 0, 64)
+	d.capWalk = make([]int32, 0, 32)
 	d.meshCands = make([]meshCand, 0, 64)
 	d.groups = make([]meshGroup, 0, 8)
 	d.polyP.init()

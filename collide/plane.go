@@ -2,6 +2,7 @@ package collide
 
 import (
 	"math"
+	"slices"
 
 	"clatter/shapes"
 )
@@ -56,7 +57,8 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		}
 	case kHull:
 		l := mulT(v.rot, down)
-		lo := v.pos.Add(mul(v.rot, v.hull.Vertices[v.hull.SupportIndex(l)]))
+		si := v.hull.SupportIndex(l)
+		lo := v.pos.Add(mul(v.rot, v.hull.Vertices[si]))
 		if nw.Dot(lo)-dw > margin {
 			return dst
 		}
@@ -65,11 +67,17 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		// world as before. tol covers the two sums' different rounding.
 		h0 := nw.Dot(v.pos) - dw
 		tol := 1e-9 * (v.size + math.Abs(h0))
-		for i, p := range v.hull.Vertices {
-			if h0-l.Dot(p) > margin+tol {
-				continue
+		if len(v.hull.Neighbors) != len(v.hull.Vertices) {
+			for i, p := range v.hull.Vertices {
+				if h0-l.Dot(p) > margin+tol {
+					continue
+				}
+				add(v.pos.Add(mul(v.rot, p)), uint32(i))
 			}
-			add(v.pos.Add(mul(v.rot, p)), uint32(i))
+			break
+		}
+		for _, i := range d.hullCap(v.hull, l, si, h0, margin+tol, 1e-4*v.size) {
+			add(v.pos.Add(mul(v.rot, v.hull.Vertices[i])), uint32(i))
 		}
 	case kCylinder:
 		ax := v.axis()
@@ -99,4 +107,44 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		n = n.Mul(-1)
 	}
 	return d.emit(dst, worldFrame, n, subA, subB)
+}
+
+// hullCap returns, in increasing order, the indices of the vertices p of h
+// with h0 - l.p <= lim (planeConvex's test, rounded the same), by a walk over
+// the vertex graph from top, the vertex highest along l. On a convex
+// polytope every vertex has a path of edges to the highest one along which
+// l.p never decreases, so the walk finds them all while looking only at the
+// cap and its rim. It passes through vertices down to slack below the cap,
+// which covers rounding and the hull's merge tolerance (faces that are not
+// quite planar).
+func (d *Detector) hullCap(h *shapes.Hull, l vec3, top int, h0, lim, slack float64) []int32 {
+	if len(d.capMark) < len(h.Vertices) {
+		d.capMark = make([]uint32, len(h.Vertices))
+		d.capStamp = 0
+	}
+	d.capStamp++
+	if d.capStamp == 0 { // wrapped: clear the marks of long ago
+		clear(d.capMark)
+		d.capStamp = 1
+	}
+	mark, stamp := d.capMark, d.capStamp
+	walk := append(d.capWalk[:0], int32(top))
+	mark[top] = stamp
+	n := 0 // the cap found so far, kept at the front of walk
+	for k := 0; k < len(walk); k++ {
+		i := walk[k]
+		for _, j := range h.Neighbors[i] {
+			if mark[j] != stamp && h0-l.Dot(h.Vertices[j]) <= lim+slack {
+				mark[j] = stamp
+				walk = append(walk, j)
+			}
+		}
+		if !(h0-l.Dot(h.Vertices[i]) > lim) {
+			walk[n] = i // n <= k: this entry has been visited
+			n++
+		}
+	}
+	d.capWalk = walk
+	slices.Sort(walk[:n])
+	return walk[:n]
 }

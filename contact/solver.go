@@ -192,14 +192,33 @@ func grow[T any](s []T, n int) []T {
 }
 
 func (r *row) setup(bodies []Body, a, b int32, linA, angA, linB, angB vec) {
+	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
+	r.setupJ(bodies, a, b)
+}
+
+// setupContact is setup for a contact row along unit direction n (from A
+// to B) at lever arms rA and rB: the Jacobian -n, -(rA x n), n, rB x n,
+// written out with the roundings of the vector methods.
+func (r *row) setupContact(bodies []Body, a, b int32, n, rA, rB *vec) {
+	r.linA = vec{n[0] * -1, n[1] * -1, n[2] * -1}
+	r.angA = vec{(rA[1]*n[2] - rA[2]*n[1]) * -1, (rA[2]*n[0] - rA[0]*n[2]) * -1, (rA[0]*n[1] - rA[1]*n[0]) * -1}
+	r.linB = *n
+	r.angB = vec{rB[1]*n[2] - rB[2]*n[1], rB[2]*n[0] - rB[0]*n[2], rB[0]*n[1] - rB[1]*n[0]}
+	r.setupJ(bodies, a, b)
+}
+
+// setupJ fills the rest of r from its Jacobian.
+func (r *row) setupJ(bodies []Body, a, b int32) {
 	A, B := &bodies[a], &bodies[b]
 	r.a, r.b = a, b
-	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
-	r.dvA = linA.Mul(A.InvMass)
-	r.dwA = A.InvInertia.Mul3x1(angA)
-	r.dvB = linB.Mul(B.InvMass)
-	r.dwB = B.InvInertia.Mul3x1(angB)
-	r.k = linA.Dot(r.dvA) + angA.Dot(r.dwA) + linB.Dot(r.dvB) + angB.Dot(r.dwB)
+	r.dvA = vec{r.linA[0] * A.InvMass, r.linA[1] * A.InvMass, r.linA[2] * A.InvMass}
+	r.dvB = vec{r.linB[0] * B.InvMass, r.linB[1] * B.InvMass, r.linB[2] * B.InvMass}
+	// InvInertia.Mul3x1(ang), with its roundings.
+	m, v := &A.InvInertia, &r.angA
+	r.dwA = vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
+	m, v = &B.InvInertia, &r.angB
+	r.dwB = vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
+	r.k = dot3(&r.linA, &r.dvA) + dot3(&r.angA, &r.dwA) + dot3(&r.linB, &r.dvB) + dot3(&r.angB, &r.dwB)
 	r.mass = 0
 	if r.k > 0 && !math.IsInf(r.k, 1) {
 		r.mass = 1 / r.k
@@ -252,14 +271,21 @@ func solveScalar(bodies []Body, r *row, target, lo, hi float64, lambda *float64)
 	if r.mass == 0 {
 		return 0
 	}
+	// r.cdot and r.apply written out: they are too large to be inlined, and
+	// the calls cost about as much as their arithmetic.
+	A, B := &bodies[r.a], &bodies[r.b]
+	cdot := dot3(&r.linA, &A.V) + dot3(&r.angA, &A.W) + dot3(&r.linB, &B.V) + dot3(&r.angB, &B.W)
 	old := *lambda
-	nl := min(max(old+r.mass*(target-r.cdot(bodies)), lo), hi)
+	nl := min(max(old+r.mass*(target-cdot), lo), hi)
 	d := nl - old
 	if d == 0 {
 		return 0
 	}
 	*lambda = nl
-	r.apply(bodies, d)
+	addScaled(&A.V, &r.dvA, d)
+	addScaled(&A.W, &r.dwA, d)
+	addScaled(&B.V, &r.dvB, d)
+	addScaled(&B.W, &r.dwB, d)
 	return math.Abs(d) * r.k
 }
 
@@ -290,8 +316,11 @@ func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *floa
 		return 0, false
 	}
 	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
-	e1 := r1.target - r1.cdot(bodies)
-	e2 := r2.target - r2.cdot(bodies)
+	// Both rows join the point's bodies; cdot and apply written out as in
+	// solveScalar.
+	A, B := &bodies[r1.a], &bodies[r1.b]
+	e1 := r1.target - (dot3(&r1.linA, &A.V) + dot3(&r1.angA, &A.W) + dot3(&r1.linB, &B.V) + dot3(&r1.angB, &B.W))
+	e2 := r2.target - (dot3(&r2.linA, &A.V) + dot3(&r2.angA, &A.W) + dot3(&r2.linB, &B.V) + dot3(&r2.angB, &B.W))
 	n1 := *l1 + p.inv11*e1 + p.inv12*e2
 	n2 := *l2 + p.inv12*e1 + p.inv22*e2
 	clamped := false
@@ -315,10 +344,16 @@ func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *floa
 	d1, d2 := n1-*l1, n2-*l2
 	*l1, *l2 = n1, n2
 	if d1 != 0 {
-		r1.apply(bodies, d1)
+		addScaled(&A.V, &r1.dvA, d1)
+		addScaled(&A.W, &r1.dwA, d1)
+		addScaled(&B.V, &r1.dvB, d1)
+		addScaled(&B.W, &r1.dwB, d1)
 	}
 	if d2 != 0 {
-		r2.apply(bodies, d2)
+		addScaled(&A.V, &r2.dvA, d2)
+		addScaled(&A.W, &r2.dwA, d2)
+		addScaled(&B.V, &r2.dvB, d2)
+		addScaled(&B.W, &r2.dwB, d2)
 	}
 	return max(math.Abs(d1)*r1.k, math.Abs(d2)*r2.k), clamped
 }
@@ -343,19 +378,19 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 	for i := range points {
 		p := &points[i]
 		A, B := &bodies[p.A], &bodies[p.B]
-		rA, rB := p.Position.Sub(A.Position), p.Position.Sub(B.Position)
-		nr := p.Normal
-		t1, t2 := tangents(nr)
+		rA := vec{p.Position[0] - A.Position[0], p.Position[1] - A.Position[1], p.Position[2] - A.Position[2]}
+		rB := vec{p.Position[0] - B.Position[0], p.Position[1] - B.Position[1], p.Position[2] - B.Position[2]}
+		t1, t2 := tangents(p.Normal)
 
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
-		rn.setup(bodies, p.A, p.B, nr.Mul(-1), rA.Cross(nr).Mul(-1), nr, rB.Cross(nr))
+		rn.setupContact(bodies, p.A, p.B, &p.Normal, &rA, &rB)
 		// A speculative point may approach by its gap within the step.
 		rn.target = -max(p.Separation, 0) / dt
 		rn.lo, rn.hi = 0, math.Inf(1)
-		r1.setup(bodies, p.A, p.B, t1.Mul(-1), rA.Cross(t1).Mul(-1), t1, rB.Cross(t1))
-		r1.target = t1.Dot(p.SurfaceVelocity)
-		r2.setup(bodies, p.A, p.B, t2.Mul(-1), rA.Cross(t2).Mul(-1), t2, rB.Cross(t2))
-		r2.target = t2.Dot(p.SurfaceVelocity)
+		r1.setupContact(bodies, p.A, p.B, &t1, &rA, &rB)
+		r1.target = dot3(&t1, &p.SurfaceVelocity)
+		r2.setupContact(bodies, p.A, p.B, &t2, &rA, &rB)
+		r2.target = dot3(&t2, &p.SurfaceVelocity)
 
 		ps := &s.pts[i]
 		*ps = pstate{}
@@ -364,7 +399,7 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		ps.e = max(p.Restitution, 0)
 		ps.sep = p.Separation
 		// Off-diagonal of the friction block; the linear parts cancel (t1·t2 = 0).
-		k12 := r1.linA.Dot(r2.dvA) + r1.angA.Dot(r2.dwA) + r1.linB.Dot(r2.dvB) + r1.angB.Dot(r2.dwB)
+		k12 := dot3(&r1.linA, &r2.dvA) + dot3(&r1.angA, &r2.dwA) + dot3(&r1.linB, &r2.dvB) + dot3(&r1.angB, &r2.dwB)
 		if det := r1.k*r2.k - k12*k12; det > 1e-12*r1.k*r2.k && det > 0 {
 			ps.inv11, ps.inv12, ps.inv22 = r2.k/det, -k12/det, r1.k/det
 			h := 0.5 * (r1.k - r2.k)
