@@ -17,7 +17,7 @@ import (
 var cmdRun = &command{
 	name:    "run",
 	summary: "simulate one scene and write its results",
-	usage:   "clatter run SCENE.toml [-o DIR] [--sample SECONDS] [--json] [--quiet]",
+	usage:   "clatter run SCENE.toml [-o DIR] [--sample SECONDS] [--animation] [--pictures] [--json] [--quiet]",
 	help: `
 Simulates the scene to its [world] duration, or until every moving body has
 settled when until_settled is true, and writes into DIR (default clatter-out):
@@ -32,6 +32,12 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
                    position,speed,effort, a row per joint every sample: the
                    force and torque the joint applied to its first body, its
                    angle (deg) or travel, its speed and its motor's effort
+  animation.glb    with --animation: every body's shape and the motion of
+                   the moving ones at the sample times, as glTF 2.0 binary
+                   (metres and seconds; opens in 3-D viewers and in the
+                   page of clatter report)
+  start.png        with --pictures: shaded views of the first and last
+  end.png          states, from above at a three-quarter angle
 
 Everything is in the scene's units (units = { length, mass }), time in s,
 angles in degrees, angular velocity in rad/s, energy in J. A table of the
@@ -47,6 +53,8 @@ Options:
   -o DIR           where to write the results (default clatter-out)
   --sample SECONDS trajectory sample interval (default 0.01; a unit may be
                    given, e.g. "5 ms")
+  --animation      also write animation.glb
+  --pictures       also write start.png and end.png
   --json           print the summary as JSON instead of a table
   --quiet, -q      no progress bar or informational messages`,
 }
@@ -56,6 +64,8 @@ func runScene(e *env, args []string) int {
 	dir := fs.String("o", "clatter-out", "")
 	sampleText := fs.String("sample", "0.01", "")
 	asJSON := fs.Bool("json", false, "")
+	var vis visuals
+	vis.flags(fs)
 	pos, code := parse(e, cmdRun, fs, args)
 	if code >= 0 {
 		return code
@@ -87,13 +97,20 @@ func runScene(e *env, args []string) int {
 		}
 	}
 	p := newProgress(e, "simulating")
-	sum, err := report.Run(e.ctx, s, report.Options{Dir: *dir, Sample: sample, Progress: p.update})
+	opt := report.Options{Dir: *dir, Sample: sample, Progress: p.update}
+	vis.observe(s, &opt)
+	sum, err := report.Run(e.ctx, s, opt)
 	p.done()
 	if sum == nil {
 		fmt.Fprintln(e.stderr, err)
 		if errors.Is(err, scene.ErrBadScene) {
 			return exitBad
 		}
+		return exitFailed
+	}
+	extra, verr := vis.write(*dir)
+	if verr != nil {
+		e.errorf("run: cannot write the animation or pictures: %v", verr)
 		return exitFailed
 	}
 	if *asJSON {
@@ -112,7 +129,7 @@ func runScene(e *env, args []string) int {
 		return exitFailed
 	}
 	if *dir != "" {
-		e.infof("wrote %s", strings.Join(append([]string{filepath.Join(*dir, report.SummaryFile)}, outputFiles(s)[1:]...), ", "))
+		e.infof("wrote %s", strings.Join(append(append([]string{filepath.Join(*dir, report.SummaryFile)}, outputFiles(s)[1:]...), extra...), ", "))
 	}
 	return exitOK
 }

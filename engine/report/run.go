@@ -47,6 +47,10 @@ type Options struct {
 	// Progress, if set, is called now and then with the fraction of the
 	// duration simulated.
 	Progress func(fraction float64)
+	// Observe, if set, is called at every sample (the start, each sample
+	// time and the end) with the world and the scene's bodies in file
+	// order, to record what a run looked like.
+	Observe func(t float64, w *engine.World, ids []engine.BodyID)
 }
 
 // SimulationError is a run that could not finish: the simulation diverged
@@ -381,6 +385,9 @@ func RestingFace(w *engine.World, id engine.BodyID, faces []resting.Face, touchi
 // sample writes a trajectory row per moving body.
 func (r *runner) sample(t float64) {
 	r.lastRow = t
+	if r.opt.Observe != nil {
+		r.opt.Observe(t, r.w, r.ids)
+	}
 	if r.traj == nil {
 		return
 	}
