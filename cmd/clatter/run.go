@@ -90,14 +90,20 @@ func runScene(e *env, args []string) int {
 	if s.Sweep != nil {
 		e.infof("note: run simulates the scene once and ignores its [sweep] section; clatter sweep runs the study")
 	}
-	if *dir != "" {
-		if err := os.MkdirAll(*dir, 0o755); err != nil {
-			e.errorf("run: -o %s: cannot make the output folder: %v", *dir, err)
+	return simulate(e, s, *dir, sample, *asJSON, &vis)
+}
+
+// simulate runs a loaded scene as run does, writing into dir, and returns
+// the exit code.
+func simulate(e *env, s *scene.Scene, dir string, sample float64, asJSON bool, vis *visuals) int {
+	if dir != "" {
+		if err := os.MkdirAll(dir, 0o755); err != nil {
+			e.errorf("run: -o %s: cannot make the output folder: %v", dir, err)
 			return exitBad
 		}
 	}
 	p := newProgress(e, "simulating")
-	opt := report.Options{Dir: *dir, Sample: sample, Progress: p.update}
+	opt := report.Options{Dir: dir, Sample: sample, Progress: p.update}
 	vis.observe(s, &opt)
 	sum, err := report.Run(e.ctx, s, opt)
 	p.done()
@@ -108,28 +114,28 @@ func runScene(e *env, args []string) int {
 		}
 		return exitFailed
 	}
-	extra, verr := vis.write(*dir)
+	extra, verr := vis.write(dir)
 	if verr != nil {
 		e.errorf("run: cannot write the animation or pictures: %v", verr)
 		return exitFailed
 	}
-	if *asJSON {
+	if asJSON {
 		e.stdout.Write(sum.JSON())
 		if !e.quiet {
 			fmt.Fprintln(e.stderr, safetyNote)
 		}
 	} else {
-		writeRunTable(e.stdout, s, sum, *dir)
+		writeRunTable(e.stdout, s, sum, dir, append(outputFiles(s), extra...))
 	}
 	if err != nil {
 		e.errorf("run failed: %v", err)
-		if *dir != "" {
-			e.errorf("the results up to t = %g s and the error are in %s", sum.Time, *dir)
+		if dir != "" {
+			e.errorf("the results up to t = %g s and the error are in %s", sum.Time, dir)
 		}
 		return exitFailed
 	}
-	if *dir != "" {
-		e.infof("wrote %s", strings.Join(append(append([]string{filepath.Join(*dir, report.SummaryFile)}, outputFiles(s)[1:]...), extra...), ", "))
+	if dir != "" {
+		e.infof("wrote %s", strings.Join(append(append([]string{filepath.Join(dir, report.SummaryFile)}, outputFiles(s)[1:]...), extra...), ", "))
 	}
 	return exitOK
 }
@@ -149,7 +155,7 @@ func parseSeconds(s string) (float64, error) {
 	return v, nil
 }
 
-func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string) {
+func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string, files []string) {
 	u := s.Units
 	fmt.Fprintf(w, "scene    %s (lengths in %s, masses in %s)\n", s.File, u.Length, u.Mass)
 	status := "not settled"
@@ -192,7 +198,7 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 	}
 	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
 	if dir != "" {
-		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(outputFiles(s), ", "))
+		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(files, ", "))
 	}
 	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round")
 	fmt.Fprintln(w)

@@ -23,7 +23,7 @@ const toolVersion = "0.1.0"
 var cmdSweep = &command{
 	name:    "sweep",
 	summary: "run a scene's [sweep] section as many trials, with statistics and plots",
-	usage:   "clatter sweep SCENE.toml [-o DIR] [-j WORKERS] [--shard K/N] [--resume] [--quiet]",
+	usage:   "clatter sweep SCENE.toml [-o DIR] [-j WORKERS] [--shard K/N] [--resume] [--quiet]\n       clatter sweep SCENE.toml --replay CASE/TRIAL [-o DIR] [--animation] [--pictures] [--sample SECONDS]",
 	help: `
 Runs the scene's [sweep] section: every combination of the [[sweep.vary]]
 values is a case, and every case runs its trials, each with its own random
@@ -59,6 +59,12 @@ with the number of shards from --shard-count or CLATTER_SHARD_COUNT) or a
 Slurm job array (SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_COUNT,
 SLURM_ARRAY_TASK_MIN). Give each shard its own DIR.
 
+--replay CASE/TRIAL runs that one trial (the case and trial columns of
+trials.csv) as clatter run would, with the case's values and the trial's
+random draws, and writes what run writes into DIR (default clatter-replay),
+with --animation and --pictures as in run. Its final state is the trial's
+row in trials.csv.
+
 Exit codes: 0 every trial ran, 1 a trial's simulation failed or the sweep
 was interrupted (resume it), 2 bad input.
 
@@ -68,6 +74,10 @@ Options:
   --shard K/N       run shard K of N (default: from the environment, else all)
   --shard-count N   the number of shards of a Kubernetes Indexed Job
   --resume          finish the sweep already in DIR
+  --replay C/T      run trial T of case C alone, as clatter run would
+  --animation       with --replay: also write animation.glb
+  --pictures        with --replay: also write start.png and end.png
+  --sample SECONDS  with --replay: the trajectory sample interval
   --quiet, -q       no progress or informational messages`,
 }
 
@@ -99,9 +109,23 @@ func runSweep(e *env, args []string) int {
 	shardText := fs.String("shard", "", "")
 	shardCount := fs.Int("shard-count", 0, "")
 	resume := fs.Bool("resume", false, "")
+	replay := fs.String("replay", "", "")
+	sampleText := fs.String("sample", "0.01", "")
+	var vis visuals
+	vis.flags(fs)
 	pos, code := parse(e, cmdSweep, fs, args)
 	if code >= 0 {
 		return code
+	}
+	if *replay != "" {
+		if !flagGiven(fs, "o") {
+			*dir = "clatter-replay"
+		}
+		return replayTrial(e, pos, *replay, *dir, *sampleText, &vis)
+	}
+	if vis.animation || vis.pictures {
+		e.errorf("sweep: --animation and --pictures go with --replay CASE/TRIAL: a study keeps no trajectories")
+		return exitBad
 	}
 	if len(pos) != 1 {
 		e.errorf("sweep: give one scene file, e.g. clatter sweep testdata/sweeps/cube.toml (got %d arguments)", len(pos))

@@ -1,0 +1,46 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+
+	"clatter/engine/sweep"
+)
+
+// replayTrial runs one trial of a study as run would.
+func replayTrial(e *env, pos []string, trial, dir, sampleText string, vis *visuals) int {
+	if len(pos) != 1 {
+		e.errorf("sweep: give one scene file, e.g. clatter sweep testdata/sweeps/cube.toml --replay 0/3 (got %d arguments)", len(pos))
+		return exitBad
+	}
+	sample, err := parseSeconds(sampleText)
+	if err != nil {
+		e.errorf("sweep: --sample: %v", err)
+		return exitBad
+	}
+	c, t, err := sweep.ParseTrial(trial)
+	if err != nil {
+		return sweepFailed(e, err, dir)
+	}
+	st, err := sweep.Open(pos[0])
+	if err != nil {
+		fmt.Fprintln(e.stderr, err)
+		return exitBad
+	}
+	for _, w := range st.Warnings {
+		fmt.Fprintln(e.stderr, "warning: "+w)
+	}
+	s, err := st.TrialScene(c, t)
+	if err != nil {
+		return sweepFailed(e, err, dir)
+	}
+	e.infof("replaying case %d (%s), trial %d of %s", c, st.Describe(c), t, pos[0])
+	return simulate(e, s, dir, sample, false, vis)
+}
+
+// flagGiven tells whether a flag was set on the command line.
+func flagGiven(fs *flag.FlagSet, name string) bool {
+	given := false
+	fs.Visit(func(f *flag.Flag) { given = given || f.Name == name })
+	return given
+}
