@@ -1,7 +1,6 @@
 package sweep
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
 	"math"
@@ -13,6 +12,7 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/plotutil"
 	"gonum.org/v1/plot/vg"
+	vgdraw "gonum.org/v1/plot/vg/draw"
 )
 
 // Plot size: a page-width figure that stays legible when shrunk.
@@ -40,23 +40,19 @@ func writePlots(dir string, m *Meta, st *stats, rows []CaseRow) ([]string, error
 			name = fmt.Sprintf("%s-%d.png", base, i)
 		}
 		used[name] = true
-		wt, err := p.WriterTo(plotWidth, plotHeight, "png")
+		png, err := renderPNG(p)
 		if err != nil {
 			return err
 		}
-		var buf bytes.Buffer
-		if _, err := wt.WriteTo(&buf); err != nil {
-			return err
-		}
 		names = append(names, name)
-		return writeAtomic(filepath.Join(dir, name), buf.Bytes())
+		return writeAtomic(filepath.Join(dir, name), png)
 	}
 	nb := len(m.Bodies)
 	for b := 0; b < nb; b++ {
 		body := m.Bodies[b].Name
 		faces := topFaces(rows, body, maxPlotFaces)
 		if len(m.Vary) == 0 {
-			p, err := facesBar(m, rows, body, faces)
+			p, err := facesBar(m, rows, b, faces)
 			if err != nil {
 				return nil, err
 			}
@@ -66,7 +62,7 @@ func writePlots(dir string, m *Meta, st *stats, rows []CaseRow) ([]string, error
 			continue
 		}
 		for k := range m.Vary {
-			p, err := facesAgainst(m, st, b, k, faces)
+			p, err := facesAgainst(m, st, rows, b, k, faces)
 			if err != nil {
 				return nil, err
 			}
@@ -98,15 +94,9 @@ func fileSafe(s string) string {
 	return b.String()
 }
 
-func faceLabel(f int) string {
-	if f < 0 {
-		return "no face"
-	}
-	return fmt.Sprintf("face %d", f)
-}
-
-// topFaces returns the faces of a body in cases.csv order, cut to the n
-// with the most trials over all cases (ties to the lower index).
+// topFaces returns the faces of a body that some trial reached, in
+// cases.csv order, cut to the n with the most trials over all cases (ties
+// to the lower index).
 func topFaces(rows []CaseRow, body string, n int) []int {
 	total := map[int]int64{}
 	var order []int
@@ -119,6 +109,13 @@ func topFaces(rows []CaseRow, body string, n int) []int {
 		}
 		total[r.Face] += r.Count
 	}
+	reached := order[:0:0]
+	for _, f := range order {
+		if total[f] > 0 {
+			reached = append(reached, f)
+		}
+	}
+	order = reached
 	if len(order) <= n {
 		return order
 	}
@@ -142,14 +139,13 @@ func newPlot(title, x, y string) *plot.Plot {
 	p.Title.Text = title
 	p.X.Label.Text = x
 	p.Y.Label.Text = y
-	p.Legend.Top = true
 	return p
 }
 
 func faceTitle(m *Meta, body string, shown, all int) string {
-	t := fmt.Sprintf("%s: fraction of trials resting on each face, 95%% Wilson intervals", body)
+	t := fmt.Sprintf("%s: fraction of trials resting on each face", body)
 	if shown < all {
-		t += fmt.Sprintf(", the %d most frequent faces", shown)
+		t += fmt.Sprintf(" (the %d most frequent)", shown)
 	}
 	if m.GroupFaces {
 		t += "; symmetric faces grouped"
@@ -158,11 +154,16 @@ func faceTitle(m *Meta, body string, shown, all int) string {
 }
 
 // facesAgainst plots body b's face fractions against varied key k.
-func facesAgainst(m *Meta, st *stats, b, k int, faces []int) (*plot.Plot, error) {
+func facesAgainst(m *Meta, st *stats, rows []CaseRow, b, k int, faces []int) (*plot.Plot, error) {
 	vary := m.Vary[k]
 	nb := len(m.Bodies)
 	allFaces := len(st.faceList(b))
-	p := newPlot(faceTitle(m, m.Bodies[b].Name, len(faces), allFaces), vary.Key, "fraction of trials")
+	title := faceTitle(m, m.Bodies[b].Name, len(faces), allFaces)
+	if len(faces) == 0 {
+		return notePlot(title, "No trial has finished, so there is nothing to plot."), nil
+	}
+	qs := quasiStatic(rows, m.Bodies[b].Name)
+	p := newPlot(title, keyUnit(vary.Key, m.Units), "fraction of trials (bars: 95% Wilson interval)")
 	logX := vary.Log
 	for _, x := range vary.Values {
 		logX = logX && x > 0
@@ -211,7 +212,11 @@ func facesAgainst(m *Meta, st *stats, b, k int, faces []int) (*plot.Plot, error)
 	case hi > lo:
 		p.X.Min, p.X.Max = lo-0.05*(hi-lo), hi+0.05*(hi-lo)
 	}
+	if p.X.Min == p.X.Max {
+		p.X.Min, p.X.Max = lo-0.5, hi+0.5
+	}
 	top := 0.0
+	dashed := false
 	for i, f := range faces {
 		pts := make(plotter.XYs, 0, nv)
 		errs := make(plotter.YErrors, 0, nv)
@@ -239,12 +244,37 @@ func facesAgainst(m *Meta, st *stats, b, k int, faces []int) (*plot.Plot, error)
 		if len(pts) == 0 {
 			continue
 		}
-		if err := addSeries(p, pts, errs, faceLabel(f), i); err != nil {
+		if err := addSeries(p, pts, errs, faceName(m, b, f), i); err != nil {
 			return nil, err
 		}
+		if q, ok := qs[f]; ok {
+			if err := quasiStaticLine(p, p.X.Min, p.X.Max, q, seriesColour(i)); err != nil {
+				return nil, err
+			}
+			top = math.Max(top, q)
+			dashed = true
+		}
 	}
-	p.Y.Min, p.Y.Max = 0, yTop(top, len(faces))
+	if dashed {
+		dashedKey(p)
+	}
+	p.Y.Min, p.Y.Max = 0, yTop(top, 0)
 	return p, nil
+}
+
+// quasiStaticShift sets the quasi-static marker of a face beside its
+// measured fraction, in units of the distance between faces.
+const quasiStaticShift = 0.2
+
+// quasiStatic maps a body's faces to their quasi-static probability.
+func quasiStatic(rows []CaseRow, body string) map[int]float64 {
+	out := map[int]float64{}
+	for _, r := range rows {
+		if r.Body == body && r.Face >= 0 && !math.IsNaN(r.QuasiStatic) {
+			out[r.Face] = r.QuasiStatic
+		}
+	}
+	return out
 }
 
 // dodgeFraction is the offset between the points of neighbouring faces,
@@ -263,7 +293,7 @@ func addSeries(p *plot.Plot, pts plotter.XYs, errs plotter.YErrors, label string
 	if err != nil {
 		return err
 	}
-	col := plotutil.Color(i)
+	col := seriesColour(i)
 	l.Color = col
 	sc.Color = col
 	sc.Shape = plotutil.Shape(i)
@@ -281,14 +311,20 @@ func addSeries(p *plot.Plot, pts plotter.XYs, errs plotter.YErrors, label string
 }
 
 // facesBar plots a body's face fractions of a study without varied keys.
-func facesBar(m *Meta, rows []CaseRow, body string, faces []int) (*plot.Plot, error) {
+func facesBar(m *Meta, rows []CaseRow, b int, faces []int) (*plot.Plot, error) {
+	body := m.Bodies[b].Name
 	all := 0
 	for _, r := range rows {
 		if r.Body == body {
 			all++
 		}
 	}
-	p := newPlot(faceTitle(m, body, len(faces), all), "resting face", "fraction of trials")
+	title := faceTitle(m, body, len(faces), all)
+	if len(faces) == 0 {
+		return notePlot(title, "No trial has finished, so there is nothing to plot."), nil
+	}
+	p := newPlot(title, "resting face (outward normal in the body's axes)", "fraction of trials")
+	var qpts plotter.XYs
 	top := 0.0
 	var pts plotter.XYs
 	var errs plotter.YErrors
@@ -298,8 +334,12 @@ func facesBar(m *Meta, rows []CaseRow, body string, faces []int) (*plot.Plot, er
 			if r.Body == body && r.Face == f {
 				pts = append(pts, plotter.XY{X: float64(len(labels)), Y: r.Fraction})
 				errs = append(errs, struct{ Low, High float64 }{r.Fraction - r.Low, r.High - r.Fraction})
-				labels = append(labels, faceLabel(f))
+				labels = append(labels, faceName(m, b, f))
 				top = math.Max(top, r.High)
+				if !math.IsNaN(r.QuasiStatic) {
+					qpts = append(qpts, plotter.XY{X: float64(len(labels)-1) + quasiStaticShift, Y: r.QuasiStatic})
+					top = math.Max(top, r.QuasiStatic)
+				}
 			}
 		}
 	}
@@ -310,7 +350,8 @@ func facesBar(m *Meta, rows []CaseRow, body string, faces []int) (*plot.Plot, er
 	if err != nil {
 		return nil, err
 	}
-	sc.Shape = plotutil.Shape(0)
+	sc.Shape = vgdraw.CircleGlyph{}
+	sc.Color = seriesColour(0)
 	eb, err := plotter.NewYErrorBars(struct {
 		plotter.XYs
 		plotter.YErrors
@@ -318,7 +359,21 @@ func facesBar(m *Meta, rows []CaseRow, body string, faces []int) (*plot.Plot, er
 	if err != nil {
 		return nil, err
 	}
+	eb.LineStyle.Color = seriesColour(0)
 	p.Add(sc, eb)
+	p.Legend.Add("fraction of trials", sc)
+	p.Legend.Add("and its 95% Wilson interval", noThumb{})
+	if len(qpts) > 0 {
+		q, err := plotter.NewScatter(qpts)
+		if err != nil {
+			return nil, err
+		}
+		q.Shape = vgdraw.PyramidGlyph{}
+		q.Color = seriesColour(1)
+		q.Radius = vg.Points(4)
+		p.Add(q)
+		p.Legend.Add("quasi-static probability", q)
+	}
 	p.NominalX(labels...)
 	p.Y.Min, p.Y.Max = 0, yTop(top, 0)
 	return p, nil
@@ -353,6 +408,9 @@ func settleTimes(m *Meta, st *stats) (*plot.Plot, error) {
 		}
 	}
 	title := fmt.Sprintf("time to settle: %d of %d trials settled", st.settledAll, sum(st.trials))
+	if st.settledAll == 0 {
+		return notePlot(title, fmt.Sprintf("No trial settled within its %g s: there are no times to plot.", m.Duration)), nil
+	}
 	if st.hist != nil && len(cases) > 1 {
 		p := newPlot(title, "time to settle (s)", "fraction of the case's trials")
 		for i, c := range cases {
@@ -365,7 +423,7 @@ func settleTimes(m *Meta, st *stats) (*plot.Plot, error) {
 			if err != nil {
 				return nil, err
 			}
-			l.Color = plotutil.Color(i)
+			l.Color = seriesColour(i)
 			l.Width = vg.Points(1.5)
 			p.Add(l)
 			p.Legend.Add(caseLabel(m, st, c), l)
