@@ -40,6 +40,10 @@ func (r *Recorder) GLB() ([]byte, error) {
 		node := &gltf.Node{Name: b.Name, Scale: [3]float64{1, 1, 1},
 			Translation: [3]float64(p.Position),
 			Rotation:    [4]float64{p.Orientation.V[0], p.Orientation.V[1], p.Orientation.V[2], p.Orientation.W}}
+		if b.plane != nil {
+			// Marks the finite patch that stands for an unbounded plane.
+			node.Extras = map[string]any{"patch": true}
+		}
 		if m := r.mesh(doc, b, materials); m >= 0 {
 			node.Mesh = gltf.Index(m)
 		}

@@ -1,0 +1,145 @@
+package page
+
+import (
+	"bytes"
+	"context"
+	"encoding/base64"
+	stdhtml "html"
+	"image"
+	_ "image/png"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"clatter/engine/report"
+	"clatter/engine/scene"
+	"clatter/engine/view"
+	"clatter/engine/view/viewtest"
+)
+
+// runFolder runs the block-on-a-fixture scene into a folder with its
+// animation, and with its pictures if asked.
+func runFolder(t *testing.T, pictures bool) string {
+	t.Helper()
+	s, err := scene.Load("../../../testdata/scenes/fixture.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	rec := view.NewRecorder(s)
+	if _, err := report.Run(context.Background(), s, report.Options{Dir: dir, Observe: rec.Observe}); err != nil {
+		t.Fatal(err)
+	}
+	if err := rec.WriteGLB(filepath.Join(dir, view.AnimationFile)); err != nil {
+		t.Fatal(err)
+	}
+	if pictures {
+		if err := rec.WritePictures(filepath.Join(dir, view.StartPicture), filepath.Join(dir, view.EndPicture)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return dir
+}
+
+// TestPageHoldsEverything checks that the page carries the caution, the
+// tables, the pictures and the animation, byte for byte, and refers to
+// nothing outside itself.
+func TestPageHoldsEverything(t *testing.T) {
+	dir := runFolder(t, true)
+	out, err := Write(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	for _, want := range []string{Caution, "<table>", "trajectory.csv", "summary.json: bodies", `src="data:image/png;base64,`} {
+		if !strings.Contains(html, want) {
+			t.Errorf("the page lacks %q", want)
+		}
+	}
+	if n := strings.Count(html, "data:image/png;base64,"); n != 2 {
+		t.Errorf("%d pictures in the page, want start.png and end.png", n)
+	}
+	m := regexp.MustCompile(`<div id="glb" hidden>([^<]+)</div>`).FindStringSubmatch(html)
+	if m == nil {
+		t.Fatal("the page holds no animation")
+	}
+	glb, _ := base64.StdEncoding.DecodeString(stdhtml.UnescapeString(m[1]))
+	want, _ := os.ReadFile(filepath.Join(dir, view.AnimationFile))
+	if !bytes.Equal(glb, want) {
+		t.Error("the animation in the page differs from animation.glb")
+	}
+	// Offline: no address of another place to load from.
+	if regexp.MustCompile(`(src|href)="(https?:)?//`).MatchString(html) {
+		t.Error("the page loads something from the network")
+	}
+}
+
+// TestPageNeedsResults checks that a folder without results is refused.
+func TestPageNeedsResults(t *testing.T) {
+	if _, err := Write(t.TempDir()); err == nil || !strings.Contains(err.Error(), "summary.json") {
+		t.Errorf("an empty folder gave %v, want an error naming what is missing", err)
+	}
+}
+
+// TestPageInBrowser opens the page in headless Chromium: its player must
+// draw the bodies (the DOM records the triangles drawn), the tables must
+// be there, and the screenshot must show the block's orange, which only
+// the player can have drawn (the folder holds no pictures).
+func TestPageInBrowser(t *testing.T) {
+	dir := runFolder(t, false)
+	out, err := Write(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dom := string(viewtest.Headless(t, out, "--dump-dom"))
+	m := regexp.MustCompile(`data-drawn="(\d+)"`).FindStringSubmatch(dom)
+	if m == nil {
+		t.Fatalf("the player drew nothing (no data-drawn in the page's DOM)")
+	}
+	// Visible triangles at the start: the block's 3 faces, the
+	// fixture's top and two sides, and the floor patch's 128.
+	if n, _ := strconv.Atoi(m[1]); n < 128+6 {
+		t.Errorf("the player drew %d triangles, want the floor's 128 and the bodies' faces", n)
+	}
+	if strings.Count(dom, "<table>") < 2 {
+		t.Errorf("the page shows %d tables, want the summary and bodies at least", strings.Count(dom, "<table>"))
+	}
+	shot := filepath.Join(t.TempDir(), "shot.png")
+	viewtest.Headless(t, out, "--screenshot="+shot)
+	f, err := os.Open(shot)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	img, _, err := image.Decode(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	orange := 0
+	colours := map[uint32]bool{}
+	b := img.Bounds()
+	for y := b.Min.Y; y < b.Max.Y; y++ {
+		for x := b.Min.X; x < b.Max.X; x++ {
+			r, g, bl, _ := img.At(x, y).RGBA()
+			r, g, bl = r>>8, g>>8, bl>>8
+			colours[r<<16|g<<8|bl] = true
+			// The palette's orange (230, 159, 0), shaded: strong red, no blue.
+			if r > 90 && bl < 30 && g > r/3 && g < r {
+				orange++
+			}
+		}
+	}
+	if orange < 300 {
+		t.Errorf("the screenshot shows %d pixels of the block's orange, want the block drawn by the player", orange)
+	}
+	if len(colours) < 50 {
+		t.Errorf("the screenshot has %d colours: a blank page", len(colours))
+	}
+}
