@@ -26,7 +26,8 @@ to settle.
 It writes into DIR (default clatter-demo): the scene (chute.toml) and its
 part (bracket.stl), so that you can run and change them with clatter run;
 results.csv with a row per run; and runs/*/ with each run's summary.json,
-trajectory.csv and events.jsonl.
+trajectory.csv, events.jsonl, pictures of its start and end (start.png,
+end.png) and its motion (animation.glb; clatter report runs/NAME shows it).
 
 Options:
   -o DIR        where to write (default clatter-demo)
@@ -140,10 +141,14 @@ func writeDemoTable(w io.Writer, st *demo.Study) {
 		}
 		fmt.Fprintln(w)
 	}
-	fmt.Fprintf(w, "files in %s: %s and %s (the scene and its part), results.csv, runs/*/ (each run's results)\n",
+	fmt.Fprintf(w, "files in %s: %s and %s (the scene and its part), results.csv, runs/*/ (each run's results,\n",
 		st.Dir, demo.SceneFile, demo.PartFile)
+	fmt.Fprintln(w, "  with start.png and end.png, pictures of its start and end, and its motion in animation.glb)")
 	fmt.Fprintf(w, "try: clatter run %s -o %s\n", filepath.Join(st.Dir, demo.SceneFile), filepath.Join(st.Dir, "single"))
 	fmt.Fprintln(w, "     clatter inspect "+filepath.Join(st.Dir, demo.PartFile)+" --units mm --density \"1.05 g/cm3\"")
+	if len(st.Rows) > 0 {
+		fmt.Fprintln(w, "     clatter report "+st.Rows[0].Dir+"    (a page with the run's tables, pictures and motion)")
+	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, safetyNote)
 }

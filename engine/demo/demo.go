@@ -11,6 +11,7 @@ import (
 
 	"clatter/engine/report"
 	"clatter/engine/scene"
+	"clatter/engine/view"
 	"clatter/shapes/resting"
 )
 
@@ -112,9 +113,15 @@ func Run(ctx context.Context, dir string, progress func(float64)) (*Study, error
 			if err != nil {
 				return st, fmt.Errorf("the embedded study: %w", err)
 			}
-			sum, err := report.Run(ctx, s, report.Options{Dir: row.Dir})
+			rec := view.NewRecorder(s)
+			sum, err := report.Run(ctx, s, report.Options{Dir: row.Dir, Observe: rec.Observe})
 			if err != nil {
 				row.Err = err.Error()
+			}
+			if sum != nil {
+				if err := writeVisuals(rec, row.Dir); err != nil {
+					return st, err
+				}
 			}
 			if sum != nil && len(sum.Bodies) == 1 {
 				b := sum.Bodies[0]
@@ -133,6 +140,14 @@ func Run(ctx context.Context, dir string, progress func(float64)) (*Study, error
 		}
 	}
 	return st, st.writeCSV(filepath.Join(dir, "results.csv"))
+}
+
+// writeVisuals writes a run's pictures and animation beside its results.
+func writeVisuals(rec *view.Recorder, dir string) error {
+	if err := rec.WritePictures(filepath.Join(dir, view.StartPicture), filepath.Join(dir, view.EndPicture)); err != nil {
+		return err
+	}
+	return rec.WriteGLB(filepath.Join(dir, view.AnimationFile))
 }
 
 // writeCSV writes a row per run: tray_friction,seed,resting_face,settled,settled_at,max_impact_speed.

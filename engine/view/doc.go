@@ -5,5 +5,7 @@
 //
 // Shapes are turned into triangles here (primitives tessellated, hulls
 // fanned, compound pieces placed, planes cut to a finite patch around the
-// other bodies); nothing here takes part in the simulation.
+// other bodies; a mesh part that bounds a solid is drawn as its mesh,
+// although contact uses its convex hull); nothing here takes part in the
+// simulation.
 package view

@@ -34,6 +34,7 @@ const (
 type camera struct {
 	eye, right, up, fwd shapes.Vec3
 	focal               float64 // pixels per unit of tangent
+	cx, cy              float64 // the pixel the view's axis passes through
 	near                float64 // the smallest depth drawn
 	w, h                int
 }
@@ -62,23 +63,47 @@ func (r *Recorder) viewCamera(w, h int) camera {
 	across := up.Cross(side)
 	az, el := 35*math.Pi/180, 30*math.Pi/180
 	toEye := side.Mul(math.Cos(az) * math.Cos(el)).Add(across.Mul(-math.Sin(az) * math.Cos(el))).Add(up.Mul(math.Sin(el)))
-	const fov = 30 * math.Pi / 180 // vertical field of view
-	dist := 1.15 * radius / math.Sin(fov/2)
+	// As far back as a 30 degree view needs to see a sphere round the
+	// box: a moderate perspective, as of a camera a few metres from a
+	// bench.
+	const fov = 30 * math.Pi / 180
+	dist := radius / math.Sin(fov/2)
 	c := camera{eye: centre.Add(toEye.Mul(dist)), w: w, h: h}
 	c.fwd = toEye.Mul(-1)
 	c.right = c.fwd.Cross(up).Normalize()
 	c.up = c.right.Cross(c.fwd)
-	c.focal = float64(h) / 2 / math.Tan(fov/2)
 	c.near = nearClip * dist
+	// Zoom and pan so that the corners of the box fill the picture but
+	// for a margin: a sphere around the box would leave it small.
+	c.focal, c.cx, c.cy = 1, 0, 0
+	lo, hi := [2]float64{math.Inf(1), math.Inf(1)}, [2]float64{math.Inf(-1), math.Inf(-1)}
+	for k := 0; k < 8; k++ {
+		p := box.Min
+		for a := 0; a < 3; a++ {
+			if k>>a&1 == 1 {
+				p[a] = box.Max[a]
+			}
+		}
+		x, y, _ := c.project(p)
+		lo[0], lo[1] = math.Min(lo[0], x), math.Min(lo[1], y)
+		hi[0], hi[1] = math.Max(hi[0], x), math.Max(hi[1], y)
+	}
+	c.focal = frameFill * math.Min(float64(w)/math.Max(hi[0]-lo[0], 1e-9), float64(h)/math.Max(hi[1]-lo[1], 1e-9))
+	c.cx = float64(w)/2 - c.focal*(lo[0]+hi[0])/2
+	c.cy = float64(h)/2 - c.focal*(lo[1]+hi[1])/2
 	return c
 }
+
+// frameFill is the part of the picture's width or height that the scene's box
+// fills: room round it for a margin and the time label.
+const frameFill = 0.8
 
 // project maps a world point to pixel coordinates and its depth.
 func (c *camera) project(p shapes.Vec3) (x, y, z float64) {
 	d := p.Sub(c.eye)
 	z = d.Dot(c.fwd)
-	x = float64(c.w)/2 + c.focal*d.Dot(c.right)/z
-	y = float64(c.h)/2 - c.focal*d.Dot(c.up)/z
+	x = c.cx + c.focal*d.Dot(c.right)/z
+	y = c.cy - c.focal*d.Dot(c.up)/z
 	return x, y, z
 }
 

@@ -83,6 +83,14 @@ func (r *Recorder) shapes(w *engine.World, ids []engine.BodyID) {
 		b := Body{Name: sb.Name, Moves: !sb.Static || sb.Driven, index: i}
 		if p, ok := w.Shape(ids[i]).(shapes.Plane); ok {
 			b.plane = &p
+		} else if pt := sb.Part; pt != nil && pt.Solid {
+			// A part as its mesh, which the engineer knows, although
+			// contact uses its convex hull (in the same frame).
+			tris := make([]Tri, len(pt.Mesh.Triangles))
+			for k, t := range pt.Mesh.Triangles {
+				tris[k] = Tri{pt.Mesh.Vertices[t[0]], pt.Mesh.Vertices[t[1]], pt.Mesh.Vertices[t[2]]}
+			}
+			b.Parts = []Part{{Tris: tris, Colour: c}}
 		} else {
 			b.Parts = []Part{{Tris: triangles(w.Shape(ids[i])), Colour: c}}
 		}
