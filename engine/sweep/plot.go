@@ -157,10 +157,10 @@ func faceTitle(m *Meta, body string, shown, all int) string {
 func facesAgainst(m *Meta, st *stats, rows []CaseRow, b, k int, faces []int) (*plot.Plot, error) {
 	vary := m.Vary[k]
 	nb := len(m.Bodies)
-	allFaces := len(st.faceList(b))
+	allFaces := len(topFaces(rows, m.Bodies[b].Name, math.MaxInt))
 	title := faceTitle(m, m.Bodies[b].Name, len(faces), allFaces)
-	if len(faces) == 0 {
-		return notePlot(title, "No trial has finished, so there is nothing to plot."), nil
+	if note := noFaceNote(m, faces); note != "" {
+		return notePlot(title, note), nil
 	}
 	qs := quasiStatic(rows, m.Bodies[b].Name)
 	p := newPlot(title, keyUnit(vary.Key, m.Units), "fraction of trials (bars: 95% Wilson interval)")
@@ -262,6 +262,19 @@ func facesAgainst(m *Meta, st *stats, rows []CaseRow, b, k int, faces []int) (*p
 	return p, nil
 }
 
+// noFaceNote says why a plot of faces would be empty, or is "".
+func noFaceNote(m *Meta, faces []int) string {
+	if len(faces) == 0 {
+		return "No trial has finished, so there is nothing to plot."
+	}
+	for _, f := range faces {
+		if f >= 0 {
+			return ""
+		}
+	}
+	return fmt.Sprintf("No trial came to rest on a face within its %g s:\nevery one ended moving, leaning or round side down.", m.Duration)
+}
+
 // quasiStaticShift sets the quasi-static marker of a face beside its
 // measured fraction, in units of the distance between faces.
 const quasiStaticShift = 0.2
@@ -313,15 +326,9 @@ func addSeries(p *plot.Plot, pts plotter.XYs, errs plotter.YErrors, label string
 // facesBar plots a body's face fractions of a study without varied keys.
 func facesBar(m *Meta, rows []CaseRow, b int, faces []int) (*plot.Plot, error) {
 	body := m.Bodies[b].Name
-	all := 0
-	for _, r := range rows {
-		if r.Body == body {
-			all++
-		}
-	}
-	title := faceTitle(m, body, len(faces), all)
-	if len(faces) == 0 {
-		return notePlot(title, "No trial has finished, so there is nothing to plot."), nil
+	title := faceTitle(m, body, len(faces), len(topFaces(rows, body, math.MaxInt)))
+	if note := noFaceNote(m, faces); note != "" {
+		return notePlot(title, note), nil
 	}
 	p := newPlot(title, "resting face (outward normal in the body's axes)", "fraction of trials")
 	var qpts plotter.XYs

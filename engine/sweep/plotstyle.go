@@ -148,7 +148,8 @@ var legendGap = vg.Points(10)
 // rather than over it, and returns the PNG.
 func renderPNG(p *plot.Plot) ([]byte, error) {
 	img := vgimg.New(plotWidth, plotHeight)
-	dc := vgdraw.New(img)
+	// A margin above the title, which gonum/plot sets at the very edge.
+	dc := vgdraw.Crop(vgdraw.New(img), 0, 0, 0, -vg.Points(6))
 	leg := p.Legend
 	p.Legend = plot.NewLegend()
 	r := leg.Rectangle(dc)
