@@ -64,7 +64,7 @@ func init() {
 	// The run functions refer to their commands (for help and flags), so
 	// they are joined here rather than in the declarations.
 	cmdDemo.run, cmdRun.run, cmdInspect.run, cmdVerify.run = runDemo, runScene, inspectPart, verifyCases
-	commands = []*command{cmdDemo, cmdRun, cmdSweep, cmdMerge, cmdInspect, cmdVerify, cmdHelp}
+	commands = []*command{cmdDemo, cmdRun, cmdSweep, cmdMerge, cmdInspect, cmdVerify, cmdReport, cmdHelp}
 }
 
 func findCommand(name string) *command {

@@ -22,7 +22,6 @@ Options:
 
 func init() {
 	cmdReport.run = writeReport
-	commands = append(commands[:len(commands)-1], cmdReport, commands[len(commands)-1])
 }
 
 func writeReport(e *env, args []string) int {

@@ -155,9 +155,11 @@ func supportTriangles(c shapes.Convex) []Tri {
 }
 
 // planePatch is the square of a plane's surface, half as wide again as the
-// extent of the other bodies, centred below them, in tiles for a checker
-// that shows depth and scale. The corners are in the world.
-func planePatch(p shapes.Plane, pose shapes.Pose, around shapes.AABB) [][]Tri {
+// extent of the other bodies, centred below them, in square tiles of a
+// round size (1, 2 or 5 times a power of ten, at most a sixth of the
+// extent) for a checker that shows depth and scale. The corners are in
+// the world; tile is the tiles' side.
+func planePatch(p shapes.Plane, pose shapes.Pose, around shapes.AABB) (tiles [2][]Tri, tile float64) {
 	n := pose.Rotate(p.Normal)
 	surface := pose.Apply(p.Normal.Mul(p.Offset))
 	centre, half := surface, 0.5
@@ -166,21 +168,32 @@ func planePatch(p shapes.Plane, pose shapes.Pose, around shapes.AABB) [][]Tri {
 		centre = c.Sub(n.Mul(n.Dot(c.Sub(surface))))
 		half = math.Max(1.5*around.Size().Len()/2, 1e-3)
 	}
+	tile = roundSize(2 * half / 6)
+	k := int(math.Ceil(half / tile))
 	u := n.Cross(shapes.Vec3{1, 0, 0})
 	if u.Len() < 0.5 {
 		u = n.Cross(shapes.Vec3{0, 1, 0})
 	}
 	u = u.Normalize()
 	v := n.Cross(u)
-	tiles := [][]Tri{nil, nil}
-	const k = 8 // tiles a side
-	step := 2 * half / k
-	for i := 0; i < k; i++ {
-		for j := 0; j < k; j++ {
-			o := centre.Add(u.Mul(-half + float64(i)*step)).Add(v.Mul(-half + float64(j)*step))
-			a, b, c, d := o, o.Add(u.Mul(step)), o.Add(u.Mul(step)).Add(v.Mul(step)), o.Add(v.Mul(step))
-			tiles[(i+j)%2] = append(tiles[(i+j)%2], Tri{a, b, c}, Tri{a, c, d})
+	for i := -k; i < k; i++ {
+		for j := -k; j < k; j++ {
+			o := centre.Add(u.Mul(float64(i) * tile)).Add(v.Mul(float64(j) * tile))
+			a, b, c, d := o, o.Add(u.Mul(tile)), o.Add(u.Mul(tile)).Add(v.Mul(tile)), o.Add(v.Mul(tile))
+			odd := (i + j) & 1
+			tiles[odd] = append(tiles[odd], Tri{a, b, c}, Tri{a, c, d})
 		}
 	}
-	return tiles
+	return tiles, tile
+}
+
+// roundSize rounds x > 0 down to 1, 2 or 5 times a power of ten.
+func roundSize(x float64) float64 {
+	p := math.Pow(10, math.Floor(math.Log10(x)))
+	for _, m := range []float64{5, 2, 1} {
+		if m*p <= x {
+			return m * p
+		}
+	}
+	return p
 }

@@ -13,6 +13,8 @@ import (
 	"golang.org/x/image/font/basicfont"
 	"golang.org/x/image/math/fixed"
 
+	"clatter/engine/report"
+	"clatter/engine/scene"
 	"clatter/shapes"
 )
 
@@ -147,7 +149,12 @@ func (r *Recorder) Picture(k int) *image.RGBA {
 		}
 	}
 	out := downsample(big, supersample)
-	label(out, fmt.Sprintf("t = %.4g s", r.Times[k]))
+	text := fmt.Sprintf("t = %.4g s", r.Times[k])
+	if r.Tile > 0 {
+		u := r.s.Units
+		text += fmt.Sprintf("    floor squares %g %s", report.Tidy(u.FromSI(r.Tile, scene.Length)), u.Length)
+	}
+	label(out, text)
 	return out
 }
 

@@ -40,6 +40,9 @@ type Recorder struct {
 	Poses [][]shapes.Pose
 	// Up is the direction opposite to gravity (+z without gravity).
 	Up shapes.Vec3
+	// Tile is the side of the squares of the first plane's checker, m
+	// (0 without a plane).
+	Tile float64
 }
 
 // NewRecorder returns a recorder for a run of s.
@@ -111,7 +114,11 @@ func (r *Recorder) finish() {
 		inv := pose.Inverse()
 		c := towardGrey(materialColour(r.s.MaterialIndex(r.s.Bodies[b.index].Material)), 0.85)
 		dark := color.RGBA{uint8(0.85 * float64(c.R)), uint8(0.85 * float64(c.G)), uint8(0.85 * float64(c.B)), 0xff}
-		for k, tiles := range planePatch(*b.plane, pose, around) {
+		patch, tile := planePatch(*b.plane, pose, around)
+		if r.Tile == 0 {
+			r.Tile = tile
+		}
+		for k, tiles := range patch {
 			local := make([]Tri, len(tiles))
 			for j, t := range tiles {
 				local[j] = Tri{inv.Apply(t[0]), inv.Apply(t[1]), inv.Apply(t[2])}

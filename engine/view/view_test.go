@@ -197,3 +197,16 @@ func readPNG(t *testing.T, path string) image.Image {
 	}
 	return img
 }
+
+// TestRoundSize checks the floor's tile sizes: the 1-2-5 series of scale
+// bars and instrument ranges (common drafting practice), rounded down.
+func TestRoundSize(t *testing.T) {
+	const tol = 1e-12 // decimal powers of ten in floating point
+	for _, c := range []struct{ x, want float64 }{
+		{37, 20}, {0.06, 0.05}, {1, 1}, {9.99, 5}, {0.0199, 0.01}, {2e3, 2e3},
+	} {
+		if got := roundSize(c.x); math.Abs(got-c.want) > tol*c.want {
+			t.Errorf("roundSize(%g) = %g, want %g", c.x, got, c.want)
+		}
+	}
+}
