@@ -37,14 +37,34 @@ func faceName(m *Meta, b, f int) string {
 	if b >= len(m.Bodies) || f >= len(m.Bodies[b].Faces) {
 		return name
 	}
-	fm := m.Bodies[b].Faces[f]
+	faces := m.Bodies[b].Faces
+	dirs := []string{faceDirection(faces[f])}
+	if m.GroupFaces {
+		// The faces counted with it, equal by symmetry.
+		for i, o := range faces {
+			if i != f && o.Group == faces[f].Group {
+				dirs = append(dirs, faceDirection(o))
+			}
+		}
+	}
+	switch {
+	case dirs[0] == "":
+		return name
+	case len(dirs) > 3:
+		return fmt.Sprintf("%s (%s and %d alike)", name, dirs[0], len(dirs)-1)
+	}
+	return name + " (" + strings.Join(dirs, "; ") + ")"
+}
+
+// faceDirection is a face's outward normal, or a round face's axis.
+func faceDirection(fm FaceMeta) string {
 	switch {
 	case fm.Normal != nil:
-		return name + " (" + direction(*fm.Normal) + ")"
+		return direction(*fm.Normal)
 	case fm.Axis != nil:
-		return name + " (round, axis " + direction(*fm.Axis) + ")"
+		return "round, axis " + direction(*fm.Axis)
 	}
-	return name
+	return ""
 }
 
 // axisTol is how close a unit normal's component must be to 1 to be
@@ -141,6 +161,41 @@ func notePlot(title, note string) *plot.Plot {
 	return p
 }
 
+// wrapTitle breaks a title too wide for the room at the separator (", ",
+// "; " or " (") nearest its middle, so that no part of it is cut off.
+func wrapTitle(t string, width func(string) vg.Length, room vg.Length) string {
+	if width(t) <= room*0.95 || strings.Contains(t, "\n") {
+		return t
+	}
+	best := -1
+	for _, sep := range []string{"; ", ", ", " ("} {
+		for i := strings.Index(t, sep); i >= 0; {
+			if best < 0 || abs(i-len(t)/2) < abs(best-len(t)/2) {
+				best = i
+			}
+			j := strings.Index(t[i+1:], sep)
+			if j < 0 {
+				break
+			}
+			i += 1 + j
+		}
+	}
+	if best < 0 {
+		return t
+	}
+	if t[best] == ' ' {
+		return t[:best] + "\n" + t[best+1:]
+	}
+	return t[:best+1] + "\n" + t[best+2:]
+}
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
 // legendGap is the space between the data and a legend beside it.
 var legendGap = vg.Points(10)
 
@@ -153,7 +208,13 @@ func renderPNG(p *plot.Plot) ([]byte, error) {
 	leg := p.Legend
 	p.Legend = plot.NewLegend()
 	r := leg.Rectangle(dc)
-	if w := r.Max.X - r.Min.X; w > 0 {
+	w := r.Max.X - r.Min.X
+	room := plotWidth
+	if w > 0 {
+		room -= w + 2*legendGap
+	}
+	p.Title.Text = wrapTitle(p.Title.Text, func(s string) vg.Length { return p.Title.TextStyle.Width(s) }, room)
+	if w > 0 {
 		// The plot's own right margin keeps its last tick label inside.
 		p.Draw(vgdraw.Crop(dc, 0, -(w + 2*legendGap), 0, 0))
 		leg.Top, leg.Left = true, true

@@ -3,6 +3,8 @@ package sweep
 import (
 	"testing"
 
+	"gonum.org/v1/plot/vg"
+
 	"clatter/engine/report"
 )
 
@@ -23,6 +25,13 @@ func TestFaceNames(t *testing.T) {
 		if got := faceName(m, 0, c.face); got != c.want {
 			t.Errorf("face %d: %q, want %q", c.face, got, c.want)
 		}
+	}
+	// Grouped: faces 0 and 1 in one group are named together.
+	m.GroupFaces = true
+	m.Bodies[0].Faces[0].Group, m.Bodies[0].Faces[1].Group = 0, 0
+	m.Bodies[0].Faces[2].Group, m.Bodies[0].Faces[3].Group = 2, 3
+	if got, want := faceName(m, 0, 0), "face 0 (+x; -z)"; got != want {
+		t.Errorf("grouped: %q, want %q", got, want)
 	}
 }
 
@@ -52,5 +61,25 @@ func TestFacesNoTrialReachedLeftOut(t *testing.T) {
 	got := topFaces(rows, "b", 8)
 	if len(got) != 2 || got[0] != 0 || got[1] != 2 {
 		t.Errorf("faces %v, want [0 2]", got)
+	}
+}
+
+// TestWrapTitle checks that a title too wide for its plot is broken at the
+// separator nearest its middle, and a short one is left alone.
+func TestWrapTitle(t *testing.T) {
+	width := func(s string) vg.Length { return vg.Length(len(s)) } // one unit a character
+	for _, c := range []struct {
+		title string
+		room  vg.Length
+		want  string
+	}{
+		{"short title", 100, "short title"},
+		{"bracket: fraction of trials resting on each face (the 8 most frequent); symmetric faces grouped", 60,
+			"bracket: fraction of trials resting on each face\n(the 8 most frequent); symmetric faces grouped"},
+		{"no separator in this long one", 10, "no separator in this long one"},
+	} {
+		if got := wrapTitle(c.title, width, c.room); got != c.want {
+			t.Errorf("wrapTitle(%q) = %q, want %q", c.title, got, c.want)
+		}
 	}
 }
