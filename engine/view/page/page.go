@@ -235,6 +235,7 @@ td:first-child,th:first-child{text-align:left}
 <canvas id="motion" width="800" height="500"></canvas>
 <div><button id="play">Play</button> <input id="time" type="range" min="0" value="0" style="width:70%"></div>
 {{end}}
+{{if .Study}}<p>To watch one trial: <code>clatter sweep SCENE.toml --replay CASE/TRIAL -o DIR --animation --pictures</code>, then <code>clatter report DIR</code> (CASE and TRIAL are the first two columns of trials.csv).</p>{{end}}
 {{range .Summaries}}{{template "table" .}}{{end}}
 {{range .Lead}}{{template "table" .}}{{end}}
 {{range .Images}}<h2>{{.Name}}</h2><img alt="{{.Name}}" src="{{.URI}}">

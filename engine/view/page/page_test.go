@@ -7,6 +7,7 @@ import (
 	stdhtml "html"
 	"image"
 	_ "image/png"
+	"math"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -88,11 +89,16 @@ func TestPageNeedsResults(t *testing.T) {
 	}
 }
 
-// TestPageInBrowser opens the page in headless Chromium: its player must
-// draw the bodies (the DOM records the triangles drawn), the tables must
-// be there, and the screenshot must show the block's orange, which only
-// the player can have drawn (the folder holds no pictures).
+// TestPageInBrowser opens the page in headless Chromium at the start of
+// the motion and at its end (a time in the address past the end is held
+// at the end). The player must draw the bodies (the DOM records the
+// triangles drawn and the time shown), the tables must be there, and the
+// screenshots must show the block's orange, which only the player can
+// have drawn (the folder holds no pictures), lower at the end than at the
+// start, since the block falls onto the fixture.
 func TestPageInBrowser(t *testing.T) {
+	// Keyframe times are float32 in glTF: 7 significant digits.
+	const float32Tol = 1e-6
 	dir := runFolder(t, false)
 	out, err := Write(dir)
 	if err != nil {
@@ -112,8 +118,34 @@ func TestPageInBrowser(t *testing.T) {
 	if strings.Count(dom, "<table>") < 2 {
 		t.Errorf("the page shows %d tables, want the summary and bodies at least", strings.Count(dom, "<table>"))
 	}
+	orange, startRow, colours := screenshot(t, out)
+	if orange < 300 {
+		t.Errorf("the screenshot shows %d pixels of the block's orange, want the block drawn by the player", orange)
+	}
+	if colours < 50 {
+		t.Errorf("the screenshot has %d colours: a blank page", colours)
+	}
+
+	end := out + "#t=99"
+	m = regexp.MustCompile(`data-time="([0-9.eE+-]+)"`).FindStringSubmatch(string(viewtest.Headless(t, end, "--dump-dom")))
+	if m == nil {
+		t.Fatal("the player shows no time (no data-time in the page's DOM)")
+	}
+	// The run's last sample: 0.359 s, from its summary.json.
+	if tm, _ := strconv.ParseFloat(m[1], 64); math.Abs(tm-0.359) > float32Tol {
+		t.Errorf("the player shows %s s at the end, want the run's 0.359 s", m[1])
+	}
+	if _, endRow, _ := screenshot(t, end); endRow <= startRow {
+		t.Errorf("the block is drawn at row %.0f at the start and %.0f at the end: it fell, so it must be lower", startRow, endRow)
+	}
+}
+
+// screenshot takes a screenshot of a page and counts the pixels of the
+// block's orange (the palette's (230, 159, 0), shaded), their mean row,
+// and the colours.
+func screenshot(t *testing.T, page string) (orange int, row float64, colours int) {
 	shot := filepath.Join(t.TempDir(), "shot.png")
-	viewtest.Headless(t, out, "--screenshot="+shot)
+	viewtest.Headless(t, page, "--screenshot="+shot)
 	f, err := os.Open(shot)
 	if err != nil {
 		t.Fatal(err)
@@ -123,24 +155,22 @@ func TestPageInBrowser(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	orange := 0
-	colours := map[uint32]bool{}
+	seen := map[uint32]bool{}
+	sum := 0
 	b := img.Bounds()
 	for y := b.Min.Y; y < b.Max.Y; y++ {
 		for x := b.Min.X; x < b.Max.X; x++ {
 			r, g, bl, _ := img.At(x, y).RGBA()
 			r, g, bl = r>>8, g>>8, bl>>8
-			colours[r<<16|g<<8|bl] = true
-			// The palette's orange (230, 159, 0), shaded: strong red, no blue.
+			seen[r<<16|g<<8|bl] = true
 			if r > 90 && bl < 30 && g > r/3 && g < r {
 				orange++
+				sum += y
 			}
 		}
 	}
-	if orange < 300 {
-		t.Errorf("the screenshot shows %d pixels of the block's orange, want the block drawn by the player", orange)
+	if orange > 0 {
+		row = float64(sum) / float64(orange)
 	}
-	if len(colours) < 50 {
-		t.Errorf("the screenshot has %d colours: a blank page", len(colours))
-	}
+	return orange, row, len(seen)
 }

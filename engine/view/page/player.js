@@ -130,6 +130,7 @@
     });
     ctx.fillStyle = "#222"; ctx.font = "14px sans-serif"; ctx.fillText("t = " + t.toFixed(3) + " s", 10, 20);
     canvas.dataset.drawn = String(tris.length);
+    canvas.dataset.time = String(t);
   }
   var slider = document.getElementById("time"), button = document.getElementById("play");
   var playing = false, t0 = 0, start = 0;
@@ -146,5 +147,9 @@
     playing = !playing; button.textContent = playing ? "Pause" : "Play";
     if (playing) { start = +slider.value >= end ? 0 : +slider.value; t0 = performance.now(); requestAnimationFrame(frame); }
   };
-  draw(0);
+  // A link may open the page at a time: report.html#t=0.5 (s).
+  var at = /t=([0-9.eE+-]+)/.exec(location.hash);
+  var first = at ? Math.max(0, Math.min(end, +at[1])) : 0;
+  slider.value = first;
+  draw(first);
 })();
