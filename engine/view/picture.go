@@ -110,8 +110,10 @@ func (c *camera) project(p shapes.Vec3) (x, y, z float64) {
 }
 
 // Picture draws the state at sample k with flat shading. It is a small
-// z-buffer rasteriser (the scan conversion of edge functions, Pineda,
-// "A parallel algorithm for polygon rasterization", SIGGRAPH 1988): the
+// z-buffer rasteriser (the depth buffer of Catmull, "A subdivision
+// algorithm for computer display of curved surfaces", 1974; triangles
+// scanned by edge functions, Pineda, "A parallel algorithm for polygon
+// rasterization", SIGGRAPH 1988): the
 // scenes are a few thousand triangles of solid colour, for which this is
 // shorter than a 2-D vector library's painter's sort and, unlike it,
 // right where bodies touch or a floor runs under them.

@@ -4,8 +4,10 @@ import (
 	_ "embed"
 	"encoding/base64"
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"html/template"
+	"io"
 	"os"
 	"path/filepath"
 	"sort"
@@ -180,10 +182,10 @@ func readTable(path string) (table, error) {
 	t := table{Name: filepath.Base(path)}
 	for {
 		rec, err := r.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
 		if err != nil {
-			if err.Error() == "EOF" {
-				break
-			}
 			return t, err
 		}
 		switch {

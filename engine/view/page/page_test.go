@@ -17,6 +17,7 @@ import (
 
 	"clatter/engine/report"
 	"clatter/engine/scene"
+	"clatter/engine/sweep"
 	"clatter/engine/view"
 	"clatter/engine/view/viewtest"
 )
@@ -173,4 +174,58 @@ func screenshot(t *testing.T, page string) (orange int, row float64, colours int
 		row = float64(sum) / float64(orange)
 	}
 	return orange, row, len(seen)
+}
+
+// TestStudyPage writes the page of a small study: its cases come first,
+// then its plots, each embedded, and the hint to replay a trial.
+func TestStudyPage(t *testing.T) {
+	src, err := os.ReadFile("../../../testdata/sweeps/cube.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	file := filepath.Join(dir, "cube.toml")
+	small := strings.Replace(string(src), "trials = 60", "trials = 4", 1)
+	if err := os.WriteFile(file, []byte(small), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	st, err := sweep.Open(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "study")
+	if _, err := st.Run(context.Background(), sweep.Options{Dir: out, Workers: 1}); err != nil {
+		t.Fatal(err)
+	}
+	res, err := sweep.Finish(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	path, err := Write(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	html := string(b)
+	pngs := 0
+	for _, f := range res.Meta.Files {
+		if strings.HasSuffix(f, ".png") {
+			pngs++
+		}
+	}
+	if n := strings.Count(html, "data:image/png;base64,"); n != pngs || n == 0 {
+		t.Errorf("%d plots in the page, want the study's %d", n, pngs)
+	}
+	cases, plot := strings.Index(html, "<b>cases.csv</b>"), strings.Index(html, "data:image/png")
+	if cases < 0 || cases > plot {
+		t.Error("the page does not show cases.csv before the plots")
+	}
+	for _, want := range []string{"--replay CASE/TRIAL", Caution, "<details><summary><b>sweep.json</b>"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("the page lacks %q", want)
+		}
+	}
 }
