@@ -114,6 +114,11 @@ func TestReplayBadInput(t *testing.T) {
 			t.Errorf("--replay %s: exit %d, want %d\n%s", arg, code, exitBad, errs)
 		}
 	}
+	for _, extra := range []string{"--resume", "--shard=1/2"} {
+		if _, _, code := clatter(t, "sweep", exampleSweep, "--replay", "0/1", extra, "-o", t.TempDir()); code != exitBad {
+			t.Errorf("--replay with %s: exit %d, want %d", extra, code, exitBad)
+		}
+	}
 	_, _, code := clatter(t, "sweep", exampleSweep, "--pictures", "-o", t.TempDir())
 	if code != exitBad {
 		t.Errorf("sweep --pictures without --replay: exit %d, want %d", code, exitBad)

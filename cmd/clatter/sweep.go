@@ -118,6 +118,10 @@ func runSweep(e *env, args []string) int {
 		return code
 	}
 	if *replay != "" {
+		if *resume || *shardText != "" || *shardCount != 0 {
+			e.errorf("sweep: --replay runs one trial alone; it does not go with --resume or --shard")
+			return exitBad
+		}
 		if !flagGiven(fs, "o") {
 			*dir = "clatter-replay"
 		}
