@@ -150,14 +150,63 @@ func (r *Recorder) Picture(k int) *image.RGBA {
 			}
 		}
 	}
+	traced := r.trace(big, depth, &cam, k)
 	out := downsample(big, supersample)
 	text := fmt.Sprintf("t = %.4g s", r.Times[k])
+	if traced {
+		text += "    lines: the paths of the moving bodies"
+	}
 	if r.Tile > 0 {
 		u := r.s.Units
 		text += fmt.Sprintf("    floor squares %g %s", report.Tidy(u.FromSI(r.Tile, scene.Length)), u.Length)
 	}
 	label(out, text)
 	return out
+}
+
+// traceWidth is the width of a path, in pixels of the supersampled
+// picture.
+const traceWidth = 3
+
+// trace draws, for each moving body, the path of its centre of mass
+// through the samples up to k, as a line
+// in a darker shade of its colour, hidden where a body is in front of it.
+// It returns whether it drew any.
+func (r *Recorder) trace(img *image.RGBA, depth []float32, c *camera, k int) bool {
+	drew := false
+	for i, b := range r.Bodies {
+		if !b.Moves || len(b.Parts) == 0 || k == 0 {
+			continue
+		}
+		p := b.Parts[0].Colour
+		col := color.RGBA{scale(p.R, 0.55), scale(p.G, 0.55), scale(p.B, 0.55), 0xff}
+		for j := 1; j <= k; j++ {
+			x0, y0, z0 := c.project(r.Poses[j-1][i].Apply(b.centre))
+			x1, y1, z1 := c.project(r.Poses[j][i].Apply(b.centre))
+			if z0 < c.near || z1 < c.near {
+				continue
+			}
+			n := int(math.Ceil(math.Max(math.Abs(x1-x0), math.Abs(y1-y0))))
+			for s := 0; s <= n; s++ {
+				u := float64(s) / math.Max(float64(n), 1)
+				x, y := x0+u*(x1-x0), y0+u*(y1-y0)
+				// 1/z interpolates linearly on the screen; the line is
+				// drawn a little nearer than the surface it lies on.
+				iz := float32((1/z0*(1-u) + 1/z1*u) * (1 + 1e-3))
+				for dy := -traceWidth / 2; dy <= traceWidth/2; dy++ {
+					for dx := -traceWidth / 2; dx <= traceWidth/2; dx++ {
+						px, py := int(x)+dx, int(y)+dy
+						if px < 0 || py < 0 || px >= c.w || py >= c.h || iz < depth[py*c.w+px] {
+							continue
+						}
+						img.SetRGBA(px, py, col)
+						drew = true
+					}
+				}
+			}
+		}
+	}
+	return drew
 }
 
 func scale(c uint8, s float64) uint8 { return uint8(math.Min(255, float64(c)*s)) }

@@ -24,8 +24,9 @@ type Body struct {
 	Parts []Part
 	// plane is set for a plane, whose patch is cut when the scene's
 	// extent is known.
-	plane *shapes.Plane
-	index int // in the scene's bodies
+	plane  *shapes.Plane
+	index  int         // in the scene's bodies
+	centre shapes.Vec3 // the centre of mass in the shape's frame
 }
 
 // Recorder keeps a run's shapes and the poses of its bodies at each
@@ -83,7 +84,8 @@ func (r *Recorder) shapes(w *engine.World, ids []engine.BodyID) {
 		if sb.Static && !sb.Driven {
 			c = towardGrey(c, 0.5)
 		}
-		b := Body{Name: sb.Name, Moves: !sb.Static || sb.Driven, index: i}
+		b := Body{Name: sb.Name, Moves: !sb.Static || sb.Driven, index: i,
+			centre: w.ShapePose(ids[i]).ApplyInv(w.Position(ids[i]))}
 		if p, ok := w.Shape(ids[i]).(shapes.Plane); ok {
 			b.plane = &p
 		} else if pt := sb.Part; pt != nil && pt.Solid {
