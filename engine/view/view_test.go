@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -81,12 +82,49 @@ func record(t *testing.T, file string) (*scene.Scene, *Recorder) {
 	return s, rec
 }
 
+// everyShape is a scene with a body of every kind of shape, for the
+// validator; the cup is a mesh part kept as its hull.
+const everyShape = `
+units = { length = "mm", mass = "g" }
+[world]
+duration = 0.2
+[[body]]
+name = "floor"
+shape = { plane = [0, 0, 1] }
+[[body]]
+name = "ball"
+shape = { sphere = 10 }
+density = 1000
+position = [0, 0, 30]
+[[body]]
+name = "roller"
+shape = { cylinder = [8, 30] }
+density = 1000
+position = [40, 0, 30]
+[[body]]
+name = "pin"
+shape = { capsule = [5, 20] }
+density = 1000
+position = [80, 0, 30]
+[[body]]
+name = "cup"
+shape = { mesh = "../../testdata/parts/cup.stl" }
+density = 1000
+position = [0, 60, 60]
+`
+
 // TestGLBValid writes the animations of scenes with every kind of shape
 // and motion and checks them with the Khronos glTF validator, then reads
 // them back with the glTF library's decoder.
 func TestGLBValid(t *testing.T) {
+	dir := t.TempDir()
+	shapesFile := filepath.Join(dir, "shapes.toml")
+	if err := os.WriteFile(shapesFile, []byte(strings.ReplaceAll(everyShape, "../../", mustAbs(t, "../..")+"/")), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	for _, file := range []string{
-		"../../testdata/scenes/fixture.toml",             // plane, static mesh, box
+		shapesFile,                           // sphere, cylinder, capsule, a part
+		"../../testdata/scenes/fixture.toml", // plane, static mesh, box
 		"../../testdata/mechanisms/vibrating-track.toml", // a driven body, cylinders
 		"../../testdata/mechanisms/cam-follower.toml",    // joints
 		"../../testdata/sweeps/bracket.toml",             // a mesh part's hull
@@ -184,6 +222,14 @@ func TestPicturesShowTheFall(t *testing.T) {
 	if rows[1] <= rows[0] {
 		t.Errorf("the bracket reaches down to row %.0f at the start and %.0f at the end: it fell, so it must be lower", rows[0], rows[1])
 	}
+}
+
+func mustAbs(t *testing.T, p string) string {
+	a, err := filepath.Abs(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return a
 }
 
 func readPNG(t *testing.T, path string) image.Image {
