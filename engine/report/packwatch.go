@@ -1,0 +1,105 @@
+package report
+
+import (
+	"clatter/engine"
+)
+
+// packWatch holds what a run follows for packaging studies: the drop of a
+// [drop] and the tipping and sliding of bodies on their supports.
+type packWatch struct {
+	drop *DropTracker
+	tilt *TiltTracker
+}
+
+func (r *runner) watchPackages() {
+	r.pack.drop = NewDropTracker(r.s, r.w, r.ids)
+	var moving []engine.BodyID
+	for _, i := range r.dyn {
+		moving = append(moving, r.ids[i])
+	}
+	r.pack.tilt = NewTiltTracker(r.w, moving)
+}
+
+func (p *packWatch) before(w *engine.World) {
+	if p.drop != nil {
+		p.drop.Before(w)
+	}
+}
+
+// afterStep updates the drop's spin and writes tips and slides events.
+func (r *runner) afterStep() {
+	if r.pack.drop != nil {
+		r.pack.drop.After(r.w)
+	}
+	r.pack.tilt.After(r.w, r.partners, func(e tiltEvent) {
+		tilt := clean(e.tiltDeg)
+		r.event(eventJSON{Time: clean(e.time), Event: e.kind, Body: r.name(e.id), On: r.name(e.on), Tilt: &tilt})
+	})
+}
+
+// partners lists the bodies id touches.
+func (r *runner) partners(id engine.BodyID) []engine.BodyID {
+	var out []engine.BodyID
+	for k, on := range r.pairs {
+		if !on {
+			continue
+		}
+		switch id {
+		case k[0]:
+			out = append(out, k[1])
+		case k[1]:
+			out = append(out, k[0])
+		}
+	}
+	// Map order is random: sort for a deterministic choice of support.
+	for i := 1; i < len(out); i++ {
+		for j := i; j > 0 && out[j] < out[j-1]; j-- {
+			out[j], out[j-1] = out[j-1], out[j]
+		}
+	}
+	return out
+}
+
+// impactFeatures names the struck features of an impact's two bodies and
+// passes the impact to the drop tracker.
+func (r *runner) impactFeatures(e engine.Event) []*string {
+	fts := Features(r.w, e)
+	out := make([]*string, 2)
+	for k, ft := range fts {
+		if ft != nil {
+			s := ft.String()
+			out[k] = &s
+		}
+	}
+	if d := r.pack.drop; d != nil {
+		if e.A == d.id {
+			d.Impact(e, fts[0])
+		} else if e.B == d.id {
+			d.Impact(e, fts[1])
+		}
+	}
+	return out
+}
+
+func (r *runner) tiltMarks(id engine.BodyID) (tipped, slid *TiltMark) {
+	t, s := r.pack.tilt.Marks(id)
+	return cleanMark(t), cleanMark(s)
+}
+
+func cleanMark(m *TiltMark) *TiltMark {
+	if m == nil {
+		return nil
+	}
+	return &TiltMark{Time: clean(m.Time), Tilt: clean(m.Tilt)}
+}
+
+func (r *runner) dropReport() *Drop {
+	d := r.pack.drop
+	if d == nil {
+		return nil
+	}
+	w, cfg := r.w, r.w.Config()
+	slow := w.Velocity(d.id).Len() < cfg.RestSpeed && w.Spin(d.id).Len() < cfg.RestSpin
+	resting := r.touching[d.id] > 0 && (!w.Awake(d.id) || slow)
+	return d.Report(w, r.u, resting)
+}

@@ -1,0 +1,158 @@
+package report
+
+import (
+	"math"
+
+	"clatter/engine"
+	"clatter/engine/pack"
+	"clatter/shapes"
+)
+
+// Thresholds of the tips and slides events: a body has tipped once it has
+// turned this far relative to the body it stands on, and slid once the
+// point of it that stood on its support has moved this far along it.
+const (
+	TipAngle      = 2 * math.Pi / 180 // rad
+	SlideDistance = 1e-3              // m
+)
+
+// supportWindow is how long after the start a body may take to find the
+// body it stands on (a part placed a hair above its support settles onto
+// it within a few steps); bodies that touch nothing by then, dropped ones,
+// are not followed.
+const supportWindow = 0.02 // s
+
+// TiltMark is when a body tipped or slid and its support's tilt then.
+type TiltMark struct {
+	Time float64 `json:"time"`
+	Tilt float64 `json:"tilt"`
+}
+
+// tiltState follows one body standing on another.
+type tiltState struct {
+	id, on engine.BodyID
+	found  bool
+	// rel0 is the body's pose in its support's frame at the start, foot
+	// the point of the body below its centre of mass on the support (body
+	// frame), up the support's normal in its own frame.
+	rel0     shapes.Pose
+	foot, up shapes.Vec3
+	tipped   *TiltMark
+	slid     *TiltMark
+}
+
+// TiltTracker makes the tips and slides events.
+type TiltTracker struct {
+	bodies []tiltState
+	start  []shapes.Quat // every body's starting orientation
+}
+
+// tiltEvent is a tips or slides event, in SI.
+type tiltEvent struct {
+	kind    string
+	id, on  engine.BodyID
+	time    float64
+	tiltDeg float64
+}
+
+// NewTiltTracker follows the given moving bodies.
+func NewTiltTracker(w *engine.World, moving []engine.BodyID) *TiltTracker {
+	t := &TiltTracker{}
+	for i := 0; i < w.NumBodies(); i++ {
+		t.start = append(t.start, w.Orientation(engine.BodyID(i)))
+	}
+	for _, id := range moving {
+		t.bodies = append(t.bodies, tiltState{id: id})
+	}
+	return t
+}
+
+// tilt is the support's rotation from its starting pose, degrees.
+func (t *TiltTracker) tilt(w *engine.World, on engine.BodyID) float64 {
+	d := w.Orientation(on).Mul(t.start[on].Conjugate())
+	return rotationAngle(d) * 180 / math.Pi
+}
+
+func rotationAngle(q shapes.Quat) float64 {
+	return 2 * math.Atan2(q.V.Len(), math.Abs(q.W))
+}
+
+// After checks every followed body after a step; partners lists the bodies
+// a body touches. It calls emit for each new event.
+func (t *TiltTracker) After(w *engine.World, partners func(engine.BodyID) []engine.BodyID, emit func(tiltEvent)) {
+	now := w.Time()
+	for k := range t.bodies {
+		b := &t.bodies[k]
+		if !b.found {
+			if now <= supportWindow {
+				t.findSupport(w, b, partners(b.id))
+			}
+			continue
+		}
+		if b.tipped != nil && b.slid != nil {
+			continue
+		}
+		rel := supportPose(w, b.on).Inverse().Mul(bodyPose(w, b.id))
+		if b.tipped == nil && rotationAngle(rel.Orientation.Mul(b.rel0.Orientation.Conjugate())) >= TipAngle {
+			b.tipped = &TiltMark{Time: now, Tilt: t.tilt(w, b.on)}
+			emit(tiltEvent{kind: "tips", id: b.id, on: b.on, time: now, tiltDeg: b.tipped.Tilt})
+		}
+		if b.slid == nil {
+			move := rel.Apply(b.foot).Sub(b.rel0.Apply(b.foot))
+			along := move.Sub(b.up.Mul(move.Dot(b.up)))
+			if along.Len() >= SlideDistance {
+				b.slid = &TiltMark{Time: now, Tilt: t.tilt(w, b.on)}
+				emit(tiltEvent{kind: "slides", id: b.id, on: b.on, time: now, tiltDeg: b.slid.Tilt})
+			}
+		}
+	}
+}
+
+// findSupport takes as a body's support the body it touches that lies
+// lowest along the world's up (a static plane or mesh before all others).
+func (t *TiltTracker) findSupport(w *engine.World, b *tiltState, touching []engine.BodyID) {
+	if len(touching) == 0 {
+		return
+	}
+	up := w.Config().Gravity.Mul(-1)
+	if !(up.Len() > 0) {
+		return
+	}
+	up = up.Normalize()
+	best, low := engine.BodyID(-1), math.Inf(1)
+	for _, o := range touching {
+		h := w.Position(o).Dot(up)
+		if _, plane := w.Shape(o).(shapes.Plane); plane {
+			h = math.Inf(-1)
+		}
+		if best < 0 || h < low {
+			best, low = o, h
+		}
+	}
+	b.on, b.found = best, true
+	sp := supportPose(w, best)
+	b.rel0 = sp.Inverse().Mul(bodyPose(w, b.id))
+	b.up = sp.RotateInv(up)
+	// The point below the centre of mass on the body's lowest level.
+	pose := w.ShapePose(b.id)
+	com := pose.ApplyInv(w.Position(b.id))
+	drop, _ := pack.Lowest(w.Shape(b.id), com, w.Orientation(b.id), up)
+	footWorld := w.Position(b.id).Sub(up.Mul(drop))
+	b.foot = bodyPose(w, b.id).ApplyInv(footWorld)
+}
+
+func bodyPose(w *engine.World, id engine.BodyID) shapes.Pose {
+	return shapes.Pose{Position: w.Position(id), Orientation: w.Orientation(id)}
+}
+
+func supportPose(w *engine.World, id engine.BodyID) shapes.Pose { return bodyPose(w, id) }
+
+// Marks returns a followed body's tipped_at and slid_at in SI.
+func (t *TiltTracker) Marks(id engine.BodyID) (tipped, slid *TiltMark) {
+	for k := range t.bodies {
+		if t.bodies[k].id == id {
+			return t.bodies[k].tipped, t.bodies[k].slid
+		}
+	}
+	return nil, nil
+}
