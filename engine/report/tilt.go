@@ -132,13 +132,24 @@ func (t *TiltTracker) findSupport(w *engine.World, b *tiltState, touching []engi
 	b.on, b.found = best, true
 	sp := supportPose(w, best)
 	b.rel0 = sp.Inverse().Mul(bodyPose(w, b.id))
-	b.up = sp.RotateInv(up)
-	// The point below the centre of mass on the body's lowest level.
-	pose := w.ShapePose(b.id)
-	com := pose.ApplyInv(w.Position(b.id))
-	drop, _ := pack.Lowest(w.Shape(b.id), com, w.Orientation(b.id), up)
-	footWorld := w.Position(b.id).Sub(up.Mul(drop))
-	b.foot = bodyPose(w, b.id).ApplyInv(footWorld)
+	// The foot: the point of the body's surface below its centre of mass
+	// along the body axis nearest the world's down, the middle of the
+	// base it stands on; the support's normal is that axis, reversed.
+	q := w.Orientation(b.id)
+	downB := q.Conjugate().Rotate(up.Mul(-1))
+	k := 0
+	for a := 1; a < 3; a++ {
+		if math.Abs(downB[a]) > math.Abs(downB[k]) {
+			k = a
+		}
+	}
+	var axis shapes.Vec3
+	axis[k] = math.Copysign(1, downB[k])
+	normal := q.Rotate(axis.Mul(-1))
+	com := w.ShapePose(b.id).ApplyInv(w.Position(b.id))
+	depth, _ := pack.Lowest(w.Shape(b.id), com, q, normal)
+	b.foot = axis.Mul(depth)
+	b.up = sp.RotateInv(normal)
 }
 
 func bodyPose(w *engine.World, id engine.BodyID) shapes.Pose {
