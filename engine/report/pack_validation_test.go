@@ -53,7 +53,7 @@ const tipTol = 0.5
 func TestOffCentreBoxTipsOnATiltTable(t *testing.T) {
 	const a, e, hc = 0.1, 0.04, 0.15 // half base, offset, height of the centre of mass above the base (m)
 	for _, c := range []struct {
-		name string
+		name  string
 		axisY float64 // +1: +x (the heavy side) goes down
 		want  float64 // deg
 	}{
