@@ -173,6 +173,7 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 		tw.Flush()
 		fmt.Fprintln(w)
 	}
+	writePackTables(w, s, sum)
 	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
 	if dir != "" {
 		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(outputFiles(s), ", "))

@@ -182,3 +182,6 @@ func Features(w *engine.World, e engine.Event) [2]pack.Feature {
 	}
 	return out
 }
+
+// Body is the dropped body's id.
+func (t *DropTracker) Body() engine.BodyID { return t.id }

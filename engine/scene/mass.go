@@ -35,9 +35,43 @@ func (r *reader) measured(sec section, b *Body) {
 		return
 	}
 	in, ok := r.inertia(sub(sec.path, "inertia"), sec.pre)
-	if ok {
+	if ok && r.plausible(sub(sec.path, "inertia"), sec.pre, b, in) {
 		b.Props.Inertia = in
 	}
+}
+
+// plausible checks an inertia against the body's size: no principal
+// moment can exceed m R^2, R the farthest reach of the shape's box of
+// bounds from the centre of mass (all the mass there); one below a
+// hundredth of the uniform solid's is allowed but most likely a slip of
+// units, and warned of.
+func (r *reader) plausible(path []string, pre string, b *Body, in shapes.Mat3) bool {
+	mom, _, err := shapes.Principal(in)
+	if err != nil {
+		return false
+	}
+	bounds := b.Shape.Bounds()
+	reach := 0.0
+	for k := 0; k < 8; k++ {
+		c := bounds.Min
+		for a := 0; a < 3; a++ {
+			if k&(1<<a) != 0 {
+				c[a] = bounds.Max[a]
+			}
+		}
+		reach = math.Max(reach, c.Sub(b.Props.Center).Len())
+	}
+	u := r.s.Units
+	unit := fmt.Sprintf("%s %s2", u.Mass, u.Length)
+	if limit := b.Props.Mass * reach * reach; mom[2] > limit*(1+1e-9) {
+		r.errAt(path, "%sinertia: a principal moment of %.6g %s needs mass outside the body's shape (at most m R^2 = %.6g %s with all of it at the farthest corner); inertia is in the scene's units, mass x length^2", pre, u.FromSI(mom[2], MomentOfInertia), unit, u.FromSI(limit, MomentOfInertia), unit)
+		return false
+	}
+	solid, _, err := shapes.Principal(b.Props.Inertia)
+	if err == nil && mom[0] < 0.01*solid[0] {
+		r.warnAt(path, "%sinertia: its smallest principal moment %.6g %s is under a hundredth of the uniform solid's %.6g %s; inertia is in the scene's units (%s)", pre, u.FromSI(mom[0], MomentOfInertia), unit, u.FromSI(solid[0], MomentOfInertia), unit, unit)
+	}
+	return true
 }
 
 // inertia reads a 3 x 3 inertia tensor by rows, mass x length^2, and

@@ -103,6 +103,7 @@ position = [0, 0, 1]
 		{"not symmetric", body + "inertia = [[1, 0.1, 0], [0, 1, 0], [0, 0, 1]]\n", "must be symmetric"},
 		{"triangle inequality", body + "inertia = [[0.1, 0, 0], [0, 0.1, 0], [0, 0, 1]]\n", "no rigid body has this inertia"},
 		{"negative", body + "inertia = [[-1, 0, 0], [0, 1, 0], [0, 0, 1]]\n", "positive principal moments"},
+		{"mass outside", body + "inertia = [[10, 0, 0], [0, 10, 0], [0, 0, 10]]\n", "needs mass outside the body's shape"},
 		{"not a matrix", body + "inertia = [1, 2]\n", "3 x 3 matrix"},
 		{"static", "\n[[body]]\nname = \"shelf\"\nstatic = true\nshape = { box = [1, 1, 1] }\ncenter_of_mass = [0, 0, 0]\n" + body, "takes no center_of_mass"},
 		{"piece plane", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { plane = [0, 0, 1] } ] }\n", "a piece must be a box"},
