@@ -70,7 +70,7 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
 		second = fmt.Sprintf("%s at %.5g %s", *d.SecondFeature, *d.SecondaryImpactSpeed, speed)
 	}
 	fmt.Fprintf(w, "second   %s\n", second)
-	fmt.Fprintf(w, "spin     %.4g rad/s at most\n", d.PeakSpin)
+	fmt.Fprintf(w, "spin     %.4g rad/s at most\n", spinShown(d.PeakSpin))
 	final := "not on a face (balanced on an edge or corner, or moving)"
 	if d.FinalFace != nil {
 		final = fmt.Sprintf("face %d", *d.FinalFace)
@@ -105,6 +105,10 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
 	fmt.Fprintln(w)
 }
 
+// roundingSpin (rad/s) is below anything a drop resolves: a body struck
+// through its centre of mass turns only by rounding.
+const roundingSpin = 1e-9
+
 // maxDropRows bounds the drops shown on stdout; drops.csv has them all.
 const maxDropRows = 20
 
@@ -138,7 +142,7 @@ func writeDropsTable(w io.Writer, dir string) bool {
 			break
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.5g\t%s\t%s\t%.3g\t%s\t%s\n", get(r, "case"), get(r, "trial"), get(r, "strike"), get(r, "height"),
-			num(get(r, "impact_speed")), get(r, "second_feature"), get(r, "secondary_impact_speed"), num(get(r, "peak_spin")), get(r, "final_face"), get(r, "turned_over"))
+			num(get(r, "impact_speed")), get(r, "second_feature"), get(r, "secondary_impact_speed"), spinShown(num(get(r, "peak_spin"))), get(r, "final_face"), get(r, "turned_over"))
 	}
 	tw.Flush()
 	if len(rows)-1 > maxDropRows {
@@ -150,6 +154,14 @@ func writeDropsTable(w io.Writer, dir string) bool {
 	fmt.Fprintln(w, packNote)
 	fmt.Fprintln(w)
 	return true
+}
+
+// spinShown hides the rounding of a spin that is none.
+func spinShown(w float64) float64 {
+	if w < roundingSpin {
+		return 0
+	}
+	return w
 }
 
 func num(s string) float64 {

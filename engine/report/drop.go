@@ -65,7 +65,13 @@ type DropTracker struct {
 	// step before contact is slowed by the speculative contact.
 	approach, gap float64
 	started, hit  bool
-	out           Drop // in SI until Report
+	// kicks are the times of the body's kicks; a kick before the first
+	// contact restarts the free fall from the state after it, and a
+	// spinning body's lowest point does not fall freely, so its speed is
+	// then the solver's.
+	kicks    []float64
+	spinning bool
+	out      Drop // in SI until Report
 }
 
 // NewDropTracker starts following the scene's drop, or returns nil.
@@ -81,24 +87,32 @@ func NewDropTracker(s *scene.Scene, w *engine.World, ids []engine.BodyID) *DropT
 	if pl, ok := floor.Shape.(shapes.Plane); ok {
 		t.surface = floor.Position.Add(floor.Orientation.Rotate(pl.Normal.Mul(pl.Offset))).Dot(s.Drop.Up)
 	}
+	for _, k := range s.Kicks {
+		if k.Body == s.Drop.Body {
+			t.kicks = append(t.kicks, k.Time)
+		}
+	}
 	t.out = Drop{Body: s.Drop.Body, Strike: s.Drop.Strike.String(), Height: s.Drop.Height, Impacts: []DropImpact{}}
 	return t
 }
 
 // Before notes the state before a step.
 func (t *DropTracker) Before(w *engine.World) {
-	if t.started {
+	kicked := false
+	for len(t.kicks) > 0 && t.kicks[0] < w.Time() {
+		t.kicks, kicked = t.kicks[1:], true
+	}
+	if t.hit || t.started && !kicked {
 		return
 	}
 	low, ok := pack.Lowest(w.Shape(t.id), t.com, w.Orientation(t.id), t.d.Up)
 	if !ok {
 		return
 	}
-	if !t.started {
-		t.started = true
-		t.approach = -w.Velocity(t.id).Dot(t.d.Up)
-		t.gap = w.Position(t.id).Dot(t.d.Up) - low - t.surface
-	}
+	t.started = true
+	t.approach = -w.Velocity(t.id).Dot(t.d.Up)
+	t.gap = w.Position(t.id).Dot(t.d.Up) - low - t.surface
+	t.spinning = w.Spin(t.id) != (shapes.Vec3{})
 }
 
 // Impact records an impact event of the run; feature is the dropped body's
@@ -114,11 +128,9 @@ func (t *DropTracker) Impact(e engine.Event, feature pack.Feature) {
 	}
 	if !t.hit {
 		t.hit = true
-		// Free fall from the state before the step to the surface:
-		// v^2 = v0^2 + 2 g d (uniform acceleration).
 		// v^2 = v0^2 + 2 g d: uniform acceleration over the fall d.
 		v := e.Speed
-		if t.started && t.gap >= 0 && t.approach >= 0 && t.g > 0 {
+		if t.started && !t.spinning && t.gap >= 0 && t.approach >= 0 && t.g > 0 {
 			v = math.Sqrt(t.approach*t.approach + 2*t.g*t.gap)
 		}
 		t.out.ImpactSpeed = v
