@@ -152,6 +152,21 @@ func (r *reader) dropConflicts(sec section, b *Body) {
 				r.errAt(sec.path, "[drop] body %q also has a random height in [sweep.randomize]; vary drop.height instead", b.Name)
 			}
 		}
+		for _, sp := range sw.Spin {
+			if sp.Body == b.Name {
+				r.errAt(sec.path, "[drop] body %q also has a random spin in [sweep.randomize]; a drop starts at rest", b.Name)
+			}
+		}
+		for _, v := range sw.VelocityJitter {
+			if v.Body == b.Name {
+				r.errAt(sec.path, "[drop] body %q also has a random velocity in [sweep.randomize]; a drop starts at rest", b.Name)
+			}
+		}
+		for _, j := range sw.Jitter {
+			if j.Body == b.Name && j.Amount[2] != 0 {
+				r.errAt(sec.path, "[drop] body %q also has a random position along z in [sweep.randomize]; that would change the drop height: jitter x and y only, and vary drop.height", b.Name)
+			}
+		}
 	}
 }
 

@@ -114,6 +114,8 @@ position = [0, 0, 1]
 		{"too heavy", strings.Replace(body, "mass = 12", "mass = 80", 1) + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = \"by mass\"\n", "beyond the drop-height table"},
 		{"static dropped", body + "[drop]\nbody = \"floor\"\nstrike = \"face 3\"\nheight = 0.5\n", "only a body moved by gravity"},
 		{"spinning", body + "spin = [0, 0, 1]\n[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = 0.5\n", "a drop starts at rest"},
+		{"random spin", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = 0.5\n[sweep]\n[sweep.randomize]\nspin = { carton = 2 }\n", "a drop starts at rest"},
+		{"random height", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = 0.5\n[sweep]\n[sweep.randomize]\nposition = { carton = [0.01, 0.01, 0.01] }\n", "change the drop height"},
 		{"ten without drop", body + "[sweep]\ndrops = \"ten\"\n", "needs a [drop] section"},
 		{"unknown sequence", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = 0.5\n[sweep]\ndrops = \"six\"\n", "must be \"ten\""},
 		{"two planes", "\n[[body]]\nname = \"wall\"\nshape = { plane = [1, 0, 0] }\n" + body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = 0.5\n", "more than one static plane"},
