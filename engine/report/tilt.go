@@ -22,6 +22,9 @@ const (
 // are not followed.
 const supportWindow = 0.02 // s
 
+// supportSteps is the same in steps, for a step longer than the window.
+const supportSteps = 3
+
 // TiltMark is when a body tipped or slid and its support's tilt then.
 type TiltMark struct {
 	Time float64 `json:"time"`
@@ -84,7 +87,7 @@ func (t *TiltTracker) After(w *engine.World, partners func(engine.BodyID) []engi
 	for k := range t.bodies {
 		b := &t.bodies[k]
 		if !b.found {
-			if now <= supportWindow {
+			if now <= supportWindow || w.Steps() <= supportSteps {
 				t.findSupport(w, b, partners(b.id))
 			}
 			continue

@@ -61,6 +61,10 @@ func (r *reader) drop(root section) {
 			r.errAt(sub(sec.path, "body"), "[drop] body %q is %s; only a body moved by gravity and contact can be dropped", name, r.s.Bodies[bi].kindName())
 			bi = -1
 		}
+		if bi >= 0 && r.s.jointed(name) {
+			r.errAt(sub(sec.path, "body"), "[drop] body %q is held by a joint; a drop test lets a body fall freely", name)
+			bi = -1
+		}
 	}
 	d.Body = name
 	onto := r.dropSurface(sec, d)
