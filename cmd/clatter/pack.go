@@ -39,7 +39,7 @@ func writePackTables(w io.Writer, s *scene.Scene, sum *report.Summary) bool {
 			fmt.Fprintf(tw, "%s\t%s\t%s\n", b.Name, fmtMark(b.TippedAt), fmtMark(b.SlidAt))
 		}
 		tw.Flush()
-		fmt.Fprintln(w, "the tilt is the support's turn from its starting pose")
+		fmt.Fprintln(w, "the tilt is the support's turn from its starting pose when the motion began")
 		fmt.Fprintln(w)
 		wrote = true
 	}

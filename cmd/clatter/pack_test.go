@@ -105,11 +105,11 @@ func TestExampleTenDrops(t *testing.T) {
 	}
 }
 
-// palletTol: the loads on the tilting pallet tip or slide within 1 degree
-// of statics; the table turns at 1 deg/s, and a tipping carton takes about
-// half a second to turn the 2 degrees of a tips event (and a sliding one
-// to move the 1 mm of a slides event), while the table turns on.
-const palletTol = 1.0
+// palletTol: the loads on the tilting pallet tip or slide within half a
+// degree of statics; the table turns at 1 deg/s, and a carton just past
+// its critical tilt takes a few tenths of a second to leave the onset
+// bounds (1e-3 rad, 0.05 mm) while the table turns on.
+const palletTol = 0.5
 
 func TestExamplePalletTilt(t *testing.T) {
 	dir := t.TempDir()

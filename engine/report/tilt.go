@@ -16,6 +16,18 @@ const (
 	SlideDistance = 1e-3              // m
 )
 
+// The onset of a tip or a slide: the events wait for 2 degrees and 1 mm,
+// so that a rock or a creep does not count, but by then the support has
+// turned on (near the critical tilt a body starts to tip or slide slowly:
+// at 2 deg/s, about 1 degree more before it has turned 2 degrees). The
+// tilt they report is the support's tilt at the onset: the last step at
+// which the body was still within these bounds of where it stood, far
+// above the solver's rounding and creep and far below the events'.
+const (
+	onsetAngle    = 1e-3 // rad
+	onsetDistance = 5e-5 // m
+)
+
 // supportWindow is how long after the start a body may take to find the
 // body it stands on (a part placed a hair above its support settles onto
 // it within a few steps); bodies that touch nothing by then, dropped ones,
@@ -42,6 +54,9 @@ type tiltState struct {
 	foot, up shapes.Vec3
 	tipped   *TiltMark
 	slid     *TiltMark
+	// calmTurn and calmMove are the support's tilt (deg) at the last step
+	// the body was within onsetAngle and onsetDistance of its start.
+	calmTurn, calmMove float64
 }
 
 // TiltTracker makes the tips and slides events.
@@ -96,15 +111,25 @@ func (t *TiltTracker) After(w *engine.World, partners func(engine.BodyID) []engi
 			continue
 		}
 		rel := supportPose(w, b.on).Inverse().Mul(bodyPose(w, b.id))
-		if b.tipped == nil && rotationAngle(rel.Orientation.Mul(b.rel0.Orientation.Conjugate())) >= TipAngle {
-			b.tipped = &TiltMark{Time: now, Tilt: t.tilt(w, b.on)}
-			emit(tiltEvent{kind: "tips", id: b.id, on: b.on, time: now, tiltDeg: b.tipped.Tilt})
+		tilt := t.tilt(w, b.on)
+		if b.tipped == nil {
+			turn := rotationAngle(rel.Orientation.Mul(b.rel0.Orientation.Conjugate()))
+			switch {
+			case turn < onsetAngle:
+				b.calmTurn = tilt
+			case turn >= TipAngle:
+				b.tipped = &TiltMark{Time: now, Tilt: b.calmTurn}
+				emit(tiltEvent{kind: "tips", id: b.id, on: b.on, time: now, tiltDeg: b.tipped.Tilt})
+			}
 		}
 		if b.slid == nil {
 			move := rel.Apply(b.foot).Sub(b.rel0.Apply(b.foot))
-			along := move.Sub(b.up.Mul(move.Dot(b.up)))
-			if along.Len() >= SlideDistance {
-				b.slid = &TiltMark{Time: now, Tilt: t.tilt(w, b.on)}
+			along := move.Sub(b.up.Mul(move.Dot(b.up))).Len()
+			switch {
+			case along < onsetDistance:
+				b.calmMove = tilt
+			case along >= SlideDistance:
+				b.slid = &TiltMark{Time: now, Tilt: b.calmMove}
 				emit(tiltEvent{kind: "slides", id: b.id, on: b.on, time: now, tiltDeg: b.slid.Tilt})
 			}
 		}
