@@ -25,6 +25,7 @@ type bodyInspection struct {
 	Shape            string        `json:"shape"`
 	Pieces           int           `json:"pieces"`
 	Mass             float64       `json:"mass"`
+	Volume           float64       `json:"volume"`
 	CenterOfMass     [3]float64    `json:"center_of_mass"`
 	Inertia          [3][3]float64 `json:"inertia"`
 	PrincipalMoments [3]float64    `json:"principal_moments"`
@@ -104,6 +105,7 @@ func inspectSceneBody(s *scene.Scene, b *scene.Body, file string) (*bodyInspecti
 		out.Pieces = len(c.Pieces)
 	}
 	inertia := func(x float64) float64 { return report.Tidy(u.FromSI(x, scene.MomentOfInertia)) }
+	out.Volume = report.Tidy(u.FromSI(p.Volume, scene.Dim{L: 3}))
 	out.CenterOfMass = tidy3(u.VecFromSI(p.Center, scene.Length))
 	for r := 0; r < 3; r++ {
 		for c := 0; c < 3; c++ {
@@ -172,7 +174,7 @@ func writeBodyInspection(w io.Writer, p *bodyInspection) {
 		shape = fmt.Sprintf("%d pieces", p.Pieces)
 	}
 	fmt.Fprintf(w, "body              %s of %s (%s; lengths in %s, masses in %s)\n", p.Body, p.Scene, shape, L, M)
-	fmt.Fprintf(w, "mass              %.6g %s\n", p.Mass, M)
+	fmt.Fprintf(w, "mass              %.6g %s (volume %.6g %s3)\n", p.Mass, M, p.Volume, L)
 	fmt.Fprintf(w, "centre of mass    %s %s (shape axes, from the shape's origin)\n", fmtVec(p.CenterOfMass[:]), L)
 	fmt.Fprintf(w, "inertia about the centre of mass, shape axes (%s %s2):\n", M, L)
 	for r := 0; r < 3; r++ {
