@@ -52,19 +52,6 @@ func (ft Feature) String() string {
 	return ft.Kind() + " " + strings.Join(s, "-")
 }
 
-// Equal reports whether two features are the same.
-func (ft Feature) Equal(o Feature) bool {
-	if len(ft) != len(o) {
-		return false
-	}
-	for i := range ft {
-		if ft[i] != o[i] {
-			return false
-		}
-	}
-	return true
-}
-
 // ParseFeature reads "face N", "edge N-M" or "corner N-M-K". The faces of
 // an edge must be adjacent (not opposite), those of a corner pairwise so.
 func ParseFeature(s string) (Feature, error) {
@@ -98,8 +85,7 @@ func ParseFeature(s string) (Feature, error) {
 
 // Point is the feature's point on the box of bounds nearest to p: the
 // corner itself, the point of the edge's line nearest p, or the point of
-// the face's plane nearest p. Along returns the directions the feature
-// spans (none for a corner, the edge's direction, or the face's two).
+// the face's plane nearest p.
 func (ft Feature) Point(b shapes.AABB, p shapes.Vec3) shapes.Vec3 {
 	q := p
 	for _, f := range ft {
@@ -111,14 +97,4 @@ func (ft Feature) Point(b shapes.AABB, p shapes.Vec3) shapes.Vec3 {
 		}
 	}
 	return q
-}
-
-// Outward is the sum of the feature's face normals: the direction the
-// feature points, in the body's axes (not unit length).
-func (ft Feature) Outward() shapes.Vec3 {
-	var n shapes.Vec3
-	for _, f := range ft {
-		n = n.Add(f.Normal())
-	}
-	return n
 }

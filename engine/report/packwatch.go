@@ -9,6 +9,9 @@ import (
 type packWatch struct {
 	drop *DropTracker
 	tilt *TiltTracker
+	// partners and emit are made once, so that a step allocates nothing.
+	partners func(engine.BodyID) []engine.BodyID
+	emit     func(tiltEvent)
 }
 
 func (r *runner) watchPackages() {
@@ -18,6 +21,11 @@ func (r *runner) watchPackages() {
 		moving = append(moving, r.ids[i])
 	}
 	r.pack.tilt = NewTiltTracker(r.w, moving)
+	r.pack.partners = r.partners
+	r.pack.emit = func(e tiltEvent) {
+		tilt := clean(e.tiltDeg)
+		r.event(eventJSON{Time: clean(e.time), Event: e.kind, Body: r.name(e.id), On: r.name(e.on), Tilt: &tilt})
+	}
 }
 
 func (p *packWatch) before(w *engine.World) {
@@ -31,10 +39,7 @@ func (r *runner) afterStep() {
 	if r.pack.drop != nil {
 		r.pack.drop.After(r.w)
 	}
-	r.pack.tilt.After(r.w, r.partners, func(e tiltEvent) {
-		tilt := clean(e.tiltDeg)
-		r.event(eventJSON{Time: clean(e.time), Event: e.kind, Body: r.name(e.id), On: r.name(e.on), Tilt: &tilt})
-	})
+	r.pack.tilt.After(r.w, r.pack.partners, r.pack.emit)
 }
 
 // partners lists the bodies id touches.
