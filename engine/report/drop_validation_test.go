@@ -175,6 +175,7 @@ material = "grip"
 	slap := omega1 * 2 * a
 
 	var first, second *engine.Event
+	var struck [2]string // the box's struck features, package numbering
 	gotOmega := math.NaN()
 	for w.Time() < 0.6 && second == nil {
 		if err := w.Step(s.World.Step); err != nil {
@@ -189,9 +190,11 @@ material = "grip"
 				e := e
 				first = &e
 				gotOmega = math.Abs(w.Spin(id)[1])
+				struck[0] = report.Features(w, e)[1].String()
 			case e.Time > first.Time+0.01:
 				e := e
 				second = &e
+				struck[1] = report.Features(w, e)[1].String()
 			}
 		}
 	}
@@ -204,5 +207,10 @@ material = "grip"
 	}
 	if math.Abs(second.Speed-slap) > rotTol*slap {
 		t.Errorf("slap-down speed %.5f m/s, energy gives %.5f", second.Speed, slap)
+	}
+	// Turned about +y, the box's +x end is low: it strikes the edge of
+	// its far end (6) and bottom (3), then slaps down flat on its bottom.
+	if struck != [2]string{"edge 3-6", "face 3"} {
+		t.Errorf("struck %q then %q, want edge 3-6 then face 3", struck[0], struck[1])
 	}
 }
