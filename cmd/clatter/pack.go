@@ -114,7 +114,7 @@ const maxDropRows = 20
 
 // writeDropsTable shows a drop study's drops.csv, if the folder has one,
 // with the caution; it reports whether it did.
-func writeDropsTable(w io.Writer, dir string) bool {
+func writeDropsTable(w io.Writer, dir string, u report.Units) bool {
 	f, err := os.Open(filepath.Join(dir, sweep.DropsFile))
 	if err != nil {
 		return false
@@ -136,7 +136,7 @@ func writeDropsTable(w io.Writer, dir string) bool {
 	}
 	fmt.Fprintln(w, "drops (drops.csv): the struck feature and what struck next, in package face numbering")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "case\ttrial\tstrike\theight\timpact speed\tsecond\tits speed\tpeak spin (rad/s)\tfinal face\tturned over")
+	fmt.Fprintf(tw, "case\ttrial\tstrike\theight (%s)\timpact speed (%s/s)\tsecond\tits speed\tpeak spin (rad/s)\tfinal face\tturned over\n", u.Length, u.Length)
 	for i, r := range rows[1:] {
 		if i == maxDropRows {
 			break

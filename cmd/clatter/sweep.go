@@ -295,7 +295,7 @@ func writeSweepTable(w io.Writer, res *sweep.Result) {
 			files = append(files, sweep.MetaFile)
 		}
 	}
-	writeDropsTable(w, res.Dir)
+	writeDropsTable(w, res.Dir, m.Units)
 	fmt.Fprintf(w, "results  %s: %s\n", res.Dir, strings.Join(files, ", "))
 	fmt.Fprintln(w, "faces are numbered as `clatter inspect` lists them (a box: +x, -x, +y, -y, +z, -z); none means still")
 	fmt.Fprintln(w, "moving, leaning or round. quasi-static is the probability inspect gives for a part let go at rest")

@@ -3,6 +3,7 @@ package scene
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"clatter/engine/pack"
@@ -96,6 +97,9 @@ func (r *reader) drop(root section) {
 		d.Strike = r.tenDropsStrike(sub(sec.path, "number"), b, n, d.Strike)
 	}
 	r.dropConflicts(sec, b)
+	if _, given := r.at([]string{"body", strconv.Itoa(bi), "orientation"}).(map[string]any); given {
+		r.warnAt(sec.path, "[drop] sets the orientation of body %q: the one it gives (line %d) is not used", name, b.Line)
+	}
 	if r.n > 0 {
 		return
 	}
