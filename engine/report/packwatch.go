@@ -1,6 +1,8 @@
 package report
 
 import (
+	"slices"
+
 	"clatter/engine"
 )
 
@@ -12,6 +14,10 @@ type packWatch struct {
 	// partners and emit are made once, so that a step allocates nothing.
 	partners func(engine.BodyID) []engine.BodyID
 	emit     func(tiltEvent)
+	// adj lists, per body, the bodies it touches, built from the touching
+	// pairs once per step (at adjStep) when the tilt watch asks.
+	adj     map[engine.BodyID][]engine.BodyID
+	adjStep int
 }
 
 func (r *runner) watchPackages() {
@@ -42,27 +48,23 @@ func (r *runner) afterStep() {
 	r.pack.tilt.After(r.w, r.pack.partners, r.pack.emit)
 }
 
-// partners lists the bodies id touches.
+// partners lists the bodies id touches, in id order.
 func (r *runner) partners(id engine.BodyID) []engine.BodyID {
-	var out []engine.BodyID
-	for k, on := range r.pairs {
-		if !on {
-			continue
+	p := &r.pack
+	if p.adj == nil || p.adjStep != r.w.Steps() {
+		p.adj, p.adjStep = map[engine.BodyID][]engine.BodyID{}, r.w.Steps()
+		for k, on := range r.pairs {
+			if on {
+				p.adj[k[0]] = append(p.adj[k[0]], k[1])
+				p.adj[k[1]] = append(p.adj[k[1]], k[0])
+			}
 		}
-		switch id {
-		case k[0]:
-			out = append(out, k[1])
-		case k[1]:
-			out = append(out, k[0])
-		}
-	}
-	// Map order is random: sort for a deterministic choice of support.
-	for i := 1; i < len(out); i++ {
-		for j := i; j > 0 && out[j] < out[j-1]; j-- {
-			out[j], out[j-1] = out[j-1], out[j]
+		// Map order is random: sort, for a deterministic choice of support.
+		for _, l := range p.adj {
+			slices.Sort(l)
 		}
 	}
-	return out
+	return p.adj[id]
 }
 
 // impactFeatures names the struck features of an impact's two bodies and
