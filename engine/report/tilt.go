@@ -54,9 +54,9 @@ type tiltState struct {
 	foot, up shapes.Vec3
 	tipped   *TiltMark
 	slid     *TiltMark
-	// calmTurn and calmMove are the support's tilt (deg) at the last step
-	// the body was within onsetAngle and onsetDistance of its start.
-	calmTurn, calmMove float64
+	// calmTurn and calmMove are the support's orientation at the last
+	// step the body was within onsetAngle and onsetDistance of its start.
+	calmTurn, calmMove shapes.Quat
 }
 
 // TiltTracker makes the tips and slides events.
@@ -85,10 +85,10 @@ func NewTiltTracker(w *engine.World, moving []engine.BodyID) *TiltTracker {
 	return t
 }
 
-// tilt is the support's rotation from its starting pose, degrees.
-func (t *TiltTracker) tilt(w *engine.World, on engine.BodyID) float64 {
-	d := w.Orientation(on).Mul(t.start[on].Conjugate())
-	return rotationAngle(d) * 180 / math.Pi
+// tilt is the rotation of support on, turned to q, from its starting
+// pose, degrees.
+func (t *TiltTracker) tilt(on engine.BodyID, q shapes.Quat) float64 {
+	return rotationAngle(q.Mul(t.start[on].Conjugate())) * 180 / math.Pi
 }
 
 func rotationAngle(q shapes.Quat) float64 {
@@ -107,18 +107,18 @@ func (t *TiltTracker) After(w *engine.World, partners func(engine.BodyID) []engi
 			}
 			continue
 		}
-		if b.tipped != nil && b.slid != nil {
+		if b.tipped != nil && b.slid != nil || t.still(w, b) {
 			continue
 		}
+		sq := w.Orientation(b.on)
 		rel := supportPose(w, b.on).Inverse().Mul(bodyPose(w, b.id))
-		tilt := t.tilt(w, b.on)
 		if b.tipped == nil {
 			turn := rotationAngle(rel.Orientation.Mul(b.rel0.Orientation.Conjugate()))
 			switch {
 			case turn < onsetAngle:
-				b.calmTurn = tilt
+				b.calmTurn = sq
 			case turn >= TipAngle:
-				b.tipped = &TiltMark{Time: now, Tilt: b.calmTurn}
+				b.tipped = &TiltMark{Time: now, Tilt: t.tilt(b.on, b.calmTurn)}
 				emit(tiltEvent{kind: "tips", id: b.id, on: b.on, time: now, tiltDeg: b.tipped.Tilt})
 			}
 		}
@@ -127,13 +127,19 @@ func (t *TiltTracker) After(w *engine.World, partners func(engine.BodyID) []engi
 			along := move.Sub(b.up.Mul(move.Dot(b.up))).Len()
 			switch {
 			case along < onsetDistance:
-				b.calmMove = tilt
+				b.calmMove = sq
 			case along >= SlideDistance:
-				b.slid = &TiltMark{Time: now, Tilt: b.calmMove}
+				b.slid = &TiltMark{Time: now, Tilt: t.tilt(b.on, b.calmMove)}
 				emit(tiltEvent{kind: "slides", id: b.id, on: b.on, time: now, tiltDeg: b.slid.Tilt})
 			}
 		}
 	}
+}
+
+// still reports whether neither a body nor its support can have moved in
+// the last step: the body asleep on a static or sleeping support.
+func (t *TiltTracker) still(w *engine.World, b *tiltState) bool {
+	return !w.Awake(b.id) && (w.KindOf(b.on) == engine.Static || !w.Awake(b.on))
 }
 
 // findSupport takes as a body's support the body it touches that lies
@@ -158,6 +164,7 @@ func (t *TiltTracker) findSupport(w *engine.World, b *tiltState, touching []engi
 		}
 	}
 	b.on, b.found = best, true
+	b.calmTurn, b.calmMove = w.Orientation(best), w.Orientation(best)
 	sp := supportPose(w, best)
 	b.rel0 = sp.Inverse().Mul(bodyPose(w, b.id))
 	// The foot: the point of the body's surface below its centre of mass
