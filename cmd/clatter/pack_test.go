@@ -165,7 +165,9 @@ func TestInspectSceneBody(t *testing.T) {
 	// at z = 111, equal density: the centre of mass is their
 	// volume-weighted mean height, (3 x 12e6 x 50 + 26.4e6 x 111) / 62.4e6
 	// = 75.8077 mm.
-	if p.Pieces != 4 || math.Abs(p.CenterOfMass[2]-75.8077) > 1e-4 || p.Mass != 25 {
+	// printedTol: the expected value is written to 6 significant digits.
+	const printedTol = 1e-4 // mm
+	if p.Pieces != 4 || math.Abs(p.CenterOfMass[2]-75.8077) > printedTol || p.Mass != 25 {
 		t.Errorf("pallet: %d pieces, mass %g, centre of mass %v", p.Pieces, p.Mass, p.CenterOfMass)
 	}
 	if len(p.PackageFaces) != 6 || p.PackageFaces[2].Name != "bottom" {

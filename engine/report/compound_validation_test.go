@@ -53,7 +53,9 @@ position = [0, 0, 140]
 	// Centre of mass of the two pieces (volumes 200 x 50 x 20 at z = 50
 	// and 40 x 50 x 80 at z = 0): (200000 x 50) / 360000 = 27.78 mm.
 	comZ := 0.05 * 200e-6 / 360e-6
-	if got := tee.Props.Center[2]; math.Abs(got-comZ) > 1e-12 {
+	// sumTol: a weighted mean of two exact products, rounding only.
+	const sumTol = 1e-12 // m
+	if got := tee.Props.Center[2]; math.Abs(got-comZ) > sumTol {
 		t.Fatalf("centre of mass of the tee at z = %g m, the weighted mean of its pieces gives %g", got, comZ)
 	}
 	sum, err := report.Run(context.Background(), s, report.Options{})

@@ -154,7 +154,7 @@ drops = "ten"
 		if err != nil {
 			t.Fatal(err)
 		}
-		if got := c.Drop.Strike.String(); got != w || math.Abs(c.Drop.Height-0.61) > 1e-15 {
+		if got := c.Drop.Strike.String(); got != w || !near(c.Drop.Height, 0.61) {
 			t.Errorf("drop %d: %s from %g m, want %s from 0.61 m", n+1, got, c.Drop.Height, w)
 		}
 	}
