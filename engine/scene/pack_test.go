@@ -1,7 +1,6 @@
 package scene
 
 import (
-	"math"
 	"strings"
 	"testing"
 )
