@@ -51,7 +51,9 @@ position = [0, 0, 1]
 }
 
 // A centre of mass given without an inertia moves the uniform solid's
-// inertia to it by the parallel-axis theorem: I + m (|d|^2 E - d d^T).
+// inertia to it by the parallel-axis theorem, I + m (|d|^2 E - d d^T)
+// (Meriam and Kraige, Dynamics, app. B), from the box's own m (b^2 +
+// c^2) / 12 (any statics text's table of inertias).
 func TestCentreOfMassMovesTheInertia(t *testing.T) {
 	s, err := Parse([]byte(`units = { length = "mm", mass = "kg" }`+packBase+`
 [[body]]
