@@ -108,6 +108,10 @@ func inspectPart(e *env, args []string) int {
 	if *bodyName != "" && len(pos) == 1 {
 		return inspectBody(e, pos[0], *bodyName, *asJSON)
 	}
+	if len(pos) == 1 && strings.HasSuffix(strings.ToLower(pos[0]), ".toml") {
+		e.errorf("inspect: %s is a scene file: name one of its bodies, e.g. clatter inspect %s --body NAME", pos[0], pos[0])
+		return exitBad
+	}
 	if len(pos) != 1 {
 		e.errorf("inspect: give one STL file, e.g. clatter inspect testdata/parts/bracket.stl --units mm (got %d arguments)", len(pos))
 		return exitBad

@@ -226,3 +226,10 @@ center_of_mass = [0, 0, 0.6]
 		}
 	}
 }
+
+func TestInspectSceneWithoutBody(t *testing.T) {
+	_, errs, code := clatter(t, "inspect", "../../testdata/packaging/pallet-tilt.toml")
+	if code != exitBad || !strings.Contains(errs, "--body NAME") {
+		t.Errorf("a scene without --body: exit %d, %s", code, errs)
+	}
+}
