@@ -278,7 +278,7 @@ func (w *World) impactEvents() {
 			a, b := BodyID(p.A), BodyID(p.B)
 			w.b.maxHit[a] = math.Max(w.b.maxHit[a], p.ImpactSpeed)
 			w.b.maxHit[b] = math.Max(w.b.maxHit[b], p.ImpactSpeed)
-			w.emit(Event{Kind: Impact, Time: w.time, A: a, B: b, Point: p.Position, Speed: p.ImpactSpeed, Impulse: impulse})
+			w.emit(Event{Kind: Impact, Time: w.time, A: a, B: b, Point: p.Position, Normal: p.Normal, Speed: p.ImpactSpeed, Impulse: impulse})
 		}
 		i = j
 	}

@@ -30,8 +30,10 @@ type Event struct {
 	Kind EventKind
 	Time float64
 	A, B BodyID
-	// Point, Speed (normal approach speed, m/s) and Impulse (N s) of an impact.
+	// Point, Speed (normal approach speed, m/s) and Impulse (N s) of an
+	// impact; Normal is the contact normal there, unit, from A toward B.
 	Point   shapes.Vec3
+	Normal  shapes.Vec3
 	Speed   float64
 	Impulse float64
 }

@@ -87,7 +87,7 @@ func TestBadInput(t *testing.T) {
 		{name: "mass on a plane", scene: "[[body]]\nname = \"floor\"\nshape = { plane = [0, 0, 1] }\nmass = 3\n" + part,
 			want: `body "floor": a static body does not move, so it takes no mass`},
 		{name: "two shapes", scene: floor + "[[body]]\nname = \"cap\"\nshape = { box = [1, 1, 1], sphere = 1 }\ndensity = 1\n",
-			want: `body "cap": shape must have exactly one of box, sphere, cylinder, capsule, plane and mesh, got 2`},
+			want: `body "cap": shape must have exactly one of box, sphere, cylinder, capsule, plane, mesh and pieces, got 2`},
 		{name: "unknown shape", scene: floor + "[[body]]\nname = \"cap\"\nshape = { sphre = 1 }\ndensity = 1\n",
 			want: `unknown key "sphre" in the shape of body "cap"; did you mean "sphere"?`},
 		{name: "no name", scene: floor + "[[body]]\nshape = { sphere = 1 }\ndensity = 1\n", want: `scene.toml:4: [[body]] number 2: name is missing`},

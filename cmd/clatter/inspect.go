@@ -17,7 +17,7 @@ import (
 var cmdInspect = &command{
 	name:    "inspect",
 	summary: "mass properties and resting faces of an STL part",
-	usage:   "clatter inspect PART.stl [--units mm] [--density VALUE] [--json] [--quiet]",
+	usage:   "clatter inspect PART.stl [--units mm] [--density VALUE] [--json] [--quiet]\n       clatter inspect SCENE.toml --body NAME [--json]",
 	help: `
 Reads an STL part (binary or ASCII), welds it, and prints its mass
 properties (volume, mass, centre of mass, inertia about the centre of mass
@@ -37,10 +37,20 @@ Lengths are in the --units of the file, masses in kg, inertia in kg
 times the length unit squared, tip angles in degrees. A mesh that is not
 closed gets the mass properties of its convex hull, with a warning.
 
+With --body NAME, inspect reads a scene file instead and prints that
+moving body's mass properties as the simulation uses them (its
+center_of_mass and inertia if the scene gives them; a shape of pieces
+combined by the parallel-axis theorem), in the scene's units; its
+package faces, numbered as the drop-test standards number a package's
+faces (1 top +z, 2 right side -y, 3 bottom -z, 4 left side +y, 5 near
+end -x, 6 far end +x, on its box of bounds); and the resting faces of
+its hull.
+
 Options:
   --units UNIT     length unit of the file's numbers: mm (default), cm, m, in
   --density VALUE  a number in kg/m3, or a value with its unit such as
                    "1.05 g/cm3" (default 1000 kg/m3)
+  --body NAME      inspect this body of a scene file
   --json           print the result as JSON
   --quiet, -q      no informational messages`,
 }
@@ -56,6 +66,9 @@ type inspectFace struct {
 	Probability float64    `json:"probability"`
 	RollsTo     int        `json:"rolls_to"`
 	Height      float64    `json:"height"`
+	// PackageFace is the drop-test number of the face of the box of
+	// bounds this face lies on (inspect --body only).
+	PackageFace *int `json:"package_face,omitempty"`
 }
 
 type inspectJSON struct {
@@ -87,9 +100,17 @@ func inspectPart(e *env, args []string) int {
 	unitName := fs.String("units", "mm", "")
 	densityText := fs.String("density", "", "")
 	asJSON := fs.Bool("json", false, "")
+	bodyName := fs.String("body", "", "")
 	pos, code := parse(e, cmdInspect, fs, args)
 	if code >= 0 {
 		return code
+	}
+	if *bodyName != "" && len(pos) == 1 {
+		return inspectBody(e, pos[0], *bodyName, *asJSON)
+	}
+	if len(pos) == 1 && strings.HasSuffix(strings.ToLower(pos[0]), ".toml") {
+		e.errorf("inspect: %s is a scene file: name one of its bodies, e.g. clatter inspect %s --body NAME", pos[0], pos[0])
+		return exitBad
 	}
 	if len(pos) != 1 {
 		e.errorf("inspect: give one STL file, e.g. clatter inspect testdata/parts/bracket.stl --units mm (got %d arguments)", len(pos))

@@ -25,9 +25,11 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
   summary.json     final pose, velocity, resting face and largest impact of
                    every moving body; energy and momentum at start and end
   trajectory.csv   time,body,x,y,z,qw,qx,qy,qz,vx,vy,vz,wx,wy,wz: a row per
-                   moving body every --sample seconds (default 0.01) and at the end
-  events.jsonl     impacts, sleep and wake, settling and errors, one JSON
-                   object a line
+                   moving or driven body every --sample seconds (default
+                   0.01) and at the end
+  events.jsonl     impacts (with the struck face, edge or corner of each
+                   body), sleep and wake, tips and slides, settling and
+                   errors, one JSON object a line
   joints.csv       for a scene with joints: time,joint,fx,fy,fz,tx,ty,tz,
                    position,speed,effort, a row per joint every sample: the
                    force and torque the joint applied to its first body, its
@@ -42,6 +44,11 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
 Everything is in the scene's units (units = { length, mass }), time in s,
 angles in degrees, angular velocity in rad/s, energy in J. A table of the
 final state goes to stdout; --json prints summary.json there instead.
+
+A scene with a [drop] (a drop test: body, strike, height, onto) adds the
+drop's report to summary.json and a table of its impacts to stdout, in
+the face numbering of the drop-test standards (1 top, 2 right side, 3
+bottom, 4 left side, 5 near end, 6 far end).
 
 A [sweep] section is read and checked, and ignored: clatter sweep runs it.
 
@@ -196,6 +203,7 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string,
 		tw.Flush()
 		fmt.Fprintln(w)
 	}
+	writePackTables(w, s, sum)
 	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
 	if dir != "" {
 		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(files, ", "))

@@ -44,6 +44,11 @@ It writes into DIR (default clatter-sweep):
   *.png        the fraction of each resting face against each varied key,
                and the distribution of the times to settle
   failures.csv trials whose simulation failed, if any
+  drops.csv    for a scene with a [drop], a row per trial: case,trial, the
+               varied values, strike,height,impact_speed,second_feature,
+               secondary_impact_speed,peak_spin,final_face,turned_over;
+               drops = "ten" in [sweep] makes the ten drops of the
+               parcel-test sequence its cases (the varied key drop.number)
 
 Everything is in the scene's units; resting faces are numbered as
 clatter inspect lists them. A table of the cases goes to stdout.
@@ -318,6 +323,7 @@ func writeSweepTable(w io.Writer, res *sweep.Result) {
 			files = append(files, sweep.MetaFile)
 		}
 	}
+	writeDropsTable(w, res.Dir, m.Units)
 	fmt.Fprintf(w, "results  %s: %s\n", res.Dir, strings.Join(files, ", "))
 	fmt.Fprintln(w, "faces are numbered as `clatter inspect` lists them (a box: +x, -x, +y, -y, +z, -z); none means still")
 	fmt.Fprintln(w, "moving, leaning or round. quasi-static is the probability inspect gives for a part let go at rest")

@@ -91,6 +91,9 @@ type runner struct {
 	prev     []bodyState
 	prevT    float64
 	prevN    int
+	// traced are the bodies trajectory.csv follows: moving and driven.
+	traced []int
+	pack   packWatch
 }
 
 // Run simulates the scene to its duration, or until every moving body has
@@ -115,7 +118,11 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		if !b.Static {
 			r.dyn = append(r.dyn, i)
 		}
+		if !b.Static || b.Driven {
+			r.traced = append(r.traced, i)
+		}
 	}
+	r.watchPackages()
 	var files []*os.File
 	closeAll := func() error {
 		var first error
@@ -184,6 +191,7 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			break
 		}
 		r.keep()
+		r.pack.before(w)
 		if err := w.Step(dt); err != nil {
 			r.events()
 			msg := eventJSON{Time: clean(w.Time()), Event: "error", Message: err.Error()}
@@ -200,6 +208,7 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		}
 		r.events()
 		r.peaks()
+		r.afterStep()
 		t := w.Time()
 		if t >= next-1e-9*opt.Sample {
 			r.sample(t)
@@ -287,8 +296,10 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 			RestingFace:    r.restingFace(i),
 			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
 		}
+		b.TippedAt, b.SlidAt = r.tiltMarks(id)
 		sum.Bodies = append(sum.Bodies, b)
 	}
+	sum.Drop = r.dropReport()
 	sum.Energy.Initial = clean(sum.Energy.Initial)
 	sum.Energy.Final = clean(w.Energy())
 	sum.Momentum.Linear.Initial = clean3(sum.Momentum.Linear.Initial)
@@ -392,7 +403,7 @@ func (r *runner) sample(t float64) {
 		return
 	}
 	w := r.w
-	for _, i := range r.dyn {
+	for _, i := range r.traced {
 		id := r.ids[i]
 		p := r.u.VecFromSI(w.Position(id), scene.Length)
 		q := w.Orientation(id)
@@ -484,6 +495,12 @@ type eventJSON struct {
 	NormalSpeed *float64    `json:"normal_speed,omitempty"`
 	Impulse     *float64    `json:"impulse,omitempty"`
 	Message     string      `json:"message,omitempty"`
+	// Features of an impact: each body's struck face, edge or corner in
+	// package numbering, null for a static body (see package pack).
+	Features []*string `json:"features,omitempty"`
+	// On and Tilt of a tips or slides event: the support and its tilt (deg).
+	On   string   `json:"on,omitempty"`
+	Tilt *float64 `json:"tilt,omitempty"`
 }
 
 // events takes the world's events of the last step: it writes impacts,
@@ -511,7 +528,7 @@ func (r *runner) events() {
 			p := clean3(r.u.VecFromSI(e.Point, scene.Length))
 			sp := clean(r.u.FromSI(e.Speed, scene.Speed))
 			im := clean(r.u.FromSI(e.Impulse, scene.Impulse))
-			r.event(eventJSON{Time: clean(e.Time), Event: "impact", Bodies: []string{r.name(e.A), r.name(e.B)}, Point: &p, NormalSpeed: &sp, Impulse: &im})
+			r.event(eventJSON{Time: clean(e.Time), Event: "impact", Bodies: []string{r.name(e.A), r.name(e.B)}, Point: &p, NormalSpeed: &sp, Impulse: &im, Features: r.impactFeatures(e)})
 		case engine.Sleep, engine.Wake:
 			r.event(eventJSON{Time: clean(e.Time), Event: e.Kind.String(), Body: r.name(e.A)})
 		case engine.Settled:

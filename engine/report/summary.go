@@ -25,6 +25,8 @@ type Summary struct {
 	// Joints are the scene's joints at the end, in file order (left out
 	// when there are none).
 	Joints []Joint `json:"joints,omitempty"`
+	// Drop reports a [drop] (left out without one).
+	Drop *Drop `json:"drop,omitempty"`
 	// Error says why the run stopped early; empty for a completed run.
 	Error string `json:"error,omitempty"`
 }
@@ -60,6 +62,11 @@ type Body struct {
 	RestingFace *int `json:"resting_face"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`
+	// TippedAt and SlidAt are when the body first turned 2 degrees, or
+	// moved 1 mm, relative to the body it stood on at the start, with that
+	// support's tilt then (deg); null if it did not, or stood on nothing.
+	TippedAt *TiltMark `json:"tipped_at"`
+	SlidAt   *TiltMark `json:"slid_at"`
 }
 
 // Joint is the state of one joint at the end of a run and the largest

@@ -16,6 +16,8 @@ func FuzzScene(f *testing.F) {
 	files, _ := filepath.Glob("../../testdata/scenes/*.toml")
 	mechs, _ := filepath.Glob("../../testdata/mechanisms/*.toml")
 	files = append(files, mechs...)
+	packs, _ := filepath.Glob("../../testdata/packaging/*.toml")
+	files = append(files, packs...)
 	for _, p := range files {
 		if b, err := os.ReadFile(p); err == nil {
 			f.Add(b)

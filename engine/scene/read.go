@@ -251,7 +251,7 @@ func (s *Scene) read() (*Scene, error) {
 	r := &reader{s: s}
 	s.Units = SI
 	root := section{m: s.raw, name: "the scene's top level"}
-	r.keys(root, "units", "world", "material", "pair", "body", "joint", "drive", "kick", "sweep")
+	r.keys(root, "units", "world", "material", "pair", "body", "joint", "drive", "kick", "sweep", "drop")
 	r.units(root)
 	r.world(root)
 	r.materials(root)
@@ -261,6 +261,7 @@ func (s *Scene) read() (*Scene, error) {
 	r.drives(root)
 	r.kicks(root)
 	r.sweep(root)
+	r.drop(root)
 	if r.n == 0 {
 		r.checkStep()
 	}
@@ -539,7 +540,7 @@ func (r *reader) pairs(root section) {
 	}
 }
 
-var shapeKinds = []string{"box", "sphere", "cylinder", "capsule", "plane", "mesh"}
+var shapeKinds = []string{"box", "sphere", "cylinder", "capsule", "plane", "mesh", "pieces"}
 
 func (r *reader) bodies(root section) {
 	if _, ok := root.m["body"]; !ok {
@@ -584,7 +585,7 @@ func (r *reader) body(i int, m map[string]any) (Body, bool) {
 	sec.name = fmt.Sprintf("body %q", name)
 	sec.pre = fmt.Sprintf("body %q: ", name)
 	nerr := r.n
-	r.keys(sec, "name", "shape", "static", "driven", "material", "density", "mass", "position", "orientation", "velocity", "spin")
+	r.keys(sec, "name", "shape", "static", "driven", "material", "density", "mass", "position", "orientation", "velocity", "spin", "center_of_mass", "inertia")
 
 	static, staticGiven := r.boolean(sec, "static", false)
 	driven, drivenGiven := r.boolean(sec, "driven", false)
@@ -624,7 +625,7 @@ func (r *reader) body(i int, m map[string]any) (Body, bool) {
 		case !static:
 			why = "remove it (planes and meshes kept as triangles are always static)"
 		}
-		for _, k := range []string{"density", "mass", "velocity", "spin"} {
+		for _, k := range []string{"density", "mass", "velocity", "spin", "center_of_mass", "inertia"} {
 			if _, given := m[k]; given {
 				r.errAt(sub(path, k), "%s%s, so it takes no %s; %s", sec.pre, what, k, why)
 			}
@@ -650,6 +651,7 @@ func (r *reader) body(i int, m map[string]any) (Body, bool) {
 	}
 	if !b.Static {
 		r.massProps(&b, sub(path, "shape"), sec.pre)
+		r.measured(sec, &b)
 	}
 	return b, r.n == nerr
 }
@@ -660,6 +662,8 @@ func (r *reader) massProps(b *Body, path []string, pre string) {
 	switch {
 	case b.Part != nil:
 		unit = b.Part.Mass(1)
+	case b.Kind == "pieces":
+		unit = b.Shape.(*shapes.Compound).Mass(1)
 	default:
 		c, ok := b.Shape.(shapes.Convex)
 		if !ok {
@@ -774,7 +778,7 @@ func (r *reader) shape(sec section, b *Body, staticGiven bool) {
 		if len(kinds) == 0 && unknown > 0 {
 			return // an unknown key was already reported
 		}
-		r.errAt(sec.path, "%sshape must have exactly one of box, sphere, cylinder, capsule, plane and mesh, got %d", r.bodyPre(b), len(kinds))
+		r.errAt(sec.path, "%sshape must have exactly one of box, sphere, cylinder, capsule, plane, mesh and pieces, got %d", r.bodyPre(b), len(kinds))
 		return
 	}
 	k := kinds[0]
@@ -833,6 +837,8 @@ func (r *reader) shape(sec section, b *Body, staticGiven bool) {
 		b.Shape = shapes.Plane{Normal: n.Normalize()}
 	case "mesh":
 		r.meshShape(sec, b, staticGiven)
+	case "pieces":
+		r.pieces(sec, b)
 	}
 }
 

@@ -34,6 +34,8 @@ type Scene struct {
 	Drives []Drive
 	// Sweep is the study section, or nil when the scene has none.
 	Sweep *Sweep
+	// Drop is the [drop] section, or nil.
+	Drop *Drop
 	// Warnings are things that are allowed but doubtful, one sentence each,
 	// with file and line.
 	Warnings []string
@@ -209,6 +211,9 @@ func (s *Scene) With(key string, v float64) (*Scene, error) {
 		return nil, Errors{{File: s.File, Line: 1, Msg: fmt.Sprintf("value for %q must be a finite number, got %g", key, v)}}
 	}
 	raw := deepCopy(s.raw).(map[string]any)
+	if key == DropNumberKey {
+		addDropNumber(raw)
+	}
 	p, err := resolveKey(raw, key)
 	if err != nil {
 		return nil, Errors{{File: s.File, Line: 1, Msg: err.Error()}}

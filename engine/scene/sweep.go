@@ -33,7 +33,10 @@ type Sweep struct {
 	// GroupFaces asks that the statistics count faces equal by symmetry as
 	// one (faces with the same area, height and resting probability).
 	GroupFaces bool
-	Line       int
+	// Drops is "ten" for the ten-drop sequence of a [drop] (its cases
+	// vary drop.number), else empty.
+	Drops string
+	Line  int
 }
 
 // Range is a uniform draw from [Low, High] for one body, in SI.
@@ -81,7 +84,7 @@ func (r *reader) sweep(root section) {
 	if !ok {
 		return
 	}
-	r.keys(sec, "trials", "seed", "vary", "randomize", "group_faces")
+	r.keys(sec, "trials", "seed", "vary", "randomize", "group_faces", "drops")
 	sw := &Sweep{Trials: 1, Seed: DefaultSeed, Line: r.s.lines.line(sec.path)}
 	if t, ok := r.integer(sec, "trials", 1); ok {
 		if t < 1 || t > maxTrials {

@@ -98,6 +98,11 @@ func finish(out string, meta *Meta, srcs []string) (*Result, error) {
 	if meta.TrialsFailed > 0 {
 		files = append(files, FailuresFile)
 	}
+	if has, err := finishDrops(out, meta, srcs, lo, hi); err != nil {
+		return nil, err
+	} else if has {
+		files = append(files, DropsFile)
+	}
 	res.Rows = st.rows()
 	if err := writeAtomic(filepath.Join(out, CasesFile), casesCSV(meta, res.Rows)); err != nil {
 		return nil, fmt.Errorf("cannot write %s: %w", CasesFile, err)

@@ -113,6 +113,8 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 	defer trials.close()
 	failures := &appendLog{path: filepath.Join(opt.Dir, FailuresFile), header: failuresHeader}
 	defer failures.close()
+	drops := &appendLog{path: filepath.Join(opt.Dir, DropsFile), header: meta.dropsHeader()}
+	defer drops.close()
 
 	todo := info.Total - info.Skipped
 	ctx, cancel := context.WithCancel(ctx)
@@ -177,6 +179,12 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 			}
 			info.Failed++
 		}
+		if r.drop != nil {
+			if werr = drops.write(r.drop); werr != nil {
+				cancel()
+				continue
+			}
+		}
 		if werr = trials.write(r.rows); werr != nil {
 			cancel()
 			continue
@@ -195,6 +203,9 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 		werr = err
 	}
 	if err := failures.close(); err != nil && werr == nil {
+		werr = err
+	}
+	if err := drops.close(); err != nil && werr == nil {
 		werr = err
 	}
 	switch {
@@ -259,6 +270,9 @@ func (st *Study) prepare(opt Options, meta *Meta, info *RunInfo, lo, hi int64) (
 			return nil, badf("cannot resume from %s: %v", fpath, err)
 		}
 	}
+	if err := recoverDrops(dir, meta); err != nil {
+		return nil, badf("cannot resume from %s: %v", filepath.Join(dir, DropsFile), err)
+	}
 	return done, nil
 }
 
@@ -301,7 +315,7 @@ func removeTemps(dir string) {
 	}
 	for _, e := range ents {
 		if n := e.Name(); strings.HasSuffix(n, ".tmp") && (strings.HasPrefix(n, ".sort-") || strings.HasPrefix(n, "trials.csv") ||
-			strings.HasPrefix(n, "cases.csv") || strings.HasPrefix(n, "failures.csv") || strings.HasPrefix(n, "sweep.json") || strings.HasSuffix(n, ".png.tmp")) {
+			strings.HasPrefix(n, "cases.csv") || strings.HasPrefix(n, "failures.csv") || strings.HasPrefix(n, DropsFile) || strings.HasPrefix(n, "sweep.json") || strings.HasSuffix(n, ".png.tmp")) {
 			os.Remove(filepath.Join(dir, n))
 		}
 	}

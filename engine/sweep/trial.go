@@ -36,6 +36,7 @@ type result struct {
 	g       int64
 	rows    []byte
 	failure []byte
+	drop    []byte // the drops.csv row of a study with a [drop]
 }
 
 // useCase reads the scene of case c unless it is the current one.
@@ -79,7 +80,7 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	sc.Bodies = wk.bodies
 	st.drawStart(trialRand(seed), &sc)
 	cfg := sc.Config()
-	cfg.NoEvents = true
+	cfg.NoEvents = sc.Drop == nil // a drop's report reads the impacts
 	w, ids, err := sc.BuildWith(cfg)
 	if err != nil {
 		return result{}, fmt.Errorf("case %d (%s), trial %d: %w", c, st.describe(c), t, err)
@@ -103,6 +104,7 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	dt := sc.World.Step
 	steps := int(math.Ceil(sc.World.Duration/dt - 1e-9))
 	var stepErr error
+	drop := watchDrop(&sc, w, ids)
 	for s := 0; s < steps; s++ {
 		if s%ctxEvery == ctxEvery-1 && ctx.Err() != nil {
 			return result{}, ctx.Err()
@@ -112,10 +114,12 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 			wk.awake[k] = w.Awake(id)
 			wk.last[k] = shapes.Pose{Position: w.Position(id), Orientation: w.Orientation(id)}
 		}
+		drop.before(w)
 		if err := w.Step(dt); err != nil {
 			stepErr = err
 			break
 		}
+		drop.after(w)
 		// A body asleep since before this step keeps what it touched then
 		// (engine.World.Touching with NoEvents).
 		for k, i := range st.dyn {
@@ -127,7 +131,11 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 			break
 		}
 	}
-	return wk.rows(g, c, t, seed, &sc, w, ids, stepErr), nil
+	res := wk.rows(g, c, t, seed, &sc, w, ids, stepErr)
+	if drop.t != nil {
+		res.drop = drop.row(c, t, wk.values, w, sc.Units, w.Touching(drop.t.Body()), stepErr != nil)
+	}
+	return res, nil
 }
 
 func resize(b []bool, n int) []bool {
