@@ -99,6 +99,7 @@ type World struct {
 
 	collision collisionState
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
+	gates     gateState  // counting gates (gate.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -234,6 +235,7 @@ func (w *World) step(dt float64) error {
 		return err
 	}
 	w.integrate(dt)
+	w.countGates(dt) // gate.go
 	w.time += dt
 	w.steps++
 	w.updateRest(dt)

@@ -87,6 +87,13 @@ type runner struct {
 	prev     []bodyState
 	prevT    float64
 	prevN    int
+	// index maps a body id to its index in s.Bodies; gates counts the
+	// gate crossings (gates.go), drives measures the vibration drives
+	// (drives.go).
+	index  []int
+	gates  *gateCounter
+	gt     *bufio.Writer
+	drives []driveMeter
 }
 
 // Run simulates the scene to its duration, or until every moving body has
@@ -107,15 +114,21 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	}
 	r := &runner{s: s, w: w, ids: ids, opt: opt, u: s.Units, pairs: map[[2]engine.BodyID]bool{},
 		touching: make([]int, w.NumBodies()), faces: map[int][]resting.Face{}, lastRow: math.NaN()}
+	r.index = make([]int, w.NumBodies())
 	for i, b := range s.Bodies {
+		r.index[ids[i]] = i
 		if !b.Static {
 			r.dyn = append(r.dyn, i)
 		}
 	}
+	r.drives = newDriveMeters(s, w, ids)
+	if len(s.Gates) > 0 {
+		r.gates = newGateCounter(len(s.Gates))
+	}
 	var files []*os.File
 	closeAll := func() error {
 		var first error
-		for _, bw := range []*bufio.Writer{r.traj, r.ev, r.jt} {
+		for _, bw := range []*bufio.Writer{r.traj, r.ev, r.jt, r.gt} {
 			if bw != nil {
 				if err := bw.Flush(); err != nil && first == nil {
 					first = err
@@ -145,6 +158,12 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 				bw   **bufio.Writer
 			}{JointsFile, &r.jt})
 		}
+		if r.gates != nil {
+			outs = append(outs, struct {
+				name string
+				bw   **bufio.Writer
+			}{GatesFile, &r.gt})
+		}
 		for _, f := range outs {
 			fh, err := os.Create(filepath.Join(opt.Dir, f.name))
 			if err != nil {
@@ -156,6 +175,10 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		r.traj.WriteString(TrajectoryHeader + "\n")
 		if r.jt != nil {
 			r.jt.WriteString(JointsHeader + "\n")
+		}
+		if r.gt != nil {
+			r.gt.WriteString(GatesHeader + "\n")
+			r.gates.out = r.gt
 		}
 	}
 	r.peak = make([][2]float64, len(s.Joints))
@@ -196,6 +219,8 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		}
 		r.events()
 		r.peaks()
+		r.crossings() // gates.go
+		r.convey()    // drives.go
 		t := w.Time()
 		if t >= next-1e-9*opt.Sample {
 			r.sample(t)
@@ -281,10 +306,13 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 			Velocity:       clean3(r.u.VecFromSI(w.Velocity(id), scene.Speed)),
 			Spin:           clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
 			RestingFace:    r.restingFace(i),
+			FaceDown:       faceOrNil(BodyFaceDown(w, id, r.facesOf(i))),
 			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
 		}
 		sum.Bodies = append(sum.Bodies, b)
 	}
+	sum.Gates = r.gateSummary(sum.Time)
+	sum.Drives = r.driveSummary()
 	sum.Energy.Initial = clean(sum.Energy.Initial)
 	sum.Energy.Final = clean(w.Energy())
 	sum.Momentum.Linear.Initial = clean3(sum.Momentum.Linear.Initial)
@@ -336,12 +364,10 @@ func (r *runner) jointMotion(j engine.JointID, k engine.JointKind) (pos, speed *
 // restingFace returns the face body i rests on, or nil (see RestingFace).
 func (r *runner) restingFace(i int) *int {
 	id := r.ids[i]
-	faces, ok := r.faces[i]
-	if !ok {
-		faces = Faces(r.w, id)
-		r.faces[i] = faces
-	}
-	f := RestingFace(r.w, id, faces, r.touching[id] > 0)
+	return faceOrNil(RestingFace(r.w, id, r.facesOf(i), r.touching[id] > 0))
+}
+
+func faceOrNil(f int) *int {
 	if f < 0 {
 		return nil
 	}

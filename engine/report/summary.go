@@ -25,6 +25,10 @@ type Summary struct {
 	// Joints are the scene's joints at the end, in file order (left out
 	// when there are none).
 	Joints []Joint `json:"joints,omitempty"`
+	// Gates are the counting gates in file order, Drives the vibration
+	// drives (left out when there are none).
+	Gates  []Gate  `json:"gates,omitempty"`
+	Drives []Drive `json:"drives,omitempty"`
 	// Error says why the run stopped early; empty for a completed run.
 	Error string `json:"error,omitempty"`
 }
@@ -58,6 +62,10 @@ type Body struct {
 	// (for a box: +x, -x, +y, -y, +z, -z), or is null when the body is not
 	// resting on a face (moving, leaning, or a ball).
 	RestingFace *int `json:"resting_face"`
+	// FaceDown is the face whose outward normal is closest to the
+	// direction of gravity at the end, resting or not (same numbering);
+	// null for a ball.
+	FaceDown *int `json:"face_down"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`
 }

@@ -113,6 +113,8 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 	defer trials.close()
 	failures := &appendLog{path: filepath.Join(opt.Dir, FailuresFile), header: failuresHeader}
 	defer failures.close()
+	crossings := &appendLog{path: filepath.Join(opt.Dir, CrossingsFile), header: crossingsHeader}
+	defer crossings.close()
 
 	todo := info.Total - info.Skipped
 	ctx, cancel := context.WithCancel(ctx)
@@ -168,8 +170,14 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 		if werr != nil {
 			continue
 		}
-		// The failure first: a crash between the two writes then reruns
-		// the trial, and Finish drops the repeated failure row.
+		// The failure and the crossings first: a crash between the writes
+		// then reruns the trial, and Finish drops the repeated rows.
+		if r.crossings != nil {
+			if werr = crossings.write(r.crossings); werr != nil {
+				cancel()
+				continue
+			}
+		}
 		if r.failure != nil {
 			if werr = failures.write(r.failure); werr != nil {
 				cancel()
@@ -195,6 +203,9 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 		werr = err
 	}
 	if err := failures.close(); err != nil && werr == nil {
+		werr = err
+	}
+	if err := crossings.close(); err != nil && werr == nil {
 		werr = err
 	}
 	switch {
@@ -253,10 +264,15 @@ func (st *Study) prepare(opt Options, meta *Meta, info *RunInfo, lo, hi int64) (
 	info.Torn, info.Dropped = n.torn, n.dropped
 	// failures.csv is only ever read back by Finish; a torn last line is
 	// dropped here so that new rows start on a line of their own.
-	fpath := filepath.Join(dir, FailuresFile)
-	if _, err := os.Stat(fpath); err == nil {
-		if _, err := recoverLog(fpath, failuresTable(meta), func(group) error { return nil }); err != nil {
-			return nil, badf("cannot resume from %s: %v", fpath, err)
+	for _, l := range []struct {
+		name string
+		tb   *table
+	}{{FailuresFile, failuresTable(meta)}, {CrossingsFile, crossingsTable(meta)}} {
+		fpath := filepath.Join(dir, l.name)
+		if _, err := os.Stat(fpath); err == nil {
+			if _, err := recoverLog(fpath, l.tb, func(group) error { return nil }); err != nil {
+				return nil, badf("cannot resume from %s: %v", fpath, err)
+			}
 		}
 	}
 	return done, nil
@@ -301,7 +317,7 @@ func removeTemps(dir string) {
 	}
 	for _, e := range ents {
 		if n := e.Name(); strings.HasSuffix(n, ".tmp") && (strings.HasPrefix(n, ".sort-") || strings.HasPrefix(n, "trials.csv") ||
-			strings.HasPrefix(n, "cases.csv") || strings.HasPrefix(n, "failures.csv") || strings.HasPrefix(n, "sweep.json") || strings.HasSuffix(n, ".png.tmp")) {
+			strings.HasPrefix(n, "cases.csv") || strings.HasPrefix(n, "failures.csv") || strings.HasPrefix(n, CrossingsFile) || strings.HasPrefix(n, GateCasesFile) || strings.HasPrefix(n, FaceDownFile) || strings.HasPrefix(n, "sweep.json") || strings.HasSuffix(n, ".png.tmp")) {
 			os.Remove(filepath.Join(dir, n))
 		}
 	}
