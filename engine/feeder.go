@@ -105,3 +105,61 @@ func (v *Vibration) ConveyingDirection(at, normal shapes.Vec3) shapes.Vec3 {
 	}
 	return shapes.Vec3{}
 }
+
+// ConveyingSpeedModel is the mean conveying speed, over cycles [skip,
+// skip+cycles) from rest, of a particle on a linear feeder's track that
+// rises at alpha and vibrates as x = amp sin(2 pi freq t) along a line at
+// psi above the track, with friction mu under gravity g: the sliding and
+// hopping models of A. H. Redford and G. Boothroyd ("Vibratory feeding",
+// Proc. IMechE 182, 1967-68), stepped at 1/20000 of a cycle: sticking and
+// sliding by Coulomb's law with the normal force from the track's
+// acceleration, free flight when that force would pull, and a landing
+// that stops the normal motion with a friction impulse of at most mu
+// times the normal one (no bounce). It is the reference the engine's
+// feeders are checked against.
+func ConveyingSpeedModel(alpha, psi, mu, freq, amp, g float64, skip, cycles int) float64 {
+	w := 2 * math.Pi * freq
+	h := 1 / freq / 20000
+	gt, gn := -g*math.Sin(alpha), -g*math.Cos(alpha) // gravity in track axes
+	var u, gap, vn, travel float64                   // part relative to the track: tangential speed, normal gap and speed
+	n0, n1 := skip*20000, (skip+cycles)*20000
+	for i := 0; i < n1; i++ {
+		s := math.Sin(w * (float64(i) + 0.5) * h)
+		at, an := -amp*w*w*math.Cos(psi)*s, -amp*w*w*math.Sin(psi)*s // track acceleration
+		if gap <= 0 && vn <= 0 {
+			normal := an - gn // per unit mass, what keeps the part on the track
+			if normal >= 0 {
+				gap, vn = 0, 0
+				du := (gt - at) * h
+				lim := mu * normal * h
+				switch v := u + du; {
+				case math.Abs(v) <= lim:
+					u = 0
+				default:
+					u = v - math.Copysign(lim, v)
+				}
+				if i >= n0 {
+					travel += u * h
+				}
+				continue
+			}
+		}
+		// In flight.
+		u += (gt - at) * h
+		vn += (gn - an) * h
+		gap += vn * h
+		if gap <= 0 && vn < 0 { // lands without bouncing
+			p := -vn
+			if math.Abs(u) <= mu*p {
+				u = 0
+			} else {
+				u -= math.Copysign(mu*p, u)
+			}
+			gap, vn = 0, 0
+		}
+		if i >= n0 {
+			travel += u * h
+		}
+	}
+	return travel / (float64(cycles) / freq)
+}

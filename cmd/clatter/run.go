@@ -77,6 +77,9 @@ func runScene(e *env, args []string) int {
 	for _, w := range s.Warnings {
 		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
+	for _, w := range report.SampleAliases(s, sample) {
+		fmt.Fprintln(e.stderr, "warning: "+w)
+	}
 	if s.Sweep != nil {
 		e.infof("note: run simulates the scene once and ignores its [sweep] section; clatter sweep runs the study")
 	}
@@ -173,6 +176,7 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 		tw.Flush()
 		fmt.Fprintln(w)
 	}
+	writeFeederFigures(w, s, sum) // feeder.go
 	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
 	if dir != "" {
 		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(outputFiles(s), ", "))
@@ -187,6 +191,9 @@ func outputFiles(s *scene.Scene) []string {
 	files := []string{report.SummaryFile, report.TrajectoryFile, report.EventsFile}
 	if len(s.Joints) > 0 {
 		files = append(files, report.JointsFile)
+	}
+	if len(s.Gates) > 0 {
+		files = append(files, report.GatesFile)
 	}
 	return files
 }

@@ -283,6 +283,7 @@ func writeSweepTable(w io.Writer, res *sweep.Result) {
 		fmt.Fprintf(w, "... and %d more rows in %s\n", n, sweep.CasesFile)
 	}
 	fmt.Fprintln(w)
+	writeStudyFeeder(w, res) // feeder.go
 	var files []string
 	for _, f := range m.Files {
 		files = append(files, f)

@@ -1,7 +1,9 @@
 package report
 
 import (
+	"fmt"
 	"math"
+	"strconv"
 
 	"clatter/engine"
 	"clatter/engine/scene"
@@ -20,8 +22,10 @@ type Drive struct {
 	// g cos(track angle) (common feeder-design practice); null when
 	// gravity does not press parts onto the track.
 	ThrowNumber *float64 `json:"throw_number"`
-	// ConveyingSpeed is the mean speed along the track of the parts
-	// touching it, after ConveyStart; null when none touched it then.
+	// ConveyingSpeed is the mean speed along the track of the parts on
+	// it (those that touched it within the last two strokes, so that
+	// hopping parts count in flight too), after ConveyStart; null when
+	// none was on it then.
 	ConveyingSpeed *float64 `json:"conveying_speed"`
 }
 
@@ -34,6 +38,10 @@ type driveMeter struct {
 	throw  float64
 	sum    float64 // of speeds along the track, one per part and step
 	n      int64
+	// last is when each body last touched the track; hold how long after
+	// that it still counts as on it: two periods of the slowest term.
+	last []float64
+	hold float64
 }
 
 // newDriveMeters sets up a meter per vibration drive, with its throw
@@ -48,23 +56,33 @@ func newDriveMeters(s *scene.Scene, w *engine.World, ids []engine.BodyID) []driv
 		}
 		id := ids[s.BodyIndex(d.Body)]
 		n := w.Orientation(id).Rotate(shapes.Vec3{0, 0, 1})
-		out = append(out, driveMeter{scene: k, track: id, vib: vib, normal: n,
-			throw: vib.ThrowNumber(w.Position(id), n, w.Config().Gravity)})
+		m := driveMeter{scene: k, track: id, vib: vib, normal: n,
+			throw: vib.ThrowNumber(w.Position(id), n, w.Config().Gravity), last: make([]float64, w.NumBodies())}
+		for i := range m.last {
+			m.last[i] = math.Inf(-1)
+		}
+		for _, o := range vib.Terms {
+			if o.Frequency > 0 {
+				m.hold = math.Max(m.hold, 2/o.Frequency)
+			}
+		}
+		out = append(out, m)
 	}
 	return out
 }
 
-// convey adds the speeds along the track of the parts touching each
-// vibrating track after this step.
+// convey notes which parts touch each vibrating track and, after
+// ConveyStart, adds the speeds along the track of those on it.
 func (r *runner) convey() {
-	if len(r.drives) == 0 || r.w.Time() <= ConveyStart {
-		return
-	}
+	t := r.w.Time()
 	for k := range r.drives {
 		m := &r.drives[k]
 		for _, i := range r.dyn {
 			id := r.ids[i]
-			if !r.pairs[[2]engine.BodyID{min(id, m.track), max(id, m.track)}] {
+			if r.pairs[[2]engine.BodyID{min(id, m.track), max(id, m.track)}] {
+				m.last[id] = t
+			}
+			if t <= ConveyStart || t-m.last[id] > m.hold {
 				continue
 			}
 			p := r.w.Position(id)
@@ -94,4 +112,45 @@ func (r *runner) driveSummary() []Drive {
 		out = append(out, d)
 	}
 	return out
+}
+
+// SampleAliases returns a warning for each vibration term that the
+// trajectory's sample interval cannot resolve: fewer than two samples per
+// period (the Nyquist limit) make the samples show a slow false motion,
+// or none at all when the interval is a multiple of half the period,
+// instead of the vibration.
+func SampleAliases(s *scene.Scene, sample float64) []string {
+	var out []string
+	for _, d := range s.Drives {
+		vib, ok := d.Motion.(*engine.Vibration)
+		if !ok {
+			continue
+		}
+		for k, o := range vib.Terms {
+			per := 1 / (o.Frequency * sample) // samples per period
+			if o.Frequency <= 0 || per > 2 {
+				continue
+			}
+			// The frequency the samples show: the drive's folded into
+			// [0, half the sampling rate].
+			fs := 1 / sample
+			alias := math.Abs(o.Frequency - fs*math.Round(o.Frequency/fs))
+			out = append(out, fmt.Sprintf("drive of %q: the trajectory's sample interval of %g s gives the %g Hz vibration (term %d) %.3g samples per period, so trajectory.csv shows it as a false motion at %.3g Hz; its figures in summary.json are measured every step and are not affected. For a trajectory that follows the strokes use --sample %s or less (ten samples per period)",
+				d.Body, sample, o.Frequency, k+1, per, alias, strconv.FormatFloat(tenPerPeriod(o.Frequency), 'g', 3, 64)))
+		}
+	}
+	return out
+}
+
+// tenPerPeriod is a round sample interval of at most a tenth of the
+// period of frequency f: 1, 2 or 5 times a power of ten.
+func tenPerPeriod(f float64) float64 {
+	x := 1 / (10 * f)
+	p := math.Pow(10, math.Floor(math.Log10(x)))
+	for _, m := range []float64{5, 2, 1} {
+		if m*p <= x {
+			return m * p
+		}
+	}
+	return p
 }
