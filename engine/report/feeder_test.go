@@ -261,3 +261,73 @@ func TestSampleAliases(t *testing.T) {
 		t.Errorf("0.002 s: %q", w)
 	}
 }
+
+func TestWiperPassesPartsBelowItsGap(t *testing.T) {
+	// A wiper blade (a static bar across a belt, turned 30 degrees in
+	// plan) with its underside a gap g above the belt passes exactly the
+	// parts lower than g and pushes the taller ones along its face and
+	// off the belt (geometry: a part fits under the bar or meets its
+	// face). Heights clear the gap by heightMargin either way: the
+	// contact slop (0.2 mm) lets a part touch a surface that close
+	// without meeting it.
+	const gap, heightMargin = 8.0, 0.4
+	src := `units = { length = "mm", mass = "g" }
+[world]
+duration = 2.5
+until_settled = false
+[material.belt]
+friction = 0.5
+[material.steel]
+friction = 0.1
+[[body]]
+name = "belt"
+static = true
+shape = { box = [1000, 30, 10] }
+position = [200, 0, -5]
+material = "belt"
+[[drive]]
+body = "belt"
+conveyor = [200, 0, 0]
+[[body]]
+name = "wiper"
+static = true
+shape = { box = [120, 6, 20] }
+material = "steel"
+position = [100, 0, ` + strconv.FormatFloat(gap+10, 'g', -1, 64) + `]
+orientation = { axis = [0, 0, 1], angle = 30 }
+[[gate]]
+name = "passed"
+at = [250, 0, 0]
+normal = [1, 0, 0]
+radius = 30
+[[gate]]
+name = "rejected"
+at = [100, 13, 0]
+normal = [0, 1, 0]
+`
+	heights := []float64{3, 6, gap - heightMargin, gap + heightMargin, 10, 14}
+	for i, h := range heights {
+		src += fmt.Sprintf("[[body]]\nname = \"h%d\"\nshape = { box = [10, 10, %g] }\nmaterial = \"belt\"\ndensity = \"1 g/cm3\"\nposition = [%d, 0, %g]\nvelocity = [200, 0, 0]\n",
+			i, h, -40*i, h/2)
+	}
+	dir := t.TempDir()
+	if _, err := Run(context.Background(), parse(t, src), Options{Dir: dir}); err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]string{}
+	for _, r := range readRows(t, filepath.Join(dir, GatesFile), GatesHeader) {
+		if got[r[2]] != "" {
+			t.Errorf("%s counted at %s and at %s", r[2], got[r[2]], r[1])
+		}
+		got[r[2]] = r[1]
+	}
+	for i, h := range heights {
+		want := "passed"
+		if h > gap {
+			want = "rejected"
+		}
+		if name := fmt.Sprintf("h%d", i); got[name] != want {
+			t.Errorf("part %g mm high under a %g mm gap: %q, want %q", h, gap, got[name], want)
+		}
+	}
+}

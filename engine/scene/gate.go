@@ -49,14 +49,16 @@ func (r *reader) gate(i int, m map[string]any) (Gate, bool) {
 	sec := section{m: m, path: path, name: fmt.Sprintf("[[gate]] number %d", i+1), pre: fmt.Sprintf("[[gate]] number %d: ", i+1)}
 	g := Gate{Line: r.s.lines.line(path)}
 	nerr := r.n
-	r.keys(sec, "name", "at", "normal", "radius", "wanted")
 	name, ok := r.required(sec, "name", "every gate needs a unique name = \"...\" (it labels gates.csv)")
+	if ok {
+		g.Name = name
+		sec.name = fmt.Sprintf("gate %q", name)
+		sec.pre = fmt.Sprintf("gate %q: ", name)
+	}
+	r.keys(sec, "name", "at", "normal", "radius", "wanted")
 	if !ok {
 		return g, false
 	}
-	g.Name = name
-	sec.name = fmt.Sprintf("gate %q", name)
-	sec.pre = fmt.Sprintf("gate %q: ", name)
 	for _, k := range []string{"at", "normal"} {
 		if _, given := m[k]; !given {
 			r.errAt(path, "%s%s is missing: a gate is the plane through at = [x, y, z] that counts parts crossing it along normal = [x, y, z]", sec.pre, k)
