@@ -10,6 +10,8 @@ import (
 
 func TestGates(t *testing.T) {
 	s, err := Parse([]byte(`units = { length = "mm", mass = "g" }
+[world]
+duration = 0.1
 [[body]]
 name = "part"
 shape = { sphere = 5 }
@@ -28,7 +30,7 @@ wanted = [4, 5]
 	// Lengths in the file's mm, to SI (to rounding); the normal made unit.
 	const tol = 1e-15
 	if g.Name != "outlet" || g.At.Sub(shapes.Vec3{0.6, 0, 0.02}).Len() > tol || g.Normal != (shapes.Vec3{1, 0, 0}) ||
-		math.Abs(g.Radius-0.04) > tol || len(g.Wanted) != 2 || g.Line != 6 {
+		math.Abs(g.Radius-0.04) > tol || len(g.Wanted) != 2 || g.Line != 8 {
 		t.Errorf("gate %+v", g)
 	}
 	w, _, err := s.Build()
