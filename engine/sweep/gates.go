@@ -220,8 +220,11 @@ func (s *gateStats) rows(st *stats) ([]GateRow, []Efficiency) {
 					k := s.counts[gateKey{c, g.Name, body, f}]
 					lo, hi := Wilson(k, total, Confidence)
 					q := math.NaN()
-					if body != "" {
+					switch {
+					case body != "":
 						q = st.quasiStatic(bi, f)
+					case sameFaces(m.Bodies):
+						q = st.quasiStatic(0, f) // parts alike: their common probability
 					}
 					out = append(out, GateRow{Case: c, Values: vals, Gate: g.Name, Body: body, FaceDown: f, Count: k, Trials: n,
 						Fraction: report.Tidy(float64(k) / float64(total)), Low: report.Tidy(lo), High: report.Tidy(hi),
@@ -338,5 +341,21 @@ func finishGates(out string, meta *Meta, srcs []string, st *stats, done *bitset,
 	if err := writeAtomic(filepath.Join(out, GateCasesFile), gateCasesCSV(meta, res.GateRows)); err != nil {
 		return nil, fmt.Errorf("cannot write %s: %w", GateCasesFile, err)
 	}
-	return append(files, CrossingsFile, GateCasesFile), nil
+	plots, err := writeGatePlots(out, meta, res.GateRows)
+	if err != nil {
+		return nil, fmt.Errorf("cannot write the gate plots: %w", err)
+	}
+	return append(append(files, CrossingsFile, GateCasesFile), plots...), nil
+}
+
+// sameFaces reports whether every body has the same faces (parts alike).
+func sameFaces(bodies []BodyMeta) bool {
+	for _, b := range bodies[1:] {
+		if !slices.EqualFunc(b.Faces, bodies[0].Faces, func(x, y FaceMeta) bool {
+			return x.Probability == y.Probability && x.Group == y.Group && x.Area == y.Area
+		}) {
+			return false
+		}
+	}
+	return true
 }
