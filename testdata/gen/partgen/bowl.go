@@ -14,7 +14,7 @@ import "math"
 // BowlGapFrom to BowlGapTo degrees. The track's underside is closed down
 // to the floor by a wall at its inner edge, so parts cannot get under it.
 const (
-	BowlRadius = 60.0
+	BowlRadius     = 60.0
 	BowlWall       = 24.0
 	BowlCone       = 3.0
 	BowlTrack      = 12.0
