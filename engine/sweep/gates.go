@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"os"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -358,4 +359,36 @@ func sameFaces(bodies []BodyMeta) bool {
 		}
 	}
 	return true
+}
+
+// pruneCrossings rewrites a resumed folder's crossings.csv with only the
+// crossings of the trials in trials.csv (done). A trial's crossings are
+// written before its rows of trials.csv, so those of a trial cut off by
+// a crash, possibly in part, are dropped here, and the trial, run again,
+// writes them whole.
+func pruneCrossings(dir string, meta *Meta, done *bitset, lo int64) error {
+	path := filepath.Join(dir, CrossingsFile)
+	if st, err := os.Stat(path); err == nil && st.Size() <= int64(len(crossingsHeader)) {
+		return os.Remove(path) // cut off within its header: made again
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		if errors.Is(err, os.ErrNotExist) {
+			return nil
+		}
+		return err
+	}
+	var kept bytes.Buffer
+	kept.WriteString(crossingsHeader + "\n")
+	_, err = crossingsTable(meta).scan(f, true, func(g group) error {
+		if i := g.g - lo; i >= 0 && i < int64(len(*done))*64 && done.has(i) {
+			kept.Write(g.data)
+		}
+		return nil
+	})
+	f.Close()
+	if err != nil {
+		return err
+	}
+	return writeAtomic(path, kept.Bytes())
 }

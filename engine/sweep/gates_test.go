@@ -1,11 +1,14 @@
 package sweep
 
 import (
+	"context"
 	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"clatter/engine/scene"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -111,4 +114,58 @@ func TestGateStudySameHoweverRun(t *testing.T) {
 	_, one := runAll(t, newStudy(t, src), Options{Workers: 1})
 	_, three := runAll(t, newStudy(t, src), Options{Workers: 3})
 	sameFolders(t, "one worker and three", one, three)
+}
+
+func TestFeederExamplesRead(t *testing.T) {
+	// The feeder examples read without errors or warnings: the wiper
+	// study opens as a study with its gates and wanted faces, the bowl
+	// (a single run) as a scene.
+	st, err := Open("../../testdata/feeder/wiper.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(st.Warnings) > 0 || len(st.meta.Gates) != 2 || len(st.meta.Gates[0].Wanted) != 2 {
+		t.Errorf("wiper: warnings %q, gates %+v", st.Warnings, st.meta.Gates)
+	}
+	s, err := scene.Load("../../testdata/feeder/bowl.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Warnings) > 0 || len(s.Gates) != 1 || len(s.Bodies) != 52 || !s.Bodies[1].Triangles || !s.Bodies[1].Driven {
+		t.Errorf("bowl: warnings %q, %d gates, %d bodies", s.Warnings, len(s.Gates), len(s.Bodies))
+	}
+}
+
+func TestGateStudyResumedAfterACrash(t *testing.T) {
+	// A crash can leave a trial's crossings written, in whole or in part,
+	// without its rows in trials.csv. Resumed, the folder finishes to the
+	// same bytes as a study never interrupted.
+	src := strings.Replace(cubeOnBelt, "trials = 240", "trials = 6", 1)
+	_, clean := runAll(t, newStudy(t, src), Options{Workers: 1})
+	dir := t.TempDir()
+	st := newStudy(t, src)
+	if _, err := st.Run(context.Background(), Options{Dir: dir, Version: "test", Workers: 1}); err != nil {
+		t.Fatal(err)
+	}
+	// Drop the last two trials from trials.csv, and leave in
+	// crossings.csv the start of another group of crossings of the last,
+	// as a crash in the middle of writing it would.
+	tp := filepath.Join(dir, TrialsFile)
+	b, _ := os.ReadFile(tp)
+	lines := strings.SplitAfter(string(b), "\n")
+	if err := os.WriteFile(tp, []byte(strings.Join(lines[:len(lines)-3], "")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	cp := filepath.Join(dir, CrossingsFile)
+	c, _ := os.ReadFile(cp)
+	if err := os.WriteFile(cp, append(c, "0,5,end,cube,0.5,3\n0,5,en"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if info, err := st.Run(context.Background(), Options{Dir: dir, Version: "test", Workers: 1, Resume: true}); err != nil || info.Ran != 2 {
+		t.Fatalf("resumed: %+v, %v", info, err)
+	}
+	if _, err := Finish(dir); err != nil {
+		t.Fatal(err)
+	}
+	sameFolders(t, "resumed and clean", clean, dir)
 }

@@ -264,16 +264,14 @@ func (st *Study) prepare(opt Options, meta *Meta, info *RunInfo, lo, hi int64) (
 	info.Torn, info.Dropped = n.torn, n.dropped
 	// failures.csv is only ever read back by Finish; a torn last line is
 	// dropped here so that new rows start on a line of their own.
-	for _, l := range []struct {
-		name string
-		tb   *table
-	}{{FailuresFile, failuresTable(meta)}, {CrossingsFile, crossingsTable(meta)}} {
-		fpath := filepath.Join(dir, l.name)
-		if _, err := os.Stat(fpath); err == nil {
-			if _, err := recoverLog(fpath, l.tb, func(group) error { return nil }); err != nil {
-				return nil, badf("cannot resume from %s: %v", fpath, err)
-			}
+	fpath := filepath.Join(dir, FailuresFile)
+	if _, err := os.Stat(fpath); err == nil {
+		if _, err := recoverLog(fpath, failuresTable(meta), func(group) error { return nil }); err != nil {
+			return nil, badf("cannot resume from %s: %v", fpath, err)
 		}
+	}
+	if err := pruneCrossings(dir, meta, done, lo); err != nil { // gates.go
+		return nil, badf("cannot resume from %s: %v", filepath.Join(dir, CrossingsFile), err)
 	}
 	return done, nil
 }

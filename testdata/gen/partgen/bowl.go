@@ -18,12 +18,12 @@ const (
 	BowlWall       = 24.0
 	BowlCone       = 3.0
 	BowlTrack      = 12.0
-	BowlRise       = 16.0
-	BowlTurn       = 0.75
+	BowlRise       = 12.0
+	BowlTurn       = 0.5
 	BowlChute      = 60.0
-	BowlChuteSlope = 26.0
-	BowlGapFrom    = 262.5
-	BowlGapTo      = 315.0
+	BowlChuteSlope = 18.0
+	BowlGapFrom    = 172.5
+	BowlGapTo      = 225.0
 	// BowlSegments is the number of segments per turn of the floor, the
 	// wall and the helix.
 	BowlSegments = 96
