@@ -149,13 +149,16 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	speed := u.Symbol(scene.Speed)
-	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tlargest impact (%s)\n", u.Length, speed)
+	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tface down\tlargest impact (%s)\n", u.Length, speed)
 	for _, b := range sum.Bodies {
-		face := "-"
+		face, down := "-", "-"
 		if b.RestingFace != nil {
 			face = fmt.Sprint(*b.RestingFace)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.4g\n", b.Name, fmtVec(b.Position[:]), fmtOrientation(b.Orientation), face, b.MaxImpactSpeed)
+		if b.FaceDown != nil {
+			down = fmt.Sprint(*b.FaceDown)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.4g\n", b.Name, fmtVec(b.Position[:]), fmtOrientation(b.Orientation), face, down, b.MaxImpactSpeed)
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
@@ -181,7 +184,8 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 	if dir != "" {
 		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(outputFiles(s), ", "))
 	}
-	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round")
+	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round;")
+	fmt.Fprintln(w, "face down is the face closest to facing gravity, resting or not")
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, safetyNote)
 }
