@@ -32,6 +32,11 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
                    position,speed,effort, a row per joint every sample: the
                    force and torque the joint applied to its first body, its
                    angle (deg) or travel, its speed and its motor's effort
+  gates.csv        for a scene with [[gate]]s: time,gate,body,face_down,x,y,z,
+                   vx,vy,vz, a row per crossing (tested every step); the
+                   summary adds each gate's count, rate per minute and
+                   counts per face down, and each vibration drive's throw
+                   number and conveying speed
 
 Everything is in the scene's units (units = { length, mass }), time in s,
 angles in degrees, angular velocity in rad/s, energy in J. A table of the
@@ -46,7 +51,8 @@ error), 2 bad input (the scene's errors name file and line).
 Options:
   -o DIR           where to write the results (default clatter-out)
   --sample SECONDS trajectory sample interval (default 0.01; a unit may be
-                   given, e.g. "5 ms")
+                   given, e.g. "5 ms"); a warning says when it is too coarse
+                   for a drive's vibration
   --json           print the summary as JSON instead of a table
   --quiet, -q      no progress bar or informational messages`,
 }

@@ -44,6 +44,13 @@ It writes into DIR (default clatter-sweep):
   *.png        the fraction of each resting face against each varied key,
                and the distribution of the times to settle
   failures.csv trials whose simulation failed, if any
+  face-down.csv per case, body and face: how often the face closest to
+               facing gravity at the end was that one, settled or not
+  crossings.csv, gate-cases.csv, gate-*.png
+               for a scene with [[gate]]s: every crossing; per case, gate,
+               body and face down the count, share with interval, and rate
+               per minute; the orienting efficiency of gates with wanted
+               faces is printed
 
 Everything is in the scene's units; resting faces are numbered as
 clatter inspect lists them. A table of the cases goes to stdout.
