@@ -127,8 +127,8 @@ func SampleAliases(s *scene.Scene, sample float64) []string {
 			continue
 		}
 		for k, o := range vib.Terms {
-			per := 1 / (o.Frequency * sample) // samples per period
-			if o.Frequency <= 0 || per > 2 {
+			per := 1 / (o.Frequency * sample)         // samples per period
+			if o.Frequency <= 0 || per > 2*(1+1e-9) { // exactly 2 (0.01 s and 50 Hz) is the limit, not past it
 				continue
 			}
 			// The frequency the samples show: the drive's folded into

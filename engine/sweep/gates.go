@@ -114,6 +114,8 @@ type gateStats struct {
 	meta   *Meta
 	counts map[gateKey]int64
 	fields []string
+	// byTrio lists the faces counted per case, gate and body (face 0).
+	byTrio map[gateKey][]int
 }
 
 func newGateStats(m *Meta) *gateStats { return &gateStats{meta: m, counts: map[gateKey]int64{}} }
@@ -230,7 +232,7 @@ func (s *gateStats) rows(st *stats) ([]GateRow, []Efficiency) {
 					out = append(out, GateRow{Case: c, Values: vals, Gate: g.Name, Body: body, FaceDown: f, Count: k, Trials: n,
 						Fraction: report.Tidy(float64(k) / float64(total)), Low: report.Tidy(lo), High: report.Tidy(hi),
 						Rate: report.Tidy(float64(k) / minutes), QuasiStatic: q})
-					if (body == "" || len(m.Bodies) == 1) && slices.Contains(g.Wanted, f) {
+					if (body == "" || len(m.Bodies) == 1) && s.wanted(g.Wanted, f) {
 						wanted += k
 					}
 				}
@@ -247,16 +249,34 @@ func (s *gateStats) rows(st *stats) ([]GateRow, []Efficiency) {
 	return out, eff
 }
 
+// wanted reports whether face f, as counted (the lowest of its symmetry
+// group when faces are grouped), is one of the wanted faces.
+func (s *gateStats) wanted(faces []int, f int) bool {
+	fs := s.meta.Bodies[0].Faces
+	return slices.ContainsFunc(faces, func(w int) bool {
+		if s.meta.GroupFaces && w < len(fs) {
+			w = fs[w].Group
+		}
+		return w == f
+	})
+}
+
 // faces returns the faces with crossings of a gate by a body in case c,
 // ascending with none (-1) last, and the number of crossings.
 func (s *gateStats) faces(c int64, gate, body string) ([]int, int64) {
-	var out []int
-	var total int64
-	for k, n := range s.counts {
-		if k.c == c && k.gate == gate && k.body == body {
-			out = append(out, k.face)
-			total += n
+	if s.byTrio == nil {
+		// Index the counts once: scanning them per case, gate and body
+		// would take a time quadratic in the size of the study.
+		s.byTrio = map[gateKey][]int{}
+		for k := range s.counts {
+			t := gateKey{c: k.c, gate: k.gate, body: k.body}
+			s.byTrio[t] = append(s.byTrio[t], k.face)
 		}
+	}
+	out := slices.Clone(s.byTrio[gateKey{c: c, gate: gate, body: body}])
+	var total int64
+	for _, f := range out {
+		total += s.counts[gateKey{c, gate, body, f}]
 	}
 	slices.SortFunc(out, func(a, b int) int {
 		if (a < 0) != (b < 0) {
