@@ -169,3 +169,13 @@ func TestGateStudyResumedAfterACrash(t *testing.T) {
 	}
 	sameFolders(t, "resumed and clean", clean, dir)
 }
+
+func TestWantedFaceMustExist(t *testing.T) {
+	// A cube has faces 0 to 5; a gate that wants face 9 is refused before
+	// any trial runs, with the faces it has.
+	src := strings.Replace(cubeOnBelt, "wanted = [4, 5]", "wanted = [4, 9]", 1)
+	_, err := New([]byte(src), "study.toml", scene.Options{})
+	if err == nil || !strings.Contains(err.Error(), `gate "end": wanted face 9 does not exist on body "cube", which has faces 0 to 5`) {
+		t.Errorf("error %v", err)
+	}
+}
