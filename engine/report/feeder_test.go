@@ -343,3 +343,49 @@ normal = [0, 1, 0]
 		}
 	}
 }
+
+func TestBalanced(t *testing.T) {
+	// A 20 mm cube stood on an edge (turned 45 degrees about y, its
+	// centre 10 sqrt 2 mm up) or on a corner (its body diagonal vertical:
+	// turned acos(1/sqrt 3) about [1, -1, 0], centre 10 sqrt 3 mm up) with
+	// its centre of mass exactly above the support stays there for a
+	// while: an unstable equilibrium (statics), which balanced names. On a
+	// face it is not balanced. The runs are short (0.2 s), before rounding
+	// errors, growing as e^(t sqrt(g / L)), can tip the cube.
+	for _, c := range []struct {
+		name, orient string
+		z            float64
+		want         string
+	}{
+		{"edge", "{ axis = [0, 1, 0], angle = 45 }", 10 * math.Sqrt2, "edge"},
+		{"corner", fmt.Sprintf("{ axis = [1, -1, 0], angle = %.12g }", math.Acos(1/math.Sqrt(3))*180/math.Pi), 10 * math.Sqrt(3), "corner"},
+		{"face", "{ axis = [0, 0, 1], angle = 0 }", 10, ""},
+	} {
+		src := fmt.Sprintf(`units = { length = "mm", mass = "g" }
+[world]
+duration = 0.2
+until_settled = false
+[[body]]
+name = "floor"
+shape = { plane = [0, 0, 1] }
+[[body]]
+name = "cube"
+shape = { box = [20, 20, 20] }
+density = "1 g/cm3"
+position = [0, 0, %.12g]
+orientation = %s
+`, c.z, c.orient)
+		sum, err := Run(context.Background(), parse(t, src), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		b := sum.Bodies[0]
+		got := ""
+		if b.Balanced != nil {
+			got = *b.Balanced
+		}
+		if got != c.want || (c.want != "") != (b.RestingFace == nil) {
+			t.Errorf("%s: balanced %q, resting face %s; want %q", c.name, got, show(b.RestingFace), c.want)
+		}
+	}
+}

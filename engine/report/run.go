@@ -307,6 +307,7 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 			Spin:           clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
 			RestingFace:    r.restingFace(i),
 			FaceDown:       faceOrNil(BodyFaceDown(w, id, r.facesOf(i))),
+			Balanced:       stringOrNil(Balanced(w, id, r.facesOf(i), r.touching[id] > 0)),
 			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
 		}
 		sum.Bodies = append(sum.Bodies, b)
@@ -365,6 +366,13 @@ func (r *runner) jointMotion(j engine.JointID, k engine.JointKind) (pos, speed *
 func (r *runner) restingFace(i int) *int {
 	id := r.ids[i]
 	return faceOrNil(RestingFace(r.w, id, r.facesOf(i), r.touching[id] > 0))
+}
+
+func stringOrNil(s string) *string {
+	if s == "" {
+		return nil
+	}
+	return &s
 }
 
 func faceOrNil(f int) *int {
