@@ -32,7 +32,11 @@ func writeFeederFigures(w io.Writer, s *scene.Scene, sum *report.Summary) {
 		fmt.Fprintf(w, "         parts touching it after %g s)\n", report.ConveyStart)
 	}
 	for _, g := range sum.Gates {
-		fmt.Fprintf(w, "gate     %s: %d crossings, %.4g per minute%s\n", g.Name, g.Count, g.Rate, faceCounts(g.Faces))
+		noun := "crossings"
+		if g.Count == 1 {
+			noun = "crossing"
+		}
+		fmt.Fprintf(w, "gate     %s: %d %s, %.4g per minute%s\n", g.Name, g.Count, noun, g.Rate, faceCounts(g.Faces))
 	}
 	if len(sum.Drives)+len(sum.Gates) > 0 {
 		fmt.Fprintln(w)
