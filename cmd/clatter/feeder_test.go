@@ -44,7 +44,7 @@ func TestWiperExample(t *testing.T) {
 	if !strings.Contains(out, "drive    track: throw number 1.5, conveying speed") || !strings.Contains(out, "gate     passed: ") {
 		t.Errorf("run output lacks the drive and gates:\n%s", out)
 	}
-	if !strings.Contains(errs, `warning: drive of "track": the trajectory's sample interval of 0.01 s`) {
+	if !strings.Contains(errs, `warning: drive of "track": a sample interval of 0.01 s`) {
 		t.Errorf("no aliasing warning:\n%s", errs)
 	}
 }

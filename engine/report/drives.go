@@ -115,10 +115,10 @@ func (r *runner) driveSummary() []Drive {
 }
 
 // SampleAliases returns a warning for each vibration term that the
-// trajectory's sample interval cannot resolve: fewer than two samples per
-// period (the Nyquist limit) make the samples show a slow false motion,
-// or none at all when the interval is a multiple of half the period,
-// instead of the vibration.
+// trajectory's sample interval cannot resolve: with two samples per period
+// or fewer (the Nyquist limit) the samples show a slow false motion (an
+// alias), or none at all when the interval is a multiple of half the
+// period, instead of the vibration.
 func SampleAliases(s *scene.Scene, sample float64) []string {
 	var out []string
 	for _, d := range s.Drives {
@@ -131,12 +131,8 @@ func SampleAliases(s *scene.Scene, sample float64) []string {
 			if o.Frequency <= 0 || per > 2*(1+1e-9) { // exactly 2 (0.01 s and 50 Hz) is the limit, not past it
 				continue
 			}
-			// The frequency the samples show: the drive's folded into
-			// [0, half the sampling rate].
-			fs := 1 / sample
-			alias := math.Abs(o.Frequency - fs*math.Round(o.Frequency/fs))
-			out = append(out, fmt.Sprintf("drive of %q: the trajectory's sample interval of %g s gives the %g Hz vibration (term %d) %.3g samples per period, so trajectory.csv shows it as a false motion at %.3g Hz; its figures in summary.json are measured every step and are not affected. For a trajectory that follows the strokes use --sample %s or less (ten samples per period)",
-				d.Body, sample, o.Frequency, k+1, per, alias, strconv.FormatFloat(tenPerPeriod(o.Frequency), 'g', 3, 64)))
+			out = append(out, fmt.Sprintf("drive of %q: a sample interval of %g s gives the %g Hz vibration (term %d) only %.3g samples per period, so trajectory.csv cannot show its strokes (they appear as a false, slower motion or not at all); the drive's figures in summary.json are measured every step. To follow the strokes use --sample %s or less (ten samples per period)",
+				d.Body, sample, o.Frequency, k+1, per, strconv.FormatFloat(tenPerPeriod(o.Frequency), 'g', 3, 64)))
 		}
 	}
 	return out
