@@ -24,8 +24,8 @@ func feederCases() []Case {
 			Name: "conveying speed on a 3 deg track at throw number 1.2", Unit: "mm/s",
 			Reference: "particle model of sliding and hopping, stepped finely", Source: "Redford and Boothroyd, Vibratory feeding, Proc. IMechE 182 (1967)",
 			Tolerance: 3,
-			Why: "3 percent of the track's peak speed of 103 mm/s: the part is a box that rocks as it lands, not a particle",
-			Run: conveyingSpeed,
+			Why:       "3 percent of the track's peak speed of 103 mm/s: the part is a box that rocks as it lands, not a particle",
+			Run:       conveyingSpeed,
 		},
 	}
 }
