@@ -71,7 +71,7 @@ func (w *World) AddGate(g Gate) (int, error) {
 	}
 	g.Normal = g.Normal.Normalize()
 	w.gates.gates = append(w.gates.gates, g)
-	w.gates.bodies = -1 // resize and re-read positions before the next test
+	w.gates.bodies = -1 // resized and read at the start of the next step
 	return len(w.gates.gates) - 1, nil
 }
 
@@ -87,12 +87,16 @@ func (w *World) Crossings() []Crossing {
 	return c
 }
 
-// resetGates sizes the gate state for the current bodies and reads their
-// distances; a body already past a gate is not armed until it has gone
-// back behind it.
-func (w *World) resetGates() {
+// readyGates, at the start of a step, sizes the gate state for the
+// current bodies and reads their distances if gates or bodies were added
+// since the last step; a body already past a gate is not armed until it
+// has gone back behind it.
+func (w *World) readyGates() {
 	gs := &w.gates
 	n := len(w.b.kind)
+	if len(gs.gates) == 0 || gs.bodies == n {
+		return
+	}
 	gs.bodies = n
 	gs.dist = make([]float64, len(gs.gates)*n)
 	gs.armed = make([]bool, len(gs.gates)*n)
@@ -112,10 +116,6 @@ func (w *World) countGates(dt float64) {
 		return
 	}
 	n := len(w.b.kind)
-	if gs.bodies != n {
-		w.resetGates()
-		return
-	}
 	for g := range gs.gates {
 		gt := &gs.gates[g]
 		for i, k := range w.b.kind {

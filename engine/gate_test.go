@@ -80,3 +80,20 @@ func TestGatesAllocateNothing(t *testing.T) {
 		t.Errorf("%g allocations per step", a)
 	}
 }
+
+func TestGateCountsFromTheFirstStep(t *testing.T) {
+	// A ball 0.1 mm before a gate moving at 1 m/s crosses it in the first
+	// 1 ms step, at 0.1 ms: counted, though the gate was added just now.
+	w := newTestWorld(t, Config{NoSleep: true})
+	mustAdd(t, w, BodyDef{Name: "ball", Shape: shapes.Sphere{Radius: 0.01}, Density: 1000, Position: shapes.Vec3{-1e-4, 0, 0}, Velocity: shapes.Vec3{1, 0, 0}})
+	if _, err := w.AddGate(Gate{Name: "g", Normal: shapes.Vec3{1, 0, 0}}); err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Step(1e-3); err != nil {
+		t.Fatal(err)
+	}
+	// Exact: no gravity, constant velocity; the interpolation is linear.
+	if c := w.Crossings(); len(c) != 1 || math.Abs(c[0].Time-1e-4) > 1e-12 {
+		t.Errorf("crossings %+v, want one at 1e-4 s", c)
+	}
+}

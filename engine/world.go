@@ -200,6 +200,7 @@ func (w *World) Step(dt float64) error {
 }
 
 func (w *World) step(dt float64) error {
+	w.readyGates()          // gate.go
 	w.applyMotorChanges(dt) // scheduled motors (schedule.go)
 	w.drive(dt)             // driven kinematic bodies: velocities for this step (driver.go)
 	e0, k0, rot0, pot0 := 0.0, 0.0, 0.0, 0.0
