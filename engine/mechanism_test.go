@@ -207,56 +207,10 @@ func (f feederTrack) throwAmplitude(throw float64) float64 {
 	return throw * g0 * math.Cos(f.alpha) / (w * w * math.Sin(f.psi))
 }
 
-// modelSpeed is the mean conveying speed of the particle model over cycles
-// [skip, skip+cycles), time-stepped at h: sticking and sliding by Coulomb's
-// law with the normal force from the track's acceleration, free flight when
-// that force would pull, and a landing that stops the normal motion with a
-// friction impulse of at most mu times the normal one.
+// modelSpeed is the mean conveying speed of the particle model
+// (ConveyingSpeedModel) over cycles [skip, skip+cycles).
 func (f feederTrack) modelSpeed(amp float64, skip, cycles int) float64 {
-	w := 2 * math.Pi * f.freq
-	h := 1 / f.freq / 20000
-	gt, gn := -g0*math.Sin(f.alpha), -g0*math.Cos(f.alpha) // gravity in track axes
-	var u, gap, vn, travel float64                         // part relative to the track: tangential speed, normal gap and speed
-	n0, n1 := skip*20000, (skip+cycles)*20000
-	for i := 0; i < n1; i++ {
-		s := math.Sin(w * (float64(i) + 0.5) * h)
-		at, an := -amp*w*w*math.Cos(f.psi)*s, -amp*w*w*math.Sin(f.psi)*s // track acceleration
-		if gap <= 0 && vn <= 0 {
-			normal := an - gn // N/m that keeps the part on the track
-			if normal >= 0 {
-				gap, vn = 0, 0
-				du := (gt - at) * h
-				lim := f.mu * normal * h
-				switch v := u + du; {
-				case math.Abs(v) <= lim:
-					u = 0
-				default:
-					u = v - math.Copysign(lim, v)
-				}
-				if i >= n0 {
-					travel += u * h
-				}
-				continue
-			}
-		}
-		// In flight.
-		u += (gt - at) * h
-		vn += (gn - an) * h
-		gap += vn * h
-		if gap <= 0 && vn < 0 { // lands without bouncing
-			p := -vn
-			if math.Abs(u) <= f.mu*p {
-				u = 0
-			} else {
-				u -= math.Copysign(f.mu*p, u)
-			}
-			gap, vn = 0, 0
-		}
-		if i >= n0 {
-			travel += u * h
-		}
-	}
-	return travel / (float64(cycles) / f.freq)
+	return ConveyingSpeedModel(f.alpha, f.psi, f.mu, f.freq, amp, g0, skip, cycles)
 }
 
 // engineRun puts a small box on a kinematic track vibrating at throw number

@@ -99,6 +99,7 @@ type World struct {
 
 	collision collisionState
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
+	gates     gateState  // counting gates (gate.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -199,6 +200,7 @@ func (w *World) Step(dt float64) error {
 }
 
 func (w *World) step(dt float64) error {
+	w.readyGates()          // gate.go
 	w.applyMotorChanges(dt) // scheduled motors (schedule.go)
 	w.drive(dt)             // driven kinematic bodies: velocities for this step (driver.go)
 	e0, k0, rot0, pot0 := 0.0, 0.0, 0.0, 0.0
@@ -234,6 +236,7 @@ func (w *World) step(dt float64) error {
 		return err
 	}
 	w.integrate(dt)
+	w.countGates(dt) // gate.go
 	w.time += dt
 	w.steps++
 	w.updateRest(dt)

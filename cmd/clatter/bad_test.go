@@ -48,6 +48,8 @@ func TestBadInput(t *testing.T) {
 		{name: "misspelt material key", scene: mm + "[material.abs]\nfricton = 0.3\n" + floor + part,
 			want: `scene.toml:3: unknown key "fricton" in [material.abs]; did you mean "friction"?`},
 		{name: "misspelt table", scene: "[[bodies]]\nname = \"x\"\n", want: `unknown key "bodies" in the scene's top level; did you mean "body"?`},
+		{name: "gate without normal", scene: mm + floor + part + "[[gate]]\nname = \"out\"\nat = [0, 0, 0]\n",
+			want: `gate "out": normal is missing`},
 		{name: "misspelt world key", scene: "[world]\nstpe = 0.001\n" + floor + part, want: `scene.toml:2: unknown key "stpe" in [world]; did you mean "step"?`},
 		{name: "misspelt body key", scene: mm + floor + part + "dencity = 2\n", want: `unknown key "dencity" in body "cap"; did you mean "density"?`},
 		{name: "negative mass", scene: mm + floor + "[[body]]\nname = \"cap\"\nshape = { sphere = 5 }\nmass = -2\n",

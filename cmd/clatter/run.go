@@ -40,6 +40,11 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
                    page of clatter report)
   start.png        with --pictures: shaded views of the first and last
   end.png          states, from above at a three-quarter angle
+  gates.csv        for a scene with [[gate]]s: time,gate,body,face_down,x,y,z,
+                   vx,vy,vz, a row per crossing (tested every step); the
+                   summary adds each gate's count, rate per minute and
+                   counts per face down, and each vibration drive's throw
+                   number and conveying speed
 
 Everything is in the scene's units (units = { length, mass }), time in s,
 angles in degrees, angular velocity in rad/s, energy in J. A table of the
@@ -59,7 +64,8 @@ error), 2 bad input (the scene's errors name file and line).
 Options:
   -o DIR           where to write the results (default clatter-out)
   --sample SECONDS trajectory sample interval (default 0.01; a unit may be
-                   given, e.g. "5 ms")
+                   given, e.g. "5 ms"); a warning says when it is too coarse
+                   for a drive's vibration
   --animation      also write animation.glb
   --pictures       also write start.png and end.png
   --json           print the summary as JSON instead of a table
@@ -92,6 +98,9 @@ func runScene(e *env, args []string) int {
 		return exitBad
 	}
 	for _, w := range s.Warnings {
+		fmt.Fprintln(e.stderr, "warning: "+w)
+	}
+	for _, w := range report.SampleAliases(s, sample) {
 		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
 	if s.Sweep != nil {
@@ -176,13 +185,16 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string,
 	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	speed := u.Symbol(scene.Speed)
-	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tlargest impact (%s)\n", u.Length, speed)
+	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tface down\tlargest impact (%s)\n", u.Length, speed)
 	for _, b := range sum.Bodies {
-		face := "-"
+		face, down := "-", "-"
 		if b.RestingFace != nil {
 			face = fmt.Sprint(*b.RestingFace)
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.4g\n", b.Name, fmtVec(b.Position[:]), fmtOrientation(b.Orientation), face, b.MaxImpactSpeed)
+		if b.FaceDown != nil {
+			down = fmt.Sprint(*b.FaceDown)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.4g\n", b.Name, fmtVec(b.Position[:]), fmtOrientation(b.Orientation), face, down, b.MaxImpactSpeed)
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
@@ -204,11 +216,13 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string,
 		fmt.Fprintln(w)
 	}
 	writePackTables(w, s, sum)
+	writeFeederFigures(w, s, sum) // feeder.go
 	fmt.Fprintf(w, "energy   %.6g J at the start, %.6g J at the end (kinetic plus potential)\n", sum.Energy.Initial, sum.Energy.Final)
 	if dir != "" {
 		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(files, ", "))
 	}
-	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round")
+	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round;")
+	fmt.Fprintln(w, "face down is the face closest to facing gravity, resting or not")
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, safetyNote)
 }
@@ -218,6 +232,9 @@ func outputFiles(s *scene.Scene) []string {
 	files := []string{report.SummaryFile, report.TrajectoryFile, report.EventsFile}
 	if len(s.Joints) > 0 {
 		files = append(files, report.JointsFile)
+	}
+	if len(s.Gates) > 0 {
+		files = append(files, report.GatesFile)
 	}
 	return files
 }

@@ -49,6 +49,13 @@ It writes into DIR (default clatter-sweep):
                secondary_impact_speed,peak_spin,final_face,turned_over;
                drops = "ten" in [sweep] makes the ten drops of the
                parcel-test sequence its cases (the varied key drop.number)
+  face-down.csv per case, body and face: how often the face closest to
+               facing gravity at the end was that one, settled or not
+  crossings.csv, gate-cases.csv, gate-*.png
+               for a scene with [[gate]]s: every crossing; per case, gate,
+               body and face down the count, share with interval, and rate
+               per minute; the orienting efficiency of gates with wanted
+               faces is printed
 
 Everything is in the scene's units; resting faces are numbered as
 clatter inspect lists them. A table of the cases goes to stdout.
@@ -316,6 +323,7 @@ func writeSweepTable(w io.Writer, res *sweep.Result) {
 		fmt.Fprintf(w, "... and %d more rows in %s\n", n, sweep.CasesFile)
 	}
 	fmt.Fprintln(w)
+	writeStudyFeeder(w, res) // feeder.go
 	var files []string
 	for _, f := range m.Files {
 		files = append(files, f)

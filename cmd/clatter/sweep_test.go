@@ -101,7 +101,7 @@ func TestSweepExample(t *testing.T) {
 		"trials   180 of 180 done",
 		"case  material.steel.friction  body  face  count",
 		"0.167", "95% interval", "qualified engineer",
-		"results  " + dir + ": trials.csv, cases.csv, sweep.json, faces-cube-material.steel.friction.png, settle-times.png",
+		"results  " + dir + ": trials.csv, cases.csv, sweep.json, face-down.csv, faces-cube-material.steel.friction.png, settle-times.png",
 	} {
 		if !strings.Contains(refOut, want) {
 			t.Errorf("sweep output lacks %q:\n%s", want, refOut)
@@ -123,7 +123,7 @@ func TestSweepExample(t *testing.T) {
 	if err != nil || json.Unmarshal(b, &meta) != nil {
 		t.Fatalf("sweep.json: %v\n%s", err, b)
 	}
-	if meta.Seed != 7 || meta.Version != toolVersion || meta.TrialsDone != 180 || !meta.Complete || len(meta.Files) != 4 {
+	if meta.Seed != 7 || meta.Version != toolVersion || meta.TrialsDone != 180 || !meta.Complete || len(meta.Files) != 5 {
 		t.Errorf("sweep.json %+v", meta)
 	}
 	for _, f := range meta.Files {
@@ -183,7 +183,7 @@ func rowsIn(path string) int {
 }
 
 // checkRowsIntact fails unless every line of trials.csv (after the header)
-// is a complete row of the example's 16 columns, ending in a line break.
+// is a complete row of the example's 17 columns, ending in a line break.
 func checkRowsIntact(t *testing.T, path string) int {
 	t.Helper()
 	b, err := os.ReadFile(path)
@@ -196,7 +196,7 @@ func checkRowsIntact(t *testing.T, path string) int {
 	sc := bufio.NewScanner(bytes.NewReader(b))
 	n := 0
 	for sc.Scan() {
-		if f := strings.Split(sc.Text(), ","); len(f) != 16 {
+		if f := strings.Split(sc.Text(), ","); len(f) != 17 {
 			t.Errorf("row %d of %s has %d fields: %q", n, path, len(f), sc.Text())
 		}
 		n++

@@ -94,6 +94,13 @@ type runner struct {
 	// traced are the bodies trajectory.csv follows: moving and driven.
 	traced []int
 	pack   packWatch
+	// index maps a body id to its index in s.Bodies; gates counts the
+	// gate crossings (gates.go), drives measures the vibration drives
+	// (drives.go).
+	index  []int
+	gates  *gateCounter
+	gt     *bufio.Writer
+	drives []driveMeter
 }
 
 // Run simulates the scene to its duration, or until every moving body has
@@ -114,7 +121,9 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	}
 	r := &runner{s: s, w: w, ids: ids, opt: opt, u: s.Units, pairs: map[[2]engine.BodyID]bool{},
 		touching: make([]int, w.NumBodies()), faces: map[int][]resting.Face{}, lastRow: math.NaN()}
+	r.index = make([]int, w.NumBodies())
 	for i, b := range s.Bodies {
+		r.index[ids[i]] = i
 		if !b.Static {
 			r.dyn = append(r.dyn, i)
 		}
@@ -123,10 +132,14 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		}
 	}
 	r.watchPackages()
+	r.drives = newDriveMeters(s, w, ids)
+	if len(s.Gates) > 0 {
+		r.gates = newGateCounter(len(s.Gates))
+	}
 	var files []*os.File
 	closeAll := func() error {
 		var first error
-		for _, bw := range []*bufio.Writer{r.traj, r.ev, r.jt} {
+		for _, bw := range []*bufio.Writer{r.traj, r.ev, r.jt, r.gt} {
 			if bw != nil {
 				if err := bw.Flush(); err != nil && first == nil {
 					first = err
@@ -156,6 +169,12 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 				bw   **bufio.Writer
 			}{JointsFile, &r.jt})
 		}
+		if r.gates != nil {
+			outs = append(outs, struct {
+				name string
+				bw   **bufio.Writer
+			}{GatesFile, &r.gt})
+		}
 		for _, f := range outs {
 			fh, err := os.Create(filepath.Join(opt.Dir, f.name))
 			if err != nil {
@@ -167,6 +186,10 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		r.traj.WriteString(TrajectoryHeader + "\n")
 		if r.jt != nil {
 			r.jt.WriteString(JointsHeader + "\n")
+		}
+		if r.gt != nil {
+			r.gt.WriteString(GatesHeader + "\n")
+			r.gates.out = r.gt
 		}
 	}
 	r.peak = make([][2]float64, len(s.Joints))
@@ -209,6 +232,8 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		r.events()
 		r.peaks()
 		r.afterStep()
+		r.crossings() // gates.go
+		r.convey()    // drives.go
 		t := w.Time()
 		if t >= next-1e-9*opt.Sample {
 			r.sample(t)
@@ -294,12 +319,16 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 			Velocity:       clean3(r.u.VecFromSI(w.Velocity(id), scene.Speed)),
 			Spin:           clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
 			RestingFace:    r.restingFace(i),
+			FaceDown:       faceOrNil(BodyFaceDown(w, id, r.facesOf(i))),
+			Balanced:       stringOrNil(Balanced(w, id, r.facesOf(i), r.touching[id] > 0)),
 			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
 		}
 		b.TippedAt, b.SlidAt = r.tiltMarks(id)
 		sum.Bodies = append(sum.Bodies, b)
 	}
 	sum.Drop = r.dropReport()
+	sum.Gates = r.gateSummary(sum.Time)
+	sum.Drives = r.driveSummary()
 	sum.Energy.Initial = clean(sum.Energy.Initial)
 	sum.Energy.Final = clean(w.Energy())
 	sum.Momentum.Linear.Initial = clean3(sum.Momentum.Linear.Initial)
@@ -351,12 +380,17 @@ func (r *runner) jointMotion(j engine.JointID, k engine.JointKind) (pos, speed *
 // restingFace returns the face body i rests on, or nil (see RestingFace).
 func (r *runner) restingFace(i int) *int {
 	id := r.ids[i]
-	faces, ok := r.faces[i]
-	if !ok {
-		faces = Faces(r.w, id)
-		r.faces[i] = faces
+	return faceOrNil(RestingFace(r.w, id, r.facesOf(i), r.touching[id] > 0))
+}
+
+func stringOrNil(s string) *string {
+	if s == "" {
+		return nil
 	}
-	f := RestingFace(r.w, id, faces, r.touching[id] > 0)
+	return &s
+}
+
+func faceOrNil(f int) *int {
 	if f < 0 {
 		return nil
 	}

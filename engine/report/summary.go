@@ -27,6 +27,10 @@ type Summary struct {
 	Joints []Joint `json:"joints,omitempty"`
 	// Drop reports a [drop] (left out without one).
 	Drop *Drop `json:"drop,omitempty"`
+	// Gates are the counting gates in file order, Drives the vibration
+	// drives (left out when there are none).
+	Gates  []Gate  `json:"gates,omitempty"`
+	Drives []Drive `json:"drives,omitempty"`
 	// Error says why the run stopped early; empty for a completed run.
 	Error string `json:"error,omitempty"`
 }
@@ -60,6 +64,14 @@ type Body struct {
 	// (for a box: +x, -x, +y, -y, +z, -z), or is null when the body is not
 	// resting on a face (moving, leaning, or a ball).
 	RestingFace *int `json:"resting_face"`
+	// FaceDown is the face whose outward normal is closest to the
+	// direction of gravity at the end, resting or not (same numbering);
+	// null for a ball.
+	FaceDown *int `json:"face_down"`
+	// Balanced is "edge" or "corner" for a body that came to rest
+	// balanced with its centre of mass above an edge or a corner (any
+	// disturbance tips it; RestingFace is then null), else null.
+	Balanced *string `json:"balanced"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`
 	// TippedAt and SlidAt are when the body first turned 2 degrees, or

@@ -132,6 +132,11 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 			return nil, nil, fail(k.Line, "%v", err)
 		}
 	}
+	for _, g := range s.Gates {
+		if _, err := w.AddGate(engine.Gate{Name: g.Name, At: g.At, Normal: g.Normal, Radius: g.Radius}); err != nil {
+			return nil, nil, fail(g.Line, "%v", err)
+		}
+	}
 	return w, ids, nil
 }
 

@@ -251,7 +251,7 @@ func (s *Scene) read() (*Scene, error) {
 	r := &reader{s: s}
 	s.Units = SI
 	root := section{m: s.raw, name: "the scene's top level"}
-	r.keys(root, "units", "world", "material", "pair", "body", "joint", "drive", "kick", "sweep", "drop")
+	r.keys(root, "units", "world", "material", "pair", "body", "joint", "drive", "kick", "gate", "sweep", "drop")
 	r.units(root)
 	r.world(root)
 	r.materials(root)
@@ -260,6 +260,7 @@ func (s *Scene) read() (*Scene, error) {
 	r.joints(root)
 	r.drives(root)
 	r.kicks(root)
+	r.gates(root) // gate.go
 	r.sweep(root)
 	r.drop(root)
 	if r.n == 0 {

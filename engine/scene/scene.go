@@ -32,6 +32,8 @@ type Scene struct {
 	// Joints and Drives are in file order.
 	Joints []Joint
 	Drives []Drive
+	// Gates are the counting gates, in file order (gate.go).
+	Gates []Gate
 	// Sweep is the study section, or nil when the scene has none.
 	Sweep *Sweep
 	// Drop is the [drop] section, or nil.

@@ -27,6 +27,13 @@ type Result struct {
 	// Dropped counts rows of trials.csv that were not part of a complete
 	// trial (a crash, or an edit) and were left out.
 	Dropped int
+	// GateRows are the rows of gate-cases.csv and Efficiencies the
+	// orienting efficiencies of gates with wanted faces (gates.go);
+	// DownRows count face_down at the end of the trials as Rows count
+	// resting faces (facedown.go).
+	GateRows     []GateRow
+	Efficiencies []Efficiency
+	DownRows     []CaseRow
 }
 
 // CaseRow is one row of cases.csv: the fraction of a case's trials in
@@ -66,7 +73,11 @@ func finish(out string, meta *Meta, srcs []string) (*Result, error) {
 	res := &Result{Dir: out, Meta: meta}
 	tb := trialsTable(meta)
 	st := newStats(meta)
-	n, err := sortInto(out, TrialsFile, tb, srcs, lo, hi, &res.Dropped, st.add)
+	done := newBitset(hi - lo)
+	n, err := sortInto(out, TrialsFile, tb, srcs, lo, hi, &res.Dropped, func(g group) error {
+		done.set(g.g - lo)
+		return st.add(g)
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -104,9 +115,14 @@ func finish(out string, meta *Meta, srcs []string) (*Result, error) {
 		files = append(files, DropsFile)
 	}
 	res.Rows = st.rows()
-	if err := writeAtomic(filepath.Join(out, CasesFile), casesCSV(meta, res.Rows)); err != nil {
+	if err := writeAtomic(filepath.Join(out, CasesFile), casesCSV(meta, res.Rows, meta.casesHeader())); err != nil {
 		return nil, fmt.Errorf("cannot write %s: %w", CasesFile, err)
 	}
+	more, err := finishGates(out, meta, srcs, st, done, lo, hi, res) // gates.go
+	if err != nil {
+		return nil, err
+	}
+	files = append(files, more...)
 	plots, err := writePlots(out, meta, st, res.Rows)
 	if err != nil {
 		return nil, fmt.Errorf("cannot write the plots: %w", err)
@@ -127,7 +143,8 @@ func finish(out string, meta *Meta, srcs []string) (*Result, error) {
 // by global index into out/name (through a temporary file, so the sources
 // may include out), and returns the number of trials written. Trials
 // outside [lo, hi) are an error; a trial found twice must have the same
-// rows both times.
+// rows both times. each, if set, sees every trial before it is written,
+// and leaves it out by returning errSkip.
 func sortInto(out, name string, tb *table, srcs []string, lo, hi int64, dropped *int, each func(group) error) (int64, error) {
 	s := &sorter{dir: out}
 	defer s.cleanup()
@@ -161,11 +178,15 @@ func sortInto(out, name string, tb *table, srcs []string, lo, hi int64, dropped 
 	bw.WriteString(tb.header + "\n")
 	var count int64
 	err = s.each(tb, func(g group) error {
+		if each != nil {
+			if err := each(g); err == errSkip {
+				return nil
+			} else if err != nil {
+				return err
+			}
+		}
 		count++
 		bw.Write(g.data)
-		if each != nil {
-			return each(g)
-		}
 		return nil
 	}, func(kept, other group) error {
 		if !bytes.Equal(kept.data, other.data) {
@@ -208,6 +229,8 @@ type stats struct {
 	pooled []int64
 	hist   [][]int64
 	fields []string
+	// down counts face_down at the end like counts (facedown.go).
+	down [][]int64
 
 	settledAll           int64
 	settleSum, settleMax float64
@@ -240,12 +263,10 @@ func (s *stats) add(g group) error {
 			}
 			face = s.group(b, i)
 		}
-		slot := face + 1
-		cs := &s.counts[c*int64(nb)+int64(b)]
-		for len(*cs) <= slot {
-			*cs = append(*cs, 0)
+		count(&s.counts[c*int64(nb)+int64(b)], face)
+		if err := s.addDown(c, b, g.g%s.meta.Trials, f[15+s.nv]); err != nil {
+			return err
 		}
-		(*cs)[slot]++
 		if b == 0 && f[5+s.nv] == "true" {
 			at, err := strconv.ParseFloat(f[6+s.nv], 64)
 			if err != nil {
@@ -262,6 +283,14 @@ func (s *stats) add(g group) error {
 		}
 	}
 	return nil
+}
+
+// count adds one to the slot of face in counts (slot 0: no face).
+func count(counts *[]int64, face int) {
+	for len(*counts) <= face+1 {
+		*counts = append(*counts, 0)
+	}
+	(*counts)[face+1]++
 }
 
 // group maps a face to its symmetry group's lowest face when the study
@@ -371,9 +400,9 @@ func (s *stats) rows() []CaseRow {
 	return out
 }
 
-func casesCSV(m *Meta, rows []CaseRow) []byte {
+func casesCSV(m *Meta, rows []CaseRow, header string) []byte {
 	var b []byte
-	b = append(b, m.casesHeader()...)
+	b = append(b, header...)
 	b = append(b, '\n')
 	for _, r := range rows {
 		b = strconv.AppendInt(b, r.Case, 10)

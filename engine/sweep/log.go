@@ -20,8 +20,10 @@ import (
 type table struct {
 	header string
 	fields int
-	// rows is the number of rows of one trial; names, if set, the value
-	// of column nameCol in each of them (the moving bodies in order).
+	// rows is the number of rows of one trial, 0 for any number (the rows
+	// of a trial are then those in a run with its case and trial); names,
+	// if set, the value of column nameCol in each of them (the moving
+	// bodies in order).
 	rows    int
 	nameCol int
 	names   []string
@@ -34,7 +36,7 @@ func trialsTable(m *Meta) *table {
 	for i, b := range m.Bodies {
 		names[i] = b.Name
 	}
-	return &table{header: m.trialsHeader(), fields: 15 + len(m.Vary), rows: len(names), nameCol: 3 + len(m.Vary), names: names, cases: m.Cases, trials: m.Trials}
+	return &table{header: m.trialsHeader(), fields: 16 + len(m.Vary), rows: len(names), nameCol: 3 + len(m.Vary), names: names, cases: m.Cases, trials: m.Trials}
 }
 
 func failuresTable(m *Meta) *table {
@@ -119,7 +121,7 @@ func (tb *table) scan(r io.Reader, header bool, fn func(group) error) (scanStats
 		if curN == 0 {
 			return nil
 		}
-		if curN == tb.rows {
+		if curN == tb.rows || tb.rows == 0 {
 			if err := fn(group{g: curG, data: cur}); err != nil {
 				return err
 			}
@@ -168,7 +170,7 @@ func (tb *table) scan(r io.Reader, header bool, fn func(group) error) (scanStats
 			}
 			continue
 		}
-		if g != curG || curN == tb.rows {
+		if g != curG || (tb.rows > 0 && curN == tb.rows) {
 			if err := flush(); err != nil {
 				return st, err
 			}

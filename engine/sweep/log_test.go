@@ -46,7 +46,7 @@ func twoBodies() *table {
 }
 
 func row(c, tr int, body string) string {
-	return fmt.Sprintf("%d,%d,99,0.5,%s,1,true,0.4,1,2,3,1,0,0,0,7\n", c, tr, body)
+	return fmt.Sprintf("%d,%d,99,0.5,%s,1,true,0.4,1,2,3,1,0,0,0,7,1\n", c, tr, body)
 }
 
 func TestScanDropsDamage(t *testing.T) {

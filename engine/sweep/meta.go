@@ -46,6 +46,8 @@ type Meta struct {
 	// Duration is the longest duration of the cases, s.
 	Duration float64    `json:"duration"`
 	Bodies   []BodyMeta `json:"bodies"`
+	// Gates are the scene's counting gates (gates.go); left out when none.
+	Gates []GateMeta `json:"gates,omitempty"`
 	// Shard is the part of the study this folder holds; nil for all of it.
 	Shard *ShardMeta `json:"shard,omitempty"`
 	// TrialsTotal is the number of trials this folder is to hold,
@@ -133,7 +135,7 @@ func (m *Meta) keysHeader() string {
 
 // trialsHeader is the first line of trials.csv (DESIGN.md section 5).
 func (m *Meta) trialsHeader() string {
-	return "case,trial,seed," + m.keysHeader() + "body,resting_face,settled,settled_at,x,y,z,qw,qx,qy,qz,max_impact_speed"
+	return "case,trial,seed," + m.keysHeader() + "body,resting_face,settled,settled_at,x,y,z,qw,qx,qy,qz,max_impact_speed,face_down"
 }
 
 // casesHeader is the first line of cases.csv (DESIGN.md section 5).

@@ -115,6 +115,8 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 	defer failures.close()
 	drops := &appendLog{path: filepath.Join(opt.Dir, DropsFile), header: meta.dropsHeader()}
 	defer drops.close()
+	crossings := &appendLog{path: filepath.Join(opt.Dir, CrossingsFile), header: crossingsHeader}
+	defer crossings.close()
 
 	todo := info.Total - info.Skipped
 	ctx, cancel := context.WithCancel(ctx)
@@ -170,8 +172,14 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 		if werr != nil {
 			continue
 		}
-		// The failure first: a crash between the two writes then reruns
-		// the trial, and Finish drops the repeated failure row.
+		// The failure and the crossings first: a crash between the writes
+		// then reruns the trial, and Finish drops the repeated rows.
+		if r.crossings != nil {
+			if werr = crossings.write(r.crossings); werr != nil {
+				cancel()
+				continue
+			}
+		}
 		if r.failure != nil {
 			if werr = failures.write(r.failure); werr != nil {
 				cancel()
@@ -206,6 +214,9 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 		werr = err
 	}
 	if err := drops.close(); err != nil && werr == nil {
+		werr = err
+	}
+	if err := crossings.close(); err != nil && werr == nil {
 		werr = err
 	}
 	switch {
@@ -273,6 +284,9 @@ func (st *Study) prepare(opt Options, meta *Meta, info *RunInfo, lo, hi int64) (
 	if err := recoverDrops(dir, meta); err != nil {
 		return nil, badf("cannot resume from %s: %v", filepath.Join(dir, DropsFile), err)
 	}
+	if err := pruneCrossings(dir, meta, done, lo); err != nil { // gates.go
+		return nil, badf("cannot resume from %s: %v", filepath.Join(dir, CrossingsFile), err)
+	}
 	return done, nil
 }
 
@@ -315,7 +329,7 @@ func removeTemps(dir string) {
 	}
 	for _, e := range ents {
 		if n := e.Name(); strings.HasSuffix(n, ".tmp") && (strings.HasPrefix(n, ".sort-") || strings.HasPrefix(n, "trials.csv") ||
-			strings.HasPrefix(n, "cases.csv") || strings.HasPrefix(n, "failures.csv") || strings.HasPrefix(n, DropsFile) || strings.HasPrefix(n, "sweep.json") || strings.HasSuffix(n, ".png.tmp")) {
+			strings.HasPrefix(n, "cases.csv") || strings.HasPrefix(n, "failures.csv") || strings.HasPrefix(n, DropsFile) || strings.HasPrefix(n, CrossingsFile) || strings.HasPrefix(n, GateCasesFile) || strings.HasPrefix(n, FaceDownFile) || strings.HasPrefix(n, "sweep.json") || strings.HasSuffix(n, ".png.tmp")) {
 			os.Remove(filepath.Join(dir, n))
 		}
 	}

@@ -131,6 +131,9 @@ func New(data []byte, name string, opt scene.Options) (*Study, error) {
 	if err := st.bodyFaces(); err != nil {
 		return nil, err
 	}
+	if err := st.setGates(); err != nil { // gates.go
+		return nil, err
+	}
 	seen := map[string]bool{}
 	for _, w := range s.Warnings {
 		seen[w] = true

@@ -133,7 +133,7 @@ func TestCubeRestsOnEachFaceEqually(t *testing.T) {
 		t.Errorf("face counts %v of %d: chi-square %.2f above %.2f", counts, n, chi2, crit)
 	}
 	// Without varied keys the face plot is one chart of the faces.
-	if strings.Join(res.Meta.Files, " ") != "trials.csv cases.csv faces-cube.png settle-times.png" {
+	if strings.Join(res.Meta.Files, " ") != "trials.csv cases.csv face-down.csv faces-cube.png settle-times.png" {
 		t.Errorf("files %v", res.Meta.Files)
 	}
 	// The quasi-static probability of each face is 1/6 too (solid angle
@@ -328,7 +328,7 @@ func TestSameResultsHoweverRun(t *testing.T) {
 
 	b, _ := os.ReadFile(filepath.Join(one, TrialsFile))
 	lines := strings.Split(strings.TrimSpace(string(b)), "\n")
-	if lines[0] != "case,trial,seed,material.abs.friction,body,resting_face,settled,settled_at,x,y,z,qw,qx,qy,qz,max_impact_speed" || len(lines) != 19 {
+	if lines[0] != "case,trial,seed,material.abs.friction,body,resting_face,settled,settled_at,x,y,z,qw,qx,qy,qz,max_impact_speed,face_down" || len(lines) != 19 {
 		t.Errorf("trials.csv: header %q and %d rows, want the DESIGN.md header and 18 rows", lines[0], len(lines)-1)
 	}
 	if !strings.HasPrefix(lines[1], "0,0,") || !strings.Contains(lines[1], `,"part, ""A""",`) || !strings.HasPrefix(lines[18], "1,8,") {

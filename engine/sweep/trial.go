@@ -26,6 +26,10 @@ type worker struct {
 	touch  []bool
 	awake  []bool
 	last   []shapes.Pose // each moving body's centre of mass and orientation before the step
+	// slot maps a body id to its index in st.dyn (-1: not moving);
+	// cross holds the trial's rows of crossings.csv (gates.go).
+	slot  []int
+	cross []byte
 }
 
 func newWorker(st *Study) *worker { return &worker{st: st, c: -1} }
@@ -33,10 +37,11 @@ func newWorker(st *Study) *worker { return &worker{st: st, c: -1} }
 // result is a finished trial: its rows of trials.csv, and a row of
 // failures.csv if the simulation failed.
 type result struct {
-	g       int64
-	rows    []byte
-	failure []byte
-	drop    []byte // the drops.csv row of a study with a [drop]
+	g         int64
+	rows      []byte
+	failure   []byte
+	drop      []byte // the drops.csv row of a study with a [drop]
+	crossings []byte // rows of crossings.csv, if any
 }
 
 // useCase reads the scene of case c unless it is the current one.
@@ -101,6 +106,7 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	for k := range wk.touch {
 		wk.touch[k] = false
 	}
+	wk.startCrossings(ids)
 	dt := sc.World.Step
 	steps := int(math.Ceil(sc.World.Duration/dt - 1e-9))
 	var stepErr error
@@ -120,6 +126,7 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 			break
 		}
 		drop.after(w)
+		wk.crossings(c, t, w) // gates.go
 		// A body asleep since before this step keeps what it touched then
 		// (engine.World.Touching with NoEvents).
 		for k, i := range st.dyn {
@@ -188,9 +195,16 @@ func (wk *worker) rows(g, c, t int64, seed uint64, sc *scene.Scene, w *engine.Wo
 			b = append(b, ',')
 			b = appendNumber(b, x)
 		}
+		b = append(b, ',')
+		if down := report.FaceDown(wk.faces[k], rot, sc.World.Gravity); down >= 0 {
+			b = strconv.AppendInt(b, int64(down), 10)
+		}
 		b = append(b, '\n')
 	}
 	r := result{g: g, rows: b}
+	if len(wk.cross) > 0 {
+		r.crossings = append([]byte(nil), wk.cross...)
+	}
 	if stepErr != nil {
 		f := strconv.AppendInt(nil, c, 10)
 		f = append(f, ',')

@@ -1,0 +1,5 @@
+package bench
+
+import "testing"
+
+func BenchmarkBowlFeeder50(b *testing.B) { BowlFeeder50(b) }

@@ -1,0 +1,143 @@
+package sweep
+
+import (
+	"bytes"
+	"fmt"
+	"image/color"
+	"math"
+	"path/filepath"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/plotutil"
+	"gonum.org/v1/plot/vg"
+	vgdraw "gonum.org/v1/plot/vg/draw"
+)
+
+// writeGatePlots writes gate-<name>.png for each gate: per face down, the
+// share of the gate's crossings (every moving body together when there
+// are several) with its 95 percent Wilson interval, a series per case (the
+// first maxSettleLines cases), the crossings per minute in the legend, and
+// the faces' quasi-static probabilities beside them.
+func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
+	var names []string
+	body, bi := "", len(m.Bodies) // bi past the bodies: faces named by number only
+	if len(m.Bodies) == 1 {
+		body, bi = m.Bodies[0].Name, 0
+	}
+	for _, g := range m.Gates {
+		var faces []int
+		seen := map[int]bool{}
+		for _, r := range rows {
+			if r.Gate == g.Name && r.Body == body && !seen[r.FaceDown] {
+				seen[r.FaceDown] = true
+				faces = append(faces, r.FaceDown)
+			}
+		}
+		if len(faces) == 0 {
+			continue
+		}
+		slot := map[int]int{}
+		labels := make([]string, len(faces))
+		for i, f := range faces {
+			slot[f] = i
+			labels[i] = faceName(m, bi, f)
+		}
+		p := newPlot(fmt.Sprintf("gate %s: share of each face down among its crossings, 95%% Wilson intervals", g.Name), "face down", "fraction of crossings")
+		cases := map[int64][]GateRow{}
+		var order []int64
+		for _, r := range rows {
+			if r.Gate != g.Name || r.Body != body {
+				continue
+			}
+			if _, ok := cases[r.Case]; !ok {
+				order = append(order, r.Case)
+			}
+			cases[r.Case] = append(cases[r.Case], r)
+		}
+		if len(order) > maxSettleLines {
+			order = order[:maxSettleLines]
+		}
+		top := 0.0
+		qs := map[int]float64{}
+		for k, c := range order {
+			var pts plotter.XYs
+			var errs plotter.YErrors
+			rate := 0.0
+			// Cases side by side within each face's slot.
+			off := (float64(k) - float64(len(order)-1)/2) * 0.12
+			for _, r := range cases[c] {
+				pts = append(pts, plotter.XY{X: float64(slot[r.FaceDown]) + off, Y: r.Fraction})
+				errs = append(errs, struct{ Low, High float64 }{r.Fraction - r.Low, r.High - r.Fraction})
+				rate += r.Rate
+				top = math.Max(top, r.High)
+				if !math.IsNaN(r.QuasiStatic) {
+					qs[r.FaceDown] = r.QuasiStatic
+				}
+			}
+			label := fmt.Sprintf("%.3g per minute", rate)
+			if len(m.Vary) > 0 {
+				label = fmt.Sprintf("case %d: %s", c, label)
+			}
+			if err := addPoints(p, pts, errs, label, k); err != nil {
+				return nil, err
+			}
+		}
+		if len(qs) > 0 {
+			var pts plotter.XYs
+			for _, f := range faces {
+				if q, ok := qs[f]; ok {
+					pts = append(pts, plotter.XY{X: float64(slot[f]), Y: q})
+					top = math.Max(top, q)
+				}
+			}
+			sc, err := plotter.NewScatter(pts)
+			if err != nil {
+				return nil, err
+			}
+			sc.Shape = vgdraw.CrossGlyph{}
+			sc.Radius = vg.Points(5)
+			sc.Color = color.Gray{Y: 90}
+			p.Add(sc)
+			p.Legend.Add("quasi-static probability", sc)
+		}
+		p.NominalX(labels...)
+		p.Y.Min, p.Y.Max = 0, yTop(top, len(order))
+		wt, err := p.WriterTo(plotWidth, plotHeight, "png")
+		if err != nil {
+			return nil, err
+		}
+		var buf bytes.Buffer
+		if _, err := wt.WriteTo(&buf); err != nil {
+			return nil, err
+		}
+		name := "gate-" + fileSafe(g.Name) + ".png"
+		if err := writeAtomic(filepath.Join(dir, name), buf.Bytes()); err != nil {
+			return nil, err
+		}
+		names = append(names, name)
+	}
+	return names, nil
+}
+
+// addPoints draws points with their error bars, not joined, in the
+// colour and shape of series i.
+func addPoints(p *plot.Plot, pts plotter.XYs, errs plotter.YErrors, label string, i int) error {
+	sc, err := plotter.NewScatter(pts)
+	if err != nil {
+		return err
+	}
+	sc.Color = plotutil.Color(i)
+	sc.Shape = plotutil.Shape(i)
+	eb, err := plotter.NewYErrorBars(struct {
+		plotter.XYs
+		plotter.YErrors
+	}{pts, errs})
+	if err != nil {
+		return err
+	}
+	eb.LineStyle.Color = sc.Color
+	p.Add(sc, eb)
+	p.Legend.Add(label, sc)
+	return nil
+}
