@@ -41,7 +41,8 @@ A [sweep] section is read and checked, and ignored: clatter sweep runs it.
 
 Exit codes: 0 the run completed, 1 the simulation failed (diverged or was
 interrupted; the files keep everything up to its last good state and the
-error), 2 bad input (the scene's errors name file and line).
+error), 2 bad input (the scene's errors name file and line), 70 an internal
+error (please report it).
 
 Options:
   -o DIR           where to write the results (default clatter-out)

@@ -59,8 +59,10 @@ with the number of shards from --shard-count or CLATTER_SHARD_COUNT) or a
 Slurm job array (SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_COUNT,
 SLURM_ARRAY_TASK_MIN). Give each shard its own DIR.
 
-Exit codes: 0 every trial ran, 1 a trial's simulation failed or the sweep
-was interrupted (resume it), 2 bad input.
+Exit codes: 0 every trial ran; 1 the sweep was interrupted (resume it);
+2 bad input (also a folder in use by another sweep); 3 the study finished
+but some trials failed: failures.csv says which and why, and rerunning
+will not change them; 70 an internal error (please report it).
 
 Options:
   -o DIR            where to write (default clatter-sweep)
@@ -200,7 +202,12 @@ func runMerge(e *env, args []string) int {
 
 // sweepFailed reports an error of sweep or merge and returns the exit code.
 func sweepFailed(e *env, err error, dir string) int {
+	var ie *sweep.InternalError
 	switch {
+	case errors.As(err, &ie):
+		e.errorf("%v; every finished trial is kept in %s\n%s", err, filepath.Join(dir, sweep.TrialsFile), reportHint)
+		writeIndented(e.stderr, ie.Stack)
+		return exitInternal
 	case errors.Is(err, scene.ErrBadScene):
 		fmt.Fprintln(e.stderr, err)
 		return exitBad
@@ -219,7 +226,7 @@ func sweepOutcome(e *env, res *sweep.Result) int {
 	m := res.Meta
 	if m.TrialsFailed > 0 {
 		e.errorf("%d trials failed (the simulation diverged): their rows hold the last good state, and %s says why", m.TrialsFailed, filepath.Join(res.Dir, sweep.FailuresFile))
-		return exitFailed
+		return exitTrials
 	}
 	if !m.Complete {
 		e.errorf("%s holds %d of its %d trials", res.Dir, m.TrialsDone, m.TrialsTotal)

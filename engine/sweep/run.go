@@ -141,7 +141,7 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 			defer wg.Done()
 			wk := newWorker(st)
 			for g := range jobs {
-				r, err := wk.run(ctx, g)
+				r, err := wk.safeRun(ctx, g)
 				if err != nil {
 					if ctx.Err() == nil {
 						fatalOnce.Do(func() { fatal = err })
