@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"text/tabwriter"
@@ -82,8 +81,8 @@ func runScene(e *env, args []string) int {
 		e.infof("note: run simulates the scene once and ignores its [sweep] section; clatter sweep runs the study")
 	}
 	if *dir != "" {
-		if err := os.MkdirAll(*dir, 0o755); err != nil {
-			e.errorf("run: -o %s: cannot make the output folder: %v", *dir, err)
+		if err := writableDir(*dir); err != nil {
+			e.errorf("run: -o %s: cannot write into the output folder: %v; choose another folder with -o", *dir, err)
 			return exitBad
 		}
 	}

@@ -147,8 +147,14 @@ func runSweep(e *env, args []string) int {
 	for _, w := range st.Warnings {
 		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
+	// The folder is held from the first trial to the last plot.
+	lock, err := sweep.LockFolder(*dir)
+	if err != nil {
+		return sweepFailed(e, err, *dir)
+	}
+	defer lock.Release()
 	p := newTrialProgress(e)
-	info, err := st.Run(e.ctx, sweep.Options{Dir: *dir, Workers: *workers, Shard: shard, Resume: *resume, Version: toolVersion, Progress: p.update})
+	info, err := st.Run(e.ctx, sweep.Options{Dir: *dir, Workers: *workers, Shard: shard, Resume: *resume, Version: toolVersion, Progress: p.update, Lock: lock})
 	p.done()
 	if info != nil {
 		if info.Torn {

@@ -33,6 +33,10 @@ type Options struct {
 	// Progress, if set, is called from one goroutine after each finished
 	// trial with the trials this run has finished and is to run.
 	Progress func(done, total int64)
+	// Lock, if set, is the caller's hold on Dir (LockFolder), kept past
+	// the run (to Finish the folder); without it Run takes and releases
+	// its own, and refuses a folder that another process writes into.
+	Lock *Lock
 }
 
 // RunInfo tells what a Run did.
@@ -94,8 +98,12 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 	meta.TrialsTotal = hi - lo
 	info := &RunInfo{Meta: &meta, Total: hi - lo}
 
-	if err := os.MkdirAll(opt.Dir, 0o755); err != nil {
-		return nil, badf("cannot make the output folder: %v", unwrapPath(err))
+	if opt.Lock == nil {
+		l, err := LockFolder(opt.Dir)
+		if err != nil {
+			return nil, err
+		}
+		defer l.Release()
 	}
 	done, err := st.prepare(opt, &meta, info, lo, hi)
 	if err != nil {
