@@ -231,7 +231,7 @@ func (st *Study) prepare(opt Options, meta *Meta, info *RunInfo, lo, hi int64) (
 	case old != nil && !opt.Resume:
 		return nil, badf("%s already holds a sweep (%s); add --resume to finish it, or choose another folder with -o", dir, MetaFile)
 	case old != nil:
-		if why := sameStudy(old, meta); why != "" {
+		if why := sameStudy(meta, old); why != "" {
 			return nil, badf("cannot resume the sweep in %s: %s; run this study into another folder", dir, why)
 		}
 		if (old.Shard == nil) != (meta.Shard == nil) || old.Shard != nil && (old.Shard.Index != meta.Shard.Index || old.Shard.Count != meta.Shard.Count) {
