@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"sync"
@@ -61,7 +60,7 @@ type draw struct {
 // Open reads a scene file with a [sweep] section; mesh paths are relative
 // to its folder.
 func Open(file string) (*Study, error) {
-	data, err := os.ReadFile(file)
+	data, err := scene.ReadInput(file, scene.MaxSceneBytes)
 	if err != nil {
 		return nil, scene.Errors{{File: file, Msg: fmt.Sprintf("cannot read the scene: %v", unwrapPath(err))}}
 	}
