@@ -104,6 +104,11 @@ func runScene(e *env, args []string) int {
 	} else {
 		writeRunTable(e.stdout, s, sum, *dir)
 	}
+	var we *report.WriteError
+	if errors.As(err, &we) {
+		e.errorf("%v", err) // says what the folder keeps
+		return exitFailed
+	}
 	if err != nil {
 		e.errorf("run failed: %v", err)
 		if *dir != "" {
