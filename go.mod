@@ -7,8 +7,10 @@ require (
 	github.com/go-gl/mathgl v1.2.0
 	github.com/hschendel/stl v1.0.4
 	github.com/schollz/progressbar/v3 v3.19.1
+	golang.org/x/sys v0.46.0
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0
+	gopkg.in/yaml.v3 v3.0.1
 )
 
 require (
@@ -21,7 +23,6 @@ require (
 	github.com/mitchellh/colorstring v0.0.0-20190213212951-d06e56a500db // indirect
 	github.com/rivo/uniseg v0.4.7 // indirect
 	golang.org/x/image v0.30.0 // indirect
-	golang.org/x/sys v0.46.0 // indirect
 	golang.org/x/term v0.44.0 // indirect
 	golang.org/x/text v0.28.0 // indirect
 )
