@@ -280,3 +280,21 @@ func skipString(data []byte, i int) (end, lines int) {
 	}
 	return len(data) - 1, lines
 }
+
+// finiteProps refuses a body whose mass or inertia, computed from its
+// shape and density or mass, is not a finite positive number with a finite
+// inverse (the step divides by them): each input is within its range, but
+// a product of extremes can still leave float64.
+func (r *reader) finiteProps(b *Body, path []string, pre string) {
+	p := b.Props
+	ok := p.Mass > 0 && !math.IsInf(p.Mass, 0) && !math.IsInf(1/p.Mass, 0)
+	for i := 0; i < 3 && ok; i++ {
+		for j := 0; j < 3; j++ {
+			ok = ok && !math.IsInf(p.Inertia.At(i, j), 0) && !math.IsNaN(p.Inertia.At(i, j))
+		}
+		ok = ok && p.Inertia.At(i, i) > 0 && !math.IsInf(1/p.Inertia.At(i, i), 0)
+	}
+	if !ok {
+		r.errAt(path, "%sits mass (%g kg) or moments of inertia are beyond the range of numbers, or zero, for its size and density or mass; check their values and units", pre, p.Mass)
+	}
+}

@@ -64,6 +64,7 @@ func TestHostileValuesRefused(t *testing.T) {
 		{"box edge 1e308 m", "BOX", "[1e308, 0.02, 0.02]", "box[0] is 1e+308 m, beyond what clatter accepts for a length (at most 1e+06 m", 13},
 		{"density overflowing in its unit", "DENSITY", `"1e306 g/mm3"`, "density overflows", 15},
 		{"density beyond its range", "DENSITY", `"1e300 g/mm3"`, "density is 1e+306 kg/m3, beyond what clatter accepts for a density", 15},
+		{"a density so small the inertia has no inverse", "DENSITY", `"1e-305 g/cm3"`, "moments of inertia are beyond the range of numbers, or zero", 13},
 		{"a plain number by its unit", "DENSITY", `"1 km6/mm6"`, "density is 1e+36 kg/m3, beyond", 15},
 	}
 	for _, c := range cases {

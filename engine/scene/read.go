@@ -684,7 +684,11 @@ func (r *reader) massProps(b *Body, path []string, pre string) {
 		}
 		unit = c.Mass(1)
 	}
-	if !(unit.Volume > 0) || math.IsInf(unit.Volume, 0) {
+	switch {
+	case math.IsInf(unit.Volume, 0) || math.IsNaN(unit.Volume):
+		r.errAt(path, "%sthe shape is too large: its volume overflows; give its sizes in the scene's length unit", pre)
+		return
+	case !(unit.Volume > 0):
 		r.errAt(path, "%sthe shape has no volume, so it has no mass", pre)
 		return
 	}
@@ -693,6 +697,7 @@ func (r *reader) massProps(b *Body, path []string, pre string) {
 	} else {
 		b.Props = unit.WithMass(b.Mass)
 	}
+	r.finiteProps(b, path, pre)
 	if !(b.Props.Mass > 0) || math.IsInf(b.Props.Mass, 0) {
 		r.errAt(path, "%smass must be positive and finite, got %g kg", pre, b.Props.Mass)
 	}
