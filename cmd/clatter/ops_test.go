@@ -59,14 +59,10 @@ func TestUnwritableOutputExitsBad(t *testing.T) {
 		ro = "/proc/self"
 	}
 	for _, out := range []string{filepath.Join(file, "out"), ro} {
-		for _, cmd := range []string{"run", "sweep"} {
-			scene := "../../testdata/scenes/bounce.toml"
-			if cmd == "sweep" {
-				scene = exampleSweep
-			}
-			_, errs, code := clatter(t, cmd, scene, "-o", out, "--quiet")
+		for _, args := range [][]string{{"run", "../../testdata/scenes/bounce.toml"}, {"sweep", exampleSweep}, {"demo"}} {
+			_, errs, code := clatter(t, append(args, "-o", out, "--quiet")...)
 			if code != exitBad || !strings.Contains(errs, out) {
-				t.Errorf("%s into %s: exit %d, want %d naming the folder\n%s", cmd, out, code, exitBad, errs)
+				t.Errorf("%s into %s: exit %d, want %d naming the folder\n%s", args[0], out, code, exitBad, errs)
 			}
 		}
 	}
