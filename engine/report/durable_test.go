@@ -101,7 +101,7 @@ func TestWriteErrorSaysWhatIsKept(t *testing.T) {
 	if !errors.As(err, &we) || !errors.Is(err, syscall.ENOSPC) || we.File != EventsFile {
 		t.Fatalf("error %v, want a WriteError of events.jsonl with ENOSPC", err)
 	}
-	if !(we.Kept > 0.08 && we.Kept < 0.12) || !we.Summary || sum.Time < we.Kept {
+	if !(we.Kept > 0.08 && we.Kept < 0.12) || !we.Summary || sum.Time < we.Kept || sum.Error != "stopped: cannot write events.jsonl: no space left on device" {
 		t.Errorf("%+v: want the samples kept up to the impact near 0.101 s and the summary written", we)
 	}
 	tr, whole := lastTime(t, filepath.Join(dir, TrajectoryFile), false)

@@ -206,6 +206,9 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	}
 	r.out.commit(end)
 	r.summarise(sum, simErr)
+	if we := r.out.err; we != nil && sum.Error == "" {
+		sum.Error = fmt.Sprintf("stopped: cannot write %s: %v", we.File, we.Err)
+	}
 	if opt.Dir != "" {
 		err := writeAtomic(filepath.Join(opt.Dir, SummaryFile), sum.JSON())
 		if we := r.out.err; we != nil {
