@@ -78,7 +78,7 @@ func TestFolderInUseExitsBad(t *testing.T) {
 	host, _ := os.Hostname()
 	for _, extra := range [][]string{nil, {"--resume"}} {
 		_, errs, code := clatter(t, append([]string{"sweep", exampleSweep, "-o", dir, "--quiet"}, extra...)...)
-		want := fmt.Sprintf("in use by process %d on host %s", os.Getpid(), host)
+		want := fmt.Sprintf("clatter: %s is in use by process %d on host %s", dir, os.Getpid(), host)
 		if code != exitBad || !strings.Contains(errs, want) {
 			t.Errorf("sweep %v into a folder in use: exit %d, want %d and %q\n%s", extra, code, exitBad, want, errs)
 		}

@@ -46,6 +46,13 @@ func (h Holder) String() string {
 // ErrLocked is wrapped by the error of LockFolder for a folder in use.
 var ErrLocked = errors.New("folder in use")
 
+// lockedError is a folder in use: bad input (choose another folder), and
+// ErrLocked.
+type lockedError struct{ msg string }
+
+func (e *lockedError) Error() string        { return e.msg }
+func (e *lockedError) Is(target error) bool { return target == ErrLocked || target == ErrBadInput }
+
 // LockFolder takes the folder dir (made if missing) for this process. A
 // folder in use by a live process is refused with an error that wraps
 // ErrBadInput and ErrLocked and names that process.
@@ -67,8 +74,7 @@ func LockFolder(dir string) (*Lock, error) {
 		if held {
 			h := readHolder(f)
 			f.Close()
-			return nil, fmt.Errorf("%w: %w: %s is in use by %s, which is writing a sweep there; wait for it to end, or choose another folder with -o",
-				ErrBadInput, ErrLocked, dir, h)
+			return nil, &lockedError{fmt.Sprintf("%s is in use by %s, which is writing a sweep there; wait for it to end, or choose another folder with -o", dir, h)}
 		}
 		// The holder before us may have removed the file after we opened
 		// it: then ours is a lock on a file no one else will find.
