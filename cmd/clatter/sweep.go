@@ -39,8 +39,9 @@ It writes into DIR (default clatter-sweep):
   cases.csv    a row per case, body and resting face: the count, the
                fraction of the case's trials and its 95 percent Wilson
                interval (low, high)
-  sweep.json   the study as run: scene digest, seed, cases, trials done,
-               the faces of each body, tool version
+  sweep.json   the study as run: the digests of the scene and of every
+               file it reads, the build and architecture, seed, cases,
+               trials done, the faces of each body, tool version
   *.png        the fraction of each resting face against each varied key,
                and the distribution of the times to settle
   failures.csv trials whose simulation failed, if any
@@ -57,7 +58,9 @@ On a cluster, --shard K/N runs the K-th of N equal parts of the trials
 shard is taken from a Kubernetes Indexed Job (JOB_COMPLETION_INDEX from 0,
 with the number of shards from --shard-count or CLATTER_SHARD_COUNT) or a
 Slurm job array (SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_COUNT,
-SLURM_ARRAY_TASK_MIN). Give each shard its own DIR.
+SLURM_ARRAY_TASK_MIN). Give each shard its own DIR: one process writes
+into a folder at a time, and a second is refused (exit 2) naming the
+process and host that hold it.
 
 Exit codes: 0 every trial ran; 1 the sweep was interrupted (resume it);
 2 bad input (also a folder in use by another sweep); 3 the study finished
@@ -80,9 +83,10 @@ var cmdMerge = &command{
 	help: `
 Joins the folders of a sweep run in shards (clatter sweep --shard K/N) into
 DIR: the same files, byte for byte, as the whole sweep run in one folder.
-It refuses folders of different studies (another scene or mesh file, seed
-or clatter version), a shard given twice or missing, and unfinished shards
-(finish them with clatter sweep --resume). A table of the cases goes to
+It refuses folders of different studies (another scene, mesh or pose
+table, seed, clatter version, build or architecture), a shard given twice
+or missing, and unfinished shards (finish them with clatter sweep
+--resume). A table of the cases goes to
 stdout.
 
 Options:
