@@ -151,13 +151,12 @@ func TestPairMemorySameResults(t *testing.T) {
 	rng := rand.New(rand.NewSource(31))
 	ss := cacheShapes(t, rng)
 	type track struct {
-		a, b       shapes.Shape
-		pa, pb     shapes.Pose
-		vel, spin  vec3
-		spinA      vec3
-		key        uint64
-		margin     float64
-		passedFrom int
+		a, b      shapes.Shape
+		pa, pb    shapes.Pose
+		vel, spin vec3
+		spinA     vec3
+		key       uint64
+		margin    float64
 	}
 	var tracks []*track
 	for i := range ss {

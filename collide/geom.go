@@ -87,18 +87,6 @@ func clamp01(x float64) float64 {
 	return x
 }
 
-// closestPointSegment returns the parameter t in [0, 1] and the point of the
-// segment a-b closest to p.
-func closestPointSegment(p, a, b vec3) (float64, vec3) {
-	ab := b.Sub(a)
-	den := ab.Dot(ab)
-	if den == 0 {
-		return 0, a
-	}
-	t := clamp01(p.Sub(a).Dot(ab) / den)
-	return t, a.Add(ab.Mul(t))
-}
-
 // closestSegmentSegment returns the closest points c1 = p1 + s (q1 - p1) and
 // c2 = p2 + t (q2 - p2) of two segments (C. Ericson, "Real-Time Collision
 // Detection", Morgan Kaufmann 2005, section 5.1.9). Parallel segments give one

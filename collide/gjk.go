@@ -175,12 +175,9 @@ func closestOf(s *[4]vec3, mask uint8, lam *[4]float64) vec3 {
 	return v
 }
 
-// reduce runs the signed-volumes step on the simplex, keeps the supporting
-// sub-simplex and returns the closest point to the origin.
-func (s *simplex) reduce() vec3 { return s.reduceInto(s) }
-
-// reduceInto is reduce writing the kept sub-simplex into out (which may be
-// s), so that s survives when out is another simplex.
+// reduceInto runs the signed-volumes step on the simplex, writes the
+// supporting sub-simplex into out (which may be s, or another simplex so
+// that s survives) and returns the closest point to the origin.
 func (s *simplex) reduceInto(out *simplex) vec3 {
 	var lam [4]float64
 	var mask uint8

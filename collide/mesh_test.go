@@ -170,9 +170,7 @@ func TestMeshInternalEdges(t *testing.T) {
 	c := 1 / math.Sqrt(1+slope*slope)
 	for _, m := range ms {
 		wantX := slope * c
-		if m.Normal[0] > 0 {
-			wantX = slope * c
-		} else {
+		if m.Normal[0] <= 0 {
 			wantX = -slope * c
 		}
 		if math.Abs(m.Normal[0]-wantX) > tol || math.Abs(m.Normal[2]-c) > tol {

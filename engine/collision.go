@@ -1,7 +1,6 @@
 package engine
 
 import (
-	"fmt"
 	"math"
 	"slices"
 
@@ -246,8 +245,8 @@ func (w *World) solve(dt float64) error {
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
-		// step, so this is a blow-up within this step.
-		return fmt.Errorf("simulation diverged at t = %.6g s in the contact solve: %w; the step is likely too large for the sizes and speeds in the scene (try a smaller step or more sub-steps)", w.time, err)
+		// step, so this is a blow-up within this step (solveerr.go).
+		return w.solveError(err)
 	}
 	w.afterJointSolve(dt) // exact joint projection and joint forces (joint.go)
 	for i := 0; i < n; i++ {

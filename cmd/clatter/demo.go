@@ -1,6 +1,8 @@
 package main
 
 import (
+	"context"
+	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -49,9 +51,17 @@ func runDemo(e *env, args []string) int {
 		e.errorf("demo: -o needs a folder")
 		return exitBad
 	}
+	if err := writableDir(*dir); err != nil {
+		e.errorf("demo: -o %s: cannot write into the output folder: %v; choose another folder with -o", *dir, err)
+		return exitBad
+	}
 	p := newProgress(e, "demo")
 	st, err := demo.Run(e.ctx, *dir, p.update)
 	p.done()
+	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		e.errorf("demo: interrupted; the runs finished so far are in %s", *dir)
+		return exitFailed
+	}
 	if err != nil {
 		e.errorf("demo: %v", err)
 		return exitFailed

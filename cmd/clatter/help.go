@@ -51,8 +51,9 @@ func writeMainHelp(w io.Writer) {
 	}
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "Start with `clatter demo`. `clatter help COMMAND` or `clatter COMMAND --help` explains one.")
-	fmt.Fprintln(w, "Exit codes: 0 ok, 1 the simulation failed, 2 bad input. Results go to stdout, messages to stderr;")
-	fmt.Fprintln(w, "--quiet turns off the progress bar and informational messages.")
+	fmt.Fprintln(w, "Results go to stdout, messages to stderr; --quiet turns off the progress bar and informational messages.")
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, exitCodesHelp)
 }
 
 func writeHelp(w io.Writer, c *command) {

@@ -137,7 +137,7 @@ func inspectPart(e *env, args []string) int {
 		}
 		density = v
 	}
-	part, err := mesh.LoadPart(pos[0], mesh.Unit(unit))
+	part, err := loadPart(pos[0], mesh.Unit(unit))
 	if err != nil {
 		e.errorf("inspect: %v", err)
 		return exitBad

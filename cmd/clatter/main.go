@@ -12,13 +12,6 @@ import (
 	"syscall"
 )
 
-// Exit codes.
-const (
-	exitOK     = 0
-	exitFailed = 1
-	exitBad    = 2
-)
-
 // safetyNote is printed beside every simulated or computed result.
 const safetyNote = "Note: simulation informs design; it does not replace the physical tests that packaging and stability\n" +
 	"standards and local codes require. Results that protect people or goods need review by a qualified engineer."
@@ -85,8 +78,9 @@ func commandNames() []string {
 }
 
 // run is the whole command: it parses args and returns the exit code.
-func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+func run(ctx context.Context, args []string, stdout, stderr io.Writer) (code int) {
 	e := &env{ctx: ctx, stdout: stdout, stderr: stderr}
+	defer recovered(e, &code)
 	for len(args) > 0 && strings.HasPrefix(args[0], "-") {
 		switch args[0] {
 		case "-q", "--quiet", "-quiet":

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"text/tabwriter"
@@ -59,7 +58,8 @@ A [sweep] section is read and checked, and ignored: clatter sweep runs it.
 
 Exit codes: 0 the run completed, 1 the simulation failed (diverged or was
 interrupted; the files keep everything up to its last good state and the
-error), 2 bad input (the scene's errors name file and line).
+error), 2 bad input (the scene's errors name file and line), 70 an internal
+error (please report it).
 
 Options:
   -o DIR           where to write the results (default clatter-out)
@@ -113,8 +113,8 @@ func runScene(e *env, args []string) int {
 // the exit code.
 func simulate(e *env, s *scene.Scene, dir string, sample float64, asJSON bool, vis *visuals) int {
 	if dir != "" {
-		if err := os.MkdirAll(dir, 0o755); err != nil {
-			e.errorf("run: -o %s: cannot make the output folder: %v", dir, err)
+		if err := writableDir(dir); err != nil {
+			e.errorf("run: -o %s: cannot write into the output folder: %v; choose another folder with -o", dir, err)
 			return exitBad
 		}
 	}
@@ -142,6 +142,11 @@ func simulate(e *env, s *scene.Scene, dir string, sample float64, asJSON bool, v
 		}
 	} else {
 		writeRunTable(e.stdout, s, sum, dir, append(outputFiles(s), extra...))
+	}
+	var we *report.WriteError
+	if errors.As(err, &we) {
+		e.errorf("%v", err) // says what the folder keeps
+		return exitFailed
 	}
 	if err != nil {
 		e.errorf("run failed: %v", err)

@@ -39,8 +39,9 @@ It writes into DIR (default clatter-sweep):
   cases.csv    a row per case, body and resting face: the count, the
                fraction of the case's trials and its 95 percent Wilson
                interval (low, high)
-  sweep.json   the study as run: scene digest, seed, cases, trials done,
-               the faces of each body, tool version
+  sweep.json   the study as run: the digests of the scene and of every
+               file it reads, the build and architecture, seed, cases,
+               trials done, the faces of each body, tool version
   *.png        the fraction of each resting face against each varied key,
                and the distribution of the times to settle
   failures.csv trials whose simulation failed, if any
@@ -69,7 +70,9 @@ On a cluster, --shard K/N runs the K-th of N equal parts of the trials
 shard is taken from a Kubernetes Indexed Job (JOB_COMPLETION_INDEX from 0,
 with the number of shards from --shard-count or CLATTER_SHARD_COUNT) or a
 Slurm job array (SLURM_ARRAY_TASK_ID, SLURM_ARRAY_TASK_COUNT,
-SLURM_ARRAY_TASK_MIN). Give each shard its own DIR.
+SLURM_ARRAY_TASK_MIN). Give each shard its own DIR: one process writes
+into a folder at a time, and a second is refused (exit 2) naming the
+process and host that hold it.
 
 --replay CASE/TRIAL runs that one trial (the case and trial columns of
 trials.csv) as clatter run would, with the case's values and the trial's
@@ -77,8 +80,10 @@ random draws, and writes what run writes into DIR (default clatter-replay),
 with --animation and --pictures as in run. Its final state is the trial's
 row in trials.csv.
 
-Exit codes: 0 every trial ran, 1 a trial's simulation failed or the sweep
-was interrupted (resume it), 2 bad input.
+Exit codes: 0 every trial ran; 1 the sweep was interrupted (resume it);
+2 bad input (also a folder in use by another sweep); 3 the study finished
+but some trials failed: failures.csv says which and why, and rerunning
+will not change them; 70 an internal error (please report it).
 
 Options:
   -o DIR            where to write (default clatter-sweep)
@@ -100,9 +105,10 @@ var cmdMerge = &command{
 	help: `
 Joins the folders of a sweep run in shards (clatter sweep --shard K/N) into
 DIR: the same files, byte for byte, as the whole sweep run in one folder.
-It refuses folders of different studies (another scene or mesh file, seed
-or clatter version), a shard given twice or missing, and unfinished shards
-(finish them with clatter sweep --resume). A table of the cases goes to
+It refuses folders of different studies (another scene, mesh or pose
+table, seed, clatter version, build or architecture), a shard given twice
+or missing, and unfinished shards (finish them with clatter sweep
+--resume). A table of the cases goes to
 stdout.
 
 Options:
@@ -185,8 +191,14 @@ func runSweep(e *env, args []string) int {
 	for _, w := range st.Warnings {
 		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
+	// The folder is held from the first trial to the last plot.
+	lock, err := sweep.LockFolder(*dir)
+	if err != nil {
+		return sweepFailed(e, err, *dir)
+	}
+	defer lock.Release()
 	p := newTrialProgress(e)
-	info, err := st.Run(e.ctx, sweep.Options{Dir: *dir, Workers: *workers, Shard: shard, Resume: *resume, Version: toolVersion, Progress: p.update})
+	info, err := st.Run(e.ctx, sweep.Options{Dir: *dir, Workers: *workers, Shard: shard, Resume: *resume, Version: toolVersion, Progress: p.update, Lock: lock})
 	p.done()
 	if info != nil {
 		if info.Torn {
@@ -240,7 +252,12 @@ func runMerge(e *env, args []string) int {
 
 // sweepFailed reports an error of sweep or merge and returns the exit code.
 func sweepFailed(e *env, err error, dir string) int {
+	var ie *sweep.InternalError
 	switch {
+	case errors.As(err, &ie):
+		e.errorf("%v; every finished trial is kept in %s\n%s", err, filepath.Join(dir, sweep.TrialsFile), reportHint)
+		writeIndented(e.stderr, ie.Stack)
+		return exitInternal
 	case errors.Is(err, scene.ErrBadScene):
 		fmt.Fprintln(e.stderr, err)
 		return exitBad
@@ -259,7 +276,7 @@ func sweepOutcome(e *env, res *sweep.Result) int {
 	m := res.Meta
 	if m.TrialsFailed > 0 {
 		e.errorf("%d trials failed (the simulation diverged): their rows hold the last good state, and %s says why", m.TrialsFailed, filepath.Join(res.Dir, sweep.FailuresFile))
-		return exitFailed
+		return exitTrials
 	}
 	if !m.Complete {
 		e.errorf("%s holds %d of its %d trials", res.Dir, m.TrialsDone, m.TrialsTotal)

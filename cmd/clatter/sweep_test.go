@@ -9,7 +9,6 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
-	"strconv"
 	"strings"
 	"sync"
 	"syscall"
@@ -257,47 +256,6 @@ func TestSweepKilledAndResumed(t *testing.T) {
 	sameDirs(t, "killed and resumed", ref, dir)
 }
 
-// kubeJob is what the test reads from the example Kubernetes manifest.
-type kubeJob struct {
-	completions int
-	workingDir  string
-	command     []string
-	env         map[string]string
-}
-
-func readKubeJob(t *testing.T, path string) kubeJob {
-	t.Helper()
-	b, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	j := kubeJob{env: map[string]string{}}
-	lines := strings.Split(string(b), "\n")
-	for i, l := range lines {
-		l = strings.TrimSpace(l)
-		switch {
-		case strings.HasPrefix(l, "completions:"):
-			j.completions, _ = strconv.Atoi(strings.TrimSpace(strings.TrimPrefix(l, "completions:")))
-		case strings.HasPrefix(l, "workingDir:"):
-			j.workingDir = strings.TrimSpace(strings.TrimPrefix(l, "workingDir:"))
-		case strings.HasPrefix(l, "command:"):
-			// A flow sequence of double-quoted strings is also JSON.
-			if err := json.Unmarshal([]byte(strings.TrimPrefix(l, "command:")), &j.command); err != nil {
-				t.Fatalf("%s: command: %v", path, err)
-			}
-		case strings.HasPrefix(l, "- name: ") && i+1 < len(lines):
-			v := strings.TrimSpace(lines[i+1])
-			if strings.HasPrefix(v, "value:") {
-				j.env[strings.TrimPrefix(l, "- name: ")], _ = strconv.Unquote(strings.TrimSpace(strings.TrimPrefix(v, "value:")))
-			}
-		}
-	}
-	if j.completions < 2 || len(j.command) < 2 || j.command[0] != "clatter" || j.env["CLATTER_SHARD_COUNT"] != strconv.Itoa(j.completions) {
-		t.Fatalf("%s: %+v: want an Indexed Job of clatter with CLATTER_SHARD_COUNT equal to its completions", path, j)
-	}
-	return j
-}
-
 // dataDir makes the shared volume of the examples: the example scene at
 // sweeps/cube.toml.
 func dataDir(t *testing.T) string {
@@ -312,104 +270,6 @@ func dataDir(t *testing.T) string {
 		t.Fatal(err)
 	}
 	return d
-}
-
-func TestKubernetesExample(t *testing.T) {
-	// The shipped Indexed Job, run as Kubernetes would run its pods: one
-	// process per index 0..completions-1 with JOB_COMPLETION_INDEX set and
-	// the container's env, $(VAR) in the command expanded from them, in
-	// the working directory on the shared volume. Then the shards merged
-	// as its comment says: the single run's folder, byte for byte.
-	ref := reference(t)
-	job := readKubeJob(t, "../../deploy/kubernetes/sweep-job.yaml")
-	data := dataDir(t)
-	if job.workingDir != "/data" {
-		t.Fatalf("workingDir %q, want the volume /data", job.workingDir)
-	}
-	var shards []string
-	for i := 0; i < job.completions; i++ {
-		env := map[string]string{"JOB_COMPLETION_INDEX": strconv.Itoa(i)}
-		for k, v := range job.env {
-			env[k] = v
-		}
-		var args []string
-		for _, a := range job.command[1:] {
-			args = append(args, regexp.MustCompile(`\$\(([A-Z_]+)\)`).ReplaceAllStringFunc(a, func(m string) string { return env[m[2:len(m)-1]] }))
-		}
-		var envList []string
-		for k, v := range env {
-			envList = append(envList, k+"="+v)
-		}
-		out, err := asProcess(t, data, envList, args...).CombinedOutput()
-		if err != nil {
-			t.Fatalf("pod %d: clatter %v: %v\n%s", i, args, err, out)
-		}
-		shards = append(shards, filepath.Join(data, "results", fmt.Sprintf("shard-%d", i)))
-	}
-	all := filepath.Join(data, "results", "all")
-	if _, errs, code := clatter(t, append(append([]string{"merge"}, shards...), "-o", all, "--quiet")...); code != exitOK {
-		t.Fatalf("merge: exit %d\n%s", code, errs)
-	}
-	sameDirs(t, "Kubernetes shards merged", ref, all)
-}
-
-func TestSlurmExample(t *testing.T) {
-	// The shipped batch script, run by bash as Slurm would run each task of
-	// its #SBATCH --array=A-B: SLURM_ARRAY_TASK_ID from A to B with _COUNT,
-	// _MIN, _MAX, _STEP and SLURM_CPUS_PER_TASK set, clatter on the PATH,
-	// in the folder it was submitted from. Then merged as its comment says.
-	ref := reference(t)
-	bash, err := exec.LookPath("bash")
-	if err != nil {
-		t.Skip("no bash to run the batch script")
-	}
-	script, _ := filepath.Abs("../../deploy/slurm/sweep.sbatch")
-	b, err := os.ReadFile(script)
-	if err != nil {
-		t.Fatal(err)
-	}
-	m := regexp.MustCompile(`(?m)^#SBATCH --array=(\d+)-(\d+)$`).FindSubmatch(b)
-	cpus := regexp.MustCompile(`(?m)^#SBATCH --cpus-per-task=(\d+)$`).FindSubmatch(b)
-	if m == nil || cpus == nil {
-		t.Fatalf("%s has no #SBATCH --array=A-B and --cpus-per-task", script)
-	}
-	lo, _ := strconv.Atoi(string(m[1]))
-	hi, _ := strconv.Atoi(string(m[2]))
-	bin := t.TempDir()
-	self, _ := os.Executable()
-	if err := os.Symlink(self, filepath.Join(bin, "clatter")); err != nil {
-		t.Fatal(err)
-	}
-	data := dataDir(t)
-	var shards []string
-	for id := lo; id <= hi; id++ {
-		c := exec.Command(bash, script)
-		c.Dir = data
-		c.Env = append(os.Environ(), asMain+"=1", "PATH="+bin+string(os.PathListSeparator)+os.Getenv("PATH"),
-			"SLURM_ARRAY_JOB_ID=1000", fmt.Sprintf("SLURM_ARRAY_TASK_ID=%d", id), fmt.Sprintf("SLURM_ARRAY_TASK_COUNT=%d", hi-lo+1),
-			fmt.Sprintf("SLURM_ARRAY_TASK_MIN=%d", lo), fmt.Sprintf("SLURM_ARRAY_TASK_MAX=%d", hi), "SLURM_ARRAY_TASK_STEP=1",
-			"SLURM_CPUS_PER_TASK="+string(cpus[1]))
-		if out, err := c.CombinedOutput(); err != nil {
-			t.Fatalf("task %d: %v\n%s", id, err, out)
-		}
-		shards = append(shards, filepath.Join(data, "results", fmt.Sprintf("shard-%d", id)))
-	}
-	all := filepath.Join(data, "results", "all")
-	if _, errs, code := clatter(t, append(append([]string{"merge"}, shards...), "-o", all, "--quiet")...); code != exitOK {
-		t.Fatalf("merge: exit %d\n%s", code, errs)
-	}
-	sameDirs(t, "Slurm shards merged", ref, all)
-	// Merging a shard of another scene is refused with exit 2.
-	other := filepath.Join(data, "sweeps", "other.toml")
-	os.WriteFile(other, bytes.Replace(b0(t), []byte("seed = 7"), []byte("seed = 8"), 1), 0o644)
-	odir := filepath.Join(data, "results", "other-shard-1")
-	if _, errs, code := clatter(t, "sweep", other, "-o", odir, "--shard", fmt.Sprintf("1/%d", hi-lo+1), "--quiet"); code != exitOK {
-		t.Fatalf("other sweep: %s", errs)
-	}
-	_, errs, code := clatter(t, append(append([]string{"merge", odir}, shards[1:]...), "-o", filepath.Join(data, "bad"), "--quiet")...)
-	if code != exitBad || !strings.Contains(errs, "its seed is 7, not 8") {
-		t.Errorf("merging shards of two studies: exit %d, %s", code, errs)
-	}
 }
 
 func b0(t *testing.T) []byte {

@@ -80,6 +80,7 @@ type runner struct {
 	traj *bufio.Writer
 	ev   *bufio.Writer
 	jt   *bufio.Writer // joints.csv, when the scene has joints
+	out  *sink
 	// peak holds each joint's largest reaction force and torque so far.
 	peak [][2]float64
 	row  []byte
@@ -136,25 +137,8 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	if len(s.Gates) > 0 {
 		r.gates = newGateCounter(len(s.Gates))
 	}
-	var files []*os.File
-	closeAll := func() error {
-		var first error
-		for _, bw := range []*bufio.Writer{r.traj, r.ev, r.jt, r.gt} {
-			if bw != nil {
-				if err := bw.Flush(); err != nil && first == nil {
-					first = err
-				}
-			}
-		}
-		for _, f := range files {
-			if err := f.Close(); err != nil && first == nil {
-				first = err
-			}
-		}
-		files = nil
-		return first
-	}
-	defer closeAll()
+	r.out = newSink(opt.Dir)
+	defer r.out.close()
 	if opt.Dir != "" {
 		if err := os.MkdirAll(opt.Dir, 0o755); err != nil {
 			return nil, fmt.Errorf("cannot make the output folder: %w", err)
@@ -176,12 +160,11 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			}{GatesFile, &r.gt})
 		}
 		for _, f := range outs {
-			fh, err := os.Create(filepath.Join(opt.Dir, f.name))
+			bw, err := r.out.create(f.name)
 			if err != nil {
 				return nil, fmt.Errorf("cannot write results: %w", err)
 			}
-			files = append(files, fh)
-			*f.bw = bufio.NewWriterSize(fh, 1<<16)
+			*f.bw = bw
 		}
 		r.traj.WriteString(TrajectoryHeader + "\n")
 		if r.jt != nil {
@@ -209,7 +192,7 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	r.prev = make([]bodyState, w.NumBodies())
 	for n := 0; n < total; n++ {
 		if n%64 == 0 && ctx.Err() != nil {
-			simErr = &SimulationError{Time: w.Time(), Err: fmt.Errorf("interrupted at t = %.6g s: %w", w.Time(), ctx.Err())}
+			simErr = &SimulationError{Time: w.Time(), Err: &interruptedError{time: w.Time(), cause: ctx.Err()}}
 			r.event(eventJSON{Time: w.Time(), Event: "error", Message: simErr.Error()})
 			break
 		}
@@ -238,6 +221,9 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 		if t >= next-1e-9*opt.Sample {
 			r.sample(t)
 			next = (math.Floor(t/opt.Sample+1e-9) + 1) * opt.Sample
+			if !r.out.commit(t) {
+				break
+			}
 		}
 		if opt.Progress != nil && n%every == 0 {
 			opt.Progress(t / s.World.Duration)
@@ -253,16 +239,25 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	if diverged {
 		end = r.prevT
 	}
-	if end != r.lastRow {
+	if end != r.lastRow && r.out.err == nil {
 		r.sample(end)
 	}
+	r.out.commit(end)
 	r.summarise(sum, simErr)
-	if err := closeAll(); err != nil {
-		return sum, fmt.Errorf("cannot write results: %w", err)
+	if we := r.out.err; we != nil && sum.Error == "" {
+		sum.Error = fmt.Sprintf("stopped: cannot write %s: %v", we.File, we.Err)
 	}
 	if opt.Dir != "" {
-		if err := writeAtomic(filepath.Join(opt.Dir, SummaryFile), sum.JSON()); err != nil {
-			return sum, fmt.Errorf("cannot write results: %w", err)
+		err := writeAtomic(filepath.Join(opt.Dir, SummaryFile), sum.JSON())
+		if we := r.out.err; we != nil {
+			we.Stopped, we.Summary = sum.Time, err == nil
+			return sum, we
+		}
+		if err != nil {
+			r.out.fail(&outFile{name: SummaryFile}, err)
+			we := r.out.err
+			we.Stopped, we.Kept = sum.Time, r.out.kept
+			return sum, we
 		}
 	}
 	if simErr != nil {

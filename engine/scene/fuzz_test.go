@@ -1,17 +1,29 @@
 package scene
 
 import (
+	"errors"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 	"testing/fstest"
+
+	"clatter/engine"
 )
 
 func newTestRand() *rand.Rand { return rand.New(rand.NewPCG(1, 2)) }
 
-// FuzzScene checks that the scene reader never panics: whatever the bytes,
-// Parse returns a scene or an error, and a scene it accepts builds.
+// fuzzSteps is how many steps of an accepted scene the fuzzer takes: enough
+// for first contacts, impacts and drives to act, few enough that each input
+// takes milliseconds.
+const fuzzSteps = 40
+
+// FuzzScene checks that the scene reader never panics and never lets
+// through a scene that breaks the world: whatever the bytes, Parse returns
+// a scene or an error with a message; a scene it accepts builds (or says
+// why not), and steps without a panic, stopping at most with an error that
+// names a body.
 func FuzzScene(f *testing.F) {
 	files, _ := filepath.Glob("../../testdata/scenes/*.toml")
 	mechs, _ := filepath.Glob("../../testdata/mechanisms/*.toml")
@@ -32,6 +44,15 @@ func FuzzScene(f *testing.F) {
 	} {
 		f.Add([]byte(s))
 	}
+	// Hostile inputs: nesting, overflowing numbers and units.
+	for _, s := range []string{
+		"a = " + strings.Repeat("[", 40) + strings.Repeat("]", 40),
+		"a = " + strings.Repeat("{b = ", 40) + "1" + strings.Repeat("}", 40),
+		hostile("AXIS", "[1e300, 1e300, 0]"), hostile("PLANE", "[0, 0, 1e300]"), hostile("FRICTION", "1e308"),
+		hostile("DENSITY", `"10`+strings.Repeat(" m9", 28)+` m4"`), hostile("BOX", "[1e308, 0.02, 0.02]"), hostile(),
+	} {
+		f.Add([]byte(s))
+	}
 	stl, err := os.ReadFile("../../testdata/parts/cube.stl")
 	if err != nil {
 		f.Fatal(err)
@@ -46,9 +67,21 @@ func FuzzScene(f *testing.F) {
 			}
 			return
 		}
-		if _, _, err := s.Build(); err != nil {
-			t.Logf("accepted but did not build: %v", err)
-		}
 		indexLines(string(data))
+		w, _, err := s.Build()
+		if err != nil {
+			t.Logf("accepted but did not build: %v", err)
+			return
+		}
+		dt := s.World.Step
+		for i := 0; i < fuzzSteps && float64(i)*dt < s.World.Duration; i++ {
+			if err := w.Step(dt); err != nil {
+				var de *engine.DivergenceError
+				if errors.As(err, &de) && de.Name == "" || err.Error() == "" {
+					t.Errorf("a step stopped with %q, which names no body", err)
+				}
+				return
+			}
+		}
 	})
 }

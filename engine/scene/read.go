@@ -110,6 +110,14 @@ func show(v any) string {
 // quantity converts a value of dimension d to SI: a plain number in the
 // file's units or a string with its own unit.
 func (r *reader) quantity(v any, d Dim, path []string, what string) (float64, bool) {
+	x, ok := r.quantitySI(v, d, path, what)
+	if !ok || !r.inRange(x, d, path, what) {
+		return 0, false
+	}
+	return x, true
+}
+
+func (r *reader) quantitySI(v any, d Dim, path []string, what string) (float64, bool) {
 	switch t := v.(type) {
 	case int64:
 		return float64(t) * r.s.Units.Plain(d), true
@@ -358,8 +366,16 @@ func (r *reader) world(root section) {
 // material or pair section; missing ones are nil.
 func (r *reader) coefficients(sec section) (f, fs, e *float64) {
 	get := func(key string) *float64 {
-		x, ok := r.number(sec, key, Dimensionless, 0)
-		if !ok {
+		v, given := sec.m[key]
+		if !given {
+			return nil
+		}
+		x, ok := r.quantitySI(v, Dimensionless, sub(sec.path, key), sec.pre+key)
+		if ok && key != "restitution" && x > maxFriction {
+			r.errAt(sub(sec.path, key), "%s%s %g is beyond any measured surface (dry surfaces stay below about 5); clatter accepts at most %d, and 10 already holds every contact that can hold", sec.pre, key, x, maxFriction)
+			return nil
+		}
+		if !ok || !r.inRange(x, Dimensionless, sub(sec.path, key), sec.pre+key) {
 			return nil
 		}
 		return &x
@@ -673,7 +689,11 @@ func (r *reader) massProps(b *Body, path []string, pre string) {
 		}
 		unit = c.Mass(1)
 	}
-	if !(unit.Volume > 0) || math.IsInf(unit.Volume, 0) {
+	switch {
+	case math.IsInf(unit.Volume, 0) || math.IsNaN(unit.Volume):
+		r.errAt(path, "%sthe shape is too large: its volume overflows; give its sizes in the scene's length unit", pre)
+		return
+	case !(unit.Volume > 0):
 		r.errAt(path, "%sthe shape has no volume, so it has no mass", pre)
 		return
 	}
@@ -682,6 +702,7 @@ func (r *reader) massProps(b *Body, path []string, pre string) {
 	} else {
 		b.Props = unit.WithMass(b.Mass)
 	}
+	r.finiteProps(b, path, pre)
 	if !(b.Props.Mass > 0) || math.IsInf(b.Props.Mass, 0) {
 		r.errAt(path, "%smass must be positive and finite, got %g kg", pre, b.Props.Mass)
 	}

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"os"
 	"path"
 	"path/filepath"
 	"sort"
@@ -175,7 +174,7 @@ const maxErrors = 20
 
 // Load reads a scene file from disk; mesh paths are relative to its folder.
 func Load(file string) (*Scene, error) {
-	data, err := os.ReadFile(file)
+	data, err := ReadInput(file, MaxSceneBytes)
 	if err != nil {
 		return nil, Errors{{File: file, Line: 0, Msg: fmt.Sprintf("cannot read the scene: %v", unwrapPath(err))}}
 	}
@@ -192,6 +191,12 @@ func unwrapPath(err error) error {
 
 // Parse reads a scene from data; name identifies it in messages.
 func Parse(data []byte, name string, opt Options) (*Scene, error) {
+	if len(data) > MaxSceneBytes {
+		return nil, Errors{{File: name, Msg: fmt.Sprintf("the scene is %s, larger than the %s clatter reads", byteSize(int64(len(data))), byteSize(MaxSceneBytes))}}
+	}
+	if e := checkShape(data, name); e != nil {
+		return nil, Errors{e}
+	}
 	var raw map[string]any
 	if _, err := toml.Decode(string(data), &raw); err != nil {
 		var pe toml.ParseError
@@ -267,17 +272,7 @@ func (s *Scene) readFile(rel string) (string, []byte, error) {
 	if s.opt.FS != nil {
 		d, err = fs.ReadFile(s.opt.FS, p)
 	} else {
-		// Only regular files: a device or a pipe named by mistake would
-		// never end.
-		st, serr := os.Stat(p)
-		switch {
-		case serr != nil:
-			err = serr
-		case !st.Mode().IsRegular():
-			err = fmt.Errorf("%s is not a regular file", p)
-		default:
-			d, err = os.ReadFile(p)
-		}
+		d, err = ReadInput(p, MaxInputBytes)
 	}
 	if err != nil {
 		return p, nil, err

@@ -283,8 +283,14 @@ func parseUnit(u string) (float64, Dim, error) {
 			} else {
 				f /= uf
 			}
+			if err := powersInRange(u, d, ud, sign); err != nil {
+				return 0, Dim{}, err
+			}
 			d = d.add(ud, sign)
 		}
+	}
+	if f == 0 || math.IsInf(f, 0) {
+		return 0, Dim{}, fmt.Errorf("unit %q is beyond the range of numbers", u)
 	}
 	return f, d, nil
 }

@@ -71,9 +71,11 @@ func Merge(dirs []string, out string) (*Result, error) {
 	} else if _, serr := os.Stat(filepath.Join(out, TrialsFile)); serr == nil {
 		return nil, badf("%s holds a %s but no %s; merge into a new folder", out, TrialsFile, MetaFile)
 	}
-	if err := os.MkdirAll(out, 0o755); err != nil {
-		return nil, badf("cannot make the output folder: %v", unwrapPath(err))
+	lock, err := LockFolder(out)
+	if err != nil {
+		return nil, err
 	}
+	defer lock.Release()
 	removeTemps(out)
 	m := first.clone()
 	m.Shard = nil

@@ -7,7 +7,6 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 
 	"clatter/engine/report"
@@ -29,10 +28,13 @@ const toolName = "clatter"
 type Meta struct {
 	Tool    string `json:"tool"`
 	Version string `json:"version"`
-	// Scene is the scene file's name and the SHA-256 of its bytes; Meshes
-	// those of the mesh files it reads, named relative to it.
+	// Build is the program that ran the study.
+	Build Build `json:"build"`
+	// Scene is the scene file's name and the SHA-256 of its bytes; Inputs
+	// those of every other file it reads (meshes, pose tables), named
+	// relative to it.
 	Scene  FileDigest   `json:"scene"`
-	Meshes []FileDigest `json:"meshes"`
+	Inputs []FileDigest `json:"inputs"`
 	Units  report.Units `json:"units"`
 	Seed   uint64       `json:"seed"`
 	// Trials is the number of trials of each case; Cases the number of
@@ -185,10 +187,16 @@ func writeMeta(dir string, m *Meta) error {
 }
 
 // sameStudy says how b differs from a in what makes two folders parts of
-// one study: the tool version, the scene and its meshes, the seed, and the
-// layout of cases and trials that follows from them. It returns "" when
-// they agree.
+// one study: the tool version and build, the scene and every file it
+// reads, the seed, and the layout of cases and trials that follows from
+// them. It returns "" when they agree.
 func sameStudy(a, b *Meta) string {
+	if why := a.Build.differs(b.Build); why != "" {
+		return why
+	}
+	if why := inputsDiffer(a.Inputs, b.Inputs); why != "" {
+		return why
+	}
 	switch {
 	case a.Tool != b.Tool || a.Version != b.Version:
 		return fmt.Sprintf("it was made by %s version %q, not %q", b.Tool, b.Version, a.Version)
@@ -196,20 +204,10 @@ func sameStudy(a, b *Meta) string {
 		return fmt.Sprintf("its seed is %d, not %d", b.Seed, a.Seed)
 	case a.Scene.SHA256 != b.Scene.SHA256:
 		return fmt.Sprintf("its scene %s has SHA-256 %.12s..., not %.12s... (%s): a different scene or a changed file", b.Scene.File, b.Scene.SHA256, a.Scene.SHA256, a.Scene.File)
-	case !slices.Equal(a.Meshes, b.Meshes):
-		return fmt.Sprintf("its mesh files %v differ from %v", digests(b.Meshes), digests(a.Meshes))
 	case a.Trials != b.Trials || a.Cases != b.Cases || a.GroupFaces != b.GroupFaces || a.trialsHeader() != b.trialsHeader():
 		return "its cases and trials are laid out differently"
 	}
 	return ""
-}
-
-func digests(ds []FileDigest) []string {
-	out := make([]string, len(ds))
-	for i, d := range ds {
-		out[i] = fmt.Sprintf("%s (%.12s...)", d.File, d.SHA256)
-	}
-	return out
 }
 
 // groupFaceTol is the relative difference within which two faces' areas,

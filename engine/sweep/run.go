@@ -33,6 +33,10 @@ type Options struct {
 	// Progress, if set, is called from one goroutine after each finished
 	// trial with the trials this run has finished and is to run.
 	Progress func(done, total int64)
+	// Lock, if set, is the caller's hold on Dir (LockFolder), kept past
+	// the run (to Finish the folder); without it Run takes and releases
+	// its own, and refuses a folder that another process writes into.
+	Lock *Lock
 }
 
 // RunInfo tells what a Run did.
@@ -94,8 +98,12 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 	meta.TrialsTotal = hi - lo
 	info := &RunInfo{Meta: &meta, Total: hi - lo}
 
-	if err := os.MkdirAll(opt.Dir, 0o755); err != nil {
-		return nil, badf("cannot make the output folder: %v", unwrapPath(err))
+	if opt.Lock == nil {
+		l, err := LockFolder(opt.Dir)
+		if err != nil {
+			return nil, err
+		}
+		defer l.Release()
 	}
 	done, err := st.prepare(opt, &meta, info, lo, hi)
 	if err != nil {
@@ -145,7 +153,7 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 			defer wg.Done()
 			wk := newWorker(st)
 			for g := range jobs {
-				r, err := wk.run(ctx, g)
+				r, err := wk.safeRun(ctx, g)
 				if err != nil {
 					if ctx.Err() == nil {
 						fatalOnce.Do(func() { fatal = err })
@@ -245,7 +253,7 @@ func (st *Study) prepare(opt Options, meta *Meta, info *RunInfo, lo, hi int64) (
 	case old != nil && !opt.Resume:
 		return nil, badf("%s already holds a sweep (%s); add --resume to finish it, or choose another folder with -o", dir, MetaFile)
 	case old != nil:
-		if why := sameStudy(old, meta); why != "" {
+		if why := sameStudy(meta, old); why != "" {
 			return nil, badf("cannot resume the sweep in %s: %s; run this study into another folder", dir, why)
 		}
 		if (old.Shard == nil) != (meta.Shard == nil) || old.Shard != nil && (old.Shard.Index != meta.Shard.Index || old.Shard.Count != meta.Shard.Count) {

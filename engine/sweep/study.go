@@ -7,10 +7,7 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"os"
-	"path"
 	"path/filepath"
-	"sort"
 	"strings"
 	"sync"
 
@@ -63,7 +60,7 @@ type draw struct {
 // Open reads a scene file with a [sweep] section; mesh paths are relative
 // to its folder.
 func Open(file string) (*Study, error) {
-	data, err := os.ReadFile(file)
+	data, err := scene.ReadInput(file, scene.MaxSceneBytes)
 	if err != nil {
 		return nil, scene.Errors{{File: file, Msg: fmt.Sprintf("cannot read the scene: %v", unwrapPath(err))}}
 	}
@@ -94,8 +91,8 @@ func New(data []byte, name string, opt scene.Options) (*Study, error) {
 	sw := s.Sweep
 	st.meta = Meta{
 		Tool:       toolName,
+		Build:      CurrentBuild(),
 		Scene:      FileDigest{File: filepath.Base(name), SHA256: digest(data)},
-		Meshes:     []FileDigest{},
 		Units:      report.UnitsOf(s.Units),
 		Seed:       sw.Seed,
 		Trials:     int64(sw.Trials),
@@ -118,9 +115,6 @@ func New(data []byte, name string, opt scene.Options) (*Study, error) {
 	st.meta.Cases = cases
 	if cases*st.meta.Trials > maxStudyTrials {
 		return nil, badf("%s: %d cases of %d trials is more than %d trials; split the study into several scenes", name, cases, sw.Trials, maxStudyTrials)
-	}
-	if err := st.readMeshes(opt); err != nil {
-		return nil, err
 	}
 	st.setDraws()
 	for _, i := range st.dyn {
@@ -153,6 +147,7 @@ func New(data []byte, name string, opt scene.Options) (*Study, error) {
 		}
 	}
 	st.meta.Duration = report.Tidy(st.meta.Duration)
+	st.recordInputs()
 	st.header = st.meta.trialsHeader()
 	return st, nil
 }
@@ -160,38 +155,6 @@ func New(data []byte, name string, opt scene.Options) (*Study, error) {
 func digest(b []byte) string {
 	h := sha256.Sum256(b)
 	return hex.EncodeToString(h[:])
-}
-
-// readMeshes records the digest of every mesh file the scene reads, named
-// relative to the scene's folder.
-func (st *Study) readMeshes(opt scene.Options) error {
-	done := map[string]bool{}
-	for _, b := range st.Scene.Bodies {
-		if b.MeshFile == "" || done[b.MeshFile] {
-			continue
-		}
-		done[b.MeshFile] = true
-		var data []byte
-		var err error
-		rel := b.MeshFile
-		if opt.FS != nil {
-			data, err = fs.ReadFile(opt.FS, b.MeshFile)
-			if r, ok := strings.CutPrefix(b.MeshFile, path.Clean(opt.Dir)+"/"); ok {
-				rel = r
-			}
-		} else {
-			data, err = os.ReadFile(b.MeshFile)
-			if r, rerr := filepath.Rel(opt.Dir, b.MeshFile); rerr == nil {
-				rel = filepath.ToSlash(r)
-			}
-		}
-		if err != nil {
-			return badf("%s: body %q: cannot read mesh file %s for its digest: %v", st.Scene.File, b.Name, b.MeshFile, unwrapPath(err))
-		}
-		st.meta.Meshes = append(st.meta.Meshes, FileDigest{File: rel, SHA256: digest(data)})
-	}
-	sort.Slice(st.meta.Meshes, func(i, j int) bool { return st.meta.Meshes[i].File < st.meta.Meshes[j].File })
-	return nil
 }
 
 // setDraws lists the moving bodies and what each trial draws for them:

@@ -489,8 +489,8 @@ func TestMeshDigest(t *testing.T) {
 		t.Fatal(err)
 	}
 	m := st.Meta()
-	if len(m.Meshes) != 1 || m.Meshes[0].File != "part.stl" || m.Meshes[0].SHA256 != digest(stl) {
-		t.Errorf("meshes %+v", m.Meshes)
+	if len(m.Inputs) != 1 || m.Inputs[0].File != "part.stl" || m.Inputs[0].SHA256 != digest(stl) {
+		t.Errorf("inputs %+v", m.Inputs)
 	}
 	faces, err := resting.OfHull(st.Scene.Bodies[1].Part.Hull, st.Scene.Bodies[1].Props.Center)
 	if err != nil || len(m.Bodies[0].Faces) != len(faces) {
