@@ -263,7 +263,7 @@ func (w *World) solve(dt float64) error {
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step.
-		return fmt.Errorf("simulation diverged at t = %.6g s in the contact solve: %w; the step is likely too large for the sizes and speeds in the scene (try a smaller step or more sub-steps)", w.time, err)
+		return fmt.Errorf("simulation diverged at t = %.6g s in the contact solve, which met a number that is not finite (%w); %s", w.time, err, stepAdvice)
 	}
 	w.afterJointSolve(dt) // exact joint projection and joint forces (joint.go)
 	for i := 0; i < n; i++ {
