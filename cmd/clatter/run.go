@@ -96,6 +96,7 @@ func runScene(e *env, args []string) int {
 		}
 		return exitFailed
 	}
+	warnBalanced(e, sum)
 	if *asJSON {
 		e.stdout.Write(sum.JSON())
 		if !e.quiet {
@@ -149,8 +150,11 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tlargest impact (%s)\n", u.Length, speed)
 	for _, b := range sum.Bodies {
 		face := "-"
-		if b.RestingFace != nil {
+		switch {
+		case b.RestingFace != nil:
 			face = fmt.Sprint(*b.RestingFace)
+		case b.Balanced != nil:
+			face = "balanced on " + *b.Balanced
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.4g\n", b.Name, fmtVec(b.Position[:]), fmtOrientation(b.Orientation), face, b.MaxImpactSpeed)
 	}
@@ -177,7 +181,8 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string)
 	if dir != "" {
 		fmt.Fprintf(w, "results  %s: %s\n", dir, strings.Join(outputFiles(s), ", "))
 	}
-	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round")
+	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round;")
+	fmt.Fprintln(w, "balanced on an edge or corner means at rest there only until the slightest disturbance tips it")
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, safetyNote)
 }
@@ -222,4 +227,22 @@ func fmtOrientation(q [4]float64) string {
 		return "unturned"
 	}
 	return fmt.Sprintf("%.1f deg about (%.3f, %.3f, %.3f)", angle, q[1]/n, q[2]/n, q[3]/n)
+}
+
+// warnBalanced warns of every body that came to rest balanced on an edge or
+// a corner: a result that no real part keeps.
+func warnBalanced(e *env, sum *report.Summary) {
+	for _, b := range sum.Bodies {
+		if b.Balanced != nil {
+			fmt.Fprintf(e.stderr, "warning: body %q came to rest balanced on %s %s, its centre of mass right above it; any disturbance tips it over, so it has no resting face\n",
+				b.Name, article(*b.Balanced), *b.Balanced)
+		}
+	}
+}
+
+func article(s string) string {
+	if s == "edge" {
+		return "an"
+	}
+	return "a"
 }

@@ -283,6 +283,7 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 			RestingFace:    r.restingFace(i),
 			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
 		}
+		b.Balanced = Balanced(w, id, b.RestingFace != nil, r.touching[id] > 0) // (balance.go)
 		sum.Bodies = append(sum.Bodies, b)
 	}
 	sum.Energy.Initial = clean(sum.Energy.Initial)
@@ -367,14 +368,10 @@ func Faces(w *engine.World, id engine.BodyID) []resting.Face {
 // than the world's rest speed and spin), and have a face within
 // resting.FaceDownTolerance of the gravity direction.
 func RestingFace(w *engine.World, id engine.BodyID, faces []resting.Face, touching bool) int {
-	if !touching || len(faces) == 0 {
+	if !touching || len(faces) == 0 || !atRest(w, id) {
 		return -1
 	}
-	cfg := w.Config()
-	if w.Awake(id) && (w.Velocity(id).Len() >= cfg.RestSpeed || w.Spin(id).Len() >= cfg.RestSpin) {
-		return -1
-	}
-	down := w.ShapePose(id).RotateInv(cfg.Gravity)
+	down := w.ShapePose(id).RotateInv(w.Config().Gravity)
 	return resting.FaceDown(faces, down)
 }
 

@@ -58,6 +58,10 @@ type Body struct {
 	// (for a box: +x, -x, +y, -y, +z, -z), or is null when the body is not
 	// resting on a face (moving, leaning, or a ball).
 	RestingFace *int `json:"resting_face"`
+	// Balanced is "edge" or "corner" for a body that came to rest balanced
+	// with its centre of mass above an edge or a corner of its shape (any
+	// disturbance tips it; RestingFace is then null), null otherwise.
+	Balanced *string `json:"balanced"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`
 }
