@@ -48,5 +48,7 @@
 // positions with V+Vp and W+Wp and drops Vp and Wp. Points with
 // ImpactSpeed > 0 are the step's impacts. One Solver per world keeps the
 // warm-start memory and all scratch space, so steady-state steps allocate
-// nothing; body indices may change between steps, keys must not.
+// nothing; body indices may change between steps, keys must not. Points
+// left out for a while (their bodies asleep) keep their memory through
+// Solver.Remembered and Solver.Recall.
 package contact

@@ -27,6 +27,7 @@ type collisionState struct {
 	rows      []contact.Row
 
 	touching, prevTouching []touchPair
+	sleep                  sleepState // islands, wakes and the warm memory of sleepers (sleep_wake.go)
 
 	parent, size []int32
 	islandRest   []float64
@@ -87,84 +88,97 @@ func (w *World) worldBounds(id BodyID, margin float64) shapes.AABB {
 // collide runs the broad and narrow phases and fills the contact points.
 func (w *World) collide(dt float64) {
 	c := &w.collision
-	slop := w.cfg.Slop
 	c.pose = c.pose[:0]
 	for i := range w.b.kind {
 		c.pose = append(c.pose, w.ShapePose(BodyID(i)))
 	}
+	w.beginWakes() // sleep_wake.go
 	for i, k := range w.b.kind {
 		if k == Static || !w.b.awake[i] {
 			continue
 		}
-		// Speculative margin: how far the body's surface can travel this
-		// step, plus the slop (DESIGN.md section 1, step 2).
-		m := (w.b.vel[i].Len()+w.b.spin[i].Len()*w.b.radius[i])*dt + slop
-		c.margin[i] = m
-		if b := w.b.shape[i].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
-			w.b.bounds[i] = b.Transform(c.pose[i]).Grow(m)
-		} else {
-			w.b.bounds[i] = b // a plane: unbounded
-		}
-		_ = c.bp.Move(int32(i), w.b.bounds[i])
+		w.moveBounds(BodyID(i), dt)
 	}
 	c.pairs = c.bp.Pairs(c.pairs[:0])
 	c.points = c.points[:0]
 	c.prevTouching, c.touching = c.touching, c.prevTouching[:0]
-	nmat := len(w.materials)
 	for _, p := range c.pairs {
-		a, b := BodyID(p[0]), BodyID(p[1])
-		ka, kb := w.b.kind[a], w.b.kind[b]
-		if ka != Dynamic && kb != Dynamic {
-			continue // kinematic against static or kinematic: nothing to solve
-		}
-		if w.jointedApart(a, b) {
-			continue // linked by a joint (joint.go)
-		}
-		// A sleeping body touched by an awake one wakes up.
-		if !w.b.awake[a] || !w.b.awake[b] {
-			if ka == Dynamic && !w.b.awake[a] {
-				w.wake(a)
-			}
-			if kb == Dynamic && !w.b.awake[b] {
-				w.wake(b)
-			}
-		}
-		margin := c.margin[a] + c.margin[b]
-		if ka == Static {
-			margin = c.margin[b]
-		} else if kb == Static {
-			margin = c.margin[a]
-		}
-		// The pair's key lets the narrow phase reuse what it found last step.
-		key := uint64(uint32(a))<<32 | uint64(uint32(b))
-		c.manifolds = c.det.CollidePair(c.manifolds[:0], key, w.b.shape[a], c.pose[a], w.b.shape[b], c.pose[b], margin)
-		coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
-		touch := false
-		for _, mf := range c.manifolds {
-			for k := 0; k < mf.Count; k++ {
-				pt := mf.Points[k]
-				if pt.Separation <= slop {
-					touch = true
-				}
-				c.points = append(c.points, contact.Point{
-					A: int32(a), B: int32(b),
-					Position:       pt.Position,
-					Normal:         mf.Normal,
-					Separation:     pt.Separation,
-					Friction:       coef.Friction,
-					StaticFriction: coef.StaticFriction,
-					Restitution:    coef.Restitution,
-					Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
-				})
-				c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
-			}
-		}
-		if touch {
-			c.touching = append(c.touching, touchPair{a, b})
-		}
+		w.collidePair(BodyID(p[0]), BodyID(p[1]), dt)
 	}
+	w.collideWoken(dt) // pairs of the islands that this loop woke (sleep_wake.go)
 	c.det.NextStep()
 	w.contactEvents()
+}
+
+// moveBounds grows an awake body's bounds by its speculative margin: how
+// far its surface can travel this step, plus the slop (the step, stage 2).
+func (w *World) moveBounds(id BodyID, dt float64) {
+	c := &w.collision
+	m := (w.b.vel[id].Len()+w.b.spin[id].Len()*w.b.radius[id])*dt + w.cfg.Slop
+	c.margin[id] = m
+	if b := w.b.shape[id].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
+		w.b.bounds[id] = b.Transform(c.pose[id]).Grow(m)
+	} else {
+		w.b.bounds[id] = b // a plane: unbounded
+	}
+	_ = c.bp.Move(int32(id), w.b.bounds[id])
+}
+
+// collidePair runs the narrow phase on one pair from the broad phase and
+// appends its contact points.
+func (w *World) collidePair(a, b BodyID, dt float64) {
+	c := &w.collision
+	slop := w.cfg.Slop
+	ka, kb := w.b.kind[a], w.b.kind[b]
+	if ka != Dynamic && kb != Dynamic {
+		return // kinematic against static or kinematic: nothing to solve
+	}
+	if w.jointedApart(a, b) {
+		return // linked by a joint (joint.go)
+	}
+	margin := c.margin[a] + c.margin[b]
+	if ka == Static {
+		margin = c.margin[b]
+	} else if kb == Static {
+		margin = c.margin[a]
+	}
+	// The pair's key lets the narrow phase reuse what it found last step.
+	key := uint64(uint32(a))<<32 | uint64(uint32(b))
+	c.manifolds = c.det.CollidePair(c.manifolds[:0], key, w.b.shape[a], c.pose[a], w.b.shape[b], c.pose[b], margin)
+	// A sleeping body wakes, with its island, only when a contact presses on it.
+	if (ka == Dynamic && !w.b.awake[a] || kb == Dynamic && !w.b.awake[b]) && w.presses(a, b, dt) {
+		if ka == Dynamic && !w.b.awake[a] {
+			w.wake(a)
+		}
+		if kb == Dynamic && !w.b.awake[b] {
+			w.wake(b)
+		}
+	}
+	nmat := len(w.materials)
+	coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
+	touch := false
+	for _, mf := range c.manifolds {
+		for k := 0; k < mf.Count; k++ {
+			pt := mf.Points[k]
+			if pt.Separation <= slop {
+				touch = true
+			}
+			c.points = append(c.points, contact.Point{
+				A: int32(a), B: int32(b),
+				Position:       pt.Position,
+				Normal:         mf.Normal,
+				Separation:     pt.Separation,
+				Friction:       coef.Friction,
+				StaticFriction: coef.StaticFriction,
+				Restitution:    coef.Restitution,
+				Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
+			})
+			c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
+		}
+	}
+	if touch {
+		c.touching = append(c.touching, touchPair{a, b})
+	}
 }
 
 // contactKey mixes the bodies, the sub-shapes and the feature id into the
@@ -184,10 +198,11 @@ func contactKey(a, b BodyID, subA, subB int32, id uint32) uint64 {
 
 // contactEvents compares this step's touching pairs with the last step's
 // (both in the broad phase's sorted order) and emits begin and end events.
+//
+// A pair of bodies that are both asleep (or one static) is not examined
+// while they sleep; it stays in the touching list, with events or without,
+// so that the islands of sleeping bodies hold together (sleep.go).
 func (w *World) contactEvents() {
-	if w.cfg.NoEvents {
-		return
-	}
 	c := &w.collision
 	cur, prev := c.touching, c.prevTouching
 	less := func(x, y touchPair) int {
@@ -243,6 +258,7 @@ func (w *World) solve(dt float64) error {
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)
+	w.recallWoken()                      // contacts of woken islands resume their load (sleep_wake.go)
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step (solveerr.go).

@@ -3,9 +3,7 @@ package engine
 // Touching reports whether the body had a contact point at or inside the
 // slop with another body in the last step's narrow phase: it rests on or
 // leans against something. A body asleep since before the last step is not
-// examined again; with events on it keeps the pairs it had as it fell
-// asleep, but with Config.NoEvents those pairs are dropped, so a caller
-// with NoEvents reads Touching after each step in which the body was awake.
+// examined again; it keeps the pairs it had as it fell asleep.
 func (w *World) Touching(id BodyID) bool {
 	for _, p := range w.collision.touching {
 		if p.a == id || p.b == id {

@@ -3,7 +3,8 @@ package engine
 // Islands and sleeping. Bodies joined by touching contacts form islands
 // (union-find with path halving and union by size); an island whose every
 // body has been below the rest thresholds for RestTime sleeps as a whole,
-// and wakes as a whole when an awake body touches it or it is kicked.
+// and wakes as a whole when a contact presses on it or it is kicked
+// (sleep_wake.go).
 
 // find returns the root of i's island.
 func (w *World) find(i int32) int32 {
@@ -97,13 +98,19 @@ func (w *World) updateRest(dt float64) {
 		}
 	}
 	w.jointsKeepAwake() // jointed to a moving kinematic body (joint.go)
+	w.buildRings()      // (sleep_wake.go)
+	slept := false
 	for i, k := range w.b.kind {
 		if k != Dynamic || !w.b.awake[i] {
 			continue
 		}
 		if c.islandRest[w.find(int32(i))] >= w.cfg.RestTime {
 			w.sleep(BodyID(i))
+			slept = true
 		}
+	}
+	if slept {
+		w.rememberSleepers() // (sleep_wake.go)
 	}
 }
 
@@ -114,17 +121,14 @@ func (w *World) sleep(id BodyID) {
 	w.emit(Event{Kind: Sleep, Time: w.time, A: id, B: -1})
 }
 
-// wake wakes a sleeping dynamic body.
+// wake restarts a dynamic body's rest time and wakes it, with its island,
+// if it sleeps.
 func (w *World) wake(id BodyID) {
 	if w.b.kind[id] != Dynamic {
 		return
 	}
 	w.b.restFor[id] = 0
-	if w.b.awake[id] {
-		return
+	if !w.b.awake[id] {
+		w.wakeIsland(id) // (sleep_wake.go)
 	}
-	w.b.awake[id] = true
-	w.setActive(id, true)
-	w.wakeJointed(id) // (joint.go)
-	w.emit(Event{Kind: Wake, Time: w.time, A: id, B: -1})
 }

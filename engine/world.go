@@ -323,9 +323,9 @@ func (w *World) checkFinite() error {
 		if k == Static {
 			continue
 		}
-		if !finiteVec(w.b.pos[i]) || !finiteVec(w.b.vel[i]) || !finiteVec(w.b.spin[i]) || math.IsNaN(w.b.rot[i].W) {
+		if what := w.notFinite(i); what != "" { // (diverge.go)
 			return &DivergenceError{Body: BodyID(i), Name: w.b.name[i], Time: w.time,
-				Cause: "its position or velocity is no longer a finite number; the step is likely too large for the sizes and speeds in the scene, or masses differ too much (try a smaller step or more sub-steps)"}
+				Cause: "its " + what + " is no longer a finite number; " + stepAdvice}
 		}
 	}
 	return nil
@@ -361,7 +361,7 @@ func (w *World) checkEnergy(e0, k0 float64) error {
 		}
 	}
 	return &DivergenceError{Body: worst, Name: w.b.name[worst], Time: w.time,
-		Cause: fmt.Sprintf("the total energy jumped from %.6g J to %.6g J in one step with no kick or driver to explain it; the step is likely too large for the sizes and speeds in the scene, or masses differ too much (try a smaller step or more sub-steps)", e0, e1)}
+		Cause: fmt.Sprintf("the total energy jumped from %.6g J to %.6g J in one step with no kick or drive to explain it, and this body moves with the most kinetic energy (%.4g J); %s", e0, e1, gain, stepAdvice)}
 }
 
 // SetGravity changes gravity from the next step on (a slowly tilting

@@ -139,6 +139,8 @@ func TestBadInput(t *testing.T) {
 		{name: "inspect NaN STL", files: map[string][]byte{"n.stl": broken("nan.stl")}, args: []string{"inspect", "n.stl"}, want: `n.stl`},
 		{name: "inspect flat STL", files: map[string][]byte{"f.stl": broken("flat.stl")}, args: []string{"inspect", "f.stl"}, want: `zero thickness`},
 		{name: "inspect ASCII without end", files: map[string][]byte{"e.stl": broken("noend.stl")}, args: []string{"inspect", "e.stl"}, want: `endsolid`},
+		{name: "body inside the floor", scene: mm + floor + "[[body]]\nname = \"box\"\nshape = { box = [10, 10, 10] }\ndensity = 1\nposition = [0, 0, -7.3]\n",
+			want: `scene.toml:5: body "box" starts 12.3 mm inside body "floor"; move it up by at least 12.3 mm`},
 		{name: "inspect missing file", args: []string{"inspect", "nope.stl"}, want: `nope.stl`},
 		{name: "inspect bad units", files: map[string][]byte{"c.stl": cube}, args: []string{"inspect", "c.stl", "--units", "mn"}, want: `--units: unknown length unit "mn"; did you mean "mm"?`},
 		{name: "inspect density of the wrong kind", files: map[string][]byte{"c.stl": cube}, args: []string{"inspect", "c.stl", "--density", "2 mm"}, want: `--density: "2 mm" is a length, not a density`},

@@ -135,6 +135,7 @@ func simulate(e *env, s *scene.Scene, dir string, sample float64, asJSON bool, v
 		e.errorf("run: cannot write the animation or pictures: %v", verr)
 		return exitFailed
 	}
+	warnBalanced(e, sum)
 	if asJSON {
 		e.stdout.Write(sum.JSON())
 		if !e.quiet {
@@ -193,8 +194,11 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string,
 	fmt.Fprintf(tw, "body\tposition (%s)\torientation\tresting face\tface down\tlargest impact (%s)\n", u.Length, speed)
 	for _, b := range sum.Bodies {
 		face, down := "-", "-"
-		if b.RestingFace != nil {
+		switch {
+		case b.RestingFace != nil:
 			face = fmt.Sprint(*b.RestingFace)
+		case b.Balanced != nil:
+			face = "balanced on " + *b.Balanced
 		}
 		if b.FaceDown != nil {
 			down = fmt.Sprint(*b.FaceDown)
@@ -228,6 +232,7 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string,
 	}
 	fmt.Fprintln(w, "resting faces index the faces `clatter inspect` lists (a box: +x, -x, +y, -y, +z, -z); - means moving, leaning or round;")
 	fmt.Fprintln(w, "face down is the face closest to facing gravity, resting or not")
+	fmt.Fprintln(w, "balanced on an edge or corner means at rest there only until the slightest disturbance tips it")
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, safetyNote)
 }
@@ -275,4 +280,22 @@ func fmtOrientation(q [4]float64) string {
 		return "unturned"
 	}
 	return fmt.Sprintf("%.1f deg about (%.3f, %.3f, %.3f)", angle, q[1]/n, q[2]/n, q[3]/n)
+}
+
+// warnBalanced warns of every body that came to rest balanced on an edge or
+// a corner: a result that no real part keeps.
+func warnBalanced(e *env, sum *report.Summary) {
+	for _, b := range sum.Bodies {
+		if b.Balanced != nil {
+			fmt.Fprintf(e.stderr, "warning: body %q came to rest balanced on %s %s, its centre of mass right above it; any disturbance tips it over, so it has no resting face\n",
+				b.Name, article(*b.Balanced), *b.Balanced)
+		}
+	}
+}
+
+func article(s string) string {
+	if s == "edge" {
+		return "an"
+	}
+	return "a"
 }

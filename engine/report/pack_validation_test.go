@@ -71,7 +71,7 @@ friction = 1.5
 name = "table"
 driven = true
 shape = { box = [1.2, 1.2, 0.1] }
-position = [0, 0, -0.05]
+position = [%[5]g, 0, %[6]g]
 orientation = { axis = [0, %[1]g, 0], angle = %[2]g }
 material = "grip"
 [[drive]]
@@ -85,7 +85,7 @@ center_of_mass = [0.04, 0, -0.05]
 material = "grip"
 position = [%[3]g, 0, %[4]g]
 orientation = { axis = [0, %[1]g, 0], angle = %[2]g }
-`, c.axisY, start, comX(start, c.axisY), comZ(start, c.axisY))
+`, c.axisY, start, comX(start, c.axisY), comZ(start, c.axisY), tableX(start, c.axisY), tableZ(start, c.axisY))
 			sum := runText(t, text, "")
 			b := body(t, sum, "box")
 			if b.TippedAt == nil {
@@ -113,6 +113,18 @@ func comX(deg, s float64) float64 {
 
 func comZ(deg, s float64) float64 {
 	_, z := turned(0.04, 0.2-0.05, deg*s)
+	return z
+}
+
+// tableX and tableZ place the table's centre, 0.05 below the through point
+// on its top, turned with it.
+func tableX(deg, s float64) float64 {
+	x, _ := turned(0, -0.05, deg*s)
+	return x
+}
+
+func tableZ(deg, s float64) float64 {
+	_, z := turned(0, -0.05, deg*s)
 	return z
 }
 

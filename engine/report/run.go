@@ -315,10 +315,10 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 			Spin:           clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
 			RestingFace:    r.restingFace(i),
 			FaceDown:       faceOrNil(BodyFaceDown(w, id, r.facesOf(i))),
-			Balanced:       stringOrNil(Balanced(w, id, r.facesOf(i), r.touching[id] > 0)),
 			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
 		}
 		b.TippedAt, b.SlidAt = r.tiltMarks(id)
+		b.Balanced = Balanced(w, id, b.RestingFace != nil, r.touching[id] > 0) // (balance.go)
 		sum.Bodies = append(sum.Bodies, b)
 	}
 	sum.Drop = r.dropReport()
@@ -378,13 +378,6 @@ func (r *runner) restingFace(i int) *int {
 	return faceOrNil(RestingFace(r.w, id, r.facesOf(i), r.touching[id] > 0))
 }
 
-func stringOrNil(s string) *string {
-	if s == "" {
-		return nil
-	}
-	return &s
-}
-
 func faceOrNil(f int) *int {
 	if f < 0 {
 		return nil
@@ -411,14 +404,10 @@ func Faces(w *engine.World, id engine.BodyID) []resting.Face {
 // than the world's rest speed and spin), and have a face within
 // resting.FaceDownTolerance of the gravity direction.
 func RestingFace(w *engine.World, id engine.BodyID, faces []resting.Face, touching bool) int {
-	if !touching || len(faces) == 0 {
+	if !touching || len(faces) == 0 || !atRest(w, id) {
 		return -1
 	}
-	cfg := w.Config()
-	if w.Awake(id) && (w.Velocity(id).Len() >= cfg.RestSpeed || w.Spin(id).Len() >= cfg.RestSpin) {
-		return -1
-	}
-	down := w.ShapePose(id).RotateInv(cfg.Gravity)
+	down := w.ShapePose(id).RotateInv(w.Config().Gravity)
 	return resting.FaceDown(faces, down)
 }
 

@@ -68,9 +68,9 @@ type Body struct {
 	// direction of gravity at the end, resting or not (same numbering);
 	// null for a ball.
 	FaceDown *int `json:"face_down"`
-	// Balanced is "edge" or "corner" for a body that came to rest
-	// balanced with its centre of mass above an edge or a corner (any
-	// disturbance tips it; RestingFace is then null), else null.
+	// Balanced is "edge" or "corner" for a body that came to rest balanced
+	// with its centre of mass above an edge or a corner of its shape (any
+	// disturbance tips it; RestingFace is then null), null otherwise.
 	Balanced *string `json:"balanced"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`

@@ -137,6 +137,9 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 			return nil, nil, fail(g.Line, "%v", err)
 		}
 	}
+	if err := s.checkOverlaps(w, ids); err != nil {
+		return nil, nil, err
+	}
 	return w, ids, nil
 }
 

@@ -141,6 +141,9 @@ func offCentreTip() (float64, float64, float64, error) {
 	r := start * math.Pi / 180
 	x := 0.04*math.Cos(r) + 0.15*math.Sin(r)
 	z := -0.04*math.Sin(r) + 0.15*math.Cos(r)
+	// The table turns about the through point on its top, so its centre,
+	// 50 mm below that point, is turned with it.
+	tx, tz := -0.05*math.Sin(r), -0.05*math.Cos(r)
 	text := fmt.Sprintf(`
 [world]
 duration = 12
@@ -150,7 +153,7 @@ friction = 1.5
 name = "table"
 driven = true
 shape = { box = [1.2, 1.2, 0.1] }
-position = [0, 0, -0.05]
+position = [%[4]g, 0, %[5]g]
 orientation = { axis = [0, 1, 0], angle = %[1]g }
 material = "grip"
 [[drive]]
@@ -162,9 +165,9 @@ shape = { box = [0.2, 0.2, 0.4] }
 mass = 3
 center_of_mass = [0.04, 0, -0.05]
 material = "grip"
-position = [%.15g, 0, %.15g]
+position = [%.15[2]g, 0, %.15[3]g]
 orientation = { axis = [0, 1, 0], angle = %[1]g }
-`, start, x, z)
+`, start, x, z, tx, tz)
 	s, err := scene.Parse([]byte(text), "verify-tilt.toml", scene.Options{})
 	if err != nil {
 		return 0, 0, 0, err
