@@ -94,22 +94,22 @@ shape = { plane = [0, 0, 1] }
 [[body]]
 name = "ball"
 shape = { sphere = 10 }
-density = 1000
+density = "1 g/cm3"
 position = [0, 0, 30]
 [[body]]
 name = "roller"
 shape = { cylinder = [8, 30] }
-density = 1000
+density = "1 g/cm3"
 position = [40, 0, 30]
 [[body]]
 name = "pin"
 shape = { capsule = [5, 20] }
-density = 1000
+density = "1 g/cm3"
 position = [80, 0, 30]
 [[body]]
 name = "cup"
 shape = { mesh = "../../testdata/parts/cup.stl" }
-density = 1000
+density = "1 g/cm3"
 position = [0, 60, 60]
 `
 
