@@ -1,9 +1,7 @@
 package sweep
 
 import (
-	"bytes"
 	"fmt"
-	"image/color"
 	"math"
 	"path/filepath"
 
@@ -17,8 +15,8 @@ import (
 // writeGatePlots writes gate-<name>.png for each gate: per face down, the
 // share of the gate's crossings (every moving body together when there
 // are several) with its 95 percent Wilson interval, a series per case (the
-// first maxSettleLines cases), the crossings per minute in the legend, and
-// the faces' quasi-static probabilities beside them.
+// first maxSettleLines cases), the crossings per minute in the legend
+// beside the data, and the faces' quasi-static probabilities beside them.
 func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 	var names []string
 	body, bi := "", len(m.Bodies) // bi past the bodies: faces named by number only
@@ -60,12 +58,15 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 		}
 		top := 0.0
 		qs := map[int]float64{}
+		// Cases side by side within each face's slot, the quasi-static
+		// marker beside the last of them.
+		const caseGap = 0.12
+		half := float64(len(order)-1) / 2 * caseGap
 		for k, c := range order {
 			var pts plotter.XYs
 			var errs plotter.YErrors
 			rate := 0.0
-			// Cases side by side within each face's slot.
-			off := (float64(k) - float64(len(order)-1)/2) * 0.12
+			off := float64(k)*caseGap - half
 			for _, r := range cases[c] {
 				pts = append(pts, plotter.XY{X: float64(slot[r.FaceDown]) + off, Y: r.Fraction})
 				errs = append(errs, struct{ Low, High float64 }{r.Fraction - r.Low, r.High - r.Fraction})
@@ -75,9 +76,9 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 					qs[r.FaceDown] = r.QuasiStatic
 				}
 			}
-			label := fmt.Sprintf("%.3g per minute", rate)
+			label := fmt.Sprintf("%.3g crossings per minute", rate)
 			if len(m.Vary) > 0 {
-				label = fmt.Sprintf("case %d: %s", c, label)
+				label = fmt.Sprintf("case %d: %.3g per minute", c, rate)
 			}
 			if err := addPoints(p, pts, errs, label, k); err != nil {
 				return nil, err
@@ -87,7 +88,7 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 			var pts plotter.XYs
 			for _, f := range faces {
 				if q, ok := qs[f]; ok {
-					pts = append(pts, plotter.XY{X: float64(slot[f]), Y: q})
+					pts = append(pts, plotter.XY{X: float64(slot[f]) + half + quasiStaticShift, Y: q})
 					top = math.Max(top, q)
 				}
 			}
@@ -95,24 +96,23 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 			if err != nil {
 				return nil, err
 			}
-			sc.Shape = vgdraw.CrossGlyph{}
-			sc.Radius = vg.Points(5)
-			sc.Color = color.Gray{Y: 90}
+			sc.Shape = vgdraw.PyramidGlyph{}
+			sc.Radius = vg.Points(4)
+			sc.Color = seriesColour(len(order))
 			p.Add(sc)
 			p.Legend.Add("quasi-static probability", sc)
 		}
 		p.NominalX(labels...)
-		p.Y.Min, p.Y.Max = 0, yTop(top, len(order))
-		wt, err := p.WriterTo(plotWidth, plotHeight, "png")
+		// Half a slot of room on either side, so that the first and last
+		// faces' labels and markers stay inside the frame.
+		p.X.Min, p.X.Max = -0.5, float64(len(faces))-0.5
+		p.Y.Min, p.Y.Max = 0, yTop(top, 0)
+		png, err := renderPNG(p)
 		if err != nil {
 			return nil, err
 		}
-		var buf bytes.Buffer
-		if _, err := wt.WriteTo(&buf); err != nil {
-			return nil, err
-		}
 		name := "gate-" + fileSafe(g.Name) + ".png"
-		if err := writeAtomic(filepath.Join(dir, name), buf.Bytes()); err != nil {
+		if err := writeAtomic(filepath.Join(dir, name), png); err != nil {
 			return nil, err
 		}
 		names = append(names, name)
@@ -127,7 +127,7 @@ func addPoints(p *plot.Plot, pts plotter.XYs, errs plotter.YErrors, label string
 	if err != nil {
 		return err
 	}
-	sc.Color = plotutil.Color(i)
+	sc.Color = seriesColour(i)
 	sc.Shape = plotutil.Shape(i)
 	eb, err := plotter.NewYErrorBars(struct {
 		plotter.XYs
