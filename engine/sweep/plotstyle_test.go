@@ -43,6 +43,7 @@ func TestKeyUnits(t *testing.T) {
 		"body.cube.position.2":      "body.cube.position.2 (mm)",
 		"world.step":                "world.step (s)",
 		"body.cube.mass":            "body.cube.mass (g)",
+		"drop.number":               "drop number in the ten-drop sequence (drops.csv names its strike)",
 		"something.else.altogether": "something.else.altogether (in the scene's units)",
 	} {
 		if got := keyUnit(key, u); got != want {
