@@ -160,3 +160,26 @@ drops = "ten"
 		}
 	}
 }
+
+// TestInertiaErrorsInSceneUnits checks that a refused inertia is quoted in
+// the scene's units, as the user wrote it (kg mm2 here), not in SI.
+func TestInertiaErrorsInSceneUnits(t *testing.T) {
+	body := `units = { length = "mm", mass = "kg" }
+[[body]]
+name = "carton"
+mass = 12
+shape = { box = [400, 300, 250] }
+position = [0, 0, 1000]
+`
+	cases := []struct{ name, text, want string }{
+		{"not symmetric", "inertia = [[200000, 10, 0], [0, 270000, 0], [0, 0, 300000]]\n", "row 1 column 2 is 10 kg mm2"},
+		{"negative", "inertia = [[-1, 0, 0], [0, 1, 0], [0, 0, 1]]\n", "got -1, 1 and 1 kg mm2"},
+		{"triangle inequality", "inertia = [[100000, 0, 0], [0, 100000, 0], [0, 0, 300000]]\n", "300000 kg mm2 exceeds the sum of the other two (100000 + 100000)"},
+	}
+	for _, c := range cases {
+		_, err := Parse([]byte(body+c.text), "bad.toml", Options{})
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: got %v, want an error with %q", c.name, err, c.want)
+		}
+	}
+}
