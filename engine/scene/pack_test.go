@@ -111,6 +111,7 @@ position = [0, 0, 1]
 		{"nested pieces", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { pieces = [] } ] }\n", "cannot itself have pieces"},
 		{"empty pieces", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [] }\n", "list of tables"},
 		{"bad strike", body + "[drop]\nbody = \"carton\"\nstrike = \"edge 1-3\"\nheight = 0.5\n", "do not meet"},
+		{"by what", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = \"by weight\"\n", "write height = \"by mass\""},
 		{"no height", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\n", "height is missing"},
 		{"too heavy", strings.Replace(body, "mass = 12", "mass = 80", 1) + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = \"by mass\"\n", "beyond the drop-height table"},
 		{"static dropped", body + "[drop]\nbody = \"floor\"\nstrike = \"face 3\"\nheight = 0.5\n", "only a body moved by gravity"},
