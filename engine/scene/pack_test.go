@@ -108,6 +108,7 @@ position = [0, 0, 1]
 		{"not a matrix", body + "inertia = [1, 2]\n", "3 x 3 matrix"},
 		{"static", "\n[[body]]\nname = \"shelf\"\nstatic = true\nshape = { box = [1, 1, 1] }\ncenter_of_mass = [0, 0, 0]\n" + body, "takes no center_of_mass"},
 		{"piece plane", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { plane = [0, 0, 1] } ] }\n", "a piece must be a box"},
+		{"piece key", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { box = [1, 1, 1], att = [0, 0, 1] } ] }\n", "unknown key \"att\" in piece 1 of body \"p\"; did you mean \"at\"?"},
 		{"nested pieces", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { pieces = [] } ] }\n", "cannot itself have pieces"},
 		{"empty pieces", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [] }\n", "list of tables"},
 		{"bad strike", body + "[drop]\nbody = \"carton\"\nstrike = \"edge 1-3\"\nheight = 0.5\n", "do not meet"},
