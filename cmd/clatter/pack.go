@@ -101,7 +101,8 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
 			fmt.Fprintf(w, "... %d impacts in all (summary.json lists them)\n", len(d.Impacts))
 		}
 	}
-	fmt.Fprintln(w, "faces: 1 top, 2 right side, 3 bottom, 4 left side, 5 near end, 6 far end (ASTM D5276, ISTA)")
+	fmt.Fprintln(w, "package faces here: 1 top, 2 right side, 3 bottom, 4 left side, 5 near end, 6 far end (ASTM D5276, ISTA);")
+	fmt.Fprintln(w, "the body table's resting face and face down number faces as clatter inspect lists them")
 	fmt.Fprintln(w)
 }
 
