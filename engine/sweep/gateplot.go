@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
+	"slices"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -35,13 +37,14 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 		if len(faces) == 0 {
 			continue
 		}
+		slices.Sort(faces)
 		slot := map[int]int{}
 		labels := make([]string, len(faces))
 		for i, f := range faces {
 			slot[f] = i
 			labels[i] = faceName(m, bi, f)
 		}
-		p := newPlot(fmt.Sprintf("gate %s: share of each face down among its crossings, 95%% Wilson intervals", g.Name), "face down", "fraction of crossings")
+		p := newPlot(fmt.Sprintf("gate %s: its crossings by face down (95%% Wilson intervals)", g.Name), "face down", "fraction of crossings")
 		cases := map[int64][]GateRow{}
 		var order []int64
 		for _, r := range rows {
@@ -78,7 +81,7 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 			}
 			label := fmt.Sprintf("%.3g crossings per minute", rate)
 			if len(m.Vary) > 0 {
-				label = fmt.Sprintf("case %d: %.3g per minute", c, rate)
+				label = fmt.Sprintf("%s: %.3g per minute", valuesLabel(m, cases[c][0].Values), rate)
 			}
 			if err := addPoints(p, pts, errs, label, k); err != nil {
 				return nil, err
@@ -140,4 +143,29 @@ func addPoints(p *plot.Plot, pts plotter.XYs, errs plotter.YErrors, label string
 	p.Add(sc, eb)
 	p.Legend.Add(label, sc)
 	return nil
+}
+
+// valuesLabel names a case by its varied keys' values, each key by its
+// last part, so that the legend leaves the data its room (the table and
+// gate-cases.csv give the full keys).
+func valuesLabel(m *Meta, vals []float64) string {
+	parts := make([]string, 0, len(vals))
+	for k, v := range vals {
+		if k < len(m.Vary) {
+			parts = append(parts, fmt.Sprintf("%s = %g", shortKey(m.Vary[k].Key), v))
+		}
+	}
+	return strings.Join(parts, ", ")
+}
+
+// shortKey is the last part of a dotted key, with its parent for an
+// element of a vector: "material.steel.friction" is "friction",
+// "body.cube.position.2" is "position.2".
+func shortKey(key string) string {
+	parts := strings.Split(key, ".")
+	n := 1
+	if len(parts) > 1 && strings.Trim(parts[len(parts)-1], "0123456789") == "" {
+		n = 2
+	}
+	return strings.Join(parts[len(parts)-n:], ".")
 }

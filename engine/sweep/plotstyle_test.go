@@ -84,3 +84,17 @@ func TestWrapTitle(t *testing.T) {
 		}
 	}
 }
+
+// TestShortKey checks the keys named in a gate plot's legend.
+func TestShortKey(t *testing.T) {
+	for key, want := range map[string]string{
+		"material.steel.friction": "friction",
+		"body.cube.position.2":    "position.2",
+		"drop.height":             "height",
+		"seed":                    "seed",
+	} {
+		if got := shortKey(key); got != want {
+			t.Errorf("%s: %q, want %q", key, got, want)
+		}
+	}
+}
