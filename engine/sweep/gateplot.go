@@ -44,7 +44,11 @@ func writeGatePlots(dir string, m *Meta, rows []GateRow) ([]string, error) {
 			slot[f] = i
 			labels[i] = faceName(m, bi, f)
 		}
-		p := newPlot(fmt.Sprintf("gate %s: its crossings by face down (95%% Wilson intervals)", g.Name), "face down", "fraction of crossings")
+		who := ""
+		if body == "" {
+			who = ", every moving body together"
+		}
+		p := newPlot(fmt.Sprintf("gate %s: its crossings by face down (95%% Wilson intervals%s)", g.Name, who), "face down", "fraction of crossings")
 		cases := map[int64][]GateRow{}
 		var order []int64
 		for _, r := range rows {
