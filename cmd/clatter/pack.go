@@ -23,7 +23,13 @@ const packNote = "Caution: simulation informs the design of a package or a load;
 func writePackTables(w io.Writer, s *scene.Scene, sum *report.Summary) bool {
 	wrote := false
 	if d := sum.Drop; d != nil {
-		writeDropTable(w, s, d)
+		var balanced *string
+		for _, b := range sum.Bodies {
+			if b.Name == d.Body {
+				balanced = b.Balanced
+			}
+		}
+		writeDropTable(w, s, d, balanced)
 		wrote = true
 	}
 	var moved []report.Body
@@ -57,7 +63,9 @@ func fmtMark(m *report.TiltMark) string {
 	return fmt.Sprintf("at %.4g s, support tilted %.3g deg", m.Time, m.Tilt)
 }
 
-func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
+// writeDropTable writes the drop's report; balanced is the dropped body's
+// summary entry of that name ("edge", "corner" or nil).
+func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop, balanced *string) {
 	speed := s.Units.Symbol(scene.Speed)
 	how := ""
 	if s.Drop != nil && s.Drop.ByMass {
@@ -71,7 +79,10 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
 	}
 	fmt.Fprintf(w, "second   %s\n", second)
 	fmt.Fprintf(w, "spin     %.4g rad/s at most\n", spinShown(d.PeakSpin))
-	final := "not on a face (balanced on an edge or corner, or moving)"
+	final := "not on a face (still moving or leaning)"
+	if balanced != nil {
+		final = "not on a face: at rest balanced on " + map[string]string{"edge": "an edge", "corner": "a corner"}[*balanced]
+	}
 	if d.FinalFace != nil {
 		final = fmt.Sprintf("face %d", *d.FinalFace)
 		if d.TurnedOver {
@@ -101,7 +112,8 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
 			fmt.Fprintf(w, "... %d impacts in all (summary.json lists them)\n", len(d.Impacts))
 		}
 	}
-	fmt.Fprintln(w, "faces: 1 top, 2 right side, 3 bottom, 4 left side, 5 near end, 6 far end (ASTM D5276, ISTA)")
+	fmt.Fprintln(w, "package faces here: 1 top, 2 right side, 3 bottom, 4 left side, 5 near end, 6 far end (ASTM D5276, ISTA);")
+	fmt.Fprintln(w, "the body table's resting face and face down number faces as clatter inspect lists them")
 	fmt.Fprintln(w)
 }
 

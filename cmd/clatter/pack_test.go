@@ -39,7 +39,7 @@ func TestExampleCartonDrop(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d:\n%s", code, out)
 	}
-	for _, want := range []string{"drop     carton on corner 2-3-5 from 610 mm (by mass: the ISTA 1A table)", "does not replace the drop, vibration"} {
+	for _, want := range []string{"drop     carton on corner 2-3-5 from 610 mm (by mass: the ISTA 1A table)", "end      not on a face: at rest balanced on a corner", "does not replace the drop, vibration"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("stdout lacks %q:\n%s", want, out)
 		}
@@ -231,5 +231,55 @@ func TestInspectSceneWithoutBody(t *testing.T) {
 	_, errs, code := clatter(t, "inspect", "../../testdata/packaging/pallet-tilt.toml")
 	if code != exitBad || !strings.Contains(errs, "--body NAME") {
 		t.Errorf("a scene without --body: exit %d, %s", code, errs)
+	}
+}
+
+// TestDropSecondFeatureInSummary checks that a drop that turns over names
+// in summary.json the feature that struck second, as drops.csv does: the
+// first impact in its list on a feature other than the struck one, at
+// that impact's speed. An edge drop kicked below its centre of mass as it
+// falls spins, so a face strikes after the edge.
+func TestDropSecondFeatureInSummary(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/packaging/carton-drop.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.Replace(string(b), `strike = "corner 2-3-5"`, `strike = "edge 3-5"`, 1) + `
+[[kick]]
+body = "carton"
+time = 0.1
+impulse = [300, 0, 0]
+at = [0, 0, 600]
+`
+	dir := t.TempDir()
+	scene := filepath.Join(dir, "kicked.toml")
+	if err := os.WriteFile(scene, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, _, code := clatter(t, "run", scene, "-o", dir, "--quiet")
+	if code != exitOK {
+		t.Fatalf("exit %d:\n%s", code, out)
+	}
+	raw, err := os.ReadFile(filepath.Join(dir, "summary.json"))
+	if err != nil || !strings.Contains(string(raw), `"second_feature"`) {
+		t.Fatalf("summary.json has no second_feature (%v)", err)
+	}
+	d := readPackSummary(t, dir).Drop
+	if d == nil || len(d.Impacts) == 0 || d.Impacts[0].Feature == nil {
+		t.Fatalf("drop %+v: no first impact", d)
+	}
+	var second *report.DropImpact
+	for i := range d.Impacts {
+		if f := d.Impacts[i].Feature; f != nil && *f != *d.Impacts[0].Feature {
+			second = &d.Impacts[i]
+			break
+		}
+	}
+	if second == nil {
+		t.Fatalf("the kicked drop struck only %s: %+v", *d.Impacts[0].Feature, d.Impacts)
+	}
+	if d.SecondFeature == nil || *d.SecondFeature != *second.Feature ||
+		d.SecondaryImpactSpeed == nil || *d.SecondaryImpactSpeed != second.NormalSpeed {
+		t.Errorf("second_feature %v at %v, want %s at %g (the impacts list)", d.SecondFeature, d.SecondaryImpactSpeed, *second.Feature, second.NormalSpeed)
 	}
 }

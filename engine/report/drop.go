@@ -21,12 +21,12 @@ type Drop struct {
 	// surface, taken from the free fall just before it.
 	ImpactSpeed float64      `json:"impact_speed"`
 	Impacts     []DropImpact `json:"impacts"`
-	// SecondaryImpactSpeed is the normal speed of the first impact of a
-	// feature other than the one struck first (null if none).
+	// SecondFeature names the first feature other than the one struck
+	// first to strike (null if none), as drops.csv's second_feature.
+	SecondFeature *string `json:"second_feature"`
+	// SecondaryImpactSpeed is the normal speed of its first impact.
 	SecondaryImpactSpeed *float64 `json:"secondary_impact_speed"`
-	// SecondFeature names that feature (drops.csv's second_feature).
-	SecondFeature *string `json:"-"`
-	PeakSpin      float64 `json:"peak_spin"`
+	PeakSpin             float64  `json:"peak_spin"`
 	// FinalFace is the face the body ended on (null: not on a face).
 	FinalFace  *int `json:"final_face"`
 	TurnedOver bool `json:"turned_over"`

@@ -52,9 +52,21 @@ func (r *reader) piece(path []string, m map[string]any, b *Body, i int) (shapes.
 		r.errAt(path, "%sa piece cannot itself have pieces; list every piece in the body's pieces", pre)
 		return shapes.Piece{}, false
 	}
+	// A piece's own keys, so that a misspelt "at" is named as such; a
+	// plane is left to the shape reader, which says why it cannot be one.
+	keyed := map[string]any{}
+	for k, v := range m {
+		if k != "plane" {
+			keyed[k] = v
+		}
+	}
+	name := fmt.Sprintf("piece %d of body %q", i+1, b.Name)
+	if r.keys(section{m: keyed, path: path, name: name, pre: pre}, "box", "cylinder", "sphere", "capsule", "mesh", "as", "units", "at", "orientation") > 0 {
+		return shapes.Piece{}, false
+	}
 	tmp := Body{Name: b.Name, Orientation: mgl64.QuatIdent()}
 	nerr := r.n
-	r.shape(section{m: shapeOnly, path: path, name: fmt.Sprintf("piece %d of body %q", i+1, b.Name), pre: pre}, &tmp, false)
+	r.shape(section{m: shapeOnly, path: path, name: name, pre: pre}, &tmp, false)
 	if r.n > nerr || tmp.Shape == nil {
 		return shapes.Piece{}, false
 	}
@@ -63,7 +75,7 @@ func (r *reader) piece(path []string, m map[string]any, b *Body, i int) (shapes.
 		r.errAt(path, "%sa piece must be a box, cylinder, sphere, capsule or a mesh kept as its hull, not a %s", pre, tmp.Kind)
 		return shapes.Piece{}, false
 	}
-	sec := section{m: m, path: path, name: fmt.Sprintf("piece %d of body %q", i+1, b.Name), pre: pre}
+	sec := section{m: m, path: path, name: name, pre: pre}
 	at, _ := r.vector(sec, "at", Length, shapes.Vec3{})
 	r.orientation(sec, &tmp, i)
 	if tmp.RandomOrientation {

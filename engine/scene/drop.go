@@ -84,6 +84,9 @@ func (r *reader) drop(root section) {
 			return
 		}
 		d.Height, d.ByMass = h, true
+	} else if isStr && strings.HasPrefix(strings.TrimSpace(s), "by") {
+		r.errAt(sub(sec.path, "height"), "[drop] height %q: write height = \"by mass\" for the ISTA 1A table's height, or a length such as \"760 mm\"", s)
+		return
 	} else if h, ok := r.number(sec, "height", Length, 0); ok {
 		if h < 0 {
 			r.errAt(sub(sec.path, "height"), "[drop] height must be >= 0, got %s", show(sec.m["height"]))

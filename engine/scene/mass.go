@@ -96,22 +96,26 @@ func (r *reader) inertia(path []string, pre string) (shapes.Mat3, bool) {
 			m.Set(i, c, x[c])
 		}
 	}
+	// Messages give values in the scene's units, as the user wrote them.
+	u := r.s.Units
+	unit := fmt.Sprintf("%s %s2", u.Mass, u.Length)
+	in := func(x float64) float64 { return u.FromSI(x, MomentOfInertia) }
 	scale := math.Max(math.Abs(m.At(0, 0)), math.Max(math.Abs(m.At(1, 1)), math.Abs(m.At(2, 2))))
 	for i := 0; i < 3; i++ {
 		for j := i + 1; j < 3; j++ {
 			if math.Abs(m.At(i, j)-m.At(j, i)) > 1e-9*scale {
-				r.errAt(path, "%sinertia must be symmetric: row %d column %d is %g but row %d column %d is %g", pre, i+1, j+1, m.At(i, j), j+1, i+1, m.At(j, i))
+				r.errAt(path, "%sinertia must be symmetric: row %d column %d is %.6g %s but row %d column %d is %.6g %s", pre, i+1, j+1, in(m.At(i, j)), unit, j+1, i+1, in(m.At(j, i)), unit)
 				return m, false
 			}
 		}
 	}
 	mom, _, err := shapes.Principal(m)
 	if err != nil || !(mom[0] > 0) {
-		r.errAt(path, "%sinertia must have positive principal moments, got %v; check the signs of the products of inertia (CAD tools differ in them)", pre, mom)
+		r.errAt(path, "%sinertia must have positive principal moments, got %.6g, %.6g and %.6g %s; check the signs of the products of inertia (CAD tools differ in them)", pre, in(mom[0]), in(mom[1]), in(mom[2]), unit)
 		return m, false
 	}
 	if mom[2] > (mom[0]+mom[1])*(1+1e-9) {
-		r.errAt(path, "%sno rigid body has this inertia: its largest principal moment %.6g exceeds the sum of the other two (%.6g + %.6g); check the units (mass x length^2 in the scene's units) and the signs of the products", pre, mom[2], mom[0], mom[1])
+		r.errAt(path, "%sno rigid body has this inertia: its largest principal moment %.6g %s exceeds the sum of the other two (%.6g + %.6g); check the units (mass x length^2 in the scene's units) and the signs of the products", pre, in(mom[2]), unit, in(mom[0]), in(mom[1]))
 		return m, false
 	}
 	return m, true

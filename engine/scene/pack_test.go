@@ -108,9 +108,11 @@ position = [0, 0, 1]
 		{"not a matrix", body + "inertia = [1, 2]\n", "3 x 3 matrix"},
 		{"static", "\n[[body]]\nname = \"shelf\"\nstatic = true\nshape = { box = [1, 1, 1] }\ncenter_of_mass = [0, 0, 0]\n" + body, "takes no center_of_mass"},
 		{"piece plane", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { plane = [0, 0, 1] } ] }\n", "a piece must be a box"},
+		{"piece key", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { box = [1, 1, 1], att = [0, 0, 1] } ] }\n", "unknown key \"att\" in piece 1 of body \"p\"; did you mean \"at\"?"},
 		{"nested pieces", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [ { pieces = [] } ] }\n", "cannot itself have pieces"},
 		{"empty pieces", "\n[[body]]\nname = \"p\"\nmass = 1\nshape = { pieces = [] }\n", "list of tables"},
 		{"bad strike", body + "[drop]\nbody = \"carton\"\nstrike = \"edge 1-3\"\nheight = 0.5\n", "do not meet"},
+		{"by what", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = \"by weight\"\n", "write height = \"by mass\""},
 		{"no height", body + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\n", "height is missing"},
 		{"too heavy", strings.Replace(body, "mass = 12", "mass = 80", 1) + "[drop]\nbody = \"carton\"\nstrike = \"face 3\"\nheight = \"by mass\"\n", "beyond the drop-height table"},
 		{"static dropped", body + "[drop]\nbody = \"floor\"\nstrike = \"face 3\"\nheight = 0.5\n", "only a body moved by gravity"},
@@ -157,6 +159,29 @@ drops = "ten"
 		}
 		if got := c.Drop.Strike.String(); got != w || !near(c.Drop.Height, 0.61) {
 			t.Errorf("drop %d: %s from %g m, want %s from 0.61 m", n+1, got, c.Drop.Height, w)
+		}
+	}
+}
+
+// TestInertiaErrorsInSceneUnits checks that a refused inertia is quoted in
+// the scene's units, as the user wrote it (kg mm2 here), not in SI.
+func TestInertiaErrorsInSceneUnits(t *testing.T) {
+	body := `units = { length = "mm", mass = "kg" }
+[[body]]
+name = "carton"
+mass = 12
+shape = { box = [400, 300, 250] }
+position = [0, 0, 1000]
+`
+	cases := []struct{ name, text, want string }{
+		{"not symmetric", "inertia = [[200000, 10, 0], [0, 270000, 0], [0, 0, 300000]]\n", "row 1 column 2 is 10 kg mm2"},
+		{"negative", "inertia = [[-1, 0, 0], [0, 1, 0], [0, 0, 1]]\n", "got -1, 1 and 1 kg mm2"},
+		{"triangle inequality", "inertia = [[100000, 0, 0], [0, 100000, 0], [0, 0, 300000]]\n", "300000 kg mm2 exceeds the sum of the other two (100000 + 100000)"},
+	}
+	for _, c := range cases {
+		_, err := Parse([]byte(body+c.text), "bad.toml", Options{})
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: got %v, want an error with %q", c.name, err, c.want)
 		}
 	}
 }

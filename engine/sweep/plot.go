@@ -215,6 +215,12 @@ func facesAgainst(m *Meta, st *stats, rows []CaseRow, b, k int, faces []int) (*p
 	if p.X.Min == p.X.Max {
 		p.X.Min, p.X.Max = lo-0.5, hi+0.5
 	}
+	// The drops of the ten-drop sequence are categories, not a scale:
+	// their points are not joined.
+	add := addSeries
+	if vary.Key == "drop.number" {
+		add = addPoints
+	}
 	top := 0.0
 	dashed := false
 	for i, f := range faces {
@@ -244,7 +250,7 @@ func facesAgainst(m *Meta, st *stats, rows []CaseRow, b, k int, faces []int) (*p
 		if len(pts) == 0 {
 			continue
 		}
-		if err := addSeries(p, pts, errs, faceName(m, b, f), i); err != nil {
+		if err := add(p, pts, errs, faceName(m, b, f), i); err != nil {
 			return nil, err
 		}
 		if q, ok := qs[f]; ok {

@@ -111,6 +111,11 @@ func keyUnit(key string, u report.Units) string {
 		unit = "Hz"
 	case "density":
 		unit = u.Mass + "/" + u.Length + "^3"
+	case "number":
+		if key == "drop.number" {
+			return "drop number in the ten-drop sequence (drops.csv names its strike)"
+		}
+		return key + " (in the scene's units)"
 	default:
 		return key + " (in the scene's units)"
 	}

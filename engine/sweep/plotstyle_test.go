@@ -43,6 +43,7 @@ func TestKeyUnits(t *testing.T) {
 		"body.cube.position.2":      "body.cube.position.2 (mm)",
 		"world.step":                "world.step (s)",
 		"body.cube.mass":            "body.cube.mass (g)",
+		"drop.number":               "drop number in the ten-drop sequence (drops.csv names its strike)",
 		"something.else.altogether": "something.else.altogether (in the scene's units)",
 	} {
 		if got := keyUnit(key, u); got != want {
@@ -80,6 +81,20 @@ func TestWrapTitle(t *testing.T) {
 	} {
 		if got := wrapTitle(c.title, width, c.room); got != c.want {
 			t.Errorf("wrapTitle(%q) = %q, want %q", c.title, got, c.want)
+		}
+	}
+}
+
+// TestShortKey checks the keys named in a gate plot's legend.
+func TestShortKey(t *testing.T) {
+	for key, want := range map[string]string{
+		"material.steel.friction": "friction",
+		"body.cube.position.2":    "position.2",
+		"drop.height":             "height",
+		"seed":                    "seed",
+	} {
+		if got := shortKey(key); got != want {
+			t.Errorf("%s: %q, want %q", key, got, want)
 		}
 	}
 }

@@ -17,7 +17,7 @@ func packagingCases() []Case {
 			Name: "carton dropped on corner 2-3-5 from the ISTA 1A height", Unit: "m/s",
 			Reference: "v = sqrt(2 g h), h = 610 mm for 12 kg", Source: "free fall (any mechanics text); ISTA Procedure 1A drop-height table",
 			Relative: true, Tolerance: 1e-3,
-			Why: "the speed at first contact follows from the free fall, exact but for rounding",
+			Why: "the simulated speed at first contact: a semi-implicit Euler step falls short of the free fall by about g dt / 2, 0.07 percent at 0.5 ms",
 			Run: cornerDropSpeed,
 		},
 		{
@@ -71,7 +71,12 @@ height = "by mass"
 	if err != nil {
 		return 0, 0, 0, err
 	}
-	return math.Sqrt(2 * g * 0.61), sum.Drop.ImpactSpeed / 1000, math.NaN(), nil
+	if len(sum.Drop.Impacts) == 0 {
+		return 0, 0, 0, fmt.Errorf("the carton struck nothing in %g s", sum.Time)
+	}
+	// The solver's own speed at the first impact, not the drop report's
+	// impact_speed, which follows from the free fall by formula.
+	return math.Sqrt(2 * g * 0.61), sum.Drop.Impacts[0].NormalSpeed / 1000, math.NaN(), nil
 }
 
 // plankDrop drops a 0.4 x 0.3 x 0.2 m box turned 10 degrees about y from

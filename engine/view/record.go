@@ -81,7 +81,9 @@ func (r *Recorder) shapes(w *engine.World, ids []engine.BodyID) {
 	r.Bodies = []Body{}
 	for i, sb := range r.s.Bodies {
 		c := materialColour(r.s.MaterialIndex(sb.Material))
-		if sb.Static && !sb.Driven {
+		if sb.Static { // driven bodies are static too: moved, not pushed
+			// Fixtures, driven ones (tracks, bowls, tilt tables) too, stay
+			// behind the parts they carry, which share their material.
 			c = towardGrey(c, 0.5)
 		}
 		b := Body{Name: sb.Name, Moves: !sb.Static || sb.Driven, index: i,

@@ -257,3 +257,29 @@ func TestRoundSize(t *testing.T) {
 		}
 	}
 }
+
+// TestFixturesPalerThanParts checks that a driven track and a static
+// blade, both of the block's material, are drawn paler (nearer the light
+// grey background) than the block, so that the part stands out on its
+// tooling.
+func TestFixturesPalerThanParts(t *testing.T) {
+	_, rec := record(t, "../../testdata/feeder/wiper.toml")
+	colour := map[string][3]float64{}
+	for _, b := range rec.Bodies {
+		if len(b.Parts) > 0 {
+			c := b.Parts[0].Colour
+			colour[b.Name] = [3]float64{float64(c.R), float64(c.G), float64(c.B)}
+		}
+	}
+	// saturation is the spread of the channels: a colour mixed toward
+	// grey has less of it.
+	saturation := func(c [3]float64) float64 {
+		return math.Max(c[0], math.Max(c[1], c[2])) - math.Min(c[0], math.Min(c[1], c[2]))
+	}
+	part := saturation(colour["block"])
+	for _, fixture := range []string{"track", "blade"} {
+		if got := saturation(colour[fixture]); !(got < part) {
+			t.Errorf("%s drawn in %v, as saturated as the block's %v: the part does not stand out", fixture, colour[fixture], colour["block"])
+		}
+	}
+}

@@ -41,10 +41,13 @@ type table struct {
 // notes say what each table is; tables named here come first, in this
 // order, unfolded; the long ones (trials, trajectory) come folded.
 var notes = []struct{ file, note string }{
-	{"cases.csv", "each case's count of trials resting on each face, its fraction with the 95 percent Wilson interval, and the quasi-static probability"},
-	{"failures.csv", "trials whose simulation failed, and why"},
-	{"gate-cases.csv", "each gate's counts by face"},
+	// A drop study's answer is its drops table; its face counts come after.
 	{"drops.csv", "each drop's impacts and outcome"},
+	{"cases.csv", "each case's count of trials resting on each face, and its fraction with the 95 percent Wilson interval (the quasi-static probabilities are in the plots and the printed table)"},
+	{"failures.csv", "trials whose simulation failed, and why"},
+	{"gate-cases.csv", "each gate's counts by face down, their share of the gate's crossings with the 95 percent Wilson interval, and the crossings per minute"},
+	{"face-down.csv", "each case's count of trials ending with each face down, settled or not"},
+	{"crossings.csv", "each crossing of a gate in every trial"},
 	{"gates.csv", "each crossing of a gate"},
 	{"joints.csv", "the force and torque each joint carried at each sample"},
 	{"trials.csv", "the final state of every trial"},
