@@ -34,8 +34,8 @@ func block(muK, muS float64) ([]Body, []Point) {
 
 // TestSlidingBlock: a block sliding on a floor under its weight. Coulomb's
 // law for a sliding contact: friction = mu_k N opposing the slip, so the
-// block decelerates at mu_k g and stops after t = v0/(mu_k g) (DESIGN
-// section 4). Each step, every point's friction must equal mu_k times its
+// block decelerates at mu_k g and stops after t = v0/(mu_k g) (any
+// dynamics text). Each step, every point's friction must equal mu_k times its
 // normal impulse and never exceed it.
 func TestSlidingBlock(t *testing.T) {
 	const dt, muK, muS = 1e-3, 0.3, 0.5
@@ -159,7 +159,7 @@ func TestPushedBlock(t *testing.T) {
 
 // TestIncline: gravity tilted by theta against a level floor is a block on
 // an incline. It stays if tan(theta) <= mu_s, else slides with
-// a = g (sin(theta) - mu_k cos(theta)) (DESIGN section 4). The engine's
+// a = g (sin(theta) - mu_k cos(theta)) (any dynamics text). The engine's
 // acceptance asks for creep below 0.5 mm in 1 s when it must stay, with mu_k
 // below tan(theta) so that only static friction can hold it.
 func TestIncline(t *testing.T) {

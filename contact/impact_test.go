@@ -192,7 +192,7 @@ func cradle(n, k int, v float64, e, mu float64, reverse bool) ([]Body, []Point) 
 
 // TestNewtonsCradle: five equal balls touching, e = 1: k striking balls leave
 // k balls moving at the striking speed and the rest at rest, momentum exactly
-// conserved (DESIGN section 4; the classic result of sequential pair impacts,
+// conserved (the classic result of sequential pair impacts,
 // Guendelman, Bridson and Fedkiw 2003). The outcome must not depend on the
 // order of the points, only the number of passes does.
 func TestNewtonsCradle(t *testing.T) {

@@ -125,7 +125,7 @@ func TestDrivenTiltTable(t *testing.T) {
 	// A block of base b (in the tilt direction) and height h on a table
 	// that tilts slowly: it tips over its lower edge at atan(b/h) if
 	// mu_s > b/h, otherwise it slides first, at atan(mu_s) (statics of a
-	// block on an incline; DESIGN.md section 4). The table (a kinematic
+	// block on an incline). The table (a kinematic
 	// plane) starts at 15 degrees, below every critical angle here, and
 	// turns at 2 degrees/s about the line under the block; the angle is
 	// read when the block has turned 0.1 degree on the table (tipping) or

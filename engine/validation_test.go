@@ -10,8 +10,8 @@ import (
 	"github.com/go-gl/mathgl/mgl64"
 )
 
-// The analytic validation suite. Each case names its source (DESIGN.md
-// section 4 collects them) and a tolerance with the reason for its size.
+// The analytic validation suite. Each case names its source (a textbook,
+// handbook or paper) and a tolerance with the reason for its size.
 // g = 9.80665 m/s^2, standard gravity (CGPM 1901).
 
 const g0 = StandardGravity
@@ -232,7 +232,7 @@ func tiltTable(t *testing.T, b, h, mu, rate float64) (float64, string) {
 func TestTiltTable(t *testing.T) {
 	// Tilt table: a block of base width b and height h, centre of mass at
 	// mid-height, tips at atan(b/h) if mu_s > b/h, otherwise slides first at
-	// atan(mu_s) (statics of a rigid block; DESIGN.md section 4). Within 0.5
+	// atan(mu_s) (statics of a rigid block). Within 0.5
 	// degree (the requirement); tilting at 2 degrees per second, the turn or
 	// travel that marks the event is reached within a few hundredths of a
 	// degree of tilt past the threshold.
@@ -285,7 +285,7 @@ func cradle(t *testing.T, k int, e, v float64) []float64 {
 func TestNewtonsCradle(t *testing.T) {
 	// Five equal balls in contact, e = 1: k balls striking leave k balls
 	// moving at the striking speed and the rest at rest; momentum exactly
-	// conserved (DESIGN.md section 4; impacts processed pairwise in sequence,
+	// conserved (impacts processed pairwise in sequence,
 	// Guendelman, Bridson and Fedkiw 2003). 2 percent of the striking speed:
 	// the requirement.
 	const tol = 0.02

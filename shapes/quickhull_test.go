@@ -143,7 +143,7 @@ func TestHullBoxFaces(t *testing.T) {
 	if len(h.Vertices) != 8 || len(h.Faces) != 6 || len(h.Edges) != 12 {
 		t.Fatalf("box hull has V=%d E=%d F=%d, want 8, 12, 6", len(h.Vertices), len(h.Edges), len(h.Faces))
 	}
-	// DESIGN.md section 5: box faces in the order +x, -x, +y, -y, +z, -z.
+	// The documented order of a box's faces (README, inspect): +x, -x, +y, -y, +z, -z.
 	want := []Vec3{{1, 0, 0}, {-1, 0, 0}, {0, 1, 0}, {0, -1, 0}, {0, 0, 1}, {0, 0, -1}}
 	for i, f := range h.Faces {
 		if f.Normal.Sub(want[i]).Len() > 1e-9 || len(f.Verts) != 4 {

@@ -48,7 +48,7 @@ func TestRunSlideStopDistance(t *testing.T) {
 		t.Errorf("slid %.2f mm, want %.2f mm (error %.3g)", b.Position[0], want, e)
 	}
 	// Resting on its -z face: a box's faces are listed +x, -x, +y, -y,
-	// +z, -z (DESIGN.md section 5), so index 5.
+	// +z, -z (the documented order), so index 5.
 	if b.RestingFace == nil || *b.RestingFace != 5 {
 		t.Errorf("resting face %v, want 5 (-z)", b.RestingFace)
 	}
@@ -254,7 +254,7 @@ func TestInspectCube(t *testing.T) {
 	// testdata/parts/cube.stl: a 20 mm cube. At the default 1000 kg/m3 its
 	// mass is 8 g, its inertia m a^2 / 6 = 0.5333 kg mm^2 about each axis
 	// (solid box, any dynamics handbook), and it rests on each face with
-	// probability 1/6, tipping at 45 degrees (DESIGN.md section 4). The
+	// probability 1/6, tipping at 45 degrees (symmetry and statics). The
 	// corners are whole millimetres, exact in float32: rounding only.
 	const tol = 1e-9
 	d := inspectJSONOf(t, "../../testdata/parts/cube.stl", "--units", "mm")

@@ -70,7 +70,7 @@ func golden(t *testing.T, name, got string) {
 		t.Fatalf("%v (run go test -update to write it)", err)
 	}
 	if got != string(want) {
-		t.Errorf("key structure of %s changed (DESIGN.md section 5 fixes it):\ngot\n%s\nwant\n%s", name, got, want)
+		t.Errorf("key structure of %s changed (a fixed interface: scripts depend on it):\ngot\n%s\nwant\n%s", name, got, want)
 	}
 }
 

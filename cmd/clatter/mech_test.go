@@ -118,7 +118,7 @@ func tiltScene(t *testing.T, friction, static string) string {
 func TestExampleCartonTilt(t *testing.T) {
 	// A carton 250 mm deep (in the tilt direction) and 500 mm tall on a
 	// table tilting at 2 deg/s from 0.2 s about its lower edge at x = 400
-	// mm. Rigid block on an incline (DESIGN.md section 4): it tips at
+	// mm. Rigid block on an incline (statics): it tips at
 	// atan(b/h) = 26.57 degrees if mu_s > b/h, else slides at atan(mu_s).
 	// Within 0.5 degrees (the tilt-table requirement).
 	const rate, start, tol = 2.0, 0.2, 0.5

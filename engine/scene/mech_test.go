@@ -32,8 +32,8 @@ tilt = { axis = [0, 1, 0], rate = "1 deg/s" }
 
 func TestMechanismKeys(t *testing.T) {
 	// Units: 1 rpm = 2 pi/60 rad/s; 1 N m = 1 kg m^2/s^2; plain numbers of
-	// a hinge's stiffness are in g mm^2/s^2 per rad (DESIGN.md section 5:
-	// angles in degrees, angular quantities otherwise in rad).
+	// a hinge's stiffness are in g mm^2/s^2 per rad (the scene files'
+	// convention: angles in degrees, angular quantities otherwise in rad).
 	src := mechBase + tableDrive + `[[joint]]
 name = "pin"
 kind = "hinge"

@@ -135,12 +135,12 @@ func (m *Meta) keysHeader() string {
 	return b.String()
 }
 
-// trialsHeader is the first line of trials.csv (DESIGN.md section 5).
+// trialsHeader is the first line of trials.csv (a fixed interface: the README documents it).
 func (m *Meta) trialsHeader() string {
 	return "case,trial,seed," + m.keysHeader() + "body,resting_face,settled,settled_at,x,y,z,qw,qx,qy,qz,max_impact_speed,face_down"
 }
 
-// casesHeader is the first line of cases.csv (DESIGN.md section 5).
+// casesHeader is the first line of cases.csv (a fixed interface: the README documents it).
 func (m *Meta) casesHeader() string {
 	return "case," + m.keysHeader() + "body,resting_face,count,trials,fraction,low,high"
 }

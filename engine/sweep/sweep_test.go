@@ -103,7 +103,7 @@ spin = { cube = [0, 5] }
 
 func TestCubeRestsOnEachFaceEqually(t *testing.T) {
 	// By symmetry a cube dropped at a uniformly random orientation rests
-	// on each face with probability 1/6 (DESIGN.md section 4). Pearson's
+	// on each face with probability 1/6 (symmetry). Pearson's
 	// chi-square test of the six counts against 1/6 each, 5 degrees of
 	// freedom, at the 0.1 percent level (gonum's chi-square quantile); and
 	// every trial settles on a face.
@@ -329,7 +329,7 @@ func TestSameResultsHoweverRun(t *testing.T) {
 	b, _ := os.ReadFile(filepath.Join(one, TrialsFile))
 	lines := strings.Split(strings.TrimSpace(string(b)), "\n")
 	if lines[0] != "case,trial,seed,material.abs.friction,body,resting_face,settled,settled_at,x,y,z,qw,qx,qy,qz,max_impact_speed,face_down" || len(lines) != 19 {
-		t.Errorf("trials.csv: header %q and %d rows, want the DESIGN.md header and 18 rows", lines[0], len(lines)-1)
+		t.Errorf("trials.csv: header %q and %d rows, want the documented header and 18 rows", lines[0], len(lines)-1)
 	}
 	if !strings.HasPrefix(lines[1], "0,0,") || !strings.Contains(lines[1], `,"part, ""A""",`) || !strings.HasPrefix(lines[18], "1,8,") {
 		t.Errorf("rows not in case and trial order, or the body's name not quoted: %q ... %q", lines[1], lines[18])

@@ -57,8 +57,8 @@ func massErr(got, want shapes.Mass, size float64) float64 {
 }
 
 // boxRef is the rectangular block from the handbook formulas written out:
-// I_x = m (b^2 + c^2) / 12 and so on (DESIGN.md section 4; any dynamics
-// handbook), independent of shapes.Box.
+// I_x = m (b^2 + c^2) / 12 and so on (any dynamics or
+// strength-of-materials handbook), independent of shapes.Box.
 func boxRef(x0, y0, z0, x1, y1, z1, rho float64) shapes.Mass {
 	a, b, c := x1-x0, y1-y0, z1-z0
 	v := a * b * c
@@ -72,7 +72,7 @@ func boxRef(x0, y0, z0, x1, y1, z1, rho float64) shapes.Mass {
 
 // prismRef is a regular n-gon prism of circumradius r about the z axis,
 // from z0 to z0 + h: area n r^2 sin(2 pi/n) / 2; about the axis
-// I_z = m r^2 (2 + cos(2 pi/n)) / 6 (DESIGN.md section 4). A regular polygon
+// I_z = m r^2 (2 + cos(2 pi/n)) / 6 (integrating the n triangles). A regular polygon
 // with n >= 3 has equal second moments about every in-plane axis through its
 // centre, so by the perpendicular-axis theorem each is half the polar one,
 // and I_x = I_y = m (r^2 (2 + cos(2 pi/n)) / 12 + h^2 / 12).
@@ -215,7 +215,7 @@ func fromPartgen(t *testing.T, name string, g *partgen.Mesh, scale float64) *mes
 
 // TestPrismConvergesToCylinder: a tessellated n-gon prism matches the exact
 // regular-polygon prism formula tightly for every n, and its I_z tends to
-// the solid cylinder's m r^2 / 2 (DESIGN.md section 4) as n grows, with
+// the solid cylinder's m r^2 / 2 (any dynamics handbook) as n grows, with
 // relative gap (1 - cos(2 pi/n)) / 3, which falls by 2 (1 + cos(2 pi/n)) per
 // doubling of n: 3.7 from n = 6, tending to 4.
 func TestPrismConvergesToCylinder(t *testing.T) {
@@ -272,7 +272,7 @@ func icosphere(level int, r float64) [][3]shapes.Vec3 {
 
 // TestIcosphereConvergesToSphere: the mass properties of ever finer
 // icospheres approach the solid sphere's, I = 2/5 m r^2 and V = 4/3 pi r^3
-// (DESIGN.md section 4), the error falling about fourfold per subdivision
+// (any dynamics handbook), the error falling about fourfold per subdivision
 // (it goes as the square of the edge length, which halves). Welding the
 // unindexed soup must give the icosphere's 10 * 4^k + 2 vertices (Euler's
 // formula for a triangulated sphere with 20 * 4^k faces).

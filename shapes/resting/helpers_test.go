@@ -101,7 +101,7 @@ func regularPolygon(n int, r, phase float64) [][2]float64 {
 
 // rectOnAxis is the solid angle of a rectangle of half-sides p, q seen from
 // distance d on its axis, 4 asin(p q / sqrt((p^2 + d^2)(q^2 + d^2)))
-// (DESIGN.md section 4; a standard result of radiometry, quoted from memory).
+// (a standard result of radiometry, quoted from memory).
 func rectOnAxis(p, q, d float64) float64 {
 	return 4 * math.Asin(p*q/math.Sqrt((p*p+d*d)*(q*q+d*d)))
 }

@@ -11,8 +11,8 @@ import (
 // boxReference gives, for face k (in the order +x, -x, +y, -y, +z, -z) of a
 // box of half sizes half with centre of mass com, the solid angle of the face
 // seen from com (rectOffAxis, on axis for a centred com) and the tip angle
-// min over the face's four edges of atan(r / d) (DESIGN.md section 4's
-// atan(b/h) for a centred com: r = b/2, d = h/2).
+// min over the face's four edges of atan(r / d) (the statics of a
+// rigid block's atan(b/h) for a centred com: r = b/2, d = h/2).
 func boxReference(half, com vec, k int) (omega, tip float64) {
 	ax := k / 2
 	i, j := (ax+1)%3, (ax+2)%3
@@ -26,7 +26,7 @@ func boxReference(half, com vec, k int) (omega, tip float64) {
 }
 
 func TestCube(t *testing.T) {
-	// DESIGN.md section 4: a cube rests on each face with probability 1/6 and
+	// By symmetry a cube rests on each face with probability 1/6 and
 	// tips over an edge at 45 degrees.
 	faces, err := OfShape(shapes.Box{Half: vec{0.5, 0.5, 0.5}}, vec{})
 	if err != nil {
@@ -96,8 +96,8 @@ func TestBoxAspectRatios(t *testing.T) {
 
 func TestBoxMatchesQuickhull(t *testing.T) {
 	// The hand-built box hull and shapes.NewHull of the box's corners must give
-	// the same faces in the same order (DESIGN.md section 5: +x, -x, +y, -y,
-	// +z, -z), so that a box's resting face index means the same in both.
+	// the same faces in the same order (the order the README and inspect
+	// document: +x, -x, +y, -y, +z, -z), so that a box's resting face index means the same in both.
 	half := vec{0.02, 0.01, 0.005}
 	com := vec{0.003, -0.001, 0.002}
 	var pts []vec

@@ -8,8 +8,8 @@ import (
 )
 
 // coneShare is the share of directions in a cone of half-angle alpha,
-// 2 pi (1 - cos alpha) / (4 pi) (the solid angle of a cone; DESIGN.md
-// section 4 and any geometry text), for a disc of radius r seen from d on
+// 2 pi (1 - cos alpha) / (4 pi) (the solid angle of a cone; any
+// geometry text), for a disc of radius r seen from d on
 // its axis: cos alpha = d / sqrt(d^2 + r^2).
 func coneShare(r, d float64) float64 {
 	return 2 * math.Pi * (1 - d/math.Hypot(d, r)) / (4 * math.Pi)
@@ -40,7 +40,7 @@ func TestCylinderOnAxis(t *testing.T) {
 			within(t, "+z cap probability", faces[0].Probability, top, exactTol)
 			within(t, "-z cap probability", faces[1].Probability, bot, exactTol)
 			within(t, "side probability", faces[2].Probability, 1-top-bot, exactTol)
-			// DESIGN.md section 4's tilt table: a cap tips at atan(b/h),
+			// Statics of a rigid block on a tilt table: a cap tips at atan(b/h),
 			// here atan(r/d); the side tips along its axis at atan(d/r).
 			within(t, "+z cap tip angle", faces[0].TipAngleRad, math.Atan(c.r/dTop), exactTol)
 			within(t, "-z cap tip angle", faces[1].TipAngleRad, math.Atan(c.r/dBot), exactTol)
@@ -112,7 +112,7 @@ func TestBalls(t *testing.T) {
 func TestCompoundOfBoxes(t *testing.T) {
 	// Two boxes stacked into a cube of half size 1: the compound's hull is the
 	// cube, its faces +x, -x, +y, -y, +z, -z. Uniform: each face 1/6
-	// (DESIGN.md section 4). A heavier bottom moves com to z = -0.25, and
+	// (symmetry). A heavier bottom moves com to z = -0.25, and
 	// the faces follow the off-centre rectangle formula of the cube.
 	half := vec{1, 1, 0.5}
 	c := &shapes.Compound{Pieces: []shapes.Piece{
