@@ -92,6 +92,7 @@ func Files() ([]File, error) {
 		{"parts/nut.stl", func() ([]byte, error) { return binarySTL("hex nut 17 AF 8 mm, hole r5", Nut()) }},
 		{"parts/bracket.stl", func() ([]byte, error) { return binarySTL("L bracket 40x20x35 mm", Bracket()) }},
 		{"parts/cup.stl", func() ([]byte, error) { return binarySTL("cup r15/r13 h25 mm", Cup()) }},
+		{"parts/cap.stl", func() ([]byte, error) { return binarySTL("moulded cap r15 h12 mm, 24 ribs", Cap()) }},
 		{"broken/empty.stl", func() ([]byte, error) { return []byte{}, nil }},
 		{"broken/truncated.stl", func() ([]byte, error) {
 			// Cut inside the eighth triangle.
