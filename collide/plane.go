@@ -79,6 +79,7 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		for _, i := range d.hullCap(v.hull, l, si, h0, margin+tol, 1e-4*v.size) {
 			add(v.pos.Add(mul(v.rot, v.hull.Vertices[i])), uint32(i))
 		}
+		d.keepRestingPatch(v.hull, l, nw)
 	case kCylinder:
 		ax := v.axis()
 		c := down.Dot(ax)

@@ -87,13 +87,18 @@ func FilletCylinder(n int, r, h, f float64, steps int) *Mesh {
 // 4992 triangles, open at the bottom. Down the outside: the flat top, the
 // outer fillet, the ribbed skirt; up the inside: the wall, the inner fillet
 // and the roof of the cavity.
-func Cap() *Mesh {
+func Cap() *Mesh { return CapMesh(CapColumns, 8, true) }
+
+// CapMesh is the cap in columns columns with the outer fillet in steps
+// segments (and the inner one in half as many, at least one), ribbed or
+// plain: CapMesh(16, 1, false) is a coarse model of the same part.
+func CapMesh(columns, steps int, ribbed bool) *Mesh {
 	const (
 		R, H, f, w, fi = CapRadius, CapHeight, CapFillet, CapWall, CapInFillet
 		ri             = R - w // inner radius of the skirt
 	)
 	prof := [][2]float64{{0, H}, {(R - f) / 3, H}, {2 * (R - f) / 3, H}, {R - f, H}}
-	prof = arc(prof, [2]float64{R - f, H - f}, f, math.Pi/2, 0, 8)
+	prof = arc(prof, [2]float64{R - f, H - f}, f, math.Pi/2, 0, steps)
 	skirtFrom := len(prof) // the ribbed rows start below the fillet
 	for _, z := range []float64{0.8, 0.6, 0.4, 0.2, 0} {
 		prof = append(prof, [2]float64{R, z * (H - f)})
@@ -104,16 +109,16 @@ func Cap() *Mesh {
 		prof = append(prof, [2]float64{ri, z * (H - w - fi)})
 	}
 	prof = append(prof, [2]float64{ri, H - w - fi})
-	prof = arc(prof, [2]float64{ri - fi, H - w - fi}, fi, 0, math.Pi/2, 4)
+	prof = arc(prof, [2]float64{ri - fi, H - w - fi}, fi, 0, math.Pi/2, max(1, steps/2))
 	prof = append(prof, [2]float64{(ri - fi) / 2, H - w}, [2]float64{0, H - w})
 	rib := func(i, k int) float64 {
-		if i < skirtFrom || i >= skirtTo {
+		if !ribbed || i < skirtFrom || i >= skirtTo {
 			return 0
 		}
-		if k%4 == 1 || k%4 == 2 { // two columns up, two down: 24 ribs
+		if k%4 == 1 || k%4 == 2 { // two columns up, two down: columns/4 ribs
 			return CapRibHeight
 		}
 		return 0
 	}
-	return revolve(prof, CapColumns, rib)
+	return revolve(prof, columns, rib)
 }
