@@ -10,8 +10,9 @@ import (
 // index, or is absent for points that are no corner). Points that are not
 // corners (on a straight edge between two faces, or inside a merged face)
 // are contracted: the corners around them become neighbours of each other,
-// so that no path of the triangulation is lost. dent is the merge tolerance
-// as a length.
+// so that no path of the triangulation is lost. Each vertex lists its
+// polygon edges (Neighbors, which must be built) first. dent is the merge
+// tolerance as a length.
 func buildClimbGraph(h *Hull, tris [][3]int, n int, corner map[int]int32, dent float64) {
 	around := make([][]int32, n) // the triangulation's neighbours of each point
 	for _, t := range tris {
@@ -52,11 +53,18 @@ func buildClimbGraph(h *Hull, tris [][3]int, n int, corner map[int]int32, dent f
 			}
 		}
 	}
-	g := climbGraph{start: make([]int32, len(h.Vertices)+1), dent: dent}
+	g := climbGraph{start: make([]int32, len(h.Vertices)+1), extra: make([]int32, len(h.Vertices)), dent: dent}
 	for v, nb := range byVertex {
 		slices.Sort(nb)
 		nb = slices.Compact(nb)
-		g.adj = append(g.adj, nb...)
+		poly := h.Neighbors[v]
+		g.adj = append(g.adj, poly...)
+		g.extra[v] = int32(len(g.adj))
+		for _, w := range nb {
+			if !slices.Contains(poly, w) {
+				g.adj = append(g.adj, w)
+			}
+		}
 		g.start[v+1] = int32(len(g.adj))
 	}
 	for _, p := range h.Vertices {

@@ -43,6 +43,9 @@ const plateauCap = 64
 type climbGraph struct {
 	start []int32
 	adj   []int32
+	// extra[i] is where the edges of vertex i that are not polygon edges
+	// (Neighbors) begin in adj: the polygon edges come first.
+	extra []int32
 	// dent is how far below a better vertex a climb may stop, as a length:
 	// the hull's merge tolerance, which bounds how far its triangulated
 	// surface departs from a convex one.
@@ -70,8 +73,8 @@ func (h *Hull) SupportIndex(d Vec3) int { return h.SupportFrom(d, 0) }
 // is fast when start is the answer to a nearby direction (a contact's last
 // support point). Any start gives the same value v.Dot(d).
 func (h *Hull) SupportFrom(d Vec3, start int) int {
-	if len(h.Vertices) <= supportScanLimit || h.climb.start == nil {
-		return h.scanSupport(d)
+	if len(h.Vertices) <= supportScanLimit || h.climb.start == nil || len(h.Neighbors) != len(h.Vertices) {
+		return h.scanSupport(d) // small, or assembled (or altered) by hand
 	}
 	if start < 0 || start >= len(h.Vertices) {
 		start = 0
@@ -79,16 +82,20 @@ func (h *Hull) SupportFrom(d Vec3, start int) int {
 	// The dent depth for this d, plus the rounding of two dot products.
 	dn := math.Abs(d[0]) + math.Abs(d[1]) + math.Abs(d[2]) // >= |d|
 	slack := dn * (h.climb.dent + 8*epsilon*h.climb.reach)
-	cur, best := start, h.Vertices[start].Dot(d)
+	// The polygon edges come first in each vertex's list; after the climb
+	// over them the first pass looks only at the rest.
+	cur, best, top := h.climbPolygons(d, start)
+	from := h.climb.extra[cur]
 	for {
-		top, ti := math.Inf(-1), -1
-		for _, n := range h.Adjacent(cur) {
+		ti := -1
+		for _, n := range h.climb.adj[from:h.climb.start[cur+1]] {
 			if p := h.Vertices[n].Dot(d); p > top {
 				top, ti = p, int(n)
 			}
 		}
-		if top > best {
+		if top > best && ti >= 0 {
 			cur, best = ti, top
+			top, from = math.Inf(-1), h.climb.start[cur]
 			continue
 		}
 		if top < best-slack {
@@ -102,6 +109,29 @@ func (h *Hull) SupportFrom(d Vec3, start int) int {
 			return cur
 		}
 		cur, best = next, h.Vertices[next].Dot(d)
+		top, from = math.Inf(-1), h.climb.start[cur]
+	}
+}
+
+// climbPolygons climbs the polygon edges (Neighbors) from start, which have
+// fewer edges per vertex than the triangulation and so reach the top of an
+// ordinary hull with fewer dot products; SupportFrom then finishes, and
+// checks the result, on the triangulation. It returns the vertex reached,
+// its value and the largest value of its polygon neighbours.
+func (h *Hull) climbPolygons(d Vec3, start int) (cur int, best, top float64) {
+	cur, best = start, h.Vertices[start].Dot(d)
+	for {
+		top = math.Inf(-1)
+		ti := -1
+		for _, n := range h.Neighbors[cur] {
+			if p := h.Vertices[n].Dot(d); p > top {
+				top, ti = p, int(n)
+			}
+		}
+		if !(top > best) {
+			return cur, best, top
+		}
+		cur, best = ti, top
 	}
 }
 
