@@ -21,13 +21,15 @@ import "math"
 //     stops on the wrong side of the ball). The climb therefore walks the
 //     hull's triangulation (climbGraph), not the polygon edges;
 //   - the triangulated surface is convex only to within the hull's
-//     tolerances, and dot products round, so a climb can stop in a dent a
-//     little below a better vertex, or among ties. When a neighbour comes
-//     within the dent depth of the vertex reached, the climb searches that
+//     tolerances, so a climb can stop in a dent a little below a better
+//     vertex. When a neighbour comes within the dent depth of the vertex
+//     reached, but not within rounding of it, the climb searches that
 //     near-level plateau breadth first and resumes from anything better; a
 //     plateau larger than its fixed buffer falls back to a full scan.
 //
-// The result equals the largest v.Dot(d) of a scan over all vertices.
+// The result equals the largest v.Dot(d) of a scan over all vertices, except
+// when a face or edge is square to d: its corners then tie, and any of them
+// is returned, equal to the scan's to within the rounding of a dot product.
 
 // supportScanLimit is the vertex count up to which a linear scan beats hill
 // climbing over the vertex graph.
@@ -81,7 +83,8 @@ func (h *Hull) SupportFrom(d Vec3, start int) int {
 	}
 	// The dent depth for this d, plus the rounding of two dot products.
 	dn := math.Abs(d[0]) + math.Abs(d[1]) + math.Abs(d[2]) // >= |d|
-	slack := dn * (h.climb.dent + 8*epsilon*h.climb.reach)
+	round := dn * 8 * epsilon * h.climb.reach
+	slack := dn*h.climb.dent + round
 	// The polygon edges come first in each vertex's list; after the climb
 	// over them the first pass looks only at the rest.
 	cur, best, top := h.climbPolygons(d, start)
@@ -98,7 +101,9 @@ func (h *Hull) SupportFrom(d Vec3, start int) int {
 			top, from = math.Inf(-1), h.climb.start[cur]
 			continue
 		}
-		if top < best-slack {
+		if top < best-slack || top >= best-round {
+			// A clear top, or a tie within rounding: a face or edge
+			// square to d, all of whose corners are farthest.
 			return cur
 		}
 		next, ok := h.plateau(d, cur, best, best-slack)
