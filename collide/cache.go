@@ -210,37 +210,11 @@ func extent(s shapes.Shape, p shapes.Pose, n vec3, start *int32) float64 {
 	case shapes.Cylinder:
 		return e + c.HalfLength*math.Abs(l[2]) + c.Radius*math.Hypot(l[0], l[1])
 	case *shapes.Hull:
-		i := hullSupportFrom(c, l, *start)
+		i := c.SupportFrom(l, int(*start))
 		*start = int32(i)
 		return e + c.Vertices[i].Dot(l)
 	}
 	return math.Inf(1)
-}
-
-// hullSupportFrom is the index of a vertex of h farthest along d, found by
-// climbing the vertex graph from vertex start (a vertex no neighbour of
-// which is farther is farthest on a convex polytope); small hulls are
-// scanned.
-func hullSupportFrom(h *shapes.Hull, d vec3, start int32) int {
-	if len(h.Vertices) <= 16 || len(h.Neighbors) != len(h.Vertices) {
-		return h.SupportIndex(d)
-	}
-	cur := int(start)
-	if cur < 0 || cur >= len(h.Vertices) {
-		cur = 0
-	}
-	best := h.Vertices[cur].Dot(d)
-	for {
-		moved := false
-		for _, j := range h.Neighbors[cur] {
-			if p := h.Vertices[j].Dot(d); p > best {
-				best, cur, moved = p, int(j), true
-			}
-		}
-		if !moved {
-			return cur
-		}
-	}
 }
 
 // radius is a bound on the distance of s's points from its frame's origin

@@ -74,6 +74,7 @@ type Detector struct {
 	capMark  []uint32
 	capStamp uint32
 	capWalk  []int32
+	restFace []candPoint // keepRestingPatch's points of the resting face
 
 	cache   pairCache
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes

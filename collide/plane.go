@@ -79,6 +79,7 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		for _, i := range d.hullCap(v.hull, l, si, h0, margin+tol, 1e-4*v.size) {
 			add(v.pos.Add(mul(v.rot, v.hull.Vertices[i])), uint32(i))
 		}
+		d.keepRestingPatch(v.hull, l, nw)
 	case kCylinder:
 		ax := v.axis()
 		c := down.Dot(ax)
@@ -111,7 +112,8 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 
 // hullCap returns, in increasing order, the indices of the vertices p of h
 // with h0 - l.p <= lim (planeConvex's test, rounded the same), by a walk over
-// the vertex graph from top, the vertex highest along l. On a convex
+// the hull's triangulation (Hull.Adjacent) from top, the vertex highest along
+// l. On a convex
 // polytope every vertex has a path of edges to the highest one along which
 // l.p never decreases, so the walk finds them all while looking only at the
 // cap and its rim. It passes through vertices down to slack below the cap,
@@ -133,7 +135,7 @@ func (d *Detector) hullCap(h *shapes.Hull, l vec3, top int, h0, lim, slack float
 	n := 0 // the cap found so far, kept at the front of walk
 	for k := 0; k < len(walk); k++ {
 		i := walk[k]
-		for _, j := range h.Neighbors[i] {
+		for _, j := range h.Adjacent(int(i)) {
 			if mark[j] != stamp && h0-l.Dot(h.Vertices[j]) <= lim+slack {
 				mark[j] = stamp
 				walk = append(walk, j)

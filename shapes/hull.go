@@ -1,7 +1,5 @@
 package shapes
 
-import "math"
-
 // Hull is a convex polyhedron with polygon faces, as built by NewHull.
 type Hull struct {
 	// Vertices are the corners of the hull, each an input point.
@@ -14,6 +12,7 @@ type Hull struct {
 	Neighbors [][]int32
 
 	bounds AABB
+	climb  climbGraph // the support search's graph; empty for hulls built by hand
 }
 
 // Face is a planar convex polygon of a hull.
@@ -32,40 +31,9 @@ type Edge struct {
 	F [2]int32
 }
 
-// supportScanLimit is the vertex count up to which a linear scan beats hill
-// climbing over the vertex graph.
-const supportScanLimit = 32
-
-// Support implements Convex. Large hulls climb the vertex graph from vertex
-// 0, which finds the global maximum on a convex polytope.
+// Support implements Convex.
 func (h *Hull) Support(d Vec3) Vec3 {
 	return h.Vertices[h.SupportIndex(d)]
-}
-
-// SupportIndex returns the index of a vertex farthest along d.
-func (h *Hull) SupportIndex(d Vec3) int {
-	if len(h.Vertices) <= supportScanLimit || len(h.Neighbors) != len(h.Vertices) {
-		best, bi := math.Inf(-1), 0
-		for i, v := range h.Vertices {
-			if p := v.Dot(d); p > best {
-				best, bi = p, i
-			}
-		}
-		return bi
-	}
-	cur := 0
-	best := h.Vertices[0].Dot(d)
-	for {
-		moved := false
-		for _, n := range h.Neighbors[cur] {
-			if p := h.Vertices[n].Dot(d); p > best {
-				best, cur, moved = p, int(n), true
-			}
-		}
-		if !moved {
-			return cur
-		}
-	}
 }
 
 // Bounds implements Convex. A hull assembled by hand rather than by

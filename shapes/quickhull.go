@@ -489,6 +489,7 @@ func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
 	}
 	sortFaces(h.Faces)
 	buildAdjacency(h)
+	buildClimbGraph(h, tris, len(pts), remap, 2*mergeTol)
 	return h
 }
 

@@ -93,6 +93,7 @@ func Files() ([]File, error) {
 		{"parts/bracket.stl", func() ([]byte, error) { return binarySTL("L bracket 40x20x35 mm", Bracket()) }},
 		{"parts/cup.stl", func() ([]byte, error) { return binarySTL("cup r15/r13 h25 mm", Cup()) }},
 		{"feeder/bowl.stl", func() ([]byte, error) { return binarySTL("helical track bowl r60, 1/2 turn, 12 mm rise", Bowl()) }},
+		{"parts/cap.stl", func() ([]byte, error) { return binarySTL("moulded cap r15 h12 mm, 24 ribs", Cap()) }},
 		{"broken/empty.stl", func() ([]byte, error) { return []byte{}, nil }},
 		{"broken/truncated.stl", func() ([]byte, error) {
 			// Cut inside the eighth triangle.
