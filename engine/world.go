@@ -18,7 +18,10 @@ type Config struct {
 	Gravity shapes.Vec3
 	// SubSteps splits each Step into this many equal steps (default 1).
 	SubSteps int
-	// VelocityIterations and PositionIterations of the contact solver (default 8 and 3).
+	// VelocityIterations is the most velocity iterations of the contact
+	// solver per step (default 30); it stops earlier once the impulses have
+	// converged (contact.Settings.Convergence). PositionIterations are those
+	// of the position pass (default 3).
 	VelocityIterations, PositionIterations int
 	// Slop is the penetration, m, left alone by position correction and the
 	// extra margin of speculative contacts (default 0.2 mm).
@@ -61,7 +64,7 @@ func (c *Config) fill() error {
 	}
 	for _, e := range []error{
 		defInt(&c.SubSteps, 1, "sub-steps"),
-		defInt(&c.VelocityIterations, 8, "velocity iterations"),
+		defInt(&c.VelocityIterations, 30, "velocity iterations"),
 		defInt(&c.PositionIterations, 3, "position iterations"),
 		def(&c.Slop, 2e-4, "slop"),
 		def(&c.BounceThreshold, 0.1, "bounce threshold"),
