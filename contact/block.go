@@ -32,6 +32,13 @@ import "math"
 // finite.
 const blockShift = 1e-9
 
+// blockConsistent: a solution whose shift term (shift times the impulse) is
+// above this fraction of the largest velocity error it removes belongs to
+// a system without a solution. A consistent one keeps the term near
+// blockShift times the ratio of heaviest to lightest response, 1e-6 for a
+// mass ratio of 1000.
+const blockConsistent = 1e-3
+
 // blockState is the scratch space of the block solve.
 type blockState struct {
 	parent []int32 // union-find over bodies
@@ -214,6 +221,18 @@ func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo bool) {
 			break
 		}
 		b.active[worst] = true
+	}
+	// A consistent system is solved to within the shift's share of the
+	// impulses; one without a solution (a body squeezed between a driven
+	// and a fixed one) gives impulses of the order of 1/shift. Leave those
+	// to the sweeps and the world's checks.
+	rhs, big := 0.0, 0.0
+	for i := 0; i < n; i++ {
+		rhs = max(rhs, math.Abs(target(i)-b.v0[i]))
+		big = max(big, shift*math.Abs(b.x[i]))
+	}
+	if big > blockConsistent*rhs {
+		return
 	}
 	for i := range idx {
 		l := lambda(i)

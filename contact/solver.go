@@ -278,6 +278,25 @@ func (r *row) apply(bodies []Body, d float64) {
 	addScaled(&B.W, &r.dwB, d)
 }
 
+// arrivalSpeed is the approach speed with which a contact closing a gap sep
+// within the step arrives, for the step's integrator: the bodies approach
+// at a0 before the step's forces, which add fd to the approach in the step.
+// Semi-implicit Euler conserves H = v^2/2 + v fd/2 + x fd/dt along the
+// normal (v the velocity of a step that starts at gap x; the modified
+// energy of the symplectic Euler method, E. Hairer, C. Lubich and G.
+// Wanner, "Geometric Numerical Integration", Springer 2006, chapter IX), so
+// the arrival speed a at x = 0 solves a^2 + fd a = a0^2 + fd a0 + 2 fd sep/dt.
+// Bouncing with e times it makes an elastic bounce return exactly to its
+// height; a0 alone would lose the fall through the gap, a0 + fd gain a
+// step of gravity.
+func arrivalSpeed(a0, fd, sep, dt float64) float64 {
+	d := fd*fd + 4*(a0*a0+fd*a0+2*fd*sep/dt)
+	if !(d > 0) || fd == 0 {
+		return a0
+	}
+	return max((math.Sqrt(d)-fd)/2, 0)
+}
+
 // cdotForce is the row's velocity from the bodies' force velocities DV, DW.
 func (r *row) cdotForce(bodies []Body) float64 {
 	A, B := &bodies[r.a], &bodies[r.b]
@@ -591,7 +610,8 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// gap short of each other; moving them to make up for it
 					// would change angular momentum.
 					if approach > set.BounceThreshold || ps.pending > 0 {
-						ps.deferred = max(ps.deferred, approach, ps.pending)
+						ac := arrivalSpeed(approach, -rn.cdotForce(bodies), ps.sep, dt)
+						ps.deferred = max(ps.deferred, ac, ps.pending)
 					}
 					continue
 				}
@@ -603,7 +623,10 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				ps.active = true
 				ps.iTarget = rn.target
 				if approach > set.BounceThreshold {
-					ps.iTarget = ps.e * approach
+					// The bodies leave at e times the approach once this
+					// step's forces are added back: the impact takes the
+					// forces' part along the normal too.
+					ps.iTarget = ps.e*approach - rn.cdotForce(bodies)
 					vmax = max(vmax, approach)
 					points[i].ImpactSpeed = max(points[i].ImpactSpeed, approach)
 				}

@@ -205,7 +205,8 @@ func (w *World) step(dt float64) error {
 	w.applyMotorChanges(dt) // scheduled motors (schedule.go)
 	w.drive(dt)             // driven kinematic bodies: velocities for this step (driver.go)
 	e0, k0, rot0, pot0 := 0.0, 0.0, 0.0, 0.0
-	guard := !w.cfg.NoDivergenceCheck && !w.driven()
+	guard := !w.cfg.NoDivergenceCheck
+	driven := w.driven()
 	if guard {
 		rot0, pot0 = w.rotationalKinetic(), w.PotentialEnergy()
 		k0 = w.linearKinetic() + rot0
@@ -236,6 +237,13 @@ func (w *World) step(dt float64) error {
 	if err := w.solve(dt); err != nil {
 		return err
 	}
+	work := 0.0
+	if driven {
+		if err := w.checkJam(dt); err != nil {
+			return err
+		}
+		work = w.drivenWork() // work.go
+	}
 	w.integrate(dt)
 	w.time += dt
 	w.steps++
@@ -245,7 +253,7 @@ func (w *World) step(dt float64) error {
 		return err
 	}
 	if guard && !kicked {
-		if err := w.checkEnergy(math.Max(e0, w.prevPreSolve), k0); err != nil {
+		if err := w.checkEnergy(math.Max(e0, w.prevPreSolve)+work, k0); err != nil {
 			return err
 		}
 	}
@@ -254,7 +262,8 @@ func (w *World) step(dt float64) error {
 }
 
 // driven reports whether something outside the bodies can do work on them
-// (moving kinematic bodies), so energy need not decrease.
+// (moving kinematic bodies, motors, conveyors), so energy need not decrease
+// by itself: the guard then allows for the work they do (work.go).
 func (w *World) driven() bool {
 	if w.mechanismDriven() { // motors, driven bodies, conveyors (joint.go)
 		return true
