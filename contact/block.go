@@ -49,6 +49,7 @@ type blockState struct {
 	v0, x  []float64
 	active []bool
 	sub    []int32
+	rowIdx []int32 // the rows of the system, indices into Solver.rows
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -150,16 +151,71 @@ func coupling(q, p *row) float64 {
 	return c
 }
 
+// solveIsland solves the island of points idx. With friction (real
+// velocities only) the tangent rows of pressing points join the system as
+// sticking rows; that solution is taken only if every friction impulse
+// lies in its cone, else the normal rows are solved alone.
 func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo bool) {
+	if !pseudo && s.massRatio(bodies, idx) > blockFrictionRatio && len(idx) <= maxFrictionBlock {
+		if s.solveRows(bodies, idx, false, true) {
+			return
+		}
+	}
+	s.solveRows(bodies, idx, pseudo, false)
+}
+
+// massRatio is the ratio of the largest to the smallest inverse mass of the
+// dynamic bodies of an island.
+func (s *Solver) massRatio(bodies []Body, idx []int32) float64 {
+	lo, hi := math.Inf(1), 0.0
+	for _, i := range idx {
+		r := &s.rows[3*i]
+		for _, k := range [2]int32{r.a, r.b} {
+			if m := bodies[k].InvMass; m > 0 {
+				lo, hi = min(lo, m), max(hi, m)
+			}
+		}
+	}
+	return hi / lo
+}
+
+// blockFrictionRatio: islands whose masses differ by more than this factor
+// also get their friction from the direct solve. The sweeps pass friction
+// between a heavy and a light body as slowly as normal loads, and a light
+// foot under a heavy carton is pushed sideways until it flies out; for
+// near-equal masses they converge in a few sweeps at a fraction of the
+// cost of a system three times as large.
+const blockFrictionRatio = 20
+
+// maxFrictionBlock bounds the points of an island solved with friction:
+// 40 points (120 rows) is a carton on four feet, factorised in about as
+// many operations as 30 sweeps over its rows.
+const maxFrictionBlock = 40
+
+// solveRows solves the rows of points idx, the normal rows or with fric all
+// three rows of each point, and applies the impulses unless the system has
+// no solution or, with fric, a friction impulse would leave its cone. It
+// reports whether it applied them.
+func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 	b := &s.blk
-	n := len(idx)
+	per := 1
+	if fric {
+		per = 3
+	}
+	n := per * len(idx)
 	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
+	b.rowIdx = grow(b.rowIdx, n)
+	for k, pi := range idx {
+		for r := 0; r < per; r++ {
+			b.rowIdx[per*k+r] = 3*pi + int32(r)
+		}
+	}
 	shift := 0.0
-	for i, pi := range idx {
-		ri := &s.rows[3*pi]
-		for j, pj := range idx[:i+1] {
-			c := coupling(&s.rows[3*pj], ri)
+	for i := 0; i < n; i++ {
+		ri := &s.rows[b.rowIdx[i]]
+		for j := 0; j <= i; j++ {
+			c := coupling(&s.rows[b.rowIdx[j]], ri)
 			b.a[i*n+j], b.a[j*n+i] = c, c
 		}
 		shift = max(shift, b.a[i*n+i])
@@ -169,43 +225,51 @@ func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo bool) {
 		if pseudo {
 			return &s.pts[idx[i]].pN
 		}
-		return &s.rows[3*idx[i]].lambda
+		return &s.rows[b.rowIdx[i]].lambda
 	}
 	target := func(i int) float64 {
 		if pseudo {
 			return s.pts[idx[i]].pTarget
 		}
-		return s.rows[3*idx[i]].target
+		return s.rows[b.rowIdx[i]].target
 	}
-	// v0: each row's velocity without its island's normal impulses.
-	for i := range idx {
-		r := &s.rows[3*idx[i]]
+	normal := func(i int) bool { return i%per == 0 }
+	// v0: each row's velocity without its island's impulses.
+	for i := 0; i < n; i++ {
+		r := &s.rows[b.rowIdx[i]]
 		v := r.cdot(bodies)
 		if pseudo {
 			v = r.cdotPseudo(bodies)
 		}
-		for j := range idx {
+		for j := 0; j < n; j++ {
 			v -= b.a[i*n+j] * *lambda(j)
 		}
 		b.v0[i] = v
-		b.active[i] = *lambda(i) > 0
+	}
+	for i := 0; i < n; i += per {
+		on := *lambda(i) > 0
+		for r := 0; r < per; r++ {
+			b.active[i+r] = on
+		}
 	}
 	tol := s.Settings.Tolerance + 1e-12
 	for it := 0; it < 2*n+4; it++ {
 		if !s.solveActive(n, shift, target) {
-			return // not positive definite: leave the impulses to the sweeps
+			return false // not positive definite: leave the impulses to the sweeps
 		}
 		worst, wv := -1, 0.0
-		for i := 0; i < n; i++ {
+		for i := 0; i < n; i += per {
 			if b.active[i] && b.x[i] < 0 {
-				b.active[i] = false
+				for r := 0; r < per; r++ {
+					b.active[i+r] = false
+				}
 				worst = i
 			}
 		}
 		if worst >= 0 {
 			continue
 		}
-		for i := 0; i < n; i++ {
+		for i := 0; i < n; i += per {
 			if b.active[i] {
 				continue
 			}
@@ -220,7 +284,9 @@ func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo bool) {
 		if worst < 0 {
 			break
 		}
-		b.active[worst] = true
+		for r := 0; r < per; r++ {
+			b.active[worst+r] = true
+		}
 	}
 	// A consistent system is solved to within the shift's share of the
 	// impulses; one without a solution (a body squeezed between a driven
@@ -232,21 +298,33 @@ func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo bool) {
 		big = max(big, shift*math.Abs(b.x[i]))
 	}
 	if big > blockConsistent*rhs {
-		return
+		return false
 	}
-	for i := range idx {
+	if fric {
+		for i := 0; i < n; i += 3 {
+			if math.Hypot(b.x[i+1], b.x[i+2]) > s.pts[idx[i/3]].mu*max(b.x[i], 0) {
+				return false // some contact slides: the sweeps' business
+			}
+		}
+	}
+	for i := 0; i < n; i++ {
+		x := b.x[i]
+		if normal(i) {
+			x = max(x, 0)
+		}
 		l := lambda(i)
-		d := max(b.x[i], 0) - *l
+		d := x - *l
 		if d == 0 {
 			continue
 		}
 		*l += d
 		if pseudo {
-			s.rows[3*idx[i]].applyPseudo(bodies, d)
+			s.rows[b.rowIdx[i]].applyPseudo(bodies, d)
 		} else {
-			s.rows[3*idx[i]].apply(bodies, d)
+			s.rows[b.rowIdx[i]].apply(bodies, d)
 		}
 	}
+	return true
 }
 
 // solveActive solves (A + shift I) x = target - v0 on the active rows by

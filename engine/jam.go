@@ -3,6 +3,9 @@ package engine
 import (
 	"fmt"
 	"strings"
+
+	"clatter/contact"
+	"clatter/shapes"
 )
 
 // Jams. A dynamic body pressed by a driven body against something that does
@@ -75,6 +78,10 @@ func (w *World) checkJam(dt float64) error {
 		if vn >= 0 || depth <= limit {
 			continue
 		}
+		// The others that jam it push back against the drive: their push
+		// on the part has a component against the drive's (a floor that
+		// only carries the part's weight does not count).
+		push := pushOn(p, part)
 		by := []string{w.b.name[drive]}
 		for j := range c.points {
 			q := &c.points[j]
@@ -85,13 +92,25 @@ func (w *World) checkJam(dt float64) error {
 			if other == part {
 				other = BodyID(q.B)
 			}
-			if other != drive && !containsName(by, w.b.name[other]) {
+			if other != drive && pushOn(q, part).Dot(push) < -jamOpposed && !containsName(by, w.b.name[other]) {
 				by = append(by, w.b.name[other])
 			}
 		}
 		return &JamError{Body: part, Name: w.b.name[part], Time: w.time, By: by, Depth: depth}
 	}
 	return nil
+}
+
+// jamOpposed: a contact opposes the drive if the cosine between its push
+// and the drive's is below minus this (about 84 degrees apart or more).
+const jamOpposed = 0.1
+
+// pushOn is the direction in which contact p pushes body part.
+func pushOn(p *contact.Point, part BodyID) shapes.Vec3 {
+	if BodyID(p.B) == part {
+		return p.Normal
+	}
+	return p.Normal.Mul(-1)
 }
 
 func containsName(names []string, n string) bool {
