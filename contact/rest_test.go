@@ -82,7 +82,7 @@ func TestLoadedPointNeverImpacts(t *testing.T) {
 		for step := 0; step < 5; step++ {
 			gravityStep(bodies, dt)
 			if step == 4 {
-				bodies[1].V[2] -= 2 * s.Settings.BounceThreshold // a jolt from an unconverged step
+				bodies[1].V[2] -= 2 * s.Settings.BounceThreshold // a push left by an unconverged step
 			}
 			rep, err := s.Solve(dt, bodies, pts, nil)
 			if err != nil {
