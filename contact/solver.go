@@ -732,7 +732,7 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 	block := s.Settings.MaxBlock >= 2 && s.Settings.VelocityIterations > 0
 	if block {
 		s.islands(bodies, points, rows)
-		s.blockSolve(bodies, false)
+		s.blockSolve(bodies, false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
@@ -759,8 +759,9 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 	if block && !converged {
 		// The sweeps' friction moved the normal impulses off the exact
 		// solution again, and the sweeps bring them back slowly where
-		// masses differ: solve them once more.
-		s.blockSolve(bodies, false)
+		// masses differ or stacks are tall: solve them once more, with
+		// friction where the island is small enough.
+		s.blockSolve(bodies, false, true)
 	}
 }
 
@@ -857,7 +858,7 @@ func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row
 		}
 	}
 	if set.MaxBlock >= 2 && set.VelocityIterations > 0 {
-		s.blockSolve(bodies, true) // islands as found by velocities
+		s.blockSolve(bodies, true, false) // islands as found by velocities
 	}
 	for it := 0; it < set.PositionIterations; it++ {
 		res := 0.0
