@@ -234,12 +234,14 @@ func (w *World) solve(dt float64) error {
 	if len(c.inertia) < n {
 		c.inertia = append(c.inertia, make([]shapes.Mat3, n-len(c.inertia))...)
 	}
+	gdt := w.cfg.Gravity.Mul(dt)
 	for i := 0; i < n; i++ {
 		sb := &c.bodies[i]
 		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			sb.InvMass = w.b.invM[i]
 			c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
+			sb.DV = gdt // this step's gravity, already in V (World.step)
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)

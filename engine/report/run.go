@@ -202,9 +202,13 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			r.events()
 			msg := eventJSON{Time: clean(w.Time()), Event: "error", Message: err.Error()}
 			var de *engine.DivergenceError
+			var je *engine.JamError
 			if errors.As(err, &de) {
 				msg.Body = de.Name
 				msg.Time = clean(de.Time)
+			} else if errors.As(err, &je) {
+				msg.Body = je.Name
+				msg.Time = clean(je.Time)
 			}
 			r.event(msg)
 			r.restore()
