@@ -99,6 +99,9 @@ func (w *World) collide(dt float64) {
 		// Speculative margin: how far the body's surface can travel this
 		// step, plus the slop (DESIGN.md section 1, step 2).
 		m := (w.b.vel[i].Len()+w.b.spin[i].Len()*w.b.radius[i])*dt + slop
+		if w.soft.on {
+			m += w.softLookAhead(i) // compliant.go
+		}
 		c.margin[i] = m
 		if b := w.b.shape[i].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
 			w.b.bounds[i] = b.Transform(c.pose[i]).Grow(m)
@@ -109,6 +112,7 @@ func (w *World) collide(dt float64) {
 	}
 	c.pairs = c.bp.Pairs(c.pairs[:0])
 	c.points = c.points[:0]
+	w.soft.pts = w.soft.pts[:0] // compliant.go
 	c.prevTouching, c.touching = c.touching, c.prevTouching[:0]
 	nmat := len(w.materials)
 	for _, p := range c.pairs {
@@ -139,6 +143,9 @@ func (w *World) collide(dt float64) {
 		key := uint64(uint32(a))<<32 | uint64(uint32(b))
 		c.manifolds = c.det.CollidePair(c.manifolds[:0], key, w.b.shape[a], c.pose[a], w.b.shape[b], c.pose[b], margin)
 		coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
+		if w.soft.on && w.softPair(a, b, c.manifolds, coef) {
+			continue // a compliant pair: springs, not rows (compliant.go)
+		}
 		touch := false
 		for _, mf := range c.manifolds {
 			for k := 0; k < mf.Count; k++ {

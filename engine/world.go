@@ -103,6 +103,7 @@ type World struct {
 	collision collisionState
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
 	gates     gateState  // counting gates (gate.go)
+	soft      softState  // compliant contacts (compliant.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -194,7 +195,12 @@ func (w *World) Step(dt float64) error {
 	}
 	h := dt / float64(w.cfg.SubSteps)
 	for s := 0; s < w.cfg.SubSteps; s++ {
-		if err := w.step(h); err != nil {
+		// Compliant contacts split the step to follow the contact (compliant.go); n is 1 without them.
+		n, err := w.softSplit(h)
+		for k := 0; k < n && err == nil; k++ {
+			err = w.step(h / float64(n))
+		}
+		if err != nil {
 			w.err = err
 			return err
 		}
@@ -224,6 +230,14 @@ func (w *World) step(dt float64) error {
 	}
 
 	w.collide(dt)
+	if w.soft.on { // compliant contact forces (compliant.go)
+		if err := w.applySoft(dt); err != nil {
+			return err
+		}
+		// The springs hold energy the guard cannot see; sub-stepping from
+		// their natural period keeps them stable instead.
+		kicked = kicked || w.softActive()
+	}
 	// A deferred impact (contact.Solver) gives back next step the energy its
 	// speculative stop took this step, so the guard measures against the
 	// larger of this step's start and the last step's energy before its solve.
