@@ -49,6 +49,7 @@ type softState struct {
 	h        float64     // the step being split into sub-steps, s
 	n        int         // the sub-steps it was split into
 	last     float64     // the sub-step last used, s
+	lastH    float64     // the step of the last applySoft, s
 	pts      []softPoint
 	contacts []softContact
 	force    []shapes.Vec3 // net compliant force on each body this sub-step, N
@@ -75,6 +76,8 @@ type softContact struct {
 	peakF         float64    // largest contact force, N
 	impulse       float64    // normal impulse so far, N s
 	peakG         [2]float64 // largest contact force over weight, per body
+	lastT, lastD  float64    // time, deepest indentation and rate at the
+	lastRate      float64    // last sub-step, to find when it ended
 	restoring     bool       // past the deepest indentation
 	done          bool       // the impact is reported; the bodies may still touch
 	seen          bool

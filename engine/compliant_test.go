@@ -4,6 +4,8 @@ import (
 	"math"
 	"testing"
 
+	"github.com/go-gl/mathgl/mgl64"
+
 	"clatter/shapes"
 )
 
@@ -201,6 +203,149 @@ func TestDampedCushion(t *testing.T) {
 		}
 		if c.g == 0 && math.Abs(rebound/v0/c.e-1) > dampedTol {
 			t.Errorf("%+v: restitution recovered %.5g, given %g", c, rebound/v0, c.e)
+		}
+	}
+}
+
+// hertzTol: the 3 percent. The duration is read from sub-steps of
+// about 1/50 of it, with the start and end found by interpolating the
+// indentation to zero; the peak at sub-steps as for mindlinTol.
+const hertzTol = 0.03
+
+// TestHertzSteelSphere drops a steel sphere on a steel plate, without
+// damping or gravity during the impact, and checks the contact duration
+// t = 2.87 (m^2 / (R E*^2 v))^(1/5) and the peak force 4/3 E* sqrt(R)
+// d_max^(3/2), d_max = (15 m v^2 / (16 E* sqrt(R)))^(2/5) (Johnson,
+// "Contact Mechanics", 1985, section 11.4, eqs. 11.23-11.24; Goldsmith,
+// "Impact", 1960). Steel: E = 210 GPa, nu = 0.3 (handbook values).
+func TestHertzSteelSphere(t *testing.T) {
+	steel := Stiffness{Modulus: 210e9, Poisson: 0.3}
+	for _, c := range []struct{ r, v, dt float64 }{
+		{0.01, 1, 1e-3},
+		{0.025, 0.3, 1e-2},
+		{0.005, 3, 1e-4},
+	} {
+		w, err := NewWorld(Config{NoSleep: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		mat, err := w.AddMaterial(Material{Name: "steel", Restitution: 1, Stiffness: steel})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := w.AddBody(BodyDef{Name: "plate", Kind: Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat}); err != nil {
+			t.Fatal(err)
+		}
+		id, err := w.AddBody(BodyDef{Name: "ball", Kind: Dynamic, Shape: shapes.Sphere{Radius: c.r}, Density: 7850, Material: mat,
+			Position: shapes.Vec3{0, 0, c.r * 1.01}, Velocity: shapes.Vec3{0, 0, -c.v}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev, _ := firstImpact(t, w, id, c.dt, c.r)
+		m := w.MassOf(id)
+		eStar := 1 / (2 * (1 - 0.09) / 210e9) // two steel bodies (Johnson eq. 4.22)
+		dur := 2.87 * math.Pow(m*m/(c.r*eStar*eStar*c.v), 0.2)
+		dMax := math.Pow(15*m*c.v*c.v/(16*eStar*math.Sqrt(c.r)), 0.4)
+		fMax := 4.0 / 3 * eStar * math.Sqrt(c.r) * math.Pow(dMax, 1.5)
+		t.Logf("R %g m, v %g m/s: duration %+.2f%%, peak force %+.3f%%", c.r, c.v, 100*(ev.Duration/dur-1), 100*(ev.PeakForce/fMax-1))
+		if math.Abs(ev.Duration/dur-1) > hertzTol {
+			t.Errorf("R %g m, v %g m/s: duration %.4g s, Johnson 1985 %.4g s", c.r, c.v, ev.Duration, dur)
+		}
+		if math.Abs(ev.PeakForce/fMax-1) > hertzTol {
+			t.Errorf("R %g m, v %g m/s: peak force %.5g N, Johnson 1985 %.5g N", c.r, c.v, ev.PeakForce, fMax)
+		}
+	}
+}
+
+// TestStiffCushionMatchesRigid drops the same box flat on a rigid floor
+// and on a very stiff cushion (k = 1e8 N/m, contact about 0.6 ms) with the
+// same restitution: the rebound speeds and the final poses must agree.
+func TestStiffCushionMatchesRigid(t *testing.T) {
+	// reboundTol: the rigid impact happens at a step boundary and meets
+	// gravity over that step (g dt / v = 0.3 percent at 1 ms and 3 m/s); the
+	// cushion's contact lasts about 0.6 ms, over which gravity changes the
+	// rebound by g t / v = 0.2 percent; 1 percent covers both.
+	const reboundTol = 0.01
+	// poseTol, m: the rigid contact leaves up to the slop (0.2 mm,
+	// Config.Slop) of penetration; the cushion sinks by m g / k = 0.1 um.
+	const poseTol = 2.5e-4
+	run := func(k float64) (rebound float64, final shapes.Vec3, turn float64) {
+		d := cushionDrop{k: k, e: 0.5, m: 1, gravity: StandardGravity, gap: 0.46}
+		w, id := d.world(t)
+		if k == 0 {
+			// The same scene with the floor rigid.
+			w2, err := NewWorld(Config{Gravity: shapes.Vec3{0, 0, -StandardGravity}, NoSleep: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			mat, _ := w2.AddMaterial(Material{Name: "floor", Friction: 0.5, Restitution: 0.5})
+			load, _ := w2.AddMaterial(Material{Name: "load", Friction: 0.5})
+			if err := w2.SetPair(mat, load, PairCoefficients{Friction: 0.5, Restitution: 0.5}); err != nil {
+				t.Fatal(err)
+			}
+			mustAdd(t, w2, BodyDef{Name: "floor", Kind: Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
+			id = mustAdd(t, w2, BodyDef{Name: "load", Kind: Dynamic, Shape: shapes.Box{Half: shapes.Vec3{0.2, 0.15, 0.15}}, Mass: 1, Material: load,
+				Position: shapes.Vec3{0, 0, 0.15 + 0.46}})
+			w = w2
+		}
+		vmax := 0.0
+		for i := 0; i < 1500; i++ {
+			if err := w.Step(1e-3); err != nil {
+				t.Fatal(err)
+			}
+			if i < 400 {
+				vmax = math.Max(vmax, w.Velocity(id)[2])
+			}
+		}
+		q := w.Orientation(id)
+		return vmax, w.Position(id), 2 * math.Acos(math.Min(1, math.Abs(q.W)))
+	}
+	rv, rp, rt := run(0)
+	sv, sp, st := run(1e8)
+	t.Logf("rebound rigid %.5g m/s, stiff cushion %.5g m/s (%+.2f%%); final heights %.6g, %.6g m", rv, sv, 100*(sv/rv-1), rp[2], sp[2])
+	if math.Abs(sv/rv-1) > reboundTol {
+		t.Errorf("rebound: rigid %.5g m/s, stiff cushion %.5g m/s", rv, sv)
+	}
+	if rp.Sub(sp).Len() > poseTol || math.Abs(rt-st) > 1e-3 {
+		t.Errorf("final pose: rigid %v (turned %.3g rad), stiff cushion %v (turned %.3g rad)", rp, rt, sp, st)
+	}
+}
+
+// TestEdgeStrikeEffectiveMass strikes a tilted box on one edge against a
+// linear cushion (no gravity, no friction, no damping). Impulse and
+// momentum at a point: the contact meets the effective mass
+// m_eff = 1 / (1/m + r^2 / I), r the lever arm of the normal about the
+// centre of mass, and a short undamped contact's peak force is
+// v sqrt(k m_eff) (any dynamics text on impact at a point, e.g. Goldsmith
+// 1960, ch. 2; the spring-mass peak from energy, 1/2 m_eff v^2 = 1/2 k d^2).
+func TestEdgeStrikeEffectiveMass(t *testing.T) {
+	// edgeTol: the formula holds the lever arm fixed; the box turns by
+	// about 0.3 degrees during the 0.5 ms contact at k = 1e7 N/m, which
+	// changes r and so m_eff by under 1 percent; 2 percent.
+	const edgeTol = 0.02
+	for _, c := range []struct{ tilt, k, m, v float64 }{
+		{30, 1e7, 2, 2},
+		{15, 4e6, 5, 1},
+		{50, 1e7, 1, 3},
+	} {
+		box := shapes.Box{Half: shapes.Vec3{0.2, 0.15, 0.1}}
+		th := c.tilt * math.Pi / 180
+		q := mgl64.QuatRotate(th, shapes.Vec3{1, 0, 0})
+		// The lowest edge, along x, at (y, z) = (-0.15, -0.1) in the box.
+		y := -0.15*math.Cos(th) + 0.1*math.Sin(th)
+		z := -0.15*math.Sin(th) - 0.1*math.Cos(th)
+		d := cushionDrop{k: c.k, e: 1, m: c.m, gap: 0.0005, v0: c.v, shape: box, bottom: -z, orientation: q}
+		w, id := d.world(t)
+		if err := w.SetPair(1, 2, PairCoefficients{Restitution: 1}); err != nil { // no friction
+			t.Fatal(err)
+		}
+		ev, _ := firstImpact(t, w, id, 1e-3, -z)
+		ix := c.m * (0.3*0.3 + 0.2*0.2) / 12 // solid box about x (any handbook)
+		mEff := 1 / (1/c.m + y*y/ix)
+		want := c.v * math.Sqrt(c.k*mEff)
+		t.Logf("tilt %g: peak %+.2f%% (m_eff %.4g kg of %g)", c.tilt, 100*(ev.PeakForce/want-1), mEff, c.m)
+		if math.Abs(ev.PeakForce/want-1) > edgeTol {
+			t.Errorf("tilt %g deg: peak force %.5g N, v sqrt(k m_eff) %.5g N", c.tilt, ev.PeakForce, want)
 		}
 	}
 }

@@ -11,6 +11,7 @@ import (
 // follows each contact's impact and records the peaks (compliant.go).
 func (w *World) applySoft(dt float64) error {
 	s := &w.soft
+	defer func() { s.lastH = dt }()
 	n := len(w.b.kind)
 	for len(s.force) < n {
 		s.force = append(s.force, shapes.Vec3{})
@@ -36,7 +37,12 @@ func (w *World) applySoft(dt float64) error {
 		if c.seen {
 			kept = append(kept, c)
 		} else if !c.done {
-			w.reportSoft(&c)
+			// It ended when the indentation reached zero, found likewise.
+			end := w.time
+			if c.lastRate < 0 {
+				end = math.Min(w.time, c.lastT-c.lastD/c.lastRate)
+			}
+			w.reportSoft(&c, end)
 		}
 	}
 	s.contacts = kept
@@ -142,13 +148,14 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 			c.peakG[k] = math.Max(c.peakG[k], f/(w.b.mass[id]*StandardGravity))
 		}
 	}
+	c.lastT, c.lastD, c.lastRate = w.time, -pts[deep].sep, rate
 	// The impact is over when the indentation, having passed its deepest,
 	// stops shrinking: the bodies part, or (a landing that stays) the first
 	// rebound swing ends.
 	if rate < 0 {
 		c.restoring = true
 	} else if c.restoring && !c.done {
-		w.reportSoft(c)
+		w.reportSoft(c, w.time)
 		c.done = true
 	}
 	return nil
@@ -266,20 +273,26 @@ func (w *World) softContactOf(a, b BodyID, deep *softPoint) *softContact {
 			return c
 		}
 	}
-	s.contacts = append(s.contacts, softContact{a: a, b: b, start: w.time, v0: w.approach(deep),
+	// It began when the indentation was zero, found from the speed; a
+	// sub-step of error would be 2 percent of the duration.
+	v0, start := w.approach(deep), w.time
+	if v0 > 0 {
+		start = math.Max(w.time-w.soft.lastH, w.time+deep.sep/v0)
+	}
+	s.contacts = append(s.contacts, softContact{a: a, b: b, start: start, v0: v0,
 		point: deep.pos, normal: deep.n, seen: true})
 	return &s.contacts[len(s.contacts)-1]
 }
 
 // reportSoft emits the impact event of a compliant contact.
-func (w *World) reportSoft(c *softContact) {
+func (w *World) reportSoft(c *softContact, end float64) {
 	if c.v0 <= w.cfg.BounceThreshold {
 		return // a gentle touch, not an impact (as for rigid contacts)
 	}
 	w.b.maxHit[c.a] = math.Max(w.b.maxHit[c.a], c.v0)
 	w.b.maxHit[c.b] = math.Max(w.b.maxHit[c.b], c.v0)
 	w.emit(Event{Kind: Impact, Time: c.start, A: c.a, B: c.b, Point: c.point, Normal: c.normal, Speed: c.v0, Impulse: c.impulse,
-		Compliant: true, PeakForce: c.peakF, Duration: w.time - c.start, PeakAcceleration: c.peakG})
+		Compliant: true, PeakForce: c.peakF, Duration: end - c.start, PeakAcceleration: c.peakG})
 }
 
 // invMOrZero is a body's inverse mass, 0 unless it is dynamic.
