@@ -100,21 +100,3 @@ func (w *World) buildSpringTable() {
 		}
 	}
 }
-
-// CheckStiffness reports a pair of the given materials whose compliant law
-// cannot be resolved (a linear cushion against a Hertz solid with no
-// [[pair]] of its own).
-func (w *World) CheckStiffness(materials []int) error {
-	n := len(w.materials)
-	for _, a := range materials {
-		for _, b := range materials {
-			if a < 0 || b < 0 || a >= n || b >= n {
-				continue
-			}
-			if l := w.soft.laws[a*n+b]; l.err != "" {
-				return fmt.Errorf("%s", l.err)
-			}
-		}
-	}
-	return nil
-}
