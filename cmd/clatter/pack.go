@@ -71,6 +71,9 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop) {
 	}
 	fmt.Fprintf(w, "second   %s\n", second)
 	fmt.Fprintf(w, "spin     %.4g rad/s at most\n", spinShown(d.PeakSpin))
+	if d.PeakAcceleration != nil { // compliant contacts only
+		fmt.Fprintf(w, "peak     %.4g g (largest contact force over weight; the stiffness given decides it)\n", *d.PeakAcceleration)
+	}
 	final := "not on a face (balanced on an edge or corner, or moving)"
 	if d.FinalFace != nil {
 		final = fmt.Sprintf("face %d", *d.FinalFace)
