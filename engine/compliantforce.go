@@ -96,41 +96,45 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 			rate += d / sumD * w.approach(&pts[i])
 		}
 	}
-	// A linear cushion is one spring-dashpot between the two bodies: its
-	// impulse is found once, from the deepest indentation and the weighted
-	// rate, and shared over the indented points in proportion to their
-	// indentation (so a face landing flat on four points and a corner on one
-	// both meet stiffness k, and a point that starts to touch takes its
-	// share smoothly from zero). Hertz points are each their own contact.
-	jLinear := 0.0
-	if law.k > 0 {
-		jLinear = linearImpulse(law.k, -pts[deep].sep, rate, pts[deep].restitution, w.b.invMOrZero(a)+w.b.invMOrZero(b), dt)
-	}
+	// A linear cushion is one spring between the two bodies: its force
+	// k d_max (the deepest indentation) is shared over the indented points
+	// in proportion to their indentation, so a face landing flat on four
+	// points and a corner on one both meet stiffness k, and a point that
+	// starts to touch takes its share smoothly from zero. Its dashpot is
+	// shared alike but acts at each point on that point's own rate, so that
+	// it damps rocking as well as bouncing. The impulses are all found from
+	// the velocities before any is applied. Hertz points are each their own
+	// contact.
 	var total shapes.Vec3 // force on B, N
 	if cap(w.soft.jn) < len(pts) {
 		w.soft.jn = make([]float64, len(pts))
 	}
 	w.soft.jn = w.soft.jn[:len(pts)]
 	clear(w.soft.jn)
+	invPair := w.b.invMOrZero(a) + w.b.invMOrZero(b)
 	for i := range pts {
 		p := &pts[i]
 		d := -p.sep
 		if d <= 0 {
 			continue
 		}
-		jn := d / sumD * jLinear
-		if law.eStar > 0 {
-			kh, err := w.hertzConstant(p, law)
-			if err != nil {
-				return err
-			}
-			inv := w.invMassAt(a, p.pos, p.n) + w.invMassAt(b, p.pos, p.n)
-			jn = hertzImpulse(kh, d, w.approach(p), math.Max(c.v0, w.cfg.BounceThreshold), p.restitution, inv, dt)
+		if law.k > 0 {
+			w.soft.jn[i] = linearImpulse(law.k, -pts[deep].sep, d, w.approach(p), d/sumD, p.restitution, invPair, dt)
+			continue
 		}
-		w.push(a, b, p.pos, p.n.Mul(jn))
-		w.soft.jn[i] = jn
-		total = total.Add(p.n.Mul(jn / dt))
-		c.impulse += jn
+		kh, err := w.hertzConstant(p, law)
+		if err != nil {
+			return err
+		}
+		inv := w.invMassAt(a, p.pos, p.n) + w.invMassAt(b, p.pos, p.n)
+		w.soft.jn[i] = hertzImpulse(kh, d, w.approach(p), math.Max(c.v0, w.cfg.BounceThreshold), p.restitution, inv, dt)
+	}
+	for i := range pts {
+		if jn := w.soft.jn[i]; jn != 0 {
+			w.push(a, b, pts[i].pos, pts[i].n.Mul(jn))
+			total = total.Add(pts[i].n.Mul(jn / dt))
+			c.impulse += jn
+		}
 	}
 	// Friction once every normal impulse is in, so that the turn one
 	// point's impulse gives for a moment is not taken for slip.
@@ -161,13 +165,14 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 	return nil
 }
 
-// linearImpulse is the normal impulse of a linear cushion of stiffness k
-// over one sub-step: spring k d plus dashpot c d_dot, with
-// c = 2 zeta sqrt(k m), m = 1/inv the pair's mass 1/(1/m_A + 1/m_B), and
-// zeta = -ln e / sqrt(pi^2 + ln^2 e), which makes a mass-spring-dashpot
-// impact lose exactly what the restitution e says (the Kelvin-Voigt
-// contact; e.g. Schwager and Poschel, Phys. Rev. E 57, 1998). As in that
-// model the dashpot may pull briefly at the end of a contact.
+// linearImpulse is the normal impulse over one sub-step at a point of a
+// linear cushion of stiffness k that takes the share s of the contact:
+// s (k d_max + c d_dot), with c = 2 zeta sqrt(k m), m = 1/inv the pair's
+// mass 1/(1/m_A + 1/m_B), and zeta = -ln e / sqrt(pi^2 + ln^2 e), which
+// makes a mass-spring-dashpot impact lose exactly what the restitution e
+// says (the Kelvin-Voigt contact; e.g. Schwager and Poschel, Phys. Rev. E
+// 57, 1998). As in that model the dashpot may pull briefly at the end of a
+// contact.
 //
 // The dashpot's impulse over the sub-step's window [t - dt/2, t + dt/2]
 // is exactly c times the change of the indentation over it, counted only
@@ -176,17 +181,17 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 // stable however heavy the damping), and clipping them at zero takes the
 // jump of the dashpot force at the start and the end of a contact inside a
 // sub-step without a first-order error.
-func linearImpulse(k, d, rate, e, inv, dt float64) float64 {
+func linearImpulse(k, dMax, d, rate, share, e, inv, dt float64) float64 {
 	if inv == 0 {
 		return 0
 	}
 	c := 2 * dampingRatio(e) * math.Sqrt(k/inv)
 	before := math.Max(0, d-rate*dt/2)
-	j := (k*d*dt + c*(d+rate*dt/2-before)) / (1 + c*dt*inv/2)
+	j := (k*dMax*dt + c*(d+rate*dt/2-before)) / (1 + c*dt*inv/2)
 	if d+(rate-j*inv)*dt/2 < 0 { // the contact ends within the window
-		j = k*d*dt - c*before
+		j = k*dMax*dt - c*before
 	}
-	return j
+	return share * j
 }
 
 // dampingRatio is zeta = -ln e / sqrt(pi^2 + ln^2 e) of a linear
