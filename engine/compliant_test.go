@@ -2,6 +2,7 @@ package engine
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/go-gl/mathgl/mgl64"
@@ -347,5 +348,41 @@ func TestEdgeStrikeEffectiveMass(t *testing.T) {
 		if math.Abs(ev.PeakForce/want-1) > edgeTol {
 			t.Errorf("tilt %g deg: peak force %.5g N, v sqrt(k m_eff) %.5g N", c.tilt, ev.PeakForce, want)
 		}
+	}
+}
+
+// TestCompliantRefusals: what the engine cannot resolve stops the run with
+// a message naming the bodies and what to do.
+func TestCompliantRefusals(t *testing.T) {
+	steel := Stiffness{Modulus: 210e9, Poisson: 0.3}
+	for _, c := range []struct {
+		name  string
+		shape shapes.Shape
+		v, dt float64
+		want  string
+	}{
+		// Hertz contact needs a round surface: two flat bodies have none.
+		{"flat", shapes.Box{Half: shapes.Vec3{0.01, 0.01, 0.01}}, 1, 1e-3, `bodies "plate" and "part": Hertz contact`},
+		// A 1 mm steel ball at 10 m/s touches for about 7 us: a 50 ms step
+		// would need some 700 000 sub-steps.
+		{"coarse", shapes.Sphere{Radius: 0.001}, 10, 0.05, "use a smaller step"},
+	} {
+		w, err := NewWorld(Config{NoSleep: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		mat, _ := w.AddMaterial(Material{Name: "steel", Restitution: 0.9, Stiffness: steel})
+		mustAdd(t, w, BodyDef{Name: "plate", Kind: Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
+		mustAdd(t, w, BodyDef{Name: "part", Shape: c.shape, Density: 7850, Material: mat, Position: shapes.Vec3{0, 0, 0.0105}, Velocity: shapes.Vec3{0, 0, -c.v}})
+		var err2 error
+		for i := 0; i < 100 && err2 == nil; i++ {
+			err2 = w.Step(c.dt)
+		}
+		if err2 == nil || !strings.Contains(err2.Error(), c.want) {
+			t.Errorf("%s: got %v, want an error with %q", c.name, err2, c.want)
+		}
+	}
+	if _, err := (&World{}).AddMaterial(Material{Name: "x", Stiffness: Stiffness{Linear: 1, Modulus: 1, Poisson: 0.3}}); err == nil {
+		t.Error("a material with both a linear stiffness and a modulus was accepted")
 	}
 }

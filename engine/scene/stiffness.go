@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"clatter/engine"
+	"clatter/shapes"
 )
 
 // Stiffness and Pressure are the dimensions of a cushion's stiffness
@@ -105,7 +106,21 @@ func (s *Scene) stiffnessConflict() (int, string) {
 			if (ca.Linear > 0 && cb.Modulus > 0 || ca.Modulus > 0 && cb.Linear > 0) && !paired(a, b) {
 				return s.Bodies[i].Line, fmt.Sprintf("body %q: %s", s.Bodies[i].Name, stiffnessMismatch(a, b))
 			}
+			bi, bj := &s.Bodies[i], &s.Bodies[j]
+			hertz := (ca.Modulus > 0 || cb.Modulus > 0) && !(ca.Linear > 0 || cb.Linear > 0) && !paired(a, b)
+			if hertz && !(bi.Static && bj.Static) && !round(bi.Shape) && !round(bj.Shape) {
+				return bi.Line, fmt.Sprintf("body %q: its contact with %q would be Hertz contact (a stiffness given as modulus and poisson), which needs a round body, a sphere or a capsule; give one of their materials a linear stiffness such as \"40 N/mm\", or a [[pair]] one", bi.Name, bj.Name)
+			}
 		}
 	}
 	return 0, ""
+}
+
+// round reports whether a shape has the curved surface Hertz contact needs.
+func round(sh shapes.Shape) bool {
+	switch sh.(type) {
+	case shapes.Sphere, *shapes.Sphere, shapes.Capsule, *shapes.Capsule:
+		return true
+	}
+	return false
 }

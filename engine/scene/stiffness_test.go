@@ -92,3 +92,23 @@ stiffness = "20 N/mm"
 		t.Error(err)
 	}
 }
+
+// TestHertzNeedsRoundBody: a box on a plate whose material has a modulus
+// would be Hertz contact without a round surface; refused at build.
+func TestHertzNeedsRoundBody(t *testing.T) {
+	src := strings.Replace(strings.Replace(stiffScene, "%s", `"40 N/mm"`, 1), `material = "foam"`, `material = "steel"`, 1)
+	s, err := Parse([]byte(src), "s.toml", Options{FS: fstest.MapFS{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, _, err := s.Build(); err == nil || !strings.Contains(err.Error(), `s.toml:16: body "load"`) || !strings.Contains(err.Error(), "sphere or a capsule") {
+		t.Fatalf("got %v, want a refusal naming body load and round bodies", err)
+	}
+	s, err = Parse([]byte(strings.Replace(src, "box = [0.1, 0.1, 0.1]", "sphere = 0.05", 1)), "s.toml", Options{FS: fstest.MapFS{}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, _, err := s.Build(); err != nil {
+		t.Error(err)
+	}
+}
