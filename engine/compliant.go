@@ -139,7 +139,10 @@ func (w *World) softSplit(h float64) (int, error) {
 			return 0, w.softLawError(p, law)
 		}
 		mEff := 1 / (w.invMassAt(p.a, p.pos, p.n) + w.invMassAt(p.b, p.pos, p.n))
-		k := law.k
+		// A point of a linear cushion carries its share of the one spring,
+		// d / sum d of the pair's indented points (all of it while it is
+		// the only one, or not yet touching).
+		k := law.k * w.softShare(i)
 		if law.eStar > 0 {
 			kh, err := w.hertzConstant(p, law)
 			if err != nil {
@@ -167,9 +170,9 @@ func (w *World) softSplit(h float64) (int, error) {
 		}
 		need = math.Max(need, math.Ceil(per*h/period))
 	}
-	if w.softActive() {
-		// Keep the split of a contact under way to its end: a change of
-		// step inside it would cost accuracy (see shiftHalfStep).
+	if w.softImpactUnderway() {
+		// Keep the split of an impact to its end: its force changes fast,
+		// and the step is best not changed meanwhile (see shiftHalfStep).
 		need = math.Max(need, float64(w.soft.n))
 	}
 	if need > maxSoftSubSteps {
@@ -186,21 +189,36 @@ func (w *World) softSplit(h float64) (int, error) {
 // step changes. Its velocities live half a step behind the positions, so
 // going from step H to step h the velocity of a body must move by
 // a (H - h) / 2, a its acceleration (leapfrog with a variable step; Hairer,
-// Lubich and Wanner 2003). Only gravity is taken: the contact forces are
-// near zero when a compliant contact begins or ends, and the split is held
-// fixed while one lasts. Without it a body would reach a cushion with the
-// speed it had half a coarse step earlier (1 percent of the peak at a 10 ms
-// step).
+// Lubich and Wanner 2003): gravity plus the compliant contact force of the
+// last sub-step (rigid contacts remove any change their rows oppose). The
+// split is held fixed while an impact lasts. Without it a body would reach
+// a cushion with the speed it had half a coarse step earlier (1 percent of
+// the peak at a 10 ms step).
 func (w *World) shiftHalfStep(h float64) {
 	if w.soft.last != 0 && h != w.soft.last {
-		dv := w.cfg.Gravity.Mul((w.soft.last - h) / 2)
+		f := (w.soft.last - h) / 2
 		for i, k := range w.b.kind {
-			if k == Dynamic && w.b.awake[i] {
-				w.b.vel[i] = w.b.vel[i].Add(dv)
+			if k != Dynamic || !w.b.awake[i] {
+				continue
 			}
+			a := w.cfg.Gravity
+			if i < len(w.soft.force) {
+				a = a.Add(w.soft.force[i].Mul(w.b.invM[i]))
+			}
+			w.b.vel[i] = w.b.vel[i].Add(a.Mul(f))
 		}
 	}
 	w.soft.last = h
+}
+
+// softImpactUnderway reports whether a compliant impact has not yet ended.
+func (w *World) softImpactUnderway() bool {
+	for i := range w.soft.contacts {
+		if !w.soft.contacts[i].done {
+			return true
+		}
+	}
+	return false
 }
 
 func (w *World) softLawError(p *softPoint, law springLaw) error {
@@ -243,4 +261,26 @@ func (w *World) push(a, b BodyID, x, j shapes.Vec3) {
 		_, inv := w.inertiaWorld(s.id)
 		w.b.spin[s.id] = w.b.spin[s.id].Add(inv.Mul3x1(x.Sub(w.b.pos[s.id]).Cross(s.j)))
 	}
+}
+
+// softShare is the share of its pair's spring that point i carries:
+// its indentation over the sum of the pair's, 1 if it is not indented.
+func (w *World) softShare(i int) float64 {
+	pts := w.soft.pts
+	d := -pts[i].sep
+	if d <= 0 {
+		return 1
+	}
+	lo, hi := i, i
+	for lo > 0 && pts[lo-1].a == pts[i].a && pts[lo-1].b == pts[i].b {
+		lo--
+	}
+	for hi+1 < len(pts) && pts[hi+1].a == pts[i].a && pts[hi+1].b == pts[i].b {
+		hi++
+	}
+	sum := 0.0
+	for _, p := range pts[lo : hi+1] {
+		sum += max(0, -p.sep)
+	}
+	return d / sum
 }

@@ -386,3 +386,30 @@ func TestCompliantRefusals(t *testing.T) {
 		t.Error("a material with both a linear stiffness and a modulus was accepted")
 	}
 }
+
+// TestCushionStaticDeflection lets a box come to rest on a cushion over a
+// long run: it must sink by m g / k (Hooke's law) and settle, at a coarse
+// and a fine step.
+func TestCushionStaticDeflection(t *testing.T) {
+	// deflectionTol: at rest the indentation is read from the contact
+	// points, exact; what is left is the rest thresholds' motion (5 mm/s
+	// over a period of 0.1 s moves under 0.1 mm); 2 percent of 2.45 mm.
+	const deflectionTol = 0.02
+	for _, dt := range []float64{1e-3, 1e-2} {
+		d := cushionDrop{k: 40e3, e: 0.3, m: 10, gravity: StandardGravity, gap: 0.05}
+		w, id := d.world(t)
+		for i := 0; i < int(4/dt); i++ {
+			if err := w.Step(dt); err != nil {
+				t.Fatal(err)
+			}
+		}
+		want := 10 * StandardGravity / 40e3
+		got := 0.15 - w.Position(id)[2]
+		if math.Abs(got/want-1) > deflectionTol {
+			t.Errorf("step %g s: sank %.5g m, m g / k = %.5g m", dt, got, want)
+		}
+		if w.Velocity(id).Len() > 5e-3 {
+			t.Errorf("step %g s: still moving at %v after 4 s", dt, w.Velocity(id))
+		}
+	}
+}
