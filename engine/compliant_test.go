@@ -413,3 +413,24 @@ func TestCushionStaticDeflection(t *testing.T) {
 		}
 	}
 }
+
+// TestGentleCompliantContactSettles: a part set down on a compliant
+// surface with restitution 1 settles, as on a rigid one (no restitution
+// below the bounce threshold), for a cushion and for Hertz contact.
+func TestGentleCompliantContactSettles(t *testing.T) {
+	steel := Stiffness{Modulus: 210e9, Poisson: 0.3}
+	for _, c := range []cushionDrop{
+		{k: 40e3, e: 1, m: 10, gravity: StandardGravity},
+		{hertz: &steel, e: 1, m: 0.5, gravity: StandardGravity, shape: shapes.Sphere{Radius: 0.025}, bottom: 0.025},
+	} {
+		w, id := c.world(t)
+		for i := 0; i < 1000; i++ {
+			if err := w.Step(1e-3); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if v := w.Velocity(id).Len(); v > w.Config().RestSpeed {
+			t.Errorf("%+v: still moving at %g m/s after 1 s", c, v)
+		}
+	}
+}

@@ -112,6 +112,10 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 	w.soft.jn = w.soft.jn[:len(pts)]
 	clear(w.soft.jn)
 	invPair := w.b.invMOrZero(a) + w.b.invMOrZero(b)
+	// A contact that began slower than the bounce threshold gets no
+	// restitution, as a rigid one does not: its dashpot is critical (a
+	// part set down on a cushion settles instead of ringing for ever).
+	gentle := c.v0 <= w.cfg.BounceThreshold
 	for i := range pts {
 		p := &pts[i]
 		d := -p.sep
@@ -119,7 +123,7 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 			continue
 		}
 		if law.k > 0 {
-			w.soft.jn[i] = linearImpulse(law.k, -pts[deep].sep, d, w.approach(p), d/sumD, p.restitution, invPair, dt)
+			w.soft.jn[i] = linearImpulse(law.k, -pts[deep].sep, d, w.approach(p), d/sumD, restitutionOf(p, gentle), invPair, dt)
 			continue
 		}
 		kh, err := w.hertzConstant(p, law)
@@ -127,7 +131,7 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 			return err
 		}
 		inv := w.invMassAt(a, p.pos, p.n) + w.invMassAt(b, p.pos, p.n)
-		w.soft.jn[i] = hertzImpulse(kh, d, w.approach(p), math.Max(c.v0, w.cfg.BounceThreshold), p.restitution, inv, dt)
+		w.soft.jn[i] = hertzImpulse(kh, d, w.approach(p), math.Max(c.v0, w.cfg.BounceThreshold), restitutionOf(p, gentle), inv, dt)
 	}
 	for i := range pts {
 		if jn := w.soft.jn[i]; jn != 0 {
@@ -306,4 +310,12 @@ func (b *bodyData) invMOrZero(id BodyID) float64 {
 		return 0
 	}
 	return b.invM[id]
+}
+
+// restitutionOf is a point's restitution, 0 for a gentle contact.
+func restitutionOf(p *softPoint, gentle bool) float64 {
+	if gentle {
+		return 0
+	}
+	return p.restitution
 }
