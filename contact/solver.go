@@ -16,6 +16,12 @@ type vec = shapes.Vec3
 // the pair's impact speed: far below any measurable bounce height.
 const impactRelTol = 1e-12
 
+// loadFraction: a point carried load last step if its normal impulse
+// changed the approach speed by more than this fraction of BounceThreshold.
+// A part resting at a step of 0.1 ms presses with g dt = 1e-3 m/s, ten
+// times this at the default threshold; rounding is twelve orders below.
+const loadFraction = 1e-3
+
 // row is one scalar constraint in solver form: Jacobian J, the velocity
 // changes per unit impulse M^-1 J^T, k = J M^-1 J^T and the effective mass 1/k.
 type row struct {
@@ -41,6 +47,7 @@ type pstate struct {
 	iTarget             float64 // normal target velocity of the current impact processing
 	iN, iT1, iT2        float64 // impulses of the current impact processing
 	pending             float64 // approach speed of an impact deferred from the last step, 0 if none
+	prevN               float64 // last step's normal impulse of the velocity solve (the load it carried)
 	deferred            float64 // approach speed of an impact deferred to the next step, 0 if none
 	pN, pTarget, pLo    float64 // position pass
 }
@@ -59,6 +66,8 @@ type warmPoint struct {
 	sliding  bool
 	slips    uint8
 	pending  float64 // approach speed of a deferred impact
+	a, b     int32   // bodies, for matching by position (match.go)
+	pos      vec     // world contact point
 }
 
 type warmRow struct {
@@ -86,6 +95,14 @@ type Solver struct {
 	// prevPts (-1 if none).
 	byKey, keyTmp []keyIndex
 	rank, match   []int32
+
+	// Matching by position (match.go): prevPair lists prevPts by body
+	// pair, claimed marks the entries this step's points have taken.
+	prevPair, curPair       []pairIndex
+	prevPairPts, curPairPts []int32
+	claimed                 []bool
+
+	blk blockState // block.go
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -94,20 +111,26 @@ func NewSolver(s Settings) *Solver { return &Solver{Settings: s} }
 // Reset forgets the impulses remembered from earlier steps.
 func (s *Solver) Reset() {
 	s.prevPts, s.prevRows, s.prevDt = s.prevPts[:0], s.prevRows[:0], 0
+	s.prevPair = s.prevPair[:0]
 }
 
 // Solve runs one step of the contact solve on bodies whose velocities already
 // include this step's gravity and applied forces:
 //
 //  1. rows from the points (normal and two tangents each) and the extra rows;
-//  2. warm start: last step's impulses, matched by Key, scaled by WarmStart
-//     and the ratio of step sizes (Catto 2005);
-//  3. sticking or sliding per point, choosing the static or kinetic coefficient;
-//  4. impacts: Newton restitution pair by pair in sequence (Guendelman,
-//     Bridson and Fedkiw 2003);
-//  5. velocity iterations: projected Gauss-Seidel with accumulated clamping
-//     (Catto 2005), friction in the disk |f_t| <= mu f_n;
-//  6. the position pass, which writes the pseudo-velocities Vp, Wp.
+//     last step's points matched by Key, or by position within the pair
+//     when a feature id changed (match.go);
+//  2. on the velocities without this step's forces (V-DV, W-DW): sticking
+//     or sliding per point, choosing the static or kinetic coefficient, and
+//     impacts: Newton restitution pair by pair in sequence (Guendelman,
+//     Bridson and Fedkiw 2003), where a point that carried load last step
+//     is never an impact;
+//  3. warm start: last step's impulses scaled by WarmStart and the ratio of
+//     step sizes (Catto 2005);
+//  4. velocity iterations: projected Gauss-Seidel with accumulated clamping
+//     (Catto 2005), friction in the disk |f_t| <= mu f_n, until converged
+//     (see Settings.Convergence) or VelocityIterations;
+//  5. the position pass, which writes the pseudo-velocities Vp, Wp.
 //
 // It writes V, W, Vp, Wp of the bodies, the output fields of points and
 // Impulse of rows. A bad index or a non-finite value is an error, and then
@@ -124,9 +147,14 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 		return rep, err
 	}
 	s.prepare(dt, bodies, points, rows)
-	s.warmStart(dt, bodies, points, rows)
+	s.matchPoints(points)
+	// Sticking or sliding, and the impacts, are judged on the motion the
+	// bodies arrived with: this step's forces are taken out meanwhile.
+	addForces(bodies, -1)
 	s.classify(bodies, points)
 	s.impacts(dt, bodies, points, &rep)
+	addForces(bodies, 1)
+	s.warmStart(dt, bodies, points, rows)
 	s.velocities(bodies, points, rows, &rep)
 	s.store(dt, bodies, points, rows, &rep)
 	s.positions(dt, bodies, points, rows)
@@ -248,6 +276,31 @@ func (r *row) apply(bodies []Body, d float64) {
 	addScaled(&A.W, &r.dwA, d)
 	addScaled(&B.V, &r.dvB, d)
 	addScaled(&B.W, &r.dwB, d)
+}
+
+// arrivalSpeed is the approach speed with which a contact closing a gap sep
+// within the step arrives, for the step's integrator: the bodies approach
+// at a0 before the step's forces, which add fd to the approach in the step.
+// Semi-implicit Euler conserves H = v^2/2 + v fd/2 + x fd/dt along the
+// normal (v the velocity of a step that starts at gap x; the modified
+// energy of the symplectic Euler method, E. Hairer, C. Lubich and G.
+// Wanner, "Geometric Numerical Integration", Springer 2006, chapter IX), so
+// the arrival speed a at x = 0 solves a^2 + fd a = a0^2 + fd a0 + 2 fd sep/dt.
+// Bouncing with e times it makes an elastic bounce return exactly to its
+// height; a0 alone would lose the fall through the gap, a0 + fd gain a
+// step of gravity.
+func arrivalSpeed(a0, fd, sep, dt float64) float64 {
+	d := fd*fd + 4*(a0*a0+fd*a0+2*fd*sep/dt)
+	if !(d > 0) || fd == 0 {
+		return a0
+	}
+	return max((math.Sqrt(d)-fd)/2, 0)
+}
+
+// cdotForce is the row's velocity from the bodies' force velocities DV, DW.
+func (r *row) cdotForce(bodies []Body) float64 {
+	A, B := &bodies[r.a], &bodies[r.b]
+	return dot3(&r.linA, &A.DV) + dot3(&r.angA, &A.DW) + dot3(&r.linB, &B.DV) + dot3(&r.angB, &B.DW)
 }
 
 func (r *row) cdotPseudo(bodies []Body) float64 {
@@ -420,26 +473,21 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 
 func rowKeyOrder(w warmRow, k uint64) int { return cmp.Compare(w.key, k) }
 
-// warmStart applies last step's impulses to the points and rows whose keys
-// persist (Catto 2005). Friction is remembered as a world vector and
+// warmStart applies last step's impulses to the points matched by
+// matchPoints and the rows whose keys persist (Catto 2005). Friction is remembered as a world vector and
 // projected onto this step's tangents, so a turned basis loses nothing.
 func (s *Solver) warmStart(dt float64, bodies []Body, points []Point, rows []Row) {
 	f := s.Settings.WarmStart
 	if s.prevDt > 0 {
 		f *= dt / s.prevDt // impulses of a steady load scale with the step
 	}
-	s.sortKeys(points)
 	for i := range points {
 		k := s.match[i]
-		if k < 0 {
+		if k < 0 || f == 0 {
 			continue
 		}
 		w := &s.prevPts[k]
 		ps := &s.pts[i]
-		ps.found, ps.prevSliding, ps.prevSlips, ps.pending = true, w.sliding, w.slips, w.pending
-		if f == 0 {
-			continue
-		}
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
 		ln := f * w.normal
 		l1, l2 := f*w.friction.Dot(r1.linB), f*w.friction.Dot(r2.linB)
@@ -538,9 +586,21 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				if rn.mass == 0 {
 					continue
 				}
+				// The bodies' velocities here lack this step's forces
+				// (Solve): approach is the speed they arrived with, and
+				// the gap closes at that plus the forces' part.
 				approach := -rn.cdot(bodies)
-				if ps.sep > 0 && approach*dt <= ps.sep {
+				if ps.sep > 0 && (approach-rn.cdotForce(bodies))*dt <= ps.sep {
 					continue // stays apart this step
+				}
+				if ps.found && ps.prevN*rn.k > set.BounceThreshold*loadFraction {
+					// It carried load last step: a resting contact, whatever
+					// an unconverged solve or a sway left of approach. It
+					// takes part as a touching point, inelastic.
+					ps.pending = 0
+					ps.active = ps.sep <= set.Slop
+					ps.iTarget = rn.target
+					continue
 				}
 				if ps.sep > set.Slop {
 					// Closing within the step but not yet touching: the
@@ -550,7 +610,8 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// gap short of each other; moving them to make up for it
 					// would change angular momentum.
 					if approach > set.BounceThreshold || ps.pending > 0 {
-						ps.deferred = max(ps.deferred, approach, ps.pending)
+						ac := arrivalSpeed(approach, -rn.cdotForce(bodies), ps.sep, dt)
+						ps.deferred = max(ps.deferred, ac, ps.pending)
 					}
 					continue
 				}
@@ -562,7 +623,10 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				ps.active = true
 				ps.iTarget = rn.target
 				if approach > set.BounceThreshold {
-					ps.iTarget = ps.e * approach
+					// The bodies leave at e times the approach once this
+					// step's forces are added back: the impact takes the
+					// forces' part along the normal too.
+					ps.iTarget = ps.e*approach - rn.cdotForce(bodies)
 					vmax = max(vmax, approach)
 					points[i].ImpactSpeed = max(points[i].ImpactSpeed, approach)
 				}
@@ -665,21 +729,47 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 			}
 		}
 	}
+	block := s.Settings.MaxBlock >= 2 && s.Settings.VelocityIterations > 0
+	if block {
+		s.islands(bodies, points, rows)
+		s.blockSolve(bodies, false, false)
+	}
+	conv, converged := s.Settings.Convergence, false
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
-		res := 0.0
+		// res is the largest velocity change of a row in this sweep, excess
+		// the largest by which one exceeds its share Convergence of the
+		// velocity change its accumulated impulse makes.
+		res, excess := 0.0, 0.0
 		for j := range rows {
 			r := &s.rows[3*n+j]
-			res = max(res, solveScalar(bodies, r, r.target, r.lo, r.hi, &r.lambda))
+			d := solveScalar(bodies, r, r.target, r.lo, r.hi, &r.lambda)
+			res, excess = max(res, d), max(excess, d-conv*math.Abs(r.lambda)*r.k)
 		}
 		for i := 0; i < n; i++ {
-			res = max(res, s.solvePoint(bodies, i))
+			d := s.solvePoint(bodies, i)
+			res, excess = max(res, d), max(excess, d-conv*s.pointScale(i))
 		}
 		rep.Iterations++
 		rep.Residual = res
-		if res <= s.Settings.Tolerance {
+		if excess <= s.Settings.Tolerance {
+			converged = true
 			break
 		}
 	}
+	if block && !converged {
+		// The sweeps' friction moved the normal impulses off the exact
+		// solution again, and the sweeps bring them back slowly where
+		// masses differ or stacks are tall: solve them once more, with
+		// friction where the island is small enough.
+		s.blockSolve(bodies, false, true)
+	}
+}
+
+// pointScale is the largest velocity change that one of point i's rows
+// makes with its accumulated impulse.
+func (s *Solver) pointScale(i int) float64 {
+	rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+	return max(rn.lambda*rn.k, math.Abs(r1.lambda)*r1.k, math.Abs(r2.lambda)*r2.k)
 }
 
 // store writes the outputs and remembers this step's impulses by key.
@@ -698,7 +788,8 @@ func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, re
 		if ps.sat && math.Hypot(r1.cdot(bodies)-r1.target, r2.cdot(bodies)-r2.target) > s.Settings.CreepSpeed {
 			slips = min(ps.prevSlips, 254) + 1
 		}
-		w := warmPoint{key: p.Key, normal: rn.lambda, friction: p.FrictionImpulse, sliding: p.Sliding, slips: slips, pending: ps.deferred}
+		w := warmPoint{key: p.Key, normal: rn.lambda, friction: p.FrictionImpulse, sliding: p.Sliding, slips: slips, pending: ps.deferred,
+			a: p.A, b: p.B, pos: p.Position}
 		if ps.deferred > 0 {
 			// The impulse that stopped a deferred impact at the gap is no
 			// steady load: the impact itself replaces it next step.
@@ -707,6 +798,7 @@ func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, re
 		s.curPts[s.rank[i]] = w // in key order (sortKeys)
 	}
 	s.prevPts, s.curPts = s.curPts, s.prevPts
+	s.storePairs(points)
 
 	s.curRows = s.curRows[:0]
 	for j := range rows {
@@ -764,6 +856,9 @@ func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row
 		if r.Hi > 0 {
 			jp.hi = inf
 		}
+	}
+	if set.MaxBlock >= 2 && set.VelocityIterations > 0 {
+		s.blockSolve(bodies, true, false) // islands as found by velocities
 	}
 	for it := 0; it < set.PositionIterations; it++ {
 		res := 0.0

@@ -21,7 +21,9 @@ func TestWarmStartConvergence(t *testing.T) {
 	run := func(warm float64, iters int) float64 {
 		bodies, pts := stack(1, 5, 0.2, 0.5)
 		set := DefaultSettings()
+		// Fixed sweeps, no direct solve: this measures the sweeps alone.
 		set.WarmStart, set.VelocityIterations, set.Tolerance = warm, iters, 0
+		set.Convergence, set.MaxBlock = 0, 0
 		s := NewSolver(set)
 		for step := 0; step < steps; step++ {
 			addGravity(bodies, dt)

@@ -18,6 +18,14 @@ type Body struct {
 	// then discards them; they never enter V and W, so position correction adds
 	// no kinetic energy. Solve overwrites them every step.
 	Vp, Wp shapes.Vec3
+
+	// DV and DW are the part of V and W that this step's forces (gravity,
+	// applied forces) added before Solve. The impact phase measures approach
+	// speeds on V-DV, W-DW, the motion the bodies arrived with, so that no
+	// bounce returns the step's gravity as extra speed and a contact that
+	// gravity alone presses is never taken for an impact. Zero means that V
+	// and W hold no such part. Solve does not change them.
+	DV, DW shapes.Vec3
 }
 
 // Point is one contact point between bodies A and B, filled by the engine

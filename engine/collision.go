@@ -101,6 +101,7 @@ func (w *World) collide(dt float64) {
 	}
 	c.pairs = c.bp.Pairs(c.pairs[:0])
 	c.points = c.points[:0]
+	w.soft.pts = w.soft.pts[:0] // compliant.go
 	c.prevTouching, c.touching = c.touching, c.prevTouching[:0]
 	for _, p := range c.pairs {
 		w.collidePair(BodyID(p[0]), BodyID(p[1]), dt)
@@ -115,6 +116,9 @@ func (w *World) collide(dt float64) {
 func (w *World) moveBounds(id BodyID, dt float64) {
 	c := &w.collision
 	m := (w.b.vel[id].Len()+w.b.spin[id].Len()*w.b.radius[id])*dt + w.cfg.Slop
+	if w.soft.on {
+		m += w.softLookAhead(int(id)) // compliant.go
+	}
 	c.margin[id] = m
 	if b := w.b.shape[id].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
 		w.b.bounds[id] = b.Transform(c.pose[id]).Grow(m)
@@ -156,6 +160,9 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	}
 	nmat := len(w.materials)
 	coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
+	if w.soft.on && w.softPair(a, b, c.manifolds, coef) {
+		return // a compliant pair: springs, not rows (compliant.go)
+	}
 	touch := false
 	for _, mf := range c.manifolds {
 		for k := 0; k < mf.Count; k++ {
@@ -249,12 +256,14 @@ func (w *World) solve(dt float64) error {
 	if len(c.inertia) < n {
 		c.inertia = append(c.inertia, make([]shapes.Mat3, n-len(c.inertia))...)
 	}
+	gdt := w.cfg.Gravity.Mul(dt)
 	for i := 0; i < n; i++ {
 		sb := &c.bodies[i]
 		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			sb.InvMass = w.b.invM[i]
 			c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
+			sb.DV = gdt // this step's gravity, already in V (World.step)
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)

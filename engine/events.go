@@ -36,6 +36,14 @@ type Event struct {
 	Normal  shapes.Vec3
 	Speed   float64
 	Impulse float64
+	// Compliant marks an impact through a compliant contact, with its
+	// largest contact force PeakForce (N), its Duration (s) and, per body
+	// (A, B), PeakAcceleration: that force over the body's weight, in units
+	// of standard gravity (0 for a body that is not dynamic).
+	Compliant        bool
+	PeakForce        float64
+	Duration         float64
+	PeakAcceleration [2]float64
 }
 
 // Events returns the events of the steps since the last call; the slice is

@@ -12,11 +12,16 @@ type Material struct {
 	// coefficient while a contact sticks (at least Friction; 0 means equal
 	// to Friction). Restitution is Newton's coefficient, 0 to 1.
 	Friction, StaticFriction, Restitution float64
+	// Stiffness, if set, makes contacts against the material compliant
+	// (stiffness.go, compliant.go).
+	Stiffness Stiffness
 }
 
 // PairCoefficients are the coefficients that apply between two materials.
 type PairCoefficients struct {
 	Friction, StaticFriction, Restitution float64
+	// Stiffness, if set, replaces the materials' compliant law for the pair.
+	Stiffness Stiffness
 }
 
 func (m Material) check() error {
@@ -28,6 +33,9 @@ func (m Material) check() error {
 	}
 	if !(m.Restitution >= 0 && m.Restitution <= 1) {
 		return fmt.Errorf("material %q: restitution must be between 0 and 1, got %g", m.Name, m.Restitution)
+	}
+	if err := m.Stiffness.check(); err != nil {
+		return fmt.Errorf("material %q: %v", m.Name, err)
 	}
 	return nil
 }
@@ -51,7 +59,7 @@ func (w *World) SetPair(a, b int, c PairCoefficients) error {
 	if a < 0 || b < 0 || a >= len(w.materials) || b >= len(w.materials) {
 		return fmt.Errorf("pair (%d, %d): unknown material", a, b)
 	}
-	m := Material{Name: w.materials[a].Name + "/" + w.materials[b].Name, Friction: c.Friction, StaticFriction: c.StaticFriction, Restitution: c.Restitution}
+	m := Material{Name: w.materials[a].Name + "/" + w.materials[b].Name, Friction: c.Friction, StaticFriction: c.StaticFriction, Restitution: c.Restitution, Stiffness: c.Stiffness}
 	if err := m.check(); err != nil {
 		return err
 	}
@@ -98,6 +106,7 @@ func (w *World) buildPairTable() {
 			w.pairs[i*n+j] = c
 		}
 	}
+	w.buildSpringTable() // stiffness.go
 }
 
 // Pair returns the coefficients that apply between materials a and b.

@@ -18,7 +18,10 @@ type Config struct {
 	Gravity shapes.Vec3
 	// SubSteps splits each Step into this many equal steps (default 1).
 	SubSteps int
-	// VelocityIterations and PositionIterations of the contact solver (default 8 and 3).
+	// VelocityIterations is the most velocity iterations of the contact
+	// solver per step (default 30); it stops earlier once the impulses have
+	// converged (contact.Settings.Convergence). PositionIterations are those
+	// of the position pass (default 3).
 	VelocityIterations, PositionIterations int
 	// Slop is the penetration, m, left alone by position correction and the
 	// extra margin of speculative contacts (default 0.2 mm).
@@ -61,7 +64,7 @@ func (c *Config) fill() error {
 	}
 	for _, e := range []error{
 		defInt(&c.SubSteps, 1, "sub-steps"),
-		defInt(&c.VelocityIterations, 8, "velocity iterations"),
+		defInt(&c.VelocityIterations, 30, "velocity iterations"),
 		defInt(&c.PositionIterations, 3, "position iterations"),
 		def(&c.Slop, 2e-4, "slop"),
 		def(&c.BounceThreshold, 0.1, "bounce threshold"),
@@ -100,6 +103,7 @@ type World struct {
 	collision collisionState
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
 	gates     gateState  // counting gates (gate.go)
+	soft      softState  // compliant contacts (compliant.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -191,7 +195,12 @@ func (w *World) Step(dt float64) error {
 	}
 	h := dt / float64(w.cfg.SubSteps)
 	for s := 0; s < w.cfg.SubSteps; s++ {
-		if err := w.step(h); err != nil {
+		// Compliant contacts split the step to follow the contact (compliant.go); n is 1 without them.
+		n, err := w.softSplit(h)
+		for k := 0; k < n && err == nil; k++ {
+			err = w.step(h / float64(n))
+		}
+		if err != nil {
 			w.err = err
 			return err
 		}
@@ -204,7 +213,8 @@ func (w *World) step(dt float64) error {
 	w.applyMotorChanges(dt) // scheduled motors (schedule.go)
 	w.drive(dt)             // driven kinematic bodies: velocities for this step (driver.go)
 	e0, k0, rot0, pot0 := 0.0, 0.0, 0.0, 0.0
-	guard := !w.cfg.NoDivergenceCheck && !w.driven()
+	guard := !w.cfg.NoDivergenceCheck
+	driven := w.driven()
 	if guard {
 		rot0, pot0 = w.rotationalKinetic(), w.PotentialEnergy()
 		k0 = w.linearKinetic() + rot0
@@ -220,6 +230,14 @@ func (w *World) step(dt float64) error {
 	}
 
 	w.collide(dt)
+	if w.soft.on { // compliant contact forces (compliant.go)
+		if err := w.applySoft(dt); err != nil {
+			return err
+		}
+		// The springs hold energy the guard cannot see; sub-stepping from
+		// their natural period keeps them stable instead.
+		kicked = kicked || w.softActive()
+	}
 	// A deferred impact (contact.Solver) gives back next step the energy its
 	// speculative stop took this step, so the guard measures against the
 	// larger of this step's start and the last step's energy before its solve.
@@ -235,6 +253,13 @@ func (w *World) step(dt float64) error {
 	if err := w.solve(dt); err != nil {
 		return err
 	}
+	work := 0.0
+	if driven {
+		if err := w.checkJam(dt); err != nil {
+			return err
+		}
+		work = w.drivenWork() // work.go
+	}
 	w.integrate(dt)
 	w.countGates(dt) // gate.go
 	w.time += dt
@@ -245,7 +270,7 @@ func (w *World) step(dt float64) error {
 		return err
 	}
 	if guard && !kicked {
-		if err := w.checkEnergy(math.Max(e0, w.prevPreSolve), k0); err != nil {
+		if err := w.checkEnergy(math.Max(e0, w.prevPreSolve)+work, k0); err != nil {
 			return err
 		}
 	}
@@ -254,7 +279,8 @@ func (w *World) step(dt float64) error {
 }
 
 // driven reports whether something outside the bodies can do work on them
-// (moving kinematic bodies), so energy need not decrease.
+// (moving kinematic bodies, motors, conveyors), so energy need not decrease
+// by itself: the guard then allows for the work they do (work.go).
 func (w *World) driven() bool {
 	if w.mechanismDriven() { // motors, driven bodies, conveyors (joint.go)
 		return true

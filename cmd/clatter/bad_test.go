@@ -64,6 +64,8 @@ func TestBadInput(t *testing.T) {
 		{name: "negative friction", scene: "[material.abs]\nfriction = -0.1\n" + floor + part, want: `material "abs": friction must be >= 0, got -0.1`},
 		{name: "static below kinetic", scene: "[material.abs]\nfriction = 0.4\nstatic_friction = 0.3\n" + floor + part,
 			want: `material "abs": static_friction 0.3 must be at least friction 0.4`},
+		{name: "stiffness not a stiffness", scene: mm + "[material.foam]\nfriction = 0.5\nstiffness = \"40 N\"\n" + floor + part,
+			want: `scene.toml:4: material "foam": stiffness must be a stiffness`},
 		{name: "friction missing", scene: "[material.abs]\nrestitution = 0.3\n" + floor + part, want: `material "abs": friction is missing`},
 		{name: "not finite", scene: mm + floor + "[[body]]\nname = \"cap\"\nshape = { sphere = 5 }\ndensity = nan\n",
 			want: `body "cap": density must be a finite number, got NaN`},

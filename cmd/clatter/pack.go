@@ -79,6 +79,9 @@ func writeDropTable(w io.Writer, s *scene.Scene, d *report.Drop, balanced *strin
 	}
 	fmt.Fprintf(w, "second   %s\n", second)
 	fmt.Fprintf(w, "spin     %.4g rad/s at most\n", spinShown(d.PeakSpin))
+	if d.PeakAcceleration != nil { // compliant contacts only
+		fmt.Fprintf(w, "peak     %.4g g (largest contact force over weight; the stiffness given decides it)\n", *d.PeakAcceleration)
+	}
 	final := "not on a face (still moving or leaning)"
 	if balanced != nil {
 		final = "not on a face: at rest balanced on " + map[string]string{"edge": "an edge", "corner": "a corner"}[*balanced]
@@ -148,13 +151,25 @@ func writeDropsTable(w io.Writer, dir string, u report.Units) bool {
 	}
 	fmt.Fprintln(w, "drops (drops.csv): the struck feature and what struck next, in package face numbering")
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
-	fmt.Fprintf(tw, "case\ttrial\tstrike\theight (%s)\timpact speed (%s/s)\tsecond\tits speed\tpeak spin (rad/s)\tfinal face\tturned over\n", u.Length, u.Length)
+	// The peak acceleration column appears for compliant drops only.
+	peaks := false
+	for _, r := range rows[1:] {
+		if i, ok := col["peak_acceleration"]; ok && i < len(r) && r[i] != "" {
+			peaks = true
+		}
+	}
+	peakHead, peakOf := "", func([]string) string { return "" }
+	if peaks {
+		peakHead = "\tpeak (g)"
+		peakOf = func(r []string) string { return fmt.Sprintf("\t%.4g", num(get(r, "peak_acceleration"))) }
+	}
+	fmt.Fprintf(tw, "case\ttrial\tstrike\theight (%s)\timpact speed (%s/s)\tsecond\tits speed\tpeak spin (rad/s)\tfinal face\tturned over%s\n", u.Length, u.Length, peakHead)
 	for i, r := range rows[1:] {
 		if i == maxDropRows {
 			break
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.5g\t%s\t%s\t%.3g\t%s\t%s\n", get(r, "case"), get(r, "trial"), get(r, "strike"), get(r, "height"),
-			num(get(r, "impact_speed")), get(r, "second_feature"), get(r, "secondary_impact_speed"), spinShown(num(get(r, "peak_spin"))), get(r, "final_face"), get(r, "turned_over"))
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%.5g\t%s\t%s\t%.3g\t%s\t%s%s\n", get(r, "case"), get(r, "trial"), get(r, "strike"), get(r, "height"),
+			num(get(r, "impact_speed")), get(r, "second_feature"), get(r, "secondary_impact_speed"), spinShown(num(get(r, "peak_spin"))), get(r, "final_face"), get(r, "turned_over"), peakOf(r))
 	}
 	tw.Flush()
 	if len(rows)-1 > maxDropRows {

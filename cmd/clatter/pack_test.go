@@ -80,7 +80,7 @@ func TestExampleTenDrops(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := strings.Join(rows[0], ","); got != "case,trial,drop.number,strike,height,impact_speed,second_feature,secondary_impact_speed,peak_spin,final_face,turned_over" {
+	if got := strings.Join(rows[0], ","); got != "case,trial,drop.number,strike,height,impact_speed,second_feature,secondary_impact_speed,peak_spin,final_face,turned_over,peak_acceleration" {
 		t.Fatalf("drops.csv header %q", got)
 	}
 	// ISTA 1A's sequence for a 400 x 300 x 250 carton: corner 2-3-5, edges

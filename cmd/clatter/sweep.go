@@ -47,7 +47,8 @@ It writes into DIR (default clatter-sweep):
   failures.csv trials whose simulation failed, if any
   drops.csv    for a scene with a [drop], a row per trial: case,trial, the
                varied values, strike,height,impact_speed,second_feature,
-               secondary_impact_speed,peak_spin,final_face,turned_over;
+               secondary_impact_speed,peak_spin,final_face,turned_over,
+               peak_acceleration (g, compliant contacts only);
                drops = "ten" in [sweep] makes the ten drops of the
                parcel-test sequence its cases (the varied key drop.number)
   face-down.csv per case, body and face: how often the face closest to

@@ -30,6 +30,8 @@ type Drop struct {
 	// FinalFace is the face the body ended on (null: not on a face).
 	FinalFace  *int `json:"final_face"`
 	TurnedOver bool `json:"turned_over"`
+	// PeakAcceleration is the body's (peaks.go), for drops.csv.
+	PeakAcceleration *float64 `json:"peak_acceleration"`
 }
 
 // DropImpact is one impact of the dropped body.
@@ -169,6 +171,7 @@ func (t *DropTracker) Report(w *engine.World, u scene.Units, resting bool) *Drop
 		out.SecondaryImpactSpeed = &v
 	}
 	out.PeakSpin = clean(out.PeakSpin)
+	out.PeakAcceleration = PeakAcceleration(w, t.id)
 	for i := range out.Impacts {
 		im := &out.Impacts[i]
 		im.Time, im.NormalSpeed = clean(im.Time), sp(im.NormalSpeed)

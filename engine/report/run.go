@@ -202,9 +202,13 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			r.events()
 			msg := eventJSON{Time: clean(w.Time()), Event: "error", Message: err.Error()}
 			var de *engine.DivergenceError
+			var je *engine.JamError
 			if errors.As(err, &de) {
 				msg.Body = de.Name
 				msg.Time = clean(de.Time)
+			} else if errors.As(err, &je) {
+				msg.Body = je.Name
+				msg.Time = clean(je.Time)
 			}
 			r.event(msg)
 			r.restore()
@@ -308,14 +312,15 @@ func (r *runner) summarise(sum *Summary, simErr error) {
 		id := r.ids[i]
 		q := w.Orientation(id)
 		b := Body{
-			Name:           r.s.Bodies[i].Name,
-			Position:       clean3(r.u.VecFromSI(w.Position(id), scene.Length)),
-			Orientation:    [4]float64{clean(q.W), clean(q.V[0]), clean(q.V[1]), clean(q.V[2])},
-			Velocity:       clean3(r.u.VecFromSI(w.Velocity(id), scene.Speed)),
-			Spin:           clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
-			RestingFace:    r.restingFace(i),
-			FaceDown:       faceOrNil(BodyFaceDown(w, id, r.facesOf(i))),
-			MaxImpactSpeed: clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
+			Name:             r.s.Bodies[i].Name,
+			Position:         clean3(r.u.VecFromSI(w.Position(id), scene.Length)),
+			Orientation:      [4]float64{clean(q.W), clean(q.V[0]), clean(q.V[1]), clean(q.V[2])},
+			Velocity:         clean3(r.u.VecFromSI(w.Velocity(id), scene.Speed)),
+			Spin:             clean3(r.u.VecFromSI(w.Spin(id), scene.AngularSpeed)),
+			RestingFace:      r.restingFace(i),
+			FaceDown:         faceOrNil(BodyFaceDown(w, id, r.facesOf(i))),
+			MaxImpactSpeed:   clean(r.u.FromSI(w.MaxImpactSpeed(id), scene.Speed)),
+			PeakAcceleration: PeakAcceleration(w, id), // peaks.go
 		}
 		b.TippedAt, b.SlidAt = r.tiltMarks(id)
 		b.Balanced = Balanced(w, id, b.RestingFace != nil, r.touching[id] > 0) // (balance.go)
@@ -519,6 +524,11 @@ type eventJSON struct {
 	// On and Tilt of a tips or slides event: the support and its tilt (deg).
 	On   string   `json:"on,omitempty"`
 	Tilt *float64 `json:"tilt,omitempty"`
+	// PeakForce, Duration and PeakAcceleration (per body, g; null for a
+	// static body) of an impact through a compliant contact (peaks.go).
+	PeakForce        *float64   `json:"peak_force,omitempty"`
+	Duration         *float64   `json:"duration,omitempty"`
+	PeakAcceleration []*float64 `json:"peak_acceleration,omitempty"`
 }
 
 // events takes the world's events of the last step: it writes impacts,
@@ -546,7 +556,9 @@ func (r *runner) events() {
 			p := clean3(r.u.VecFromSI(e.Point, scene.Length))
 			sp := clean(r.u.FromSI(e.Speed, scene.Speed))
 			im := clean(r.u.FromSI(e.Impulse, scene.Impulse))
-			r.event(eventJSON{Time: clean(e.Time), Event: "impact", Bodies: []string{r.name(e.A), r.name(e.B)}, Point: &p, NormalSpeed: &sp, Impulse: &im, Features: r.impactFeatures(e)})
+			ev := eventJSON{Time: clean(e.Time), Event: "impact", Bodies: []string{r.name(e.A), r.name(e.B)}, Point: &p, NormalSpeed: &sp, Impulse: &im, Features: r.impactFeatures(e)}
+			r.compliantFields(&ev, e) // peaks.go
+			r.event(ev)
 		case engine.Sleep, engine.Wake:
 			r.event(eventJSON{Time: clean(e.Time), Event: e.Kind.String(), Body: r.name(e.A)})
 		case engine.Settled:

@@ -74,6 +74,11 @@ type Body struct {
 	Balanced *string `json:"balanced"`
 	// MaxImpactSpeed is the largest normal approach speed of its impacts.
 	MaxImpactSpeed float64 `json:"max_impact_speed"`
+	// PeakAcceleration is the largest net compliant contact force on the
+	// body over its weight, in units of standard gravity (what an
+	// accelerometer on it reads), found at every sub-step; null for a body
+	// that met only rigid contacts.
+	PeakAcceleration *float64 `json:"peak_acceleration"`
 	// TippedAt and SlidAt are when the body first turned 2 degrees, or
 	// moved 1 mm, relative to the body it stood on at the start, with that
 	// support's tilt then (deg); null if it did not, or stood on nothing.

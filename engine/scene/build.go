@@ -35,7 +35,8 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 	}
 	mats := map[string]int{}
 	for _, m := range s.Materials {
-		i, err := w.AddMaterial(engine.Material{Name: m.Name, Friction: m.Friction, StaticFriction: m.StaticFriction, Restitution: m.Restitution})
+		i, err := w.AddMaterial(engine.Material{Name: m.Name, Friction: m.Friction, StaticFriction: m.StaticFriction, Restitution: m.Restitution,
+			Stiffness: m.Stiffness.engine()}) // stiffness.go
 		if err != nil {
 			return nil, nil, fail(m.Line, "%v", err)
 		}
@@ -61,6 +62,9 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 		}
 		if p.Restitution != nil {
 			c.Restitution = *p.Restitution
+		}
+		if p.Stiffness.Given() {
+			c.Stiffness = p.Stiffness.engine() // stiffness.go
 		}
 		if c.StaticFriction < c.Friction {
 			return nil, nil, fail(p.Line, "[[pair]] %s/%s: static_friction %g must be at least friction %g", p.A, p.B, c.StaticFriction, c.Friction)
@@ -96,6 +100,9 @@ func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, er
 			return nil, nil, fail(b.Line, "body %q: %v", b.Name, err)
 		}
 		ids[i] = id
+	}
+	if line, msg := s.stiffnessConflict(); msg != "" { // stiffness.go
+		return nil, nil, fail(line, "%s", msg)
 	}
 	for _, j := range s.Joints {
 		def := j.Def

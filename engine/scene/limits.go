@@ -46,6 +46,8 @@ var quantityRange = map[Dim]float64{
 	Force:        1e12, // N
 	Impulse:      1e12, // N s
 	Torque:       1e12, // N m
+	Stiffness:    1e15, // N/m: stiffer than any contact of solids
+	Pressure:     1e13, // Pa: 10 times diamond's modulus
 }
 
 // otherRange bounds quantities of other dimensions, and plain numbers

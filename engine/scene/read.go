@@ -427,9 +427,9 @@ func (r *reader) materials(root section) {
 			continue
 		}
 		sec := section{m: m, path: path, name: fmt.Sprintf("[material.%s]", n), pre: fmt.Sprintf("material %q: ", n)}
-		unknown := r.keys(sec, "friction", "static_friction", "restitution")
+		unknown := r.keys(sec, "friction", "static_friction", "restitution", "stiffness")
 		f, fs, e := r.coefficients(sec)
-		mat := Material{Name: n, Line: r.s.lines.line(path)}
+		mat := Material{Name: n, Line: r.s.lines.line(path), Stiffness: r.stiffness(sec)}
 		if f == nil {
 			if _, given := m["friction"]; !given && unknown == 0 {
 				r.errAt(path, "material %q: friction is missing; give the kinetic Coulomb coefficient measured for this material, e.g. friction = 0.35", n)
@@ -519,7 +519,7 @@ func (r *reader) pairs(root section) {
 	for i, m := range list {
 		path := []string{"pair", strconv.Itoa(i)}
 		sec := section{m: m, path: path, name: fmt.Sprintf("[[pair]] number %d", i+1), pre: fmt.Sprintf("[[pair]] number %d: ", i+1)}
-		r.keys(sec, "materials", "friction", "static_friction", "restitution")
+		r.keys(sec, "materials", "friction", "static_friction", "restitution", "stiffness")
 		p := Pair{Line: r.s.lines.line(path)}
 		mv, ok := m["materials"]
 		if !ok {
@@ -547,8 +547,9 @@ func (r *reader) pairs(root section) {
 		}
 		p.A, p.B = names[0], names[1]
 		p.Friction, p.StaticFriction, p.Restitution = r.coefficients(sec)
+		p.Stiffness = r.stiffness(sec)
 		if p.Friction == nil && p.StaticFriction == nil && p.Restitution == nil && len(m) == 1 {
-			r.errAt(path, "%sgive at least one of friction, static_friction and restitution", sec.pre)
+			r.errAt(path, "%sgive at least one of friction, static_friction, restitution and stiffness", sec.pre)
 		}
 		if good {
 			seen[key] = len(r.s.Pairs)

@@ -63,6 +63,7 @@ type World struct {
 type Material struct {
 	Name                                  string
 	Friction, StaticFriction, Restitution float64
+	Stiffness                             Compliance // stiffness.go; zero: rigid
 	Line                                  int
 }
 
@@ -71,6 +72,7 @@ type Material struct {
 type Pair struct {
 	A, B                                  string
 	Friction, StaticFriction, Restitution *float64
+	Stiffness                             Compliance // stiffness.go; zero: the materials'
 	Line                                  int
 }
 

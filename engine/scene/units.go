@@ -46,6 +46,8 @@ var dimNames = map[Dim][2]string{
 	Frequency:     {"a frequency", `"50 Hz"`},
 	Force:         {"a force", `"20 N"`},
 	Torque:        {"a torque", `"0.5 N m"`},
+	Stiffness:     {"a stiffness", `"40 N/mm"`},
+	Pressure:      {"a modulus", `"2.4 GPa"`},
 }
 
 func (d Dim) String() string {
@@ -100,6 +102,7 @@ var unitTable = map[string]unitDef{
 	"kg": {1, Mass}, "g": {1e-3, Mass}, "mg": {1e-6, Mass}, "lb": {kgPerPound, Mass},
 	"s": {1, Time}, "ms": {1e-3, Time}, "min": {60, Time}, "h": {3600, Time},
 	"N": {1, Force}, "Hz": {1, Frequency},
+	"Pa": {1, Pressure}, "kPa": {1e3, Pressure}, "MPa": {1e6, Pressure}, "GPa": {1e9, Pressure},
 	"rad": {1, Angle}, "deg": {math.Pi / 180, Angle}, "rev": {2 * math.Pi, Angle},
 	"rpm": {2 * math.Pi / 60, AngularSpeed},
 }

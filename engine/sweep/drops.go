@@ -16,11 +16,11 @@ const DropsFile = "drops.csv"
 
 // dropsHeader is the first line of drops.csv.
 func (m *Meta) dropsHeader() string {
-	return "case,trial," + m.keysHeader() + "strike,height,impact_speed,second_feature,secondary_impact_speed,peak_spin,final_face,turned_over"
+	return "case,trial," + m.keysHeader() + "strike,height,impact_speed,second_feature,secondary_impact_speed,peak_spin,final_face,turned_over,peak_acceleration"
 }
 
 func dropsTable(m *Meta) *table {
-	return &table{header: m.dropsHeader(), fields: 10 + len(m.Vary), rows: 1, cases: m.Cases, trials: m.Trials}
+	return &table{header: m.dropsHeader(), fields: 11 + len(m.Vary), rows: 1, cases: m.Cases, trials: m.Trials}
 }
 
 // dropWatch follows a trial's drop through the world's impact events.
@@ -94,6 +94,10 @@ func (d dropWatch) row(c, t int64, values []byte, w *engine.World, u scene.Units
 	}
 	b = append(b, ',')
 	b = strconv.AppendBool(b, r.TurnedOver)
+	b = append(b, ',')
+	if r.PeakAcceleration != nil { // empty for a rigid drop
+		b = appendNumber(b, *r.PeakAcceleration)
+	}
 	return append(b, '\n')
 }
 
