@@ -39,6 +39,13 @@ const blockShift = 1e-9
 // mass ratio of 1000.
 const blockConsistent = 1e-3
 
+// maxPivots bounds the factorisations of one island's solve. A resting
+// island starts from last step's pressing points and needs one or two; an
+// island whose contacts open and close by the dozen is in motion, where
+// the sweeps serve as well, and the solve is left to them instead of
+// costing a factorisation per change.
+const maxPivots = 6
+
 // blockState is the scratch space of the block solve.
 type blockState struct {
 	parent []int32 // union-find over bodies
@@ -258,7 +265,8 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 		}
 	}
 	tol := s.Settings.Tolerance + 1e-12
-	for it := 0; it < 2*n+4; it++ {
+	done := false
+	for it := 0; it < maxPivots; it++ {
 		if !s.solveActive(n, shift, target) {
 			return false // not positive definite: leave the impulses to the sweeps
 		}
@@ -287,11 +295,15 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 			}
 		}
 		if worst < 0 {
+			done = true
 			break
 		}
 		for r := 0; r < per; r++ {
 			b.active[worst+r] = true
 		}
+	}
+	if !done {
+		return false // contacts still opening and closing: the sweeps' business
 	}
 	// A consistent system is solved to within the shift's share of the
 	// impulses; one without a solution (a body squeezed between a driven
