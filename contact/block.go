@@ -57,6 +57,8 @@ type blockState struct {
 	active []bool
 	sub    []int32
 	rowIdx []int32 // the rows of the system, indices into Solver.rows
+	root   []int32   // island root of each point
+	excess []float64 // per island root: the last sweep's largest excess (velocities)
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -90,8 +92,12 @@ func (s *Solver) islands(bodies []Body, points []Point, rows []Row) {
 	for j := range rows {
 		join(rows[j].A, rows[j].B)
 	}
+	b.root = grow(b.root, len(points))
+	b.excess = grow(b.excess, nb)
 	for i := range points {
-		b.size[s.pointRoot(bodies, i, points)]++
+		r := s.pointRoot(bodies, i, points)
+		b.root[i] = r
+		b.size[r]++
 	}
 	for j := range rows {
 		for _, x := range [2]int32{rows[j].A, rows[j].B} {
@@ -107,7 +113,7 @@ func (s *Solver) islands(bodies []Body, points []Point, rows []Row) {
 	}
 	b.order = grow(b.order, int(sum))
 	for i := range points {
-		r := s.pointRoot(bodies, i, points)
+		r := b.root[i]
 		if b.size[r] > 0 {
 			b.order[b.start[r]] = int32(i)
 			b.start[r]++
@@ -135,6 +141,10 @@ func (s *Solver) pointRoot(bodies []Body, i int, points []Point) int32 {
 // After sweeps that did not converge (final), friction joins the system
 // of every island small enough (maxFrictionBlock); before them only where
 // masses differ (blockFrictionRatio).
+//
+// After the sweeps the solve is spent only on islands whose last sweep had
+// not converged, in the position pass only on islands with a penetration
+// to remove.
 func (s *Solver) blockSolve(bodies []Body, pseudo, final bool) {
 	b := &s.blk
 	for r := range b.size {
@@ -142,8 +152,25 @@ func (s *Solver) blockSolve(bodies []Body, pseudo, final bool) {
 		if n < 2 || n > s.Settings.MaxBlock {
 			continue
 		}
-		s.solveIsland(bodies, b.order[b.start[r]:int(b.start[r])+n], pseudo, final)
+		idx := b.order[b.start[r] : int(b.start[r])+n]
+		switch {
+		case pseudo && !s.penetrates(idx):
+			continue
+		case final && b.excess[r] <= s.Settings.Tolerance:
+			continue
+		}
+		s.solveIsland(bodies, idx, pseudo, final)
 	}
+}
+
+// penetrates reports whether the position pass has work on points idx.
+func (s *Solver) penetrates(idx []int32) bool {
+	for _, i := range idx {
+		if s.pts[i].pTarget > 0 {
+			return true
+		}
+	}
+	return false
 }
 
 // coupling is the velocity change of row q per unit impulse of row p.
