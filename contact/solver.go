@@ -745,9 +745,17 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 			d := solveScalar(bodies, r, r.target, r.lo, r.hi, &r.lambda)
 			res, excess = max(res, d), max(excess, d-conv*math.Abs(r.lambda)*r.k)
 		}
+		if block {
+			clear(s.blk.excess)
+		}
 		for i := 0; i < n; i++ {
 			d := s.solvePoint(bodies, i)
-			res, excess = max(res, d), max(excess, d-conv*s.pointScale(i))
+			ex := d - conv*s.pointScale(i)
+			res, excess = max(res, d), max(excess, ex)
+			if block {
+				r := s.blk.root[i]
+				s.blk.excess[r] = max(s.blk.excess[r], ex)
+			}
 		}
 		rep.Iterations++
 		rep.Residual = res
