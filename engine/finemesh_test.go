@@ -71,10 +71,6 @@ func TestFineMeshDoesNotSink(t *testing.T) {
 		for _, dt := range []float64{1.0 / 60, 1e-3} {
 			cfg := engine.DefaultConfig()
 			cfg.NoSleep = true // keep stepping the resting body
-			// This test measures sinking only; the energy guard's false
-			// alarms for bodies at rest at 1/60 s are another part of
-			// issue 12 (energy at rest), not geometry.
-			cfg.NoDivergenceCheck = true
 			w, err := engine.NewWorld(cfg)
 			if err != nil {
 				t.Fatal(err)
