@@ -262,8 +262,9 @@ func (d *Detector) emit(dst []Manifold, f frame, n vec3, subA, subB int32) []Man
 }
 
 // reduce chooses at most four of pts: the deepest, then the points that
-// span the largest area in the contact plane (normal n), so that the kept
-// points support the contact like the whole patch. Ties (within rounding)
+// span the largest area in the contact plane (normal n), first among those
+// about as deep (contactBand), then among all, so that the kept points
+// support the contact like the whole patch. Ties (within rounding)
 // go to the deeper point, then to the point farther from the patch centre
 // (for the first point), then to the lexicographically smaller position in
 // the contact plane, so the choice does not depend on the order of pts nor
@@ -334,29 +335,49 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 		}
 	}
 	sel = append(sel, i0)
+	// The points that carry the contact come first: those within band of
+	// the deepest in depth. A part lying along a line (a faceted pin on its
+	// side) has its two lowest vertices at the line's ends and, a little
+	// higher, the neighbouring facets' vertices, slightly farther apart: by
+	// spread alone these would be kept instead of the far end's lowest
+	// vertex, and the part would rest on one end and rock end over end.
+	// Points outside the band only fill places the band leaves empty.
+	band := minSep + math.Max(tieD, contactBand*ext)
+	inBand := func(i int) bool { return pts[i].sep <= band }
+	all := func(int) bool { return true }
 	x0, y0 := proj(i0)
 	i1, best := -1, 0.0
-	for i := range pts {
-		if i == i0 {
-			continue
+	for _, ok := range [2]func(int) bool{inBand, all} {
+		for i := range pts {
+			if i == i0 || !ok(i) {
+				continue
+			}
+			x, y := proj(i)
+			if dd := (x-x0)*(x-x0) + (y-y0)*(y-y0); better(i, dd, i1, best) {
+				i1, best = i, dd
+			}
 		}
-		x, y := proj(i)
-		if dd := (x-x0)*(x-x0) + (y-y0)*(y-y0); better(i, dd, i1, best) {
-			i1, best = i, dd
+		if i1 >= 0 {
+			break
 		}
 	}
 	sel = append(sel, i1)
 	x1, y1 := proj(i1)
 	i2, sign := -1, 1.0
 	best = 0
-	for i := range pts {
-		if i == i0 || i == i1 {
-			continue
+	for _, ok := range [2]func(int) bool{inBand, all} {
+		for i := range pts {
+			if i == i0 || i == i1 || !ok(i) {
+				continue
+			}
+			x, y := proj(i)
+			a := cross2(x1-x0, y1-y0, x-x0, y-y0)
+			if better(i, math.Abs(a), i2, best) {
+				i2, best, sign = i, math.Abs(a), sgn(a)
+			}
 		}
-		x, y := proj(i)
-		a := cross2(x1-x0, y1-y0, x-x0, y-y0)
-		if better(i, math.Abs(a), i2, best) {
-			i2, best, sign = i, math.Abs(a), sgn(a)
+		if best > tieA {
+			break
 		}
 	}
 	if best <= tieA {
@@ -367,15 +388,20 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	// The fourth point adds the most area outside the triangle.
 	i3 := -1
 	best = 0
-	for i := range pts {
-		if i == i0 || i == i1 || i == i2 {
-			continue
+	for _, ok := range [2]func(int) bool{inBand, all} {
+		for i := range pts {
+			if i == i0 || i == i1 || i == i2 || !ok(i) {
+				continue
+			}
+			x, y := proj(i)
+			add := math.Max(-sign*cross2(x1-x0, y1-y0, x-x0, y-y0),
+				math.Max(-sign*cross2(x2-x1, y2-y1, x-x1, y-y1), -sign*cross2(x0-x2, y0-y2, x-x2, y-y2)))
+			if add > tieA && better(i, add, i3, best) {
+				i3, best = i, add
+			}
 		}
-		x, y := proj(i)
-		add := math.Max(-sign*cross2(x1-x0, y1-y0, x-x0, y-y0),
-			math.Max(-sign*cross2(x2-x1, y2-y1, x-x1, y-y1), -sign*cross2(x0-x2, y0-y2, x-x2, y-y2)))
-		if add > tieA && better(i, add, i3, best) {
-			i3, best = i, add
+		if i3 >= 0 {
+			break
 		}
 	}
 	if i3 >= 0 {
@@ -383,3 +409,9 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	}
 	return sel
 }
+
+// contactBand is the depth, as a fraction of the patch's extent, within
+// which candidate points count as carrying the contact in reduce: far
+// below the sag of a faceted round part's neighbouring facets (about 1
+// percent of its length for 32 facets), far above rounding.
+const contactBand = 1e-3
