@@ -86,6 +86,8 @@ type Solver struct {
 	// prevPts (-1 if none).
 	byKey, keyTmp []keyIndex
 	rank, match   []int32
+
+	patches patchState // patch friction (twist.go)
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -123,12 +125,19 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 	if err := check(bodies, points, rows); err != nil {
 		return rep, err
 	}
+	if err := checkPatches(points); err != nil { // patch friction (twist.go)
+		return rep, err
+	}
 	s.prepare(dt, bodies, points, rows)
+	s.preparePatches(bodies, points) // twist.go
 	s.warmStart(dt, bodies, points, rows)
+	s.warmPatches(dt, bodies, points) // twist.go
 	s.classify(bodies, points)
+	s.classifyPatches(bodies, points) // twist.go
 	s.impacts(dt, bodies, points, &rep)
 	s.velocities(bodies, points, rows, &rep)
 	s.store(dt, bodies, points, rows, &rep)
+	s.storePatches(bodies, points) // twist.go
 	s.positions(dt, bodies, points, rows)
 	return rep, nil
 }
@@ -587,6 +596,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					d, _ := s.solveFriction(bodies, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
 					res = max(res, d)
 				}
+				res = max(res, s.impactPatches(bodies, g, it == 0)) // twist.go
 				if res <= tol {
 					break
 				}
@@ -656,6 +666,7 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 				for i := lo; i < hi; i++ {
 					res = max(res, s.solvePoint(bodies, i))
 				}
+				res = max(res, s.solveGroupPatches(bodies, g)) // twist.go
 				if first < 0 {
 					first = res
 				}
@@ -671,9 +682,7 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 			r := &s.rows[3*n+j]
 			res = max(res, solveScalar(bodies, r, r.target, r.lo, r.hi, &r.lambda))
 		}
-		for i := 0; i < n; i++ {
-			res = max(res, s.solvePoint(bodies, i))
-		}
+		res = max(res, s.sweepPoints(bodies)) // points and patches (twist.go)
 		rep.Iterations++
 		rep.Residual = res
 		if res <= s.Settings.Tolerance {

@@ -156,6 +156,8 @@ func (w *World) collide(dt float64) {
 					StaticFriction: coef.StaticFriction,
 					Restitution:    coef.Restitution,
 					Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
+					PatchCenter:    mf.PatchCenter, // patch friction (contact/twist.go)
+					PatchRadius:    mf.PatchRadius,
 				})
 				c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
 			}

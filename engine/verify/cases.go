@@ -138,7 +138,7 @@ func Cases() []Case {
 			Why: "as the SI case: the stopping step and first contact; unit conversion adds only rounding",
 			Run: sceneSlide,
 		},
-	}, mechanismCases()...)
+	}, append(mechanismCases(), twistCases()...)...)
 }
 
 // floorWorld returns a world with a static floor z = 0 of material m, and
