@@ -8,9 +8,10 @@ import (
 
 // The contact patch of a manifold: the region where the shapes touch, which
 // the solver needs for friction against twisting (package contact, twist.go).
-// It is the convex hull of the candidate points that lie as deep as the
-// deepest (within patchDepthTol of the patch's extent), before reduction to
-// four points, so that a hull face gives its whole polygon. A cylinder cap
+// It is the convex hull of the candidate points that touch, before the
+// reduction to four points, so that a hull face gives its whole polygon: the
+// points that penetrate, and those within patchDepthTol of the patch's
+// extent of the deepest (a patch of points all still apart, as a part lands). A cylinder cap
 // lying flat is a disc, not the polygon of its rim points.
 //
 // Its effective friction radius is the mean distance from the centroid over
@@ -29,10 +30,9 @@ import (
 // integrals). A square of side a gives a (sqrt 2 + ln(1 + sqrt 2)) / 6.
 
 // patchDepthTol: candidates less than this fraction of the patch's extent
-// above the deepest count as touching. A face tilted by less than a
-// milliradian rests on all of it; resting contacts differ in depth by far
-// less (rounding and the solver's slop spread, measured below 1e-6 of the
-// size), and a rocking part tilts by more within a step or two.
+// above the deepest count as touching even if they are apart. A face tilted
+// by less than a milliradian lands on all of it; a part tipping onto an
+// edge tilts by more within a step or two.
 const patchDepthTol = 1e-3
 
 // discHint marks that the candidates may be the rim points of a cylinder
@@ -50,25 +50,22 @@ type pt2 struct{ x, y float64 }
 func (d *Detector) patch(n vec3) (vec3, float64) {
 	hint := d.disc
 	d.disc = discHint{}
-	if len(d.cand) == 0 {
+	switch len(d.cand) {
+	case 0:
 		return vec3{}, 0
+	case 1:
+		return d.cand[0].p, 0
 	}
 	u := perpendicular(n)
 	v := n.Cross(u)
 	minSep := math.Inf(1)
-	var mx, my float64
+	x0, x1, y0, y1 := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	for _, c := range d.cand {
-		minSep = math.Min(minSep, c.sep)
-		mx += c.p.Dot(u)
-		my += c.p.Dot(v)
+		x, y := c.p.Dot(u), c.p.Dot(v)
+		minSep = min(minSep, c.sep)
+		x0, x1, y0, y1 = min(x0, x), max(x1, x), min(y0, y), max(y1, y)
 	}
-	mx /= float64(len(d.cand))
-	my /= float64(len(d.cand))
-	ext := 0.0
-	for _, c := range d.cand {
-		ext = math.Max(ext, math.Hypot(c.p.Dot(u)-mx, c.p.Dot(v)-my))
-	}
-	lim := math.Max(minSep+patchDepthTol*ext, 0)
+	lim := max(minSep+patchDepthTol*max(x1-x0, y1-y0), 0)
 	pts := d.patchPts[:0]
 	var cx, cy, cz float64
 	for _, c := range d.cand {
@@ -96,7 +93,7 @@ func (d *Detector) patch(n vec3) (vec3, float64) {
 		return at(hull[0].x, hull[0].y), 0
 	case 2:
 		a, b := hull[0], hull[1]
-		return at(0.5*(a.x+b.x), 0.5*(a.y+b.y)), 0.25 * math.Hypot(b.x-a.x, b.y-a.y)
+		return at(0.5*(a.x+b.x), 0.5*(a.y+b.y)), 0.25 * math.Sqrt((b.x-a.x)*(b.x-a.x)+(b.y-a.y)*(b.y-a.y))
 	}
 	gx, gy, r := polygonPatch(hull)
 	return at(gx, gy), r
@@ -106,7 +103,7 @@ func (d *Detector) patch(n vec3) (vec3, float64) {
 // (cx, cy), to rounding.
 func onCircle(pts []pt2, cx, cy, r float64) bool {
 	for _, p := range pts {
-		if math.Abs(math.Hypot(p.x-cx, p.y-cy)-r) > 1e-6*r {
+		if d2 := (p.x-cx)*(p.x-cx) + (p.y-cy)*(p.y-cy); math.Abs(d2-r*r) > 2e-6*r*r {
 			return false
 		}
 	}
@@ -118,6 +115,15 @@ func onCircle(pts []pt2, cx, cy, r float64) bool {
 // efficient algorithm for convex hulls in two dimensions", IPL 9(5), 1979.
 // It sorts pts in place.
 func convexHull2(pts []pt2, dst []pt2) []pt2 {
+	if len(pts) == 3 { // a triangle needs only its orientation
+		a, b, c := pts[0], pts[1], pts[2]
+		switch t := cross2(b.x-a.x, b.y-a.y, c.x-a.x, c.y-a.y); {
+		case t > 0:
+			return append(dst, a, b, c)
+		case t < 0:
+			return append(dst, a, c, b)
+		}
+	}
 	slices.SortFunc(pts, func(a, b pt2) int {
 		if c := cmp.Compare(a.x, b.x); c != 0 {
 			return c
@@ -168,7 +174,7 @@ func polygonPatch(h []pt2) (gx, gy, r float64) {
 	for i := range h {
 		p, q := h[i], h[(i+1)%len(h)]
 		ex, ey := q.x-p.x, q.y-p.y
-		l := math.Hypot(ex, ey)
+		l := math.Sqrt(ex*ex + ey*ey)
 		if l == 0 {
 			continue
 		}
@@ -179,9 +185,21 @@ func polygonPatch(h []pt2) (gx, gy, r float64) {
 			continue
 		}
 		s0 := px*ex + py*ey // along the edge from the foot of the perpendicular
-		s1 := s0 + l
-		f := func(s float64) float64 { return hh*s*math.Hypot(hh, s) + hh*hh*hh*math.Asinh(s/hh) }
-		sum += (f(s1) - f(s0)) / 6
+		sum += (edgeMoment(hh, s0+l) - edgeMoment(hh, s0)) / 6
 	}
 	return gx, gy, sum / area
+}
+
+// edgeMoment is h s sqrt(h^2+s^2) + h^3 asinh(s/h), with asinh(s/h) =
+// ln((s + R)/h), R = sqrt(h^2+s^2), written as -ln((R - s)/h) for s < 0
+// where s + R would cancel.
+func edgeMoment(h, s float64) float64 {
+	r := math.Sqrt(h*h + s*s)
+	var as float64
+	if s >= 0 {
+		as = math.Log((s + r) / h)
+	} else {
+		as = -math.Log((r - s) / h)
+	}
+	return h*s*r + h*h*h*as
 }

@@ -200,3 +200,26 @@ func TestDiscSlidesAndSpins(t *testing.T) {
 		})
 	}
 }
+
+// tolPointSpin: a ball spinning about the vertical on one point keeps its
+// spin; friction at a point that does not slip is zero, so only rounding
+// changes it.
+const tolPointSpin = 1e-9
+
+func TestBallSpinsOnAPoint(t *testing.T) {
+	// A point contact transmits no moment about its normal (rigid ball on a
+	// plane; any dynamics text): the spin about the vertical is kept, where a
+	// patch model with a radius would stop it.
+	for _, dt := range []float64{1e-3, 1.0 / 60} {
+		cfg := DefaultConfig()
+		cfg.NoSleep = true
+		w, mat := floorWorld(t, cfg, 0, Material{Friction: 0.5})
+		const r, om = 0.05, 20.0
+		id := mustAdd(t, w, BodyDef{Name: "ball", Shape: shapes.Sphere{Radius: r}, Density: 1000, Material: mat,
+			Position: shapes.Vec3{0, 0, r}, Spin: shapes.Vec3{0, 0, om}})
+		run(t, w, dt, 1, nil)
+		if s := w.Spin(id); math.Abs(s[2]-om) > tolPointSpin*om || math.Hypot(s[0], s[1]) > tolPointSpin*om {
+			t.Errorf("dt %.4g s: spin %v rad/s after 1 s, want (0, 0, %g)", dt, s, om)
+		}
+	}
+}
