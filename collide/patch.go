@@ -185,21 +185,24 @@ func polygonPatch(h []pt2) (gx, gy, r float64) {
 			continue
 		}
 		s0 := px*ex + py*ey // along the edge from the foot of the perpendicular
-		sum += (edgeMoment(hh, s0+l) - edgeMoment(hh, s0)) / 6
+		sum += edgeMoment(hh, s0, s0+l) / 6
 	}
 	return gx, gy, sum / area
 }
 
-// edgeMoment is h s sqrt(h^2+s^2) + h^3 asinh(s/h), with asinh(s/h) =
-// ln((s + R)/h), R = sqrt(h^2+s^2), written as -ln((R - s)/h) for s < 0
-// where s + R would cancel.
-func edgeMoment(h, s float64) float64 {
-	r := math.Sqrt(h*h + s*s)
+// edgeMoment is F(s1) - F(s0) for F(s) = h s R + h^3 asinh(s/h), R =
+// sqrt(h^2+s^2), with the two asinh in one logarithm: asinh(s/h) = ln((s +
+// R)/h), and ln(h/(R - s)) for s < 0 where s + R would cancel.
+func edgeMoment(h, s0, s1 float64) float64 {
+	r0, r1 := math.Sqrt(h*h+s0*s0), math.Sqrt(h*h+s1*s1)
 	var as float64
-	if s >= 0 {
-		as = math.Log((s + r) / h)
-	} else {
-		as = -math.Log((r - s) / h)
+	switch {
+	case s0 >= 0: // both ends past the foot (s1 > s0)
+		as = math.Log((s1 + r1) / (s0 + r0))
+	case s1 <= 0: // both ends before it
+		as = math.Log((r0 - s0) / (r1 - s1))
+	default:
+		as = math.Log((s1 + r1) * (r0 - s0) / (h * h))
 	}
-	return h*s*r + h*h*h*as
+	return h*(s1*r1-s0*r0) + h*h*h*as
 }
