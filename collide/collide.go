@@ -32,6 +32,12 @@ type Manifold struct {
 	// smallest triangle index, so that it keeps its name while a part
 	// slides across the tessellation.
 	SubA, SubB int32
+	// PatchCenter (world) and PatchRadius describe the contact patch the
+	// points sample: its centre and its effective friction radius, the mean
+	// distance from the centre over the patch (patch.go); PatchRadius is 0
+	// for a point contact.
+	PatchCenter shapes.Vec3
+	PatchRadius float64
 }
 
 // Stats counts the queries of a Detector, how often the iterative
@@ -75,6 +81,10 @@ type Detector struct {
 	capStamp uint32
 	capWalk  []int32
 	restFace []candPoint // keepRestingPatch's points of the resting face
+
+	// The contact patch (patch.go): a cylinder cap hint and scratch points.
+	disc                discHint
+	patchPts, patchHull []pt2
 
 	cache   pairCache
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
@@ -251,8 +261,9 @@ func (d *Detector) emit(dst []Manifold, f frame, n vec3, subA, subB int32) []Man
 	if len(d.cand) == 0 {
 		return dst
 	}
+	pc, pr := d.patch(n) // from all the candidates, before reduce keeps four
+	m := Manifold{Normal: mul(f.rot, n), SubA: subA, SubB: subB, PatchCenter: f.pos.Add(mul(f.rot, pc)), PatchRadius: pr}
 	sel := d.reduce(d.cand, n)
-	m := Manifold{Normal: mul(f.rot, n), SubA: subA, SubB: subB}
 	for _, i := range sel {
 		c := d.cand[i]
 		m.Points[m.Count] = Point{Position: f.pos.Add(mul(f.rot, c.p)), Separation: c.sep, ID: c.id}

@@ -11,8 +11,11 @@
 // points, each with its signed separation (negative when penetrating,
 // positive up to margin for speculative contacts of shapes still apart) and
 // a feature id that stays the same while the same features touch, so that
-// impulses carry over between steps. A Detector keeps scratch buffers and
-// allocates nothing once they have grown; use one per world.
+// impulses carry over between steps. A manifold also describes the contact
+// patch that its points sample, its centre and effective friction radius, from
+// all the touching candidates before the reduction to four (patch.go), for
+// friction against twisting. A Detector keeps scratch buffers and allocates
+// nothing once they have grown; use one per world.
 //
 // A world that queries the same pairs step after step calls
 //

@@ -193,6 +193,12 @@ func (d *Detector) featureContact(a, b *view, r nearest, margin float64) vec3 {
 			d.parallelSegments(fa, fb, n, margin)
 		}
 	}
+	switch { // a cylinder cap lying on a face is a disc (patch.go)
+	case a.kind == kCylinder && fa.polygon():
+		d.disc = discHint{r: a.cylR, n: len(fa.pts)}
+	case b.kind == kCylinder && fb.polygon():
+		d.disc = discHint{r: b.cylR, n: len(fb.pts)}
+	}
 	if len(d.cand) == 0 {
 		n = r.n
 		if !fa.set && !fb.set && len(fa.pts) <= 2 && len(fb.pts) <= 2 && !refA && !refB {

@@ -36,6 +36,7 @@ func (d *Detector) pair(a, b *view, margin float64) (vec3, bool) {
 
 func (d *Detector) pairOrdered(a, b *view, margin float64) (vec3, bool) {
 	d.cand = d.cand[:0]
+	d.disc = discHint{}
 	switch a.kind {
 	case kSphere:
 		switch b.kind {

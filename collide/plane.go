@@ -31,6 +31,7 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 	}
 	dw := nw.Dot(fp.pos.Add(mul(fp.rot, pl.Normal.Mul(pl.Offset))))
 	d.cand = d.cand[:0]
+	d.disc = discHint{}
 	add := func(p vec3, id uint32) {
 		sep := nw.Dot(p) - dw
 		if sep <= margin {
@@ -93,6 +94,7 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 			u, mode = col(v.rot, 0), 8
 		}
 		w := ax.Cross(u)
+		d.disc = discHint{r: v.cylR, n: 4} // a cap lying flat is a disc (patch.go)
 		for cp := 0; cp < 2; cp++ {
 			center := v.pos.Add(ax.Mul(v.half[2] * float64(1-2*cp)))
 			for k := 0; k < 4; k++ {

@@ -58,7 +58,10 @@ type blockState struct {
 	v0, x  []float64
 	active []bool
 	sub    []int32
-	rowIdx []int32   // the rows of the system, indices into Solver.rows
+	rows   []*row    // the rows of the system: normal rows (in idx order), then friction rows
+	kind   []rowKind // what each row of the system is
+	of     []int32   // a tangent row's normal row; a patch row's first normal row
+	cnt    []int32   // a patch row's number of normal rows
 	root   []int32   // island root of each point
 	excess []float64 // per island root: the last sweep's largest excess (velocities)
 }
@@ -161,7 +164,9 @@ func (s *Solver) blockSolve(bodies []Body, pseudo, final bool) {
 		case final && b.excess[r] <= s.Settings.Tolerance:
 			continue
 		}
-		s.solveIsland(bodies, idx, pseudo, final)
+		if !s.solveIsland(bodies, idx, pseudo, final) && final {
+			s.settlePatches(bodies, idx) // twist.go
+		}
 	}
 }
 
@@ -195,13 +200,21 @@ func coupling(q, p *row) float64 {
 // velocities only) the tangent rows of pressing points join the system as
 // sticking rows; that solution is taken only if every friction impulse
 // lies in its cone, else the normal rows are solved alone.
-func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo, final bool) {
+//
+// A point of a contact patch (twist.go) has no friction rows of its own:
+// the patch's three rows (two tangents and the twist) join the system in
+// their place, and its sticking solution is taken only if it lies inside
+// the patch's limit surface, so the direct solve and the sweeps bound the
+// same friction the same way.
+// It reports whether the friction rows were solved too.
+func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo, final bool) bool {
 	if !pseudo && len(idx) <= maxFrictionBlock && (final || s.massRatio(bodies, idx) > blockFrictionRatio) {
 		if s.solveRows(bodies, idx, false, true) {
-			return
+			return true
 		}
 	}
 	s.solveRows(bodies, idx, pseudo, false)
+	return false
 }
 
 // massRatio is the ratio of the largest to the smallest inverse mass of the
@@ -239,24 +252,15 @@ const maxFrictionBlock = 64
 // reports whether it applied them.
 func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 	b := &s.blk
-	per := 1
-	if fric {
-		per = 3
-	}
-	n := per * len(idx)
+	s.systemRows(idx, fric)
+	n, nn := len(b.rows), len(idx)
 	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
-	b.rowIdx = grow(b.rowIdx, n)
-	for k, pi := range idx {
-		for r := 0; r < per; r++ {
-			b.rowIdx[per*k+r] = 3*pi + int32(r)
-		}
-	}
 	shift := 0.0
 	for i := 0; i < n; i++ {
-		ri := &s.rows[b.rowIdx[i]]
+		ri := b.rows[i]
 		for j := 0; j <= i; j++ {
-			c := coupling(&s.rows[b.rowIdx[j]], ri)
+			c := coupling(b.rows[j], ri)
 			b.a[i*n+j], b.a[j*n+i] = c, c
 		}
 		shift = max(shift, b.a[i*n+i])
@@ -266,18 +270,17 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 		if pseudo {
 			return &s.pts[idx[i]].pN
 		}
-		return &s.rows[b.rowIdx[i]].lambda
+		return &b.rows[i].lambda
 	}
 	target := func(i int) float64 {
 		if pseudo {
 			return s.pts[idx[i]].pTarget
 		}
-		return s.rows[b.rowIdx[i]].target
+		return b.rows[i].target
 	}
-	normal := func(i int) bool { return i%per == 0 }
 	// v0: each row's velocity without its island's impulses.
 	for i := 0; i < n; i++ {
-		r := &s.rows[b.rowIdx[i]]
+		r := b.rows[i]
 		v := r.cdot(bodies)
 		if pseudo {
 			v = r.cdotPseudo(bodies)
@@ -287,12 +290,10 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 		}
 		b.v0[i] = v
 	}
-	for i := 0; i < n; i += per {
-		on := *lambda(i) > 0
-		for r := 0; r < per; r++ {
-			b.active[i+r] = on
-		}
+	for i := 0; i < nn; i++ {
+		b.active[i] = *lambda(i) > 0
 	}
+	b.follow()
 	tol := s.Settings.Tolerance + 1e-12
 	done := false
 	for it := 0; it < maxPivots; it++ {
@@ -300,18 +301,17 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 			return false // not positive definite: leave the impulses to the sweeps
 		}
 		worst, wv := -1, 0.0
-		for i := 0; i < n; i += per {
+		for i := 0; i < nn; i++ {
 			if b.active[i] && b.x[i] < 0 {
-				for r := 0; r < per; r++ {
-					b.active[i+r] = false
-				}
+				b.active[i] = false
 				worst = i
 			}
 		}
 		if worst >= 0 {
+			b.follow()
 			continue
 		}
-		for i := 0; i < n; i += per {
+		for i := 0; i < nn; i++ {
 			if b.active[i] {
 				continue
 			}
@@ -327,9 +327,8 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 			done = true
 			break
 		}
-		for r := 0; r < per; r++ {
-			b.active[worst+r] = true
-		}
+		b.active[worst] = true
+		b.follow()
 	}
 	if !done {
 		return false // contacts still opening and closing: the sweeps' business
@@ -346,16 +345,12 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 	if big > blockConsistent*rhs {
 		return false
 	}
-	if fric {
-		for i := 0; i < n; i += 3 {
-			if math.Hypot(b.x[i+1], b.x[i+2]) > s.pts[idx[i/3]].mu*max(b.x[i], 0) {
-				return false // some contact slides: the sweeps' business
-			}
-		}
+	if fric && !s.sticks(idx) {
+		return false // some contact slides: the sweeps' business
 	}
 	for i := 0; i < n; i++ {
 		x := b.x[i]
-		if normal(i) {
+		if i < nn {
 			x = max(x, 0)
 		}
 		l := lambda(i)
@@ -365,9 +360,9 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 		}
 		*l += d
 		if pseudo {
-			s.rows[b.rowIdx[i]].applyPseudo(bodies, d)
+			b.rows[i].applyPseudo(bodies, d)
 		} else {
-			s.rows[b.rowIdx[i]].apply(bodies, d)
+			b.rows[i].apply(bodies, d)
 		}
 	}
 	return true

@@ -16,6 +16,12 @@
 // the disk |f_t| <= mu f_n. Joints come in as extra rows (Row) and share the
 // same iterations.
 //
+// The points of a face or edge contact that carry a patch (Point.PatchCenter,
+// Point.PatchRadius) leave their tangent rows to the patch: two tangents at
+// the patch centre and a twist about the normal, bounded together by the
+// ellipsoidal limit surface (f_t/(mu N))^2 + (tau/(mu N r))^2 <= 1, so that a
+// face resists spinning with the lever arm of uniform pressure (twist.go).
+//
 // # One step
 //
 // Solve runs, in order:

@@ -41,6 +41,7 @@ type pstate struct {
 	inv11, inv12, inv22 float64 // inverse of the 2x2 friction block, zero if singular
 	miso                float64 // 1 / largest eigenvalue of the friction block
 	found, sat          bool
+	patch               int32   // 1 + index of the patch that carries its friction, 0 if none (twist.go)
 	prevSliding         bool    // last step used the kinetic coefficient
 	prevSlips           uint8   // consecutive steps that ended at the cone's limit and slipping
 	active              bool    // takes part in the current impact processing
@@ -103,6 +104,8 @@ type Solver struct {
 	claimed                 []bool
 
 	blk blockState // block.go
+
+	patches patchState // patch friction (twist.go)
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -146,17 +149,24 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 	if err := check(bodies, points, rows); err != nil {
 		return rep, err
 	}
+	if err := checkPatches(points); err != nil { // patch friction (twist.go)
+		return rep, err
+	}
 	s.prepare(dt, bodies, points, rows)
 	s.matchPoints(points)
+	s.preparePatches(bodies, points) // twist.go
 	// Sticking or sliding, and the impacts, are judged on the motion the
 	// bodies arrived with: this step's forces are taken out meanwhile.
 	addForces(bodies, -1)
 	s.classify(bodies, points)
+	s.classifyPatches(bodies, points) // twist.go
 	s.impacts(dt, bodies, points, &rep)
 	addForces(bodies, 1)
 	s.warmStart(dt, bodies, points, rows)
+	s.warmPatches(dt, bodies, points) // twist.go
 	s.velocities(bodies, points, rows, &rep)
 	s.store(dt, bodies, points, rows, &rep)
+	s.storePatches(bodies, points) // twist.go
 	s.positions(dt, bodies, points, rows)
 	return rep, nil
 }
@@ -651,6 +661,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					d, _ := s.solveFriction(bodies, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
 					res = max(res, d)
 				}
+				res = max(res, s.impactPatches(bodies, g, it == 0)) // twist.go
 				if res <= tol {
 					break
 				}
@@ -720,6 +731,7 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 				for i := lo; i < hi; i++ {
 					res = max(res, s.solvePoint(bodies, i))
 				}
+				res = max(res, s.solveGroupPatches(bodies, g)) // twist.go
 				if first < 0 {
 					first = res
 				}
@@ -748,15 +760,9 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 		if block {
 			clear(s.blk.excess)
 		}
-		for i := 0; i < n; i++ {
-			d := s.solvePoint(bodies, i)
-			ex := d - conv*s.pointScale(i)
-			res, excess = max(res, d), max(excess, ex)
-			if block {
-				r := s.blk.root[i]
-				s.blk.excess[r] = max(s.blk.excess[r], ex)
-			}
-		}
+		// The points of each pair, then the pair's patches (twist.go).
+		r, ex := s.sweepPoints(bodies, block)
+		res, excess = max(res, r), max(excess, ex)
 		rep.Iterations++
 		rep.Residual = res
 		if excess <= s.Settings.Tolerance {

@@ -49,6 +49,17 @@ type Point struct {
 	// the tangent plane is used. Zero for ordinary contacts.
 	SurfaceVelocity shapes.Vec3
 
+	// PatchCenter and PatchRadius describe the contact patch that the points
+	// of a face or edge contact sample: its centre on the contact plane and
+	// its effective friction radius (m), the mean distance from the centre
+	// over the patch under uniform pressure (a disc of radius R: 2R/3; a
+	// segment of length L: L/4). Consecutive points of one pair with equal
+	// PatchCenter and PatchRadius > 0 form one patch, whose friction resists
+	// sliding and twisting together (twist.go). PatchRadius 0 (a point
+	// contact) leaves friction at the points.
+	PatchCenter shapes.Vec3
+	PatchRadius float64
+
 	// Key identifies the touching features of the two bodies; it must stay
 	// the same while the same features touch and be unique within a step.
 	// Impulses carry over between steps by Key (warm starting).

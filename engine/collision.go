@@ -179,6 +179,8 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 				StaticFriction: coef.StaticFriction,
 				Restitution:    coef.Restitution,
 				Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
+				PatchCenter:    mf.PatchCenter, // patch friction (contact/twist.go)
+				PatchRadius:    mf.PatchRadius,
 			})
 			c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
 		}

@@ -138,7 +138,7 @@ func Cases() []Case {
 			Why: "as the SI case: the stopping step and first contact; unit conversion adds only rounding",
 			Run: sceneSlide,
 		},
-	}, append(append(mechanismCases(), packagingCases()...), feederCases()...)...)
+	}, append(append(append(mechanismCases(), packagingCases()...), feederCases()...), twistCases()...)...)
 }
 
 // floorWorld returns a world with a static floor z = 0 of material m, and

@@ -1,0 +1,501 @@
+package contact
+
+import (
+	"fmt"
+	"math"
+)
+
+// Patch friction: the friction of a face or edge contact taken as a whole.
+//
+// The points of a manifold sample a contact patch; friction at the points
+// alone resists twisting about the normal as if the load sat where the points
+// are (a disc's rim: a lever arm R where uniform pressure gives 2R/3). A patch
+// (consecutive points of one pair with the same PatchCenter and PatchRadius >
+// 0) therefore gets its friction from three rows of its own in place of the
+// points' tangent rows: two tangents at the patch centre and one twist about
+// the normal, bounded together by the ellipsoidal approximation of the
+// patch's limit surface,
+//
+//	(|f_t| / (mu N))^2 + (tau / (mu N r))^2 <= 1,
+//
+// with N the patch's normal impulse and r its effective friction radius
+// (Goyal, Ruina and Papadopoulos, "Planar sliding with dry friction, Part 1:
+// limit surface and moment function", Wear 143, 1991; the ellipsoid as in
+// Howe and Cutkosky, "Practical force-motion models for sliding
+// manipulation", IJRR 15(6), 1996). The twist row's Jacobian is scaled by r,
+// so that its impulse is tau/r and the ellipsoid becomes the ball of radius
+// mu N in impulse space. Where the ball limits the impulse, an isotropic step
+// (as in solveFriction) settles with the impulse opposite to the generalised
+// slip (v_t, r w_n): maximal dissipation on the ellipsoid, f_t = mu N v_t / s
+// and tau = mu N r^2 w_n / s with s = |(v_t, r w_n)|.
+//
+// Memory between steps goes through the points' keys: every point of a patch
+// remembers the patch's whole friction and twist impulses, and a patch starts
+// from their mean over its points that persist, so that it keeps its warm
+// start while some of its points change their features (coincident faces of
+// a stack do so step after step). Remembering shares instead, summed over the
+// persisting points, makes the warm start jump with every change, and a
+// tower of ten boxes then rocks without end (measured).
+
+// patch is one contact patch of this step.
+type patch struct {
+	lo, hi   int32   // its points
+	r        float64 // effective friction radius (m)
+	rows     [3]row  // tangent 1, tangent 2 at the centre; twist about the normal (scaled by r)
+	inv      [6]float64
+	block    bool    // inv holds the inverse of the 3x3 block (11, 12, 13, 22, 23, 33)
+	miso     float64 // 1 / largest eigenvalue of the block
+	muS, muK float64
+	mu       float64 // this step's coefficient
+	sliding  bool
+	found    bool       // some point has a warm start
+	prevSl   bool       // sliding last step
+	prevSlip uint8      // consecutive steps that ended at the limit and slipping
+	sat      bool       // the last velocity update hit the limit surface
+	imp      [3]float64 // impulses of the current impact processing
+	impSum   [3]float64 // impact impulses summed over this step's processing
+}
+
+// patchState is the Solver's patch data, kept in one field so that the rest
+// of the Solver need not know about it.
+type patchState struct {
+	list    []patch
+	ofGroup []int32    // first patch of each pair group, then len(list)
+	mem     []patchMem // the patch impulses of each point of the last step, in key order
+}
+
+// patchMem is what a point remembers of its patch.
+type patchMem struct {
+	friction vec     // world friction impulse of the patch (N s)
+	twist    float64 // its moment impulse about the normal (N m s)
+	on       bool    // the point belonged to a patch
+}
+
+// samePatch reports whether point q continues the patch of point p.
+func samePatch(p, q *Point) bool {
+	return samePair(p, q) && p.PatchRadius == q.PatchRadius && p.PatchCenter == q.PatchCenter
+}
+
+// preparePatches finds this step's patches, sets up their rows and turns off
+// the tangent rows of their points. It runs after prepare and matchPoints.
+func (s *Solver) preparePatches(bodies []Body, points []Point) {
+	ps := &s.patches
+	ps.list = ps.list[:0]
+	ps.ofGroup = ps.ofGroup[:0]
+	for g := 0; g+1 < len(s.groups); g++ {
+		ps.ofGroup = append(ps.ofGroup, int32(len(ps.list)))
+		hi := int(s.groups[g+1])
+		for i := int(s.groups[g]); i < hi; {
+			j := i + 1
+			for j < hi && samePatch(&points[i], &points[j]) {
+				j++
+			}
+			if points[i].PatchRadius > 0 {
+				ps.list = append(ps.list, patch{lo: int32(i), hi: int32(j)})
+				pa := &ps.list[len(ps.list)-1]
+				s.setupPatch(bodies, points, pa)
+				s.matchPatch(pa)
+			}
+			i = j
+		}
+	}
+	ps.ofGroup = append(ps.ofGroup, int32(len(ps.list)))
+}
+
+// matchPatch takes pa's sliding state of last step from its first point
+// that persists (matchPoints), for classifyPatches.
+func (s *Solver) matchPatch(pa *patch) {
+	for i := pa.lo; i < pa.hi; i++ {
+		if m := s.match[i]; m >= 0 {
+			w := &s.prevPts[m]
+			pa.found, pa.prevSl, pa.prevSlip = true, w.sliding, w.slips
+			return
+		}
+	}
+}
+
+// checkPatches reports a point whose patch is not finite.
+func checkPatches(points []Point) error {
+	for i := range points {
+		p := &points[i]
+		if !finite3(p.PatchCenter) || !(p.PatchRadius >= 0) || math.IsInf(p.PatchRadius, 1) {
+			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: patch centre %v and radius %v must be finite, radius >= 0", i, p.Key, p.A, p.B, p.PatchCenter, p.PatchRadius)
+		}
+	}
+	return nil
+}
+
+// setupPatch fills the rows and the block inverse of pa.
+func (s *Solver) setupPatch(bodies []Body, points []Point, pa *patch) {
+	p := &points[pa.lo]
+	A, B := &bodies[p.A], &bodies[p.B]
+	c := p.PatchCenter
+	rA := vec{c[0] - A.Position[0], c[1] - A.Position[1], c[2] - A.Position[2]}
+	rB := vec{c[0] - B.Position[0], c[1] - B.Position[1], c[2] - B.Position[2]}
+	n := p.Normal
+	t1, t2 := tangents(n)
+	pa.r = p.PatchRadius
+	pa.rows[0].setupContact(bodies, p.A, p.B, &t1, &rA, &rB)
+	pa.rows[0].target = dot3(&t1, &p.SurfaceVelocity)
+	pa.rows[1].setupContact(bodies, p.A, p.B, &t2, &rA, &rB)
+	pa.rows[1].target = dot3(&t2, &p.SurfaceVelocity)
+	rn := n.Mul(pa.r)
+	pa.rows[2].setup(bodies, p.A, p.B, vec{}, rn.Mul(-1), vec{}, rn)
+	pa.muK = max(p.Friction, 0)
+	pa.muS = max(p.StaticFriction, pa.muK)
+
+	var k [6]float64 // the block J M^-1 J^T: 11, 12, 13, 22, 23, 33
+	kk := func(a, b *row) float64 {
+		return dot3(&a.linA, &b.dvA) + dot3(&a.angA, &b.dwA) + dot3(&a.linB, &b.dvB) + dot3(&a.angB, &b.dwB)
+	}
+	r := &pa.rows
+	k = [6]float64{r[0].k, kk(&r[0], &r[1]), kk(&r[0], &r[2]), r[1].k, kk(&r[1], &r[2]), r[2].k}
+	pa.inv, pa.block = invSym3(k)
+	if l := maxEigSym3(k); l > 0 {
+		pa.miso = 1 / l
+	}
+	for i := pa.lo; i < pa.hi; i++ {
+		q := &s.pts[i]
+		q.inv11, q.inv12, q.inv22 = 0, 0, 0  // the patch carries the friction
+		q.patch = int32(len(s.patches.list)) // pa is the list's last
+	}
+}
+
+// invSym3 inverts the symmetric 3x3 matrix k (11, 12, 13, 22, 23, 33) by
+// cofactors; false if it is singular to rounding.
+func invSym3(k [6]float64) ([6]float64, bool) {
+	a, b, c, d, e, f := k[0], k[1], k[2], k[3], k[4], k[5]
+	c11, c12, c13 := d*f-e*e, c*e-b*f, b*e-c*d
+	c22, c23, c33 := a*f-c*c, b*c-a*e, a*d-b*b
+	det := a*c11 + b*c12 + c*c13
+	if !(det > 1e-12*a*d*f) {
+		return [6]float64{}, false
+	}
+	return [6]float64{c11 / det, c12 / det, c13 / det, c22 / det, c23 / det, c33 / det}, true
+}
+
+// maxEigSym3 is the largest eigenvalue of the symmetric 3x3 matrix k, in
+// closed form: O. K. Smith, "Eigenvalues of a symmetric 3 x 3 matrix",
+// CACM 4(4), 1961.
+func maxEigSym3(k [6]float64) float64 {
+	a, b, c, d, e, f := k[0], k[1], k[2], k[3], k[4], k[5]
+	q := (a + d + f) / 3
+	p1 := b*b + c*c + e*e
+	p2 := (a-q)*(a-q) + (d-q)*(d-q) + (f-q)*(f-q) + 2*p1
+	if p2 <= 1e-30*q*q {
+		return q
+	}
+	p := math.Sqrt(p2 / 6)
+	// det((k - q I) / p) / 2
+	ba, bd, bf := (a-q)/p, (d-q)/p, (f-q)/p
+	bb, bc, be := b/p, c/p, e/p
+	h := 0.5 * (ba*(bd*bf-be*be) - bb*(bb*bf-be*bc) + bc*(bb*be-bd*bc))
+	phi := math.Acos(min(max(h, -1), 1)) / 3
+	return q + 2*p*math.Cos(phi)
+}
+
+// normalSum is the patch's accumulated normal impulse in the velocity solve.
+func (s *Solver) normalSum(pa *patch) float64 {
+	n := 0.0
+	for i := pa.lo; i < pa.hi; i++ {
+		n += s.rows[3*i].lambda
+	}
+	return n
+}
+
+// solvePatch is one update of the patch's three friction rows with
+// accumulators l inside the ball of radius bound: the block step if it stays
+// inside, else the isotropic step projected radially (see the file comment).
+// It returns the largest velocity change and whether the ball limited it.
+func solvePatch(bodies []Body, pa *patch, bound float64, l *[3]float64) (float64, bool) {
+	r := &pa.rows
+	if pa.miso == 0 {
+		return 0, false
+	}
+	A, B := &bodies[r[0].a], &bodies[r[0].b]
+	var e [3]float64
+	for k := range r {
+		e[k] = r[k].target - (dot3(&r[k].linA, &A.V) + dot3(&r[k].angA, &A.W) + dot3(&r[k].linB, &B.V) + dot3(&r[k].angB, &B.W))
+	}
+	var nl [3]float64
+	in := pa.inv
+	ok := pa.block
+	if ok {
+		nl[0] = l[0] + in[0]*e[0] + in[1]*e[1] + in[2]*e[2]
+		nl[1] = l[1] + in[1]*e[0] + in[3]*e[1] + in[4]*e[2]
+		nl[2] = l[2] + in[2]*e[0] + in[4]*e[1] + in[5]*e[2]
+		ok = nl[0]*nl[0]+nl[1]*nl[1]+nl[2]*nl[2] <= bound*bound
+	}
+	clamped := false
+	if !ok {
+		clamped = true
+		for k := range nl {
+			nl[k] = l[k] + pa.miso*e[k]
+		}
+		if m2 := nl[0]*nl[0] + nl[1]*nl[1] + nl[2]*nl[2]; m2 > bound*bound {
+			f := 0.0
+			if bound > 0 {
+				f = bound / math.Sqrt(m2)
+			}
+			nl = [3]float64{nl[0] * f, nl[1] * f, nl[2] * f}
+		}
+	}
+	res := 0.0
+	for k := range r {
+		d := nl[k] - l[k]
+		if d == 0 {
+			continue
+		}
+		l[k] = nl[k]
+		addScaled(&A.V, &r[k].dvA, d)
+		addScaled(&A.W, &r[k].dwA, d)
+		addScaled(&B.V, &r[k].dvB, d)
+		addScaled(&B.W, &r[k].dwB, d)
+		res = max(res, math.Abs(d)*r[k].k)
+	}
+	return res, clamped
+}
+
+// lambdas returns the velocity-solve accumulators of pa's rows.
+func (pa *patch) lambdas() [3]float64 {
+	return [3]float64{pa.rows[0].lambda, pa.rows[1].lambda, pa.rows[2].lambda}
+}
+
+// solvePatchVel is one velocity-solve update of pa.
+func (s *Solver) solvePatchVel(bodies []Body, pa *patch) float64 {
+	bound := pa.mu * s.normalSum(pa)
+	l := pa.lambdas()
+	d, clamped := solvePatch(bodies, pa, bound, &l)
+	pa.rows[0].lambda, pa.rows[1].lambda, pa.rows[2].lambda = l[0], l[1], l[2]
+	pa.sat = clamped && bound > 0
+	return d
+}
+
+// sweepPoints is one velocity-solve sweep over the points and patches: the
+// points of each pair, then the pair's patches, so that a patch's friction
+// is solved right after its normal rows, as a point's is (solvePoint).
+// Solving all patches after all points instead lets the normal impulses of
+// a whole stack change between a patch's updates, and a pyramid of boxes
+// then slips while it settles (measured: 1.9 mm against 0.04 mm).
+//
+// It returns the sweep's largest velocity change and largest excess over
+// Convergence times the velocity change of the accumulated impulses (a
+// point's by pointScale, a patch's by patchScale); with block it also
+// records each island's largest excess for blockSolve.
+func (s *Solver) sweepPoints(bodies []Body, block bool) (res, excess float64) {
+	conv := s.Settings.Convergence
+	note := func(d, ex float64, root int32) {
+		res, excess = max(res, d), max(excess, ex)
+		if block {
+			s.blk.excess[root] = max(s.blk.excess[root], ex)
+		}
+	}
+	ps := &s.patches
+	for g := 0; g+1 < len(s.groups); g++ {
+		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
+			d := s.solvePoint(bodies, i)
+			note(d, d-conv*s.pointScale(i), s.pointRootOf(i, block))
+		}
+		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
+			pa := &ps.list[k]
+			d := s.solvePatchVel(bodies, pa)
+			note(d, d-conv*pa.scale(), s.pointRootOf(int(pa.lo), block))
+		}
+	}
+	return res, excess
+}
+
+// pointRootOf is point i's island root when the block solve is on.
+func (s *Solver) pointRootOf(i int, block bool) int32 {
+	if !block {
+		return 0
+	}
+	return s.blk.root[i]
+}
+
+// scale is the largest velocity change that one of pa's rows makes with its
+// accumulated impulse (as pointScale for a point).
+func (pa *patch) scale() float64 {
+	r := &pa.rows
+	return max(math.Abs(r[0].lambda)*r[0].k, math.Abs(r[1].lambda)*r[1].k, math.Abs(r[2].lambda)*r[2].k)
+}
+
+// solveGroupPatches is solvePatches for the patches of pair group g.
+func (s *Solver) solveGroupPatches(bodies []Body, g int) float64 {
+	res := 0.0
+	ps := &s.patches
+	for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
+		res = max(res, s.solvePatchVel(bodies, &ps.list[k]))
+	}
+	return res
+}
+
+// settlePatches updates once more the patches among points idx, an island
+// whose normal impulses the direct solve after unconverged sweeps has just
+// replaced without friction (blockSolve), so that their friction is bounded
+// by the normal impulses the step ends with. A patch at its limit whose
+// friction lifts its own normal rows (an edge pivoting and slipping under a
+// high coefficient) makes the sweeps alternate between pressing with full
+// friction and lifting off with none; without this update a step can end
+// with the direct solve's load and the friction of the lifted-off half of
+// that cycle, none (measured: a plank slapping down on its far edge 2
+// percent too slowly, as its struck edge slid without friction).
+func (s *Solver) settlePatches(bodies []Body, idx []int32) {
+	for _, i := range idx {
+		if q := s.pts[i].patch; q > 0 && s.patches.list[q-1].lo == i {
+			s.solvePatchVel(bodies, &s.patches.list[q-1])
+		}
+	}
+}
+
+// impactPatches is one update of the patches of pair group g in the impact
+// phase, bounded by the impact's normal impulses; start resets their
+// accumulators at the start of the pair's processing.
+func (s *Solver) impactPatches(bodies []Body, g int, start bool) float64 {
+	res := 0.0
+	ps := &s.patches
+	for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
+		pa := &ps.list[k]
+		if start {
+			pa.imp = [3]float64{}
+		}
+		n := 0.0
+		for i := pa.lo; i < pa.hi; i++ {
+			if q := &s.pts[i]; q.active {
+				n += q.iN
+			}
+		}
+		old := pa.imp
+		d, _ := solvePatch(bodies, pa, pa.mu*n, &pa.imp)
+		for j := range old {
+			pa.impSum[j] += pa.imp[j] - old[j]
+		}
+		res = max(res, d)
+	}
+	return res
+}
+
+// warmPatches applies last step's patch impulses, summed over the points of
+// each patch that persist, scaled like the points' (factor f), and held in
+// the limit ball of the static coefficient. It runs after warmStart.
+func (s *Solver) warmPatches(dt float64, bodies []Body, points []Point) {
+	f := s.Settings.WarmStart
+	if s.prevDt > 0 {
+		f *= dt / s.prevDt
+	}
+	for k := range s.patches.list {
+		pa := &s.patches.list[k]
+		var fr, own vec
+		tw, cnt := 0.0, 0
+		for i := pa.lo; i < pa.hi; i++ {
+			m := s.match[i]
+			if m < 0 {
+				continue
+			}
+			w := &s.prevPts[m]
+			if int(m) < len(s.patches.mem) && s.patches.mem[m].on {
+				fr = fr.Add(s.patches.mem[m].friction)
+				tw += s.patches.mem[m].twist
+				cnt++
+			} else {
+				own = own.Add(w.friction) // a point contact last step
+			}
+		}
+		if cnt > 0 {
+			fr, tw = fr.Mul(1/float64(cnt)), tw/float64(cnt)
+		} else {
+			fr = own // the pair's point contacts became a patch: their sum
+		}
+		if !pa.found || f == 0 || pa.miso == 0 {
+			continue
+		}
+		r := &pa.rows
+		l := [3]float64{f * fr.Dot(r[0].linB), f * fr.Dot(r[1].linB), 0}
+		if pa.r > 0 {
+			l[2] = f * tw / pa.r
+		}
+		b := pa.muS * s.normalSum(pa)
+		if m := math.Sqrt(l[0]*l[0] + l[1]*l[1] + l[2]*l[2]); m > b {
+			for j := range l {
+				l[j] *= b / m
+			}
+		}
+		for j := range r {
+			r[j].lambda = l[j]
+			r[j].apply(bodies, l[j])
+		}
+	}
+}
+
+// patchSlip is the generalised slip speed |(v_t, r w_n)| of pa.
+func patchSlip(bodies []Body, pa *patch) float64 {
+	r := &pa.rows
+	a, b, c := r[0].cdot(bodies)-r[0].target, r[1].cdot(bodies)-r[1].target, r[2].cdot(bodies)-r[2].target
+	return math.Sqrt(a*a + b*b + c*c)
+}
+
+// classifyPatches picks each patch's coefficient by the rule of classify,
+// on the patch's generalised slip. It runs after classify.
+func (s *Solver) classifyPatches(bodies []Body, points []Point) {
+	for k := range s.patches.list {
+		pa := &s.patches.list[k]
+		sliding := patchSlip(bodies, pa) > s.Settings.SlipSpeed
+		if !sliding && pa.found {
+			if pa.prevSl {
+				sliding = pa.prevSlip >= 1
+			} else {
+				sliding = pa.prevSlip >= 2
+			}
+		}
+		pa.sliding = sliding
+		pa.mu = pa.muS
+		if sliding {
+			pa.mu = pa.muK
+		}
+		for i := pa.lo; i < pa.hi; i++ {
+			points[i].Sliding = sliding
+		}
+	}
+}
+
+// storePatches shares each patch's impulses out to its points (outputs and
+// memory) by normal impulse. It runs after store.
+func (s *Solver) storePatches(bodies []Body, points []Point) {
+	ps := &s.patches
+	ps.mem = grow(ps.mem, len(points))
+	clear(ps.mem)
+	for k := range ps.list {
+		pa := &ps.list[k]
+		r := &pa.rows
+		fr := r[0].linB.Mul(r[0].lambda).Add(r[1].linB.Mul(r[1].lambda))
+		tw := r[2].lambda * pa.r
+		fi := r[0].linB.Mul(pa.impSum[0]).Add(r[1].linB.Mul(pa.impSum[1]))
+		slips := uint8(0)
+		if pa.sat && patchSlip(bodies, pa) > s.Settings.CreepSpeed {
+			slips = min(pa.prevSlip, 254) + 1
+		}
+		nSum, iSum := s.normalSum(pa), 0.0
+		for i := pa.lo; i < pa.hi; i++ {
+			iSum += points[i].ImpactImpulse
+		}
+		cnt := float64(pa.hi - pa.lo)
+		for i := pa.lo; i < pa.hi; i++ {
+			p := &points[i]
+			share := 1 / cnt
+			if nSum > 0 {
+				share = s.rows[3*i].lambda / nSum
+			}
+			p.FrictionImpulse = fr.Mul(share)
+			if iSum > 0 {
+				p.ImpactFriction = p.ImpactFriction.Add(fi.Mul(p.ImpactImpulse / iSum))
+			}
+			w := &s.prevPts[s.rank[i]]
+			w.sliding, w.slips = pa.sliding, slips
+			if s.pts[i].deferred > 0 {
+				continue // no steady load (see store)
+			}
+			w.friction = fr.Mul(1 / cnt) // should the pair turn into point contacts
+			ps.mem[s.rank[i]] = patchMem{friction: fr, twist: tw, on: true}
+		}
+	}
+}
