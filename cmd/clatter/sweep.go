@@ -276,7 +276,7 @@ func sweepFailed(e *env, err error, dir string) int {
 func sweepOutcome(e *env, res *sweep.Result) int {
 	m := res.Meta
 	if m.TrialsFailed > 0 {
-		e.errorf("%d trials failed (the simulation diverged): their rows hold the last good state, and %s says why", m.TrialsFailed, filepath.Join(res.Dir, sweep.FailuresFile))
+		e.errorf("%d trials failed (their simulation stopped with an error): their rows hold the last good state, and %s says why", m.TrialsFailed, filepath.Join(res.Dir, sweep.FailuresFile))
 		return exitTrials
 	}
 	if !m.Complete {
