@@ -87,7 +87,7 @@ func (r *reader) checkStep() {
 		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name] + extra + mb.motor[b.Name] + mb.push
 		fall := g * w.Duration
 		if anyStatic && g > 0 {
-			h := math.Max(0, math.Max(up.Dot(b.Position), top)-lowest)
+			h := math.Max(0, math.Max(up.Dot(b.Position)-s.heightBelow(b, up), top)-lowest)
 			fall = math.Min(fall, math.Sqrt(2*g*h))
 		}
 		if h, held := mb.drop[b.Name]; held {
@@ -226,4 +226,54 @@ func (s *Scene) bodyUp(body string) float64 {
 		up = s.World.Gravity.Mul(-1 / g)
 	}
 	return up.Dot(s.Bodies[i].Position)
+}
+
+// heightBelow is the height, along up, taken by the moving bodies stacked
+// under body b (those whose box of bounds overlaps b's across up and whose
+// centre is lower): b cannot fall farther than onto them, so a body resting
+// on a stack, such as the top box of a tower, is not judged by a fall from
+// its whole height above the floor.
+func (s *Scene) heightBelow(b Body, up shapes.Vec3) float64 {
+	box := func(c Body) shapes.AABB {
+		return c.Shape.Bounds().Transform(shapes.Pose{Position: c.Position, Orientation: c.Orientation})
+	}
+	// Two horizontal axes: any pair perpendicular to up.
+	e1 := shapes.Vec3{1, 0, 0}
+	if math.Abs(up[0]) > 0.9 {
+		e1 = shapes.Vec3{0, 1, 0}
+	}
+	e1 = e1.Sub(up.Mul(e1.Dot(up))).Normalize()
+	e2 := up.Cross(e1)
+	span := func(bb shapes.AABB, d shapes.Vec3) (lo, hi float64) {
+		c, h := bb.Min.Add(bb.Max).Mul(0.5), bb.Max.Sub(bb.Min).Mul(0.5)
+		r := math.Abs(d[0])*h[0] + math.Abs(d[1])*h[1] + math.Abs(d[2])*h[2]
+		return d.Dot(c) - r, d.Dot(c) + r
+	}
+	bb := box(b)
+	if !finite(bb.Min) || !finite(bb.Max) {
+		return 0
+	}
+	total := 0.0
+	for _, c := range s.Bodies {
+		if c.Static || c.Name == b.Name || up.Dot(c.Position) >= up.Dot(b.Position) {
+			continue
+		}
+		cb := box(c)
+		if !finite(cb.Min) || !finite(cb.Max) {
+			continue
+		}
+		overlap := true
+		for _, d := range [2]shapes.Vec3{e1, e2} {
+			blo, bhi := span(bb, d)
+			clo, chi := span(cb, d)
+			if bhi <= clo || chi <= blo {
+				overlap = false
+			}
+		}
+		if overlap {
+			lo, hi := span(cb, up)
+			total += hi - lo
+		}
+	}
+	return total
 }
