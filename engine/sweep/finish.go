@@ -405,12 +405,7 @@ func casesCSV(m *Meta, rows []CaseRow, header string) []byte {
 	b = append(b, header...)
 	b = append(b, '\n')
 	for _, r := range rows {
-		b = strconv.AppendInt(b, r.Case, 10)
-		b = append(b, ',')
-		for _, v := range r.Values {
-			b = appendNumber(b, v)
-			b = append(b, ',')
-		}
+		b = appendCase(b, r.Case, r.Values)
 		b = append(b, csvField(r.Body)...)
 		b = append(b, ',')
 		if r.Face >= 0 {

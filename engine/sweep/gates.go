@@ -306,12 +306,7 @@ func gateCasesCSV(m *Meta, rows []GateRow) []byte {
 	b = append(b, m.gateCasesHeader()...)
 	b = append(b, '\n')
 	for _, r := range rows {
-		b = strconv.AppendInt(b, r.Case, 10)
-		b = append(b, ',')
-		for _, v := range r.Values {
-			b = appendNumber(b, v)
-			b = append(b, ',')
-		}
+		b = appendCase(b, r.Case, r.Values)
 		b = append(b, csvField(r.Gate)...)
 		b = append(b, ',')
 		b = append(b, csvField(r.Body)...)

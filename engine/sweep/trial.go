@@ -62,6 +62,18 @@ func (wk *worker) useCase(c int64) error {
 	return nil
 }
 
+// appendCase appends a row's leading "case,<varied values>," fields, as
+// cases.csv and gate-cases.csv begin.
+func appendCase(b []byte, c int64, values []float64) []byte {
+	b = strconv.AppendInt(b, c, 10)
+	b = append(b, ',')
+	for _, v := range values {
+		b = appendNumber(b, v)
+		b = append(b, ',')
+	}
+	return b
+}
+
 func appendNumber(b []byte, x float64) []byte {
 	// Twelve significant digits, as every result file (report.Tidy).
 	return strconv.AppendFloat(b, report.Tidy(x), 'g', 12, 64)
