@@ -152,16 +152,7 @@ func inspectPart(e *env, args []string) int {
 		return exitBad
 	}
 	if *asJSON {
-		b, err := report.MarshalIndent(out)
-		if err != nil {
-			e.errorf("inspect: %v", err)
-			return exitFailed
-		}
-		e.stdout.Write(b)
-		if !e.quiet {
-			fmt.Fprintln(e.stderr, safetyNote)
-		}
-		return exitOK
+		return printInspectJSON(e, out)
 	}
 	writeInspectTable(e.stdout, out, faces, density, *densityText == "")
 	return exitOK
@@ -330,4 +321,19 @@ func fmtNormal(n [3]float64) string {
 		s[i] = fmt.Sprintf("%.3f", x)
 	}
 	return strings.Join(s, ", ")
+}
+
+// printInspectJSON prints an inspection as JSON on stdout, with the caution
+// on stderr, and returns the exit code.
+func printInspectJSON(e *env, out any) int {
+	data, err := report.MarshalIndent(out)
+	if err != nil {
+		e.errorf("inspect: %v", err)
+		return exitFailed
+	}
+	e.stdout.Write(data)
+	if !e.quiet {
+		fmt.Fprintln(e.stderr, safetyNote)
+	}
+	return exitOK
 }

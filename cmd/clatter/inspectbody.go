@@ -77,16 +77,7 @@ func inspectBody(e *env, file, name string, asJSON bool) int {
 		return exitBad
 	}
 	if asJSON {
-		data, err := report.MarshalIndent(out)
-		if err != nil {
-			e.errorf("inspect: %v", err)
-			return exitFailed
-		}
-		e.stdout.Write(data)
-		if !e.quiet {
-			fmt.Fprintln(e.stderr, safetyNote)
-		}
-		return exitOK
+		return printInspectJSON(e, out)
 	}
 	writeBodyInspection(e.stdout, out)
 	return exitOK
