@@ -289,22 +289,18 @@ func (r *row) apply(bodies []Body, d float64) {
 }
 
 // arrivalSpeed is the approach speed with which a contact closing a gap sep
-// within the step arrives, for the step's integrator: the bodies approach
-// at a0 before the step's forces, which add fd to the approach in the step.
-// Semi-implicit Euler conserves H = v^2/2 + v fd/2 + x fd/dt along the
-// normal (v the velocity of a step that starts at gap x; the modified
-// energy of the symplectic Euler method, E. Hairer, C. Lubich and G.
-// Wanner, "Geometric Numerical Integration", Springer 2006, chapter IX), so
-// the arrival speed a at x = 0 solves a^2 + fd a = a0^2 + fd a0 + 2 fd sep/dt.
-// Bouncing with e times it makes an elastic bounce return exactly to its
-// height; a0 alone would lose the fall through the gap, a0 + fd gain a
-// step of gravity.
+// within the step arrives: the bodies approach at a0 before the step's
+// forces, which add fd to the approach in the step. The world integrates
+// free flight exactly (a constant acceleration fd/dt over the step), so
+// energy along the normal gives a^2 = a0^2 + 2 (fd/dt) sep. Bouncing with e
+// times it from the surface makes an elastic bounce return exactly to its
+// height; a0 alone would lose the fall through the gap.
 func arrivalSpeed(a0, fd, sep, dt float64) float64 {
-	d := fd*fd + 4*(a0*a0+fd*a0+2*fd*sep/dt)
-	if !(d > 0) || fd == 0 {
-		return a0
+	d := a0*a0 + 2*fd*sep/dt
+	if !(d > 0) {
+		return max(a0, 0)
 	}
-	return max((math.Sqrt(d)-fd)/2, 0)
+	return math.Sqrt(d)
 }
 
 // cdotForce is the row's velocity from the bodies' force velocities DV, DW.
@@ -633,10 +629,11 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				ps.active = true
 				ps.iTarget = rn.target
 				if approach > set.BounceThreshold {
-					// The bodies leave at e times the approach once this
-					// step's forces are added back: the impact takes the
-					// forces' part along the normal too.
-					ps.iTarget = ps.e*approach - rn.cdotForce(bodies)
+					// The bodies leave the surface at e times the approach,
+					// before this step's forces: those then act on the
+					// free flight that follows, which the world integrates
+					// exactly, so an elastic bounce returns to its height.
+					ps.iTarget = ps.e * approach
 					vmax = max(vmax, approach)
 					points[i].ImpactSpeed = max(points[i].ImpactSpeed, approach)
 				}
@@ -802,7 +799,16 @@ func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, re
 		if ps.sat && math.Hypot(r1.cdot(bodies)-r1.target, r2.cdot(bodies)-r2.target) > s.Settings.CreepSpeed {
 			slips = min(ps.prevSlips, 254) + 1
 		}
-		w := warmPoint{key: p.Key, normal: rn.lambda, friction: p.FrictionImpulse, sliding: p.Sliding, slips: slips, pending: ps.deferred,
+		pending := ps.deferred
+		if rn.lambda <= 0 {
+			// The velocity solve did not have to stop the point at the gap:
+			// other contacts turned the body away, it does not arrive at
+			// that speed, and no energy waits for it to give back. Keeping
+			// the speed would bounce the point next step at a speed it
+			// never had, adding energy (seen with tumbling boxes, e = 1).
+			pending = 0
+		}
+		w := warmPoint{key: p.Key, normal: rn.lambda, friction: p.FrictionImpulse, sliding: p.Sliding, slips: slips, pending: pending,
 			a: p.A, b: p.B, pos: p.Position}
 		if ps.deferred > 0 {
 			// The impulse that stopped a deferred impact at the gap is no

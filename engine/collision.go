@@ -281,6 +281,7 @@ func (w *World) solve(dt float64) error {
 			w.b.vel[i], w.b.spin[i] = c.bodies[i].V, c.bodies[i].W
 		}
 	}
+	w.markPushed() // flight.go
 	w.impactEvents()
 	return nil
 }

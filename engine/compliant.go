@@ -198,8 +198,8 @@ func (w *World) shiftHalfStep(h float64) {
 	if w.soft.last != 0 && h != w.soft.last {
 		f := (w.soft.last - h) / 2
 		for i, k := range w.b.kind {
-			if k != Dynamic || !w.b.awake[i] {
-				continue
+			if k != Dynamic || !w.b.awake[i] || w.inFlight(i) {
+				continue // free flight's velocity is the step end's (flight.go)
 			}
 			a := w.cfg.Gravity
 			if i < len(w.soft.force) {

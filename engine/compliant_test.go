@@ -79,11 +79,16 @@ func firstImpact(t *testing.T, w *World, id BodyID, dt, bottom float64) (Event, 
 			}
 		}
 		if hit != nil && w.Velocity(id)[2] > 0 && w.Position(id)[2] > bottom && !w.softActive() {
-			// The stored velocity drove the last step: it is the velocity
-			// half a step back (kick then drift), so move it to the step's
-			// end; free flight is then exact: v_sep^2 = v^2 + 2 g gap.
+			// After a step of free flight the velocity is the step end's
+			// (flight.go); after a step the cushion pushed, it drove the
+			// step and is half a step back (kick then drift), so move it to
+			// the step's end. Free flight is then exact:
+			// v_sep^2 = v^2 + 2 g gap.
 			g := -w.Config().Gravity[2]
-			v := w.Velocity(id)[2] - g*dt/2
+			v := w.Velocity(id)[2]
+			if !w.inFlight(int(id)) {
+				v -= g * dt / 2
+			}
 			gap := w.Position(id)[2] - bottom
 			return *hit, math.Sqrt(v*v + 2*g*gap)
 		}

@@ -1,6 +1,10 @@
 package engine
 
-import "clatter/shapes"
+import (
+	"math"
+
+	"clatter/shapes"
+)
 
 // KineticEnergy is the total kinetic energy of the dynamic bodies, J.
 func (w *World) KineticEnergy() float64 {
@@ -89,4 +93,31 @@ func (w *World) AngularMomentum(o shapes.Vec3) shapes.Vec3 {
 		l = l.Add(w.b.pos[i].Sub(o).Cross(w.b.vel[i].Mul(w.b.mass[i]))).Add(in.Mul3x1(w.b.spin[i]))
 	}
 	return l
+}
+
+// preSolveSteps is how many steps back the energy guard looks for the
+// energy that deferred impacts hold back: an impact is deferred for one
+// step, but in a pile one stop after another can keep some energy held for
+// a few steps (seen: two steps in a bin of bouncing parts with e = 1).
+const preSolveSteps = 4
+
+// preSolveLog keeps the energies before the contact solve of the last
+// preSolveSteps steps; a zero log has seen nothing.
+type preSolveLog struct {
+	e [preSolveSteps]float64
+	n int // entries written so far
+}
+
+func (l *preSolveLog) add(e float64) {
+	l.e[l.n%preSolveSteps] = e
+	l.n++
+}
+
+// max is the largest energy logged, or -Inf when none is.
+func (l *preSolveLog) max() float64 {
+	m := math.Inf(-1)
+	for i := 0; i < min(l.n, preSolveSteps); i++ {
+		m = math.Max(m, l.e[i])
+	}
+	return m
 }

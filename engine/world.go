@@ -98,7 +98,9 @@ type World struct {
 	settledAt    float64
 	settled      bool
 	err          error
-	prevPreSolve float64 // energy before the last step's contact solve
+	preSolve     preSolveLog   // energies before the last steps' contact solves (energy.go)
+	flight       []shapes.Vec3 // velocities after gravity, before the solve (flight.go)
+	pushed       []bool        // bodies a contact, joint or force acted on this step (flight.go)
 
 	collision collisionState
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
@@ -120,7 +122,7 @@ func NewWorld(cfg Config) (*World, error) {
 	if err := cfg.fill(); err != nil {
 		return nil, fmt.Errorf("world: %w", err)
 	}
-	w := &World{cfg: cfg, settledAt: math.NaN(), prevPreSolve: math.Inf(-1)}
+	w := &World{cfg: cfg, settledAt: math.NaN()}
 	w.materials = []Material{{Name: "default", Friction: 0.5, StaticFriction: 0.5}}
 	w.buildPairTable()
 	w.initCollision()
@@ -228,19 +230,23 @@ func (w *World) step(dt float64) error {
 			w.b.vel[i] = w.b.vel[i].Add(g)
 		}
 	}
+	w.noteFlight() // flight.go
 
 	w.collide(dt)
 	if w.soft.on { // compliant contact forces (compliant.go)
 		if err := w.applySoft(dt); err != nil {
 			return err
 		}
+		w.markForced() // flight.go
 		// The springs hold energy the guard cannot see; sub-stepping from
 		// their natural period keeps them stable instead.
 		kicked = kicked || w.softActive()
 	}
 	// A deferred impact (contact.Solver) gives back next step the energy its
-	// speculative stop took this step, so the guard measures against the
-	// larger of this step's start and the last step's energy before its solve.
+	// speculative stop took this step, and stops of other points in the
+	// steps between can hold more back meanwhile, so the guard measures
+	// against the largest of this step's start and the last few steps'
+	// energies before their solves (preSolveLog).
 	ePre := 0.0
 	switch {
 	case guard && kicked:
@@ -270,11 +276,11 @@ func (w *World) step(dt float64) error {
 		return err
 	}
 	if guard && !kicked {
-		if err := w.checkEnergy(math.Max(e0, w.prevPreSolve)+work, k0); err != nil {
+		if err := w.checkEnergy(math.Max(e0, w.preSolve.max())+work, k0); err != nil {
 			return err
 		}
 	}
-	w.prevPreSolve = ePre
+	w.preSolve.add(ePre)
 	return nil
 }
 
@@ -319,7 +325,7 @@ func (w *World) integrate(dt float64) {
 		}
 		id := BodyID(i)
 		vp, wp := w.pseudoVelocity(id)
-		w.b.pos[i] = w.b.pos[i].Add(w.b.vel[i].Add(vp).Mul(dt))
+		w.b.pos[i] = w.b.pos[i].Add(w.b.vel[i].Add(vp).Mul(dt)).Add(w.flightDrift(i, dt))
 		q := w.b.rot[i]
 		if k == Dynamic {
 			var qp shapes.Quat
