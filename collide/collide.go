@@ -352,13 +352,19 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	// higher, the neighbouring facets' vertices, slightly farther apart: by
 	// spread alone these would be kept instead of the far end's lowest
 	// vertex, and the part would rest on one end and rock end over end.
-	// Points outside the band only fill places the band leaves empty.
+	// Points outside the band fill places the band leaves empty, first
+	// those that penetrate: a part that landed tilted and deep (a small
+	// cube after a fast spinning impact at a coarse step) has a second deep
+	// corner well below the band, which spread alone would leave out for
+	// shallower corners, and the part would stay sunk on it for ever.
 	band := minSep + math.Max(tieD, contactBand*ext)
 	inBand := func(i int) bool { return pts[i].sep <= band }
+	inside := func(i int) bool { return pts[i].sep <= 0 }
 	all := func(int) bool { return true }
+	tiers := [...]func(int) bool{inBand, inside, all}
 	x0, y0 := proj(i0)
 	i1, best := -1, 0.0
-	for _, ok := range [2]func(int) bool{inBand, all} {
+	for _, ok := range tiers {
 		for i := range pts {
 			if i == i0 || !ok(i) {
 				continue
@@ -376,7 +382,7 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	x1, y1 := proj(i1)
 	i2, sign := -1, 1.0
 	best = 0
-	for _, ok := range [2]func(int) bool{inBand, all} {
+	for _, ok := range tiers {
 		for i := range pts {
 			if i == i0 || i == i1 || !ok(i) {
 				continue
@@ -399,7 +405,7 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	// The fourth point adds the most area outside the triangle.
 	i3 := -1
 	best = 0
-	for _, ok := range [2]func(int) bool{inBand, all} {
+	for _, ok := range tiers {
 		for i := range pts {
 			if i == i0 || i == i1 || i == i2 || !ok(i) {
 				continue

@@ -354,6 +354,32 @@ position = [0, 0, 105]
 	}
 }
 
+func TestSmallPartsAtCoarseStep(t *testing.T) {
+	// Gravity's motion in one step (g step^2 = 2.7 mm at 1/60 s) is no limit
+	// on part size: the engine rests 2 mm cubes at 1/60 s within the slop
+	// (engine TestSmallPartsAtCoarseSteps), so a 3 mm cube resting on the
+	// floor at 1/60 s is accepted without a warning.
+	src := `units = { length = "mm", mass = "g" }
+[world]
+step = 0.0166667
+[[body]]
+name = "floor"
+shape = { plane = [0, 0, 1] }
+[[body]]
+name = "bead"
+shape = { box = [3, 3, 3] }
+density = 1
+position = [0, 0, 1.5]
+`
+	s, err := Parse([]byte(src), "s.toml", Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(s.Warnings) != 0 {
+		t.Errorf("warnings %q", s.Warnings)
+	}
+}
+
 func TestBuild(t *testing.T) {
 	src := `[material.abs]
 friction = 0.3
