@@ -20,5 +20,5 @@ func (s *Scene) checkOverlaps(w *engine.World, ids []engine.BodyID) error {
 			line = s.Bodies[i].Line
 		}
 	}
-	return Errors{{File: s.File, Line: line, Msg: oe.Error()}}
+	return Errors{{File: s.File, Line: line, Msg: oe.Error(), Cause: oe}}
 }

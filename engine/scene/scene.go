@@ -144,7 +144,13 @@ type Error struct {
 	File string
 	Line int
 	Msg  string
+	// Cause, if set, is the error behind Msg, for errors.As (for example
+	// the *engine.OverlapError of bodies that start inside each other).
+	Cause error
 }
+
+// Unwrap returns the error behind the message, if any.
+func (e *Error) Unwrap() error { return e.Cause }
 
 func (e *Error) Error() string {
 	if e.Line <= 0 {
@@ -169,6 +175,15 @@ func (es Errors) Error() string {
 var ErrBadScene = errors.New("bad scene")
 
 func (es Errors) Is(target error) bool { return target == ErrBadScene }
+
+// Unwrap returns the problems, so that errors.As finds their causes.
+func (es Errors) Unwrap() []error {
+	out := make([]error, len(es))
+	for i, e := range es {
+		out[i] = e
+	}
+	return out
+}
 
 // maxErrors is how many problems are reported at once; past it the rest
 // are likely consequences of the first.

@@ -2,6 +2,7 @@ package sweep
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -100,6 +101,9 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	cfg.NoEvents = sc.Drop == nil // a drop's report reads the impacts
 	w, ids, err := sc.BuildWith(cfg)
 	if err != nil {
+		if oe := (*engine.OverlapError)(nil); errors.As(err, &oe) {
+			return wk.startFailure(g, c, t, seed, &sc, oe), nil // startfail.go
+		}
 		return result{}, fmt.Errorf("case %d (%s), trial %d: %w", c, st.describe(c), t, err)
 	}
 	if wk.faces == nil {
