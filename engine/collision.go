@@ -268,14 +268,14 @@ func (w *World) solve(dt float64) error {
 			sb.DV = gdt // this step's gravity, already in V (World.step)
 		}
 	}
-	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (joint.go)
+	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (jointrows.go)
 	w.recallWoken()                      // contacts of woken islands resume their load (sleep_wake.go)
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step (solveerr.go).
 		return w.solveError(err)
 	}
-	w.afterJointSolve(dt) // exact joint projection and joint forces (joint.go)
+	w.afterJointSolve(dt) // exact joint projection and joint forces (jointrows.go)
 	for i := 0; i < n; i++ {
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			w.b.vel[i], w.b.spin[i] = c.bodies[i].V, c.bodies[i].W

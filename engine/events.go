@@ -11,7 +11,11 @@ const (
 	// ContactBegin and ContactEnd: a pair of bodies started or stopped touching.
 	ContactBegin
 	ContactEnd
-	// Sleep and Wake: a body's island fell asleep or was woken.
+	// Sleep and Wake: a body's island came to rest, so that the step
+	// stops moving it (its bodies stayed below the rest thresholds for the
+	// rest time), or was set moving again by a contact, a kick or a moving
+	// support. Their names in files are "rest_begin" and "rest_end", like
+	// a contact's; the previous release wrote "sleep" and "wake".
 	Sleep
 	Wake
 	// Settled: every dynamic body is at rest and nothing scheduled will
@@ -21,7 +25,7 @@ const (
 )
 
 func (k EventKind) String() string {
-	return [...]string{"impact", "contact_begin", "contact_end", "sleep", "wake", "settled"}[k]
+	return [...]string{"impact", "contact_begin", "contact_end", "rest_begin", "rest_end", "settled"}[k]
 }
 
 // Event is one thing that happened during a step. A and B are the bodies

@@ -236,79 +236,13 @@ func (w *World) checkMotor(def *JointDef, m Motor) error {
 
 // AddJoint adds a joint and returns its id.
 func (w *World) AddJoint(def JointDef) (JointID, error) {
-	n := BodyID(len(w.b.kind))
-	if def.Kind > Distance {
-		return -1, w.jointErr(&def, "unknown kind %d", def.Kind)
-	}
-	if def.A < 0 || def.A >= n {
-		return -1, w.jointErr(&def, "body A: no body %d (the world has %d)", def.A, n)
-	}
-	if def.B != Ground && (def.B < 0 || def.B >= n) {
-		return -1, w.jointErr(&def, "body B: no body %d (the world has %d; use Ground for the world)", def.B, n)
-	}
-	if def.A == def.B {
-		return -1, w.jointErr(&def, "joins body %q to itself", w.b.name[def.A])
-	}
-	if w.b.kind[def.A] != Dynamic && (def.B == Ground || w.b.kind[def.B] != Dynamic) {
-		return -1, w.jointErr(&def, "joins %s to %s, and neither is dynamic; a joint needs a body that can move", w.bodyLabel(def.A), w.bodyLabel(def.B))
-	}
-	if !finiteVec(def.Anchor) || !finiteVec(def.AnchorB) || !finiteVec(def.Axis) {
-		return -1, w.jointErr(&def, "anchor and axis must be finite numbers")
-	}
-	free := def.Kind == Revolute || def.Kind == Prismatic
-	if free && !(def.Axis.Len() > 0) {
-		return -1, w.jointErr(&def, "a %s joint needs an axis; got zero", def.Kind)
-	}
-	if def.Limited {
-		if !free {
-			return -1, w.jointErr(&def, "a %s joint has no angle or travel to limit (use the lengths of a distance joint)", def.Kind)
-		}
-		if math.IsNaN(def.Lower) || math.IsNaN(def.Upper) || !(def.Lower <= def.Upper) {
-			return -1, w.jointErr(&def, "limits must satisfy lower <= upper, got %g and %g", def.Lower, def.Upper)
-		}
-	}
-	if def.Friction != 0 {
-		if !free {
-			return -1, w.jointErr(&def, "a %s joint has no free motion for friction to resist", def.Kind)
-		}
-		if !(def.Friction > 0) || math.IsInf(def.Friction, 0) {
-			return -1, w.jointErr(&def, "friction must be a finite number >= 0, got %g", def.Friction)
-		}
-	}
-	if err := w.checkMotor(&def, def.Motor); err != nil {
+	if err := w.checkJoint(&def); err != nil {
 		return -1, err
 	}
-	pa, qa := w.frame(def.A)
-	pb, qb := w.frame(def.B)
-	jt := joint{def: def, a: def.A, b: def.B, motorRow: -1}
-	anchorB := def.Anchor
-	if def.Kind == Distance {
-		anchorB = def.AnchorB
-		lo, hi := def.MinLength, def.MaxLength
-		if !(lo >= 0) || !(hi >= lo) || math.IsInf(hi, 0) {
-			return -1, w.jointErr(&def, "lengths must satisfy 0 <= min <= max < infinity, got %g and %g", lo, hi)
-		}
-		if hi == 0 {
-			jt.length = def.AnchorB.Sub(def.Anchor).Len()
-			if !(jt.length > 0) {
-				return -1, w.jointErr(&def, "the two anchors coincide, so there is no distance to keep; use a spherical joint")
-			}
-			jt.def.MinLength, jt.def.MaxLength = jt.length, jt.length
-		} else if lo == hi {
-			jt.length = lo
-		}
+	jt, err := w.newJoint(def)
+	if err != nil {
+		return -1, err
 	}
-	jt.ra = qa.Conjugate().Rotate(def.Anchor.Sub(pa))
-	jt.rb = qb.Conjugate().Rotate(anchorB.Sub(pb))
-	ax := shapes.Vec3{0, 0, 1}
-	if free {
-		ax = def.Axis.Normalize()
-		jt.def.Axis = ax
-	}
-	ref, _ := perpendiculars(ax)
-	jt.axA, jt.axB = qa.Conjugate().Rotate(ax), qb.Conjugate().Rotate(ax)
-	jt.refA, jt.refB = qa.Conjugate().Rotate(ref), qb.Conjugate().Rotate(ref)
-	jt.rel0 = qb.Conjugate().Mul(qa).Normalize()
 	m := &w.mech
 	m.joints = append(m.joints, jt)
 	for _, id := range [2]BodyID{def.A, def.B} {
@@ -328,6 +262,89 @@ func (w *World) AddJoint(def JointDef) (JointID, error) {
 		w.wake(def.B)
 	}
 	return JointID(len(m.joints) - 1), nil
+}
+
+// checkJoint refuses a JointDef that names no bodies of the world, joins
+// nothing that can move, or asks a kind for what it does not have.
+func (w *World) checkJoint(def *JointDef) error {
+	n := BodyID(len(w.b.kind))
+	if def.Kind > Distance {
+		return w.jointErr(def, "unknown kind %d", def.Kind)
+	}
+	if def.A < 0 || def.A >= n {
+		return w.jointErr(def, "body A: no body %d (the world has %d)", def.A, n)
+	}
+	if def.B != Ground && (def.B < 0 || def.B >= n) {
+		return w.jointErr(def, "body B: no body %d (the world has %d; use Ground for the world)", def.B, n)
+	}
+	if def.A == def.B {
+		return w.jointErr(def, "joins body %q to itself", w.b.name[def.A])
+	}
+	if w.b.kind[def.A] != Dynamic && (def.B == Ground || w.b.kind[def.B] != Dynamic) {
+		return w.jointErr(def, "joins %s to %s, and neither is dynamic; a joint needs a body that can move", w.bodyLabel(def.A), w.bodyLabel(def.B))
+	}
+	if !finiteVec(def.Anchor) || !finiteVec(def.AnchorB) || !finiteVec(def.Axis) {
+		return w.jointErr(def, "anchor and axis must be finite numbers")
+	}
+	free := def.Kind == Revolute || def.Kind == Prismatic
+	if free && !(def.Axis.Len() > 0) {
+		return w.jointErr(def, "a %s joint needs an axis; got zero", def.Kind)
+	}
+	if def.Limited {
+		if !free {
+			return w.jointErr(def, "a %s joint has no angle or travel to limit (use the lengths of a distance joint)", def.Kind)
+		}
+		if math.IsNaN(def.Lower) || math.IsNaN(def.Upper) || !(def.Lower <= def.Upper) {
+			return w.jointErr(def, "limits must satisfy lower <= upper, got %g and %g", def.Lower, def.Upper)
+		}
+	}
+	if def.Friction != 0 {
+		if !free {
+			return w.jointErr(def, "a %s joint has no free motion for friction to resist", def.Kind)
+		}
+		if !(def.Friction > 0) || math.IsInf(def.Friction, 0) {
+			return w.jointErr(def, "friction must be a finite number >= 0, got %g", def.Friction)
+		}
+	}
+	return w.checkMotor(def, def.Motor)
+}
+
+// newJoint makes a checked joint's state: its anchors, axes and reference
+// directions in the bodies' frames at their current poses, and a distance
+// joint's lengths.
+func (w *World) newJoint(def JointDef) (joint, error) {
+	pa, qa := w.frame(def.A)
+	pb, qb := w.frame(def.B)
+	jt := joint{def: def, a: def.A, b: def.B, motorRow: -1}
+	anchorB := def.Anchor
+	if def.Kind == Distance {
+		anchorB = def.AnchorB
+		lo, hi := def.MinLength, def.MaxLength
+		if !(lo >= 0) || !(hi >= lo) || math.IsInf(hi, 0) {
+			return jt, w.jointErr(&def, "lengths must satisfy 0 <= min <= max < infinity, got %g and %g", lo, hi)
+		}
+		if hi == 0 {
+			jt.length = def.AnchorB.Sub(def.Anchor).Len()
+			if !(jt.length > 0) {
+				return jt, w.jointErr(&def, "the two anchors coincide, so there is no distance to keep; use a spherical joint")
+			}
+			jt.def.MinLength, jt.def.MaxLength = jt.length, jt.length
+		} else if lo == hi {
+			jt.length = lo
+		}
+	}
+	jt.ra = qa.Conjugate().Rotate(def.Anchor.Sub(pa))
+	jt.rb = qb.Conjugate().Rotate(anchorB.Sub(pb))
+	ax := shapes.Vec3{0, 0, 1}
+	if def.Kind == Revolute || def.Kind == Prismatic {
+		ax = def.Axis.Normalize()
+		jt.def.Axis = ax
+	}
+	ref, _ := perpendiculars(ax)
+	jt.axA, jt.axB = qa.Conjugate().Rotate(ax), qb.Conjugate().Rotate(ax)
+	jt.refA, jt.refB = qa.Conjugate().Rotate(ref), qb.Conjugate().Rotate(ref)
+	jt.rel0 = qb.Conjugate().Mul(qa).Normalize()
+	return jt, nil
 }
 
 func pairKey(a, b BodyID) uint64 {
@@ -476,158 +493,6 @@ func (w *World) bodyVel(id BodyID) (shapes.Vec3, shapes.Vec3) {
 	return w.b.vel[id], w.b.spin[id]
 }
 
-// jgeom is a joint's geometry at the bodies' current poses, world frame.
-type jgeom struct {
-	rA, rB shapes.Vec3 // lever arms from the bodies' positions to their anchors
-	d      shapes.Vec3 // A's anchor minus B's
-	axis   shapes.Vec3 // the axis as B carries it
-	axA    shapes.Vec3 // the axis as A carries it
-	twist  shapes.Vec3 // rotation vector of A away from its pose relative to B at the zero
-	raw    float64     // a revolute joint's angle in (-pi, pi]
-}
-
-func (w *World) jointGeom(jt *joint) jgeom {
-	pa, qa := w.frame(jt.a)
-	pb, qb := w.frame(jt.b)
-	return jointGeomAt(jt, pa, qa, pb, qb, true)
-}
-
-// jointGeomAt is the joint's geometry with the bodies at the given poses;
-// a revolute joint's raw angle only if angle is true (the equality rows'
-// values do not need it).
-func jointGeomAt(jt *joint, pa shapes.Vec3, qa shapes.Quat, pb shapes.Vec3, qb shapes.Quat, angle bool) jgeom {
-	var g jgeom
-	g.rA, g.rB = rotate(qa, jt.ra), rotate(qb, jt.rb)
-	g.d = pa.Add(g.rA).Sub(pb.Add(g.rB))
-	g.axis, g.axA = rotate(qb, jt.axB), rotate(qa, jt.axA)
-	switch jt.def.Kind {
-	case Revolute:
-		if !angle {
-			break
-		}
-		ub, ua := rotate(qb, jt.refB), rotate(qa, jt.refA)
-		g.raw = math.Atan2(g.axis.Dot(ub.Cross(ua)), ub.Dot(ua))
-	case Prismatic, Fixed:
-		g.twist = rotationVector(qa.Mul(qb.Mul(jt.rel0).Conjugate()))
-	}
-	return g
-}
-
-// predictAll notes where every jointed body would be at the end of the
-// step if it kept moving at constant velocity: at the velocities before the
-// solve, with a constant spin, or (solved) at those the solve left in the
-// solver's bodies, turned the way the step will turn them (the torque-free
-// precession of a body turning off its principal axes is of the same
-// second order as the curvature of the joints, and a thin link's is not
-// small: leaving it out leaves a thousand times the drift of a spatial
-// chain of bars). The velocity targets need no more than the constant
-// spin; what they miss the position pass takes.
-func (w *World) predictAll(dt float64, solved bool) {
-	m := &w.mech
-	n := len(w.b.kind)
-	m.predP = growFill(m.predP, n, shapes.Vec3{})
-	m.predQ = growFill(m.predQ, n, shapes.Quat{})
-	if solved && len(m.turn) < n {
-		m.turn = append(m.turn, make([]turnMemo, n-len(m.turn))...)
-	}
-	bodies := w.collision.bodies
-	for _, id := range m.jbodies {
-		p, q := w.b.pos[id], w.b.rot[id]
-		v, s := w.b.vel[id], w.b.spin[id]
-		if solved && w.jointFree(id) {
-			v, s = bodies[id].V, bodies[id].W
-		}
-		switch {
-		case solved && w.jointFree(id):
-			// As the step will integrate it, precession included; the
-			// integration reuses it (turnMemo).
-			qp, sp := freeRotation(qmul(&q, &w.b.axes[id]), w.b.moments[id], s, dt)
-			m.turn[id] = turnMemo{step: w.steps, q: q, spin: s, dt: dt, qp: qp, sp: sp}
-			p, q = p.Add(v.Mul(dt)), qmulConj(&qp, &w.b.axes[id]).Normalize()
-		case w.b.kind[id] != Static:
-			p, q = p.Add(v.Mul(dt)), integrateQuat(q, s, dt)
-		}
-		m.predP[id], m.predQ[id] = p, q
-	}
-}
-
-// turnMemo is a free rotation worked out by predictAll for the step
-// numbered step: freeRotation of the body's orientation q (times its
-// principal axes) at spin over dt gave qp and the new spin sp.
-type turnMemo struct {
-	step     int
-	q        shapes.Quat
-	spin, sp shapes.Vec3
-	dt       float64
-	qp       shapes.Quat
-}
-
-// freeTurn is freeRotation of a dynamic body over the step, taken from
-// predictAll's memo when it was worked out for the same step and state.
-func (w *World) freeTurn(id BodyID, dt float64) (shapes.Quat, shapes.Vec3) {
-	if t := w.mech.turn; int(id) < len(t) {
-		if m := &t[id]; m.step == w.steps && m.dt == dt && m.q == w.b.rot[id] && m.spin == w.b.spin[id] {
-			return m.qp, m.sp
-		}
-	}
-	return freeRotation(qmul(&w.b.rot[id], &w.b.axes[id]), w.b.moments[id], w.b.spin[id], dt)
-}
-
-// predicted returns a jointed body's pose from the last predictAll.
-func (w *World) predicted(id BodyID) (shapes.Vec3, shapes.Quat) {
-	if id == Ground {
-		return shapes.Vec3{}, mgl64.QuatIdent()
-	}
-	return w.mech.predP[id], w.mech.predQ[id]
-}
-
-// rowSpeed is a row's Cdot with the solver bodies' velocities.
-func rowSpeed(r *contact.Row, bodies []contact.Body) float64 {
-	A, B := &bodies[r.A], &bodies[r.B]
-	return r.LinA.Dot(A.V) + r.AngA.Dot(A.W) + r.LinB.Dot(B.V) + r.AngB.Dot(B.W)
-}
-
-// rotate turns v by unit quaternion q: v + w t + u x t with t = 2 u x v
-// (u the vector part), without forming quaternion products.
-func rotate(q shapes.Quat, v shapes.Vec3) shapes.Vec3 {
-	u := q.V
-	t := shapes.Vec3{2 * (u[1]*v[2] - u[2]*v[1]), 2 * (u[2]*v[0] - u[0]*v[2]), 2 * (u[0]*v[1] - u[1]*v[0])}
-	return shapes.Vec3{
-		v[0] + q.W*t[0] + u[1]*t[2] - u[2]*t[1],
-		v[1] + q.W*t[1] + u[2]*t[0] - u[0]*t[2],
-		v[2] + q.W*t[2] + u[0]*t[1] - u[1]*t[0],
-	}
-}
-
-// rotationVector returns the axis times the angle (rad, at most pi) of a
-// unit quaternion.
-func rotationVector(q shapes.Quat) shapes.Vec3 {
-	if q.W < 0 {
-		q = q.Scale(-1)
-	}
-	s := q.V.Len()
-	if s < 1e-12 {
-		return q.V.Mul(2) // small angle: 2 sin(a/2) axis = a axis to rounding
-	}
-	return q.V.Mul(2 * math.Atan2(s, q.W) / s)
-}
-
-// wrapAngle maps an angle difference into [-pi, pi).
-func wrapAngle(a float64) float64 {
-	return a - 2*math.Pi*math.Floor((a+math.Pi)/(2*math.Pi))
-}
-
-// perpendiculars returns two unit vectors normal to unit n and to each
-// other, without a branch on a near-zero component: Duff, Burgess,
-// Christensen, Hery, Kensler, Liani and Villemin, "Building an orthonormal
-// basis, revisited", JCGT 6(1), 2017.
-func perpendiculars(n shapes.Vec3) (shapes.Vec3, shapes.Vec3) {
-	sign := math.Copysign(1, n[2])
-	a := -1 / (sign + n[2])
-	b := n[0] * n[1] * a
-	return shapes.Vec3{1 + sign*n[0]*n[0]*a, sign * b, -sign * n[0]}, shapes.Vec3{b, sign + n[1]*n[1]*a, -n[1]}
-}
-
 // updatePowered notes whether anything in the world can add energy, so
 // that the energy guard knows an energy gain is no blow-up.
 func (w *World) updatePowered() {
@@ -644,534 +509,3 @@ func (w *World) updatePowered() {
 // mechanismDriven reports whether motors, driven bodies or conveyors can
 // do work on the bodies this step.
 func (w *World) mechanismDriven() bool { return w.mech.powered }
-
-// wakeJointed wakes the bodies jointed to a body that has just woken.
-func (w *World) wakeJointed(id BodyID) {
-	for i := range w.mech.joints {
-		jt := &w.mech.joints[i]
-		switch {
-		case jt.a == id && jt.b != Ground:
-			w.wake(jt.b)
-		case jt.b == id:
-			w.wake(jt.a)
-		}
-	}
-}
-
-// unionJoints puts jointed dynamic bodies into one island.
-func (w *World) unionJoints() {
-	for i := range w.mech.joints {
-		jt := &w.mech.joints[i]
-		if jt.b != Ground && w.b.kind[jt.a] == Dynamic && w.b.kind[jt.b] == Dynamic {
-			w.union(int32(jt.a), int32(jt.b))
-		}
-	}
-}
-
-// jointsKeepAwake keeps awake the islands jointed to a moving kinematic
-// body or driven by a running motor.
-func (w *World) jointsKeepAwake() {
-	c := &w.collision
-	moving := func(id BodyID) bool {
-		return id != Ground && w.b.kind[id] == Kinematic && (w.b.vel[id] != (shapes.Vec3{}) || w.b.spin[id] != (shapes.Vec3{}))
-	}
-	for i := range w.mech.joints {
-		jt := &w.mech.joints[i]
-		if m := jt.def.Motor; m.Mode == MotorSpeed && m.Speed != 0 {
-			// A running motor keeps its bodies awake, stalled or not.
-			for _, id := range [2]BodyID{jt.a, jt.b} {
-				if id != Ground && w.b.kind[id] == Dynamic {
-					c.islandRest[w.find(int32(id))] = 0
-				}
-			}
-		}
-		if moving(jt.b) && w.b.kind[jt.a] == Dynamic {
-			c.islandRest[w.find(int32(jt.a))] = 0
-		}
-		if moving(jt.a) && jt.b != Ground && w.b.kind[jt.b] == Dynamic {
-			c.islandRest[w.find(int32(jt.b))] = 0
-		}
-	}
-}
-
-// jointRows appends the rows of every joint with a body free to move this
-// step. It runs inside the solve, once the solver's bodies are filled; the
-// ground is an extra body with zero inverse mass after the world's bodies.
-func (w *World) jointRows(dt float64, rows []contact.Row) []contact.Row {
-	m := &w.mech
-	if len(m.joints) == 0 {
-		return rows
-	}
-	c := &w.collision
-	n := len(w.b.kind)
-	c.bodies = append(c.bodies[:n], contact.Body{})
-	m.dt = dt
-	w.predictAll(dt, false)
-	w.groupJoints()
-	// The position pass removes Settings.Correction of each row's predicted
-	// error per step; scaling the drift gives joints their own fraction.
-	scale := w.jointScale()
-	// The rows for the sweeps first, then those the exact solve does alone
-	// (jointtree.go); the solver is given the first part.
-	m.rows = m.rows[:0]
-	swept := 0
-	for pass := 0; pass < 2; pass++ {
-		for j := range m.joints {
-			jt := &m.joints[j]
-			free := w.jointFree(jt.a) || w.jointFree(jt.b)
-			if pass == 0 {
-				jt.first, jt.count, jt.motorRow = 0, 0, -1
-				jt.eqFirst, jt.eqCount = 0, 0
-			}
-			if !free || w.swept(jt) != (pass == 0) {
-				continue
-			}
-			jt.first = int32(len(m.rows))
-			m.rows = w.appendJointRows(jt, uint64(j)<<8, dt, scale, pass == 0, m.rows)
-			jt.count = int32(len(m.rows)) - jt.first
-		}
-		if pass == 0 {
-			swept = len(m.rows)
-		}
-	}
-	return m.rows[:swept]
-}
-
-// jointFree reports whether a joint body moves under forces this step.
-func (w *World) jointFree(id BodyID) bool {
-	return id != Ground && w.b.kind[id] == Dynamic && w.b.awake[id]
-}
-
-// Row key offsets within a joint's block of 256 keys.
-const (
-	keyLower = 1 + iota
-	keyUpper
-	keyMotor
-	keyFriction
-	keyEq = 8 // up to 6 rows
-)
-
-// appendJointRows appends a joint's rows; swept says whether they go to the
-// sweeps (decoupled for them) or only to the exact solve (scaled to unit
-// coupling, which is all it needs).
-func (w *World) appendJointRows(jt *joint, key uint64, dt, scale float64, swept bool, rows []contact.Row) []contact.Row {
-	c := &w.collision
-	ia, ib := int32(jt.a), int32(jt.b)
-	if jt.b == Ground {
-		ib = int32(len(w.b.kind))
-	}
-	g := w.jointGeom(jt)
-	jt.lever = g.rA
-	inf := math.Inf(1)
-	def := &jt.def
-
-	// The joint's free coordinate, and its row (Jacobian of its rate).
-	var q float64
-	var axisRow contact.Row
-	axisRow.A, axisRow.B = ia, ib
-	switch def.Kind {
-	case Revolute:
-		jt.angle += wrapAngle(g.raw - jt.raw)
-		jt.raw = g.raw
-		q = jt.angle
-		axisRow.AngA, axisRow.AngB = g.axis, g.axis.Mul(-1)
-	case Prismatic:
-		q = g.axis.Dot(g.d)
-		axisRow.LinA, axisRow.AngA = g.axis, g.rA.Cross(g.axis)
-		axisRow.LinB, axisRow.AngB = g.axis.Mul(-1), g.rB.Add(g.d).Cross(g.axis).Mul(-1)
-	}
-
-	// One-sided and bounded rows first; the equality block last, so each
-	// sweep ends with the joint itself solved.
-	if def.Limited {
-		// Speculative limits: a row may let the joint close its gap to the
-		// limit within the step (target -gap/dt) but not pass it; a joint
-		// already past is stopped and pushed back by the position pass.
-		for side, gap := range [2]float64{q - def.Lower, def.Upper - q} {
-			r := axisRow
-			if side == 1 {
-				r = negRow(r)
-			}
-			r.Target = -max(gap, 0) / dt
-			r.Lo, r.Hi = 0, inf
-			r.Correct, r.Drift = true, gap*scale
-			r.Key = key | uint64(keyLower+side)
-			rows = append(rows, r)
-		}
-	}
-	switch def.Motor.Mode {
-	case MotorSpeed:
-		r := axisRow
-		r.Target = def.Motor.Speed
-		cap := def.Motor.MaxForce * dt
-		r.Lo, r.Hi = -cap, cap
-		r.Key = key | keyMotor
-		jt.motorRow = int32(len(rows)) - jt.first
-		rows = append(rows, r)
-	case MotorServo:
-		// Filled in below, once the equality block gives the effective mass.
-		jt.motorRow = int32(len(rows)) - jt.first
-		rows = append(rows, axisRow)
-	}
-	if def.Friction > 0 {
-		r := axisRow
-		f := def.Friction * dt
-		r.Lo, r.Hi = -f, f
-		r.Key = key | keyFriction
-		rows = append(rows, r)
-	}
-
-	// The equality rows. Each holds a value C (a component of the anchors'
-	// offset, of the misalignment of the axes, ...) at zero. Its Jacobian is
-	// C's rate now, but C is curved: moving with the velocity v for the step
-	// changes it by J v dt plus a remainder rho of second order (the
-	// centripetal term of a swinging link). The velocity target -rho/dt asks
-	// for the velocity that ends the step on the constraint; a target of 0
-	// would leave the link a little off it at the end of every step, and
-	// projecting that off next step would take (omega dt)^2 of the kinetic
-	// energy per step (3 percent per swing of a 1 m pendulum at 1 ms). The
-	// remainder is taken from the velocities before the solve, predicting
-	// the poses the way the step integrates them. The position pass then
-	// removes C itself.
-	eq := len(rows)
-	_, qb := w.frame(jt.b)
-	bs := &jt.basis
-	bs.p1, bs.p2 = perpendiculars(g.axis)
-	if def.Kind == Prismatic { // its off-axis rows turn with B (eqValues)
-		bs.p1B, bs.p2B = rotate(qb.Conjugate(), bs.p1), rotate(qb.Conjugate(), bs.p2)
-	}
-	var cNow, cEnd [6]float64
-	n := eqValues(jt, &g, qb, bs, &cNow)
-	pa1, qa1 := w.predicted(jt.a)
-	pb1, qb1 := w.predicted(jt.b)
-	ge := jointGeomAt(jt, pa1, qa1, pb1, qb1, false)
-	eqValues(jt, &ge, qb1, bs, &cEnd)
-	add := func(linA, angA, linB, angB shapes.Vec3) {
-		k := len(rows) - eq
-		rows = append(rows, eqRow(ia, ib, linA, angA, linB, angB, cNow[k], key|uint64(keyEq+k)))
-	}
-	point := func(lb shapes.Vec3) { // A's anchor held to B's; lb is B's lever arm
-		for k := 0; k < 3; k++ {
-			var e shapes.Vec3
-			e[k] = 1
-			add(e, g.rA.Cross(e), e.Mul(-1), lb.Cross(e).Mul(-1))
-		}
-	}
-	lock := func() { // no turning of A relative to B
-		for k := 0; k < 3; k++ {
-			var e shapes.Vec3
-			e[k] = 1
-			add(shapes.Vec3{}, e, shapes.Vec3{}, e.Mul(-1))
-		}
-	}
-	oneSided := false
-	switch def.Kind {
-	case Revolute:
-		point(g.rB)
-		// A's axis kept along B's: p . (axis_B x axis_A) = 0 for the two
-		// normals p; its rate is p . (w_A - w_B) at the joint.
-		for _, p := range [2]shapes.Vec3{bs.p1, bs.p2} {
-			add(shapes.Vec3{}, p, shapes.Vec3{}, p.Mul(-1))
-		}
-	case Spherical:
-		point(g.rB)
-	case Fixed:
-		point(g.rB)
-		lock()
-	case Prismatic:
-		lock()
-		// Off-axis travel p . d = 0, with p turning with B.
-		lb := g.rB.Add(g.d)
-		for _, p := range [2]shapes.Vec3{bs.p1, bs.p2} {
-			add(p, g.rA.Cross(p), p.Mul(-1), lb.Cross(p).Mul(-1))
-		}
-	case Distance:
-		if n == 0 {
-			break // anchors together: the direction is undefined for this step
-		}
-		nr := g.d.Normalize()
-		linA, angA, linB, angB := nr, g.rA.Cross(nr), nr.Mul(-1), g.rB.Cross(nr).Mul(-1)
-		add(linA, angA, linB, angB)
-		if n == 2 { // a rope or a stop: one-sided rows at either end of the range
-			add(linA.Mul(-1), angA.Mul(-1), linB.Mul(-1), angB.Mul(-1))
-			oneSided = true
-		}
-	}
-	for i := eq; i < len(rows); i++ {
-		r := &rows[i]
-		gap := r.Drift
-		rho := cEnd[i-eq] - gap - rowSpeed(r, c.bodies)*dt
-		r.Target = -rho / dt
-		r.Drift = gap*scale + rho
-		if oneSided {
-			// Speculative, like a limit: it may close the gap within the
-			// step but not pass it.
-			r.Target = -(max(gap, 0) + rho) / dt
-			r.Lo, r.Hi = 0, inf
-			r.Key = key | uint64(keyLower+i-eq)
-		}
-	}
-	if oneSided {
-		eq = len(rows) // not part of the block
-	}
-	jt.eqFirst, jt.eqCount = int32(eq), int32(len(rows)-eq)
-	decoupled := false
-	if swept {
-		decoupled = decouple(rows[eq:], c.bodies, &jt.chol)
-	} else {
-		normalise(rows[eq:], c.bodies, &jt.chol)
-	}
-	if def.Motor.Mode == MotorServo {
-		rows[int(jt.first)+int(jt.motorRow)] = w.servoRow(jt, axisRow, q, dt, rows[eq:], decoupled, key|keyMotor)
-	}
-	return rows
-}
-
-func eqRow(a, b int32, linA, angA, linB, angB shapes.Vec3, drift float64, key uint64) contact.Row {
-	inf := math.Inf(1)
-	return contact.Row{A: a, B: b, LinA: linA, AngA: angA, LinB: linB, AngB: angB,
-		Lo: -inf, Hi: inf, Correct: true, Drift: drift, Key: key}
-}
-
-func negRow(r contact.Row) contact.Row {
-	r.LinA, r.AngA, r.LinB, r.AngB = r.LinA.Mul(-1), r.AngA.Mul(-1), r.LinB.Mul(-1), r.AngB.Mul(-1)
-	return r
-}
-
-// minvJ is M^-1 J^T of a row: the velocity changes per unit impulse.
-type minvJ struct{ va, wa, vb, wb shapes.Vec3 }
-
-func responseOf(r *contact.Row, bodies []contact.Body) minvJ {
-	A, B := &bodies[r.A], &bodies[r.B]
-	return minvJ{r.LinA.Mul(A.InvMass), A.InvInertia.Mul3x1(r.AngA), r.LinB.Mul(B.InvMass), B.InvInertia.Mul3x1(r.AngB)}
-}
-
-// coupling is J_r M^-1 J_s^T for rows r and s of the same two bodies.
-func coupling(r *contact.Row, s minvJ) float64 {
-	return r.LinA.Dot(s.va) + r.AngA.Dot(s.wa) + r.LinB.Dot(s.vb) + r.AngB.Dot(s.wb)
-}
-
-// selfCoupling is J M^-1 J^T of one row: coupling(r, responseOf(r,
-// bodies)) with the same arithmetic, without the temporaries.
-func selfCoupling(r *contact.Row, bodies []contact.Body) float64 {
-	A, B := &bodies[r.A], &bodies[r.B]
-	return linCoupling(&r.LinA, A.InvMass) + angCoupling(&r.AngA, &A.InvInertia) +
-		linCoupling(&r.LinB, B.InvMass) + angCoupling(&r.AngB, &B.InvInertia)
-}
-
-func linCoupling(v *shapes.Vec3, invMass float64) float64 {
-	return v[0]*(v[0]*invMass) + v[1]*(v[1]*invMass) + v[2]*(v[2]*invMass)
-}
-
-func angCoupling(v *shapes.Vec3, inv *shapes.Mat3) float64 {
-	u0 := inv[0]*v[0] + inv[3]*v[1] + inv[6]*v[2]
-	u1 := inv[1]*v[0] + inv[4]*v[1] + inv[7]*v[2]
-	u2 := inv[2]*v[0] + inv[5]*v[1] + inv[8]*v[2]
-	return v[0]*u0 + v[1]*u1 + v[2]*u2
-}
-
-// decoupleTol is the smallest pivot of the Cholesky factor, relative to its
-// row's own diagonal entry, at which a joint's rows still count as
-// independent; below it (a body with no mass in some direction) the rows
-// are left as they are.
-const decoupleTol = 1e-9
-
-// decouple replaces a joint's equality rows J (at most 6) by L^-1 J, where
-// L L^T = J M^-1 J^T is the Cholesky factor of the rows' coupling matrix:
-// the new rows span the same constraints, and their coupling matrix is the
-// identity, so one Gauss-Seidel sweep over them solves the joint exactly
-// (block Gauss-Seidel across joints, at the cost of scalar sweeps). Without
-// it the sweeps over a hinge's rows converge slowly for a body whose lever
-// arm is long against its radius of gyration. The drifts and targets are
-// transformed alike. It reports whether the rows were transformed.
-func decouple(rows []contact.Row, bodies []contact.Body, chol *cholesky) bool {
-	n := len(rows)
-	if n < 1 || n > 6 {
-		return false
-	}
-	var resp [6]minvJ
-	for i := 0; i < n; i++ {
-		resp[i] = responseOf(&rows[i], bodies)
-	}
-	chol.n = 0
-	L := &chol.l
-	for i := 0; i < n; i++ {
-		for j := 0; j <= i; j++ {
-			s := coupling(&rows[i], resp[j])
-			diag := s
-			for k := 0; k < j; k++ {
-				s -= L[i][k] * L[j][k]
-			}
-			if i == j {
-				if !(s > decoupleTol*diag) {
-					return false
-				}
-				L[i][i] = math.Sqrt(s)
-			} else {
-				L[i][j] = s / L[j][j]
-			}
-		}
-	}
-	for i := 0; i < n; i++ {
-		r := &rows[i]
-		for k := 0; k < i; k++ {
-			f := L[i][k]
-			p := &rows[k]
-			r.LinA, r.AngA = r.LinA.Sub(p.LinA.Mul(f)), r.AngA.Sub(p.AngA.Mul(f))
-			r.LinB, r.AngB = r.LinB.Sub(p.LinB.Mul(f)), r.AngB.Sub(p.AngB.Mul(f))
-			r.Drift -= p.Drift * f
-			r.Target -= p.Target * f
-		}
-		s := 1 / L[i][i]
-		r.LinA, r.AngA, r.LinB, r.AngB = r.LinA.Mul(s), r.AngA.Mul(s), r.LinB.Mul(s), r.AngB.Mul(s)
-		r.Drift *= s
-		r.Target *= s
-	}
-	chol.n = n
-	return true
-}
-
-// normalise scales a joint's equality rows to unit coupling each (the
-// diagonal of J M^-1 J^T), recording the scales as a diagonal factor.
-func normalise(rows []contact.Row, bodies []contact.Body, chol *cholesky) {
-	chol.n = 0
-	if len(rows) > 6 {
-		return
-	}
-	for i := range rows {
-		r := &rows[i]
-		k := selfCoupling(r, bodies)
-		if !(k > 0) || math.IsInf(k, 0) {
-			chol.n = 0
-			return // left as it is; the exact solve then fails and skips
-		}
-		s := math.Sqrt(k)
-		for j := range chol.l[i] {
-			chol.l[i][j] = 0
-		}
-		chol.l[i][i] = s
-		r.LinA, r.AngA, r.LinB, r.AngB = r.LinA.Mul(1/s), r.AngA.Mul(1/s), r.LinB.Mul(1/s), r.AngB.Mul(1/s)
-		r.Drift /= s
-		r.Target /= s
-		chol.n = i + 1
-	}
-}
-
-// cholesky is the factor L of a joint's decoupled rows (n = 0: none).
-type cholesky struct {
-	n int
-	l [6][6]float64
-}
-
-// apply writes L^-1 c into c: values in the decoupled rows' basis.
-func (ch *cholesky) apply(c *[6]float64) {
-	for i := 0; i < ch.n; i++ {
-		v := c[i]
-		for k := 0; k < i; k++ {
-			v -= ch.l[i][k] * c[k]
-		}
-		c[i] = v / ch.l[i][i]
-	}
-}
-
-// eqBasis holds the directions that a joint's equality rows measure along
-// this step: normals of the axis in the world, and in B's frame for rows
-// that turn with B.
-type eqBasis struct{ p1, p2, p1B, p2B shapes.Vec3 }
-
-// eqValues writes the values C of a joint's equality rows, in the order of
-// its rows, with the bodies at the poses of geometry g (B turned by qb),
-// and returns how many rows there are.
-func eqValues(jt *joint, g *jgeom, qb shapes.Quat, bs *eqBasis, out *[6]float64) int {
-	switch jt.def.Kind {
-	case Revolute:
-		cr := g.axis.Cross(g.axA)
-		out[0], out[1], out[2], out[3], out[4] = g.d[0], g.d[1], g.d[2], bs.p1.Dot(cr), bs.p2.Dot(cr)
-		return 5
-	case Spherical:
-		out[0], out[1], out[2] = g.d[0], g.d[1], g.d[2]
-		return 3
-	case Fixed:
-		out[0], out[1], out[2], out[3], out[4], out[5] = g.d[0], g.d[1], g.d[2], g.twist[0], g.twist[1], g.twist[2]
-		return 6
-	case Prismatic:
-		out[0], out[1], out[2] = g.twist[0], g.twist[1], g.twist[2]
-		out[3], out[4] = rotate(qb, bs.p1B).Dot(g.d), rotate(qb, bs.p2B).Dot(g.d)
-		return 5
-	case Distance:
-		l := g.d.Len()
-		if !(l > 1e-12) {
-			return 0
-		}
-		if jt.def.MinLength == jt.def.MaxLength {
-			out[0] = l - jt.length
-			return 1
-		}
-		out[0], out[1] = l-jt.def.MinLength, jt.def.MaxLength-l
-		return 2
-	}
-	return 0
-}
-
-// servoRow returns the row of a servo: a spring-damper toward the target,
-// integrated implicitly over the step (backward Euler, so that a stiff
-// servo stays stable): with effective mass m along the joint's free
-// coordinate q, speed v0 at the start of the step and v1 = v0 + lambda/m
-// at its end, the impulse is
-//
-//	lambda = h (k (q* - q - h v1) - c v1),
-//
-// solved for lambda and capped at MaxForce h. It is applied as a fixed
-// impulse (Lo = Hi = lambda). The effective mass is that of the free
-// coordinate with the joint's other rows holding (a Schur complement; the
-// decoupled rows make it 1/(k_aa - sum_i (J'_i M^-1 J_a^T)^2)), so a hinged
-// arm responds with its inertia about the pivot.
-func (w *World) servoRow(jt *joint, r contact.Row, q, h float64, eq []contact.Row, decoupled bool, key uint64) contact.Row {
-	bodies := w.collision.bodies
-	resp := responseOf(&r, bodies)
-	kinv := coupling(&r, resp)
-	if decoupled {
-		for i := range eq {
-			y := coupling(&eq[i], resp)
-			kinv -= y * y
-		}
-	}
-	m := &jt.def.Motor
-	lambda := 0.0
-	if kinv > 0 {
-		A, B := &bodies[r.A], &bodies[r.B]
-		v0 := r.LinA.Dot(A.V) + r.AngA.Dot(A.W) + r.LinB.Dot(B.V) + r.AngB.Dot(B.W)
-		kc := h * (h*m.Stiffness + m.Damping)
-		lambda = (h*m.Stiffness*(m.Target-q) - kc*v0) / (1 + kc*kinv)
-		lim := m.MaxForce * h
-		lambda = min(max(lambda, -lim), lim)
-	}
-	r.Lo, r.Hi, r.Key = lambda, lambda, key
-	return r
-}
-
-// jointScale is the factor on a row's drift that makes the position pass
-// remove jointCorrection of it per step (see jointRows).
-func (w *World) jointScale() float64 {
-	if corr := w.collision.solver.Settings.Correction; corr > 0 {
-		return jointCorrection / corr
-	}
-	return 1
-}
-
-// afterJointSolve runs after the contact solve: the exact projection of
-// the velocities and pseudo-velocities onto the joints that form a forest
-// (jointtree.go). The joints' reactions are read from the rows when asked
-// (JointReaction).
-func (w *World) afterJointSolve(dt float64) {
-	if len(w.mech.joints) == 0 {
-		return
-	}
-	if w.buildTree() {
-		w.projectJoints(false)
-		if w.collision.solver.Settings.PositionIterations > 0 {
-			w.predictAll(dt, true)
-			w.projectJoints(true)
-		}
-	}
-}

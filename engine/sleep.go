@@ -68,7 +68,7 @@ func (w *World) updateRest(dt float64) {
 			w.union(int32(a), int32(b))
 		}
 	}
-	w.unionJoints() // jointed bodies share an island (joint.go)
+	w.unionJoints() // jointed bodies share an island (jointsleep.go)
 	if anyDynamic && allRest && !w.settled && !w.pending() {
 		w.settled, w.settledAt = true, w.time
 		w.emit(Event{Kind: Settled, Time: w.time, A: -1, B: -1})
@@ -97,7 +97,7 @@ func (w *World) updateRest(dt float64) {
 			}
 		}
 	}
-	w.jointsKeepAwake() // jointed to a moving kinematic body (joint.go)
+	w.jointsKeepAwake() // jointed to a moving kinematic body (jointsleep.go)
 	w.buildRings()      // (sleep_wake.go)
 	slept := false
 	for i, k := range w.b.kind {

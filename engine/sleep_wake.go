@@ -104,7 +104,7 @@ func (w *World) wakeOne(id BodyID) {
 	}
 	s.woken = append(s.woken, id)
 	w.emit(Event{Kind: Wake, Time: w.time, A: id, B: -1})
-	w.wakeJointed(id) // (joint.go)
+	w.wakeJointed(id) // (jointsleep.go)
 }
 
 // collideWoken finishes the narrow phase for bodies woken during it. They

@@ -98,7 +98,7 @@ func TestBadInput(t *testing.T) {
 		{name: "kick unknown body", scene: floor + part + "[[kick]]\nbody = \"capp\"\nimpulse = [1, 0, 0]\n",
 			want: `scene.toml:10: kick on "capp": no body is named "capp"; did you mean "cap"?`},
 		{name: "unknown joint kind", scene: floor + part + "[[joint]]\nname = \"pin\"\nkind = \"hindge\"\nbodies = [\"cap\"]\n",
-			want: `scene.toml:11: joint "pin": unknown kind "hindge"; did you mean "hinge"?`},
+			want: `scene.toml:11: joint "pin": unknown kind "hindge"; did you mean "revolute" (called "hinge" before)?`},
 		{name: "drive of a static body", scene: floor + part + "[[drive]]\nbody = \"floor\"\ntilt = { axis = [0, 1, 0], rate = 1 }\n",
 			want: `drive of "floor": body "floor" is static, so it cannot be moved by tilt; write driven = true`},
 		{name: "kick static body", scene: floor + part + "[[kick]]\nbody = \"floor\"\nimpulse = [1, 0, 0]\n", want: `body "floor" is static; only bodies moved by gravity and contact can be kicked`},

@@ -115,7 +115,7 @@ func TestEventKeys(t *testing.T) {
 		byKind[e.Event] = skeleton(t, []byte(line))
 	}
 	var all []string
-	for _, k := range []string{"impact", "settled", "sleep"} {
+	for _, k := range []string{"impact", "settled", "rest_begin"} {
 		s, ok := byKind[k]
 		if !ok {
 			t.Fatalf("no %s event in %s", k, b)

@@ -217,7 +217,7 @@ func TestExampleCamFollower(t *testing.T) {
 	// summary.json: both joints, the shaft's final speed -2 pi rad/s and
 	// the guide's travel the follower's rise from its start at 40 mm.
 	s := readSummary(t, dir)
-	if len(s.Joints) != 2 || s.Joints[0].Name != "camshaft" || s.Joints[0].Kind != "hinge" || s.Joints[1].Kind != "slider" {
+	if len(s.Joints) != 2 || s.Joints[0].Name != "camshaft" || s.Joints[0].Kind != "revolute" || s.Joints[1].Kind != "prismatic" {
 		t.Fatalf("summary joints %+v", s.Joints)
 	}
 	if sp := s.Joints[0].Speed; sp == nil || math.Abs(*sp+2*math.Pi) > 1e-6 {

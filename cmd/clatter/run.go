@@ -9,6 +9,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"clatter/engine"
 	"clatter/engine/report"
 	"clatter/engine/scene"
 )
@@ -27,7 +28,8 @@ settled when until_settled is true, and writes into DIR (default clatter-out):
                    moving or driven body every --sample seconds (default
                    0.01) and at the end
   events.jsonl     impacts (with the struck face, edge or corner of each
-                   body), sleep and wake, tips and slides, settling and
+                   body), rest_begin and rest_end (a body came to rest or
+                   was set moving again), tips and slides, settling and
                    errors, one JSON object a line
   joints.csv       for a scene with joints: time,joint,fx,fy,fz,tx,ty,tz,
                    position,speed,effort, a row per joint every sample: the
@@ -214,7 +216,7 @@ func writeRunTable(w io.Writer, s *scene.Scene, sum *report.Summary, dir string,
 			pos, speed := "-", "-"
 			if j.Position != nil {
 				unit, rate := u.Length, u.Symbol(scene.Speed)
-				if j.Kind == "hinge" {
+				if k, _ := scene.JointKindNamed(j.Kind); k == engine.Revolute {
 					unit, rate = "deg", "rad/s"
 				}
 				pos, speed = fmt.Sprintf("%.4g %s", *j.Position, unit), fmt.Sprintf("%.4g %s", *j.Speed, rate)

@@ -13,21 +13,7 @@ var cmdVerify = &command{
 	name:    "verify",
 	summary: "run the built-in analytic cases: measured against expected",
 	usage:   "clatter verify [--json] [--quiet]",
-	help: `
-Runs the analytic validation cases built into clatter through the engine:
-free fall, sliding down and sticking on an incline, sliding to a stop,
-bouncing, a sphere that starts to roll, a cylinder rolling down an incline,
-Newton's cradle, a tilt table that tips or slides a block, torque-free spin,
-the mass properties of a box mesh, a cube's resting probabilities and tip
-angle, and a scene file in millimetres. Each prints its reference and
-source, the expected and the measured value, the error (relative where
-marked %) and its tolerance, and pass or FAIL.
-
-Exit codes: 0 every case passed, 1 a case failed.
-
-Options:
-  --json           print the results as a JSON array
-  --quiet, -q      no informational messages`,
+	help:    verifyHelp(), // verifyhelp.go
 }
 
 func verifyCases(e *env, args []string) int {

@@ -228,7 +228,7 @@ position = [%[3]g, 0, %[4]g]
 orientation = { axis = [0, 1, 0], angle = 2 }
 [[joint]]
 name = "pivot"
-kind = "hinge"
+kind = "revolute"
 bodies = ["bar"]
 at = [0, 0, 0]
 axis = [0, 1, 0]

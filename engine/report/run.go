@@ -33,8 +33,8 @@ const TrajectoryHeader = "time,body,x,y,z,qw,qx,qy,qz,vx,vy,vz,wx,wy,wz"
 
 // JointsHeader is the first line of joints.csv: the force and torque that
 // each joint applied to its first body (world frame, at its anchor), its
-// position (a hinge's angle in degrees, a slider's travel or a link's
-// length), its speed (rad/s or length/s) and its motor's effort (torque
+// position (a revolute joint's angle in degrees, a prismatic joint's travel
+// or a link's length), its speed (rad/s or length/s) and its motor's effort (torque
 // or force along the axis); empty where a kind has no such quantity.
 const JointsHeader = "time,joint,fx,fy,fz,tx,ty,tz,position,speed,effort"
 
@@ -532,7 +532,8 @@ type eventJSON struct {
 }
 
 // events takes the world's events of the last step: it writes impacts,
-// sleep, wake and settling, and tracks which bodies touch.
+// rest_begin and rest_end (engine.Sleep and engine.Wake) and settling,
+// and tracks which bodies touch.
 func (r *runner) events() {
 	w := r.w
 	for _, e := range w.Events() {

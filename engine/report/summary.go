@@ -90,9 +90,12 @@ type Body struct {
 // reaction it carried at the end of any step.
 type Joint struct {
 	Name string `json:"name"`
+	// Kind is the joint's kind as scene files name it now
+	// (scene.JointKindNamed reads the names of the previous release too).
 	Kind string `json:"kind"`
-	// Position is a hinge's angle (deg), a slider's travel or a link's
-	// length; Speed its rate (rad/s or length/s); null for a ball or weld.
+	// Position is a revolute joint's angle (deg), a prismatic joint's
+	// travel or a link's length; Speed its rate (rad/s or length/s); null
+	// for a spherical or fixed joint.
 	Position *float64 `json:"position"`
 	Speed    *float64 `json:"speed"`
 	// MaxForce and MaxTorque are the largest magnitudes of the force and

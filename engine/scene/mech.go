@@ -45,16 +45,17 @@ type Drive struct {
 	PathFile string
 }
 
-// jointKinds are the names of joint kinds in a scene file.
+// jointKinds are the names of joint kinds in a scene file, after the
+// kinematic pairs (rename.go reads the names of the previous release).
 var jointKinds = map[string]engine.JointKind{
-	"hinge":  engine.Revolute,
-	"slider": engine.Prismatic,
-	"ball":   engine.Spherical,
-	"weld":   engine.Fixed,
-	"link":   engine.Distance,
+	"revolute":  engine.Revolute,
+	"prismatic": engine.Prismatic,
+	"spherical": engine.Spherical,
+	"fixed":     engine.Fixed,
+	"link":      engine.Distance,
 }
 
-var jointKindNames = []string{"hinge", "slider", "ball", "weld", "link"}
+var jointKindNames = []string{"revolute", "prismatic", "spherical", "fixed", "link"}
 
 // KindName is the joint's kind as the scene file names it.
 func (j *Joint) KindName() string { return jointKindNames[j.Kind] }
@@ -121,9 +122,13 @@ func (r *reader) joint(i int, m map[string]any) (Joint, bool) {
 	if !ok {
 		return j, false
 	}
+	if now, warning := currentJointKind(kind); warning != "" { // rename.go
+		r.warnAt(sub(path, "kind"), "%s", warning)
+		kind = now
+	}
 	k, known := jointKinds[kind]
 	if !known {
-		r.errAt(sub(path, "kind"), "%sunknown kind %q%s; the kinds are %s", sec.pre, kind, Suggest(kind, jointKindNames), strings.Join(quoted(jointKindNames), ", "))
+		r.errAt(sub(path, "kind"), "%sunknown kind %q%s; the kinds are %s", sec.pre, kind, jointKindSuggestion(kind), strings.Join(quoted(jointKindNames), ", "))
 		return j, false
 	}
 	j.Kind = k
@@ -203,7 +208,7 @@ func (r *reader) joint(i int, m map[string]any) (Joint, bool) {
 	}
 	switch k {
 	case engine.Revolute, engine.Prismatic:
-		what := "axis = [x, y, z], the hinge line"
+		what := "axis = [x, y, z], the line it turns about"
 		if k == engine.Prismatic {
 			what = "axis = [x, y, z], the direction of travel"
 		}
@@ -227,7 +232,7 @@ func (r *reader) joint(i int, m map[string]any) (Joint, bool) {
 	default:
 		refuse("limits", "it has no angle or travel to limit (a link bounds its length with length = [min, max])")
 		refuse("friction", "it has no single free motion for friction to resist")
-		refuse("motor", "only hinges and sliders are driven by a motor")
+		refuse("motor", "only revolute and prismatic joints are driven by a motor")
 	}
 	if lv, given := m["limits"]; given && (k == engine.Revolute || k == engine.Prismatic) {
 		lim, ok := r.pair(lv, free, sub(path, "limits"), sec.pre+"limits")
@@ -274,7 +279,7 @@ func (r *reader) joint(i int, m map[string]any) (Joint, bool) {
 	return j, r.n == nerr
 }
 
-// motor reads the motor table of a hinge or slider: a speed motor
+// motor reads the motor table of a revolute or prismatic joint: a speed motor
 // (speed, max_torque or max_force) or a servo (target, stiffness, damping,
 // max_torque or max_force), with its program of later speeds or targets.
 func (r *reader) motor(sec section, k engine.JointKind, free, effort Dim) (engine.Motor, []MotorChange) {

@@ -36,7 +36,7 @@ func TestMechanismKeys(t *testing.T) {
 	// convention: angles in degrees, angular quantities otherwise in rad).
 	src := mechBase + tableDrive + `[[joint]]
 name = "pin"
-kind = "hinge"
+kind = "revolute"
 bodies = ["flap", "table"]
 at = [0, 0, 100]
 axis = [0, 2, 0]
@@ -46,7 +46,7 @@ collide = true
 motor = { target = 10, stiffness = 2e9, damping = "0.1 N m s/rad", max_torque = "5 N m", program = [{ time = 1, target = 45 }] }
 [[joint]]
 name = "spin"
-kind = "hinge"
+kind = "revolute"
 bodies = ["flap"]
 at = [0, 0, 100]
 axis = [0, 1, 0]
@@ -62,7 +62,7 @@ motor = { speed = "30 rpm" }
 	pin := s.Joints[0]
 	d := pin.Def
 	deg := math.Pi / 180
-	if pin.A != "flap" || pin.B != "table" || d.Kind != engine.Revolute || pin.KindName() != "hinge" || !d.Collide {
+	if pin.A != "flap" || pin.B != "table" || d.Kind != engine.Revolute || pin.KindName() != "revolute" || !d.Collide {
 		t.Errorf("joint %+v", pin)
 	}
 	if !nearVec(d.Anchor, shapes.Vec3{0, 0, 0.1}) || !nearVec(d.Axis, shapes.Vec3{0, 2, 0}) {
@@ -159,46 +159,46 @@ conveyor = [100, 0, 0]
 }
 
 func TestBadMechanismKeys(t *testing.T) {
-	hinge := func(extra string) string {
-		return mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"hinge\"\nbodies = [\"flap\", \"table\"]\nat = [0, 0, 100]\naxis = [0, 1, 0]\n" + extra
+	revolute := func(extra string) string {
+		return mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"revolute\"\nbodies = [\"flap\", \"table\"]\nat = [0, 0, 100]\naxis = [0, 1, 0]\n" + extra
 	}
 	vib := func(term string) string {
 		return mechBase + "[[drive]]\nbody = \"table\"\nvibration = [" + term + "]\n"
 	}
 	for _, c := range []struct{ name, src, want string }{
-		{"misspelt joint key", hinge("axsi = [0, 1, 0]\n"), `mech.toml:20: unknown key "axsi" in joint "pin"; did you mean "axis"?`},
-		{"unknown kind", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"hing\"\n", `joint "pin": unknown kind "hing"; did you mean "hinge"?`},
-		{"no name", mechBase + tableDrive + "[[joint]]\nkind = \"hinge\"\n", `[[joint]] number 1: name is missing`},
-		{"no bodies", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\n", `joint "pin": bodies is missing`},
-		{"unknown body", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\nbodies = [\"flop\"]\nat = [0, 0, 0]\n",
+		{"misspelt joint key", revolute("axsi = [0, 1, 0]\n"), `mech.toml:20: unknown key "axsi" in joint "pin"; did you mean "axis"?`},
+		{"unknown kind", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"hing\"\n", `joint "pin": unknown kind "hing"; did you mean "revolute" (called "hinge" before)?`},
+		{"no name", mechBase + tableDrive + "[[joint]]\nkind = \"revolute\"\n", `[[joint]] number 1: name is missing`},
+		{"no bodies", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\n", `joint "pin": bodies is missing`},
+		{"unknown body", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\nbodies = [\"flop\"]\nat = [0, 0, 0]\n",
 			`mech.toml:17: joint "pin": no body is named "flop"; did you mean "flap"?`},
-		{"three bodies", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\nbodies = [\"flap\", \"table\", \"flap\"]\n", `bodies must name one or two bodies`},
-		{"fixed body first", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\nbodies = [\"table\", \"flap\"]\nat = [0, 0, 0]\n",
+		{"three bodies", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\nbodies = [\"flap\", \"table\", \"flap\"]\n", `bodies must name one or two bodies`},
+		{"fixed body first", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\nbodies = [\"table\", \"flap\"]\nat = [0, 0, 0]\n",
 			`joint "pin": the first body "table" is driven; name the moving body first`},
-		{"no moving body", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\nbodies = [\"table\"]\nat = [0, 0, 0]\n",
+		{"no moving body", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\nbodies = [\"table\"]\nat = [0, 0, 0]\n",
 			`neither body moves under gravity and contact`},
-		{"hinge without axis", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"hinge\"\nbodies = [\"flap\"]\nat = [0, 0, 100]\n",
-			`joint "pin": a hinge joint needs axis = [x, y, z], the hinge line`},
-		{"ball without point", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\nbodies = [\"flap\"]\n", `a ball joint needs at = [x, y, z]`},
-		{"zero axis", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"slider\"\nbodies = [\"flap\"]\naxis = [0, 0, 0]\n", `joint "pin": axis must not be zero`},
-		{"limits reversed", hinge("limits = [30, -30]\n"), `joint "pin": limits must be [lower, upper] with lower <= upper, got 30 and -30 deg`},
-		{"limits of a ball", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"ball\"\nbodies = [\"flap\"]\nat = [0, 0, 0]\nlimits = [0, 1]\n",
-			`a ball joint takes no limits`},
-		{"motor of a weld", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"weld\"\nbodies = [\"flap\"]\nmotor = { speed = 1 }\n",
-			`a weld joint takes no motor: only hinges and sliders are driven by a motor`},
-		{"speed and target", hinge("motor = { speed = 1, target = 2, stiffness = 1 }\n"), `give either speed (a speed motor) or target`},
-		{"servo without spring", hinge("motor = { target = 20 }\n"), `a servo needs stiffness > 0 or damping > 0`},
-		{"force cap on a hinge", hinge("motor = { speed = 1, max_force = 2 }\n"), `unknown key "max_force" in the motor of joint "pin"`},
-		{"zero cap", hinge("motor = { speed = 1, max_torque = 0 }\n"), `max_torque must be positive (leave it out for no cap)`},
-		{"torque as a force", hinge("friction = \"2 N\"\n"), `friction must be a torque, got "2 N", which is a force`},
-		{"negative friction", hinge("friction = -1\n"), `friction (a torque that resists the motion) must be >= 0`},
-		{"program out of order", hinge("motor = { target = 0, stiffness = 1, program = [{ time = 2, target = 1 }, { time = 1, target = 0 }] }\n"),
+		{"revolute joint without axis", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"revolute\"\nbodies = [\"flap\"]\nat = [0, 0, 100]\n",
+			`joint "pin": a revolute joint needs axis = [x, y, z], the line it turns about`},
+		{"spherical joint without point", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\nbodies = [\"flap\"]\n", `a spherical joint needs at = [x, y, z]`},
+		{"zero axis", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"prismatic\"\nbodies = [\"flap\"]\naxis = [0, 0, 0]\n", `joint "pin": axis must not be zero`},
+		{"limits reversed", revolute("limits = [30, -30]\n"), `joint "pin": limits must be [lower, upper] with lower <= upper, got 30 and -30 deg`},
+		{"limits of a spherical joint", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"spherical\"\nbodies = [\"flap\"]\nat = [0, 0, 0]\nlimits = [0, 1]\n",
+			`a spherical joint takes no limits`},
+		{"motor of a fixed joint", mechBase + tableDrive + "[[joint]]\nname = \"pin\"\nkind = \"fixed\"\nbodies = [\"flap\"]\nmotor = { speed = 1 }\n",
+			`a fixed joint takes no motor: only revolute and prismatic joints are driven by a motor`},
+		{"speed and target", revolute("motor = { speed = 1, target = 2, stiffness = 1 }\n"), `give either speed (a speed motor) or target`},
+		{"servo without spring", revolute("motor = { target = 20 }\n"), `a servo needs stiffness > 0 or damping > 0`},
+		{"force cap on a revolute joint", revolute("motor = { speed = 1, max_force = 2 }\n"), `unknown key "max_force" in the motor of joint "pin"`},
+		{"zero cap", revolute("motor = { speed = 1, max_torque = 0 }\n"), `max_torque must be positive (leave it out for no cap)`},
+		{"torque as a force", revolute("friction = \"2 N\"\n"), `friction must be a torque, got "2 N", which is a force`},
+		{"negative friction", revolute("friction = -1\n"), `friction (a torque that resists the motion) must be >= 0`},
+		{"program out of order", revolute("motor = { target = 0, stiffness = 1, program = [{ time = 2, target = 1 }, { time = 1, target = 0 }] }\n"),
 			`program entry 2: times must be >= 0 and in order, got 1 s after 2 s`},
-		{"program speed of a servo", hinge("motor = { target = 0, stiffness = 1, program = [{ time = 2, speed = 1 }] }\n"), `unknown key "speed" in program entry 1`},
+		{"program speed of a servo", revolute("motor = { target = 0, stiffness = 1, program = [{ time = 2, speed = 1 }] }\n"), `unknown key "speed" in program entry 1`},
 		{"link without other end", mechBase + tableDrive + "[[joint]]\nname = \"rope\"\nkind = \"link\"\nbodies = [\"flap\"]\nat = [0, 0, 0]\n",
 			`a link joint needs at_other`},
-		{"length of a hinge", hinge("length = 3\n"), `a hinge joint takes no length`},
-		{"duplicate joint", hinge("") + "[[joint]]\nname = \"pin\"\nkind = \"weld\"\nbodies = [\"flap\"]\n", `joint "pin": the name is already used by the joint at line 14`},
+		{"length of a revolute joint", revolute("length = 3\n"), `a revolute joint takes no length`},
+		{"duplicate joint", revolute("") + "[[joint]]\nname = \"pin\"\nkind = \"fixed\"\nbodies = [\"flap\"]\n", `joint "pin": the name is already used by the joint at line 14`},
 		{"static and driven", strings.Replace(mechBase, "driven = true\n", "driven = true\nstatic = true\n", 1) + tableDrive, `a body is either static (it never moves) or driven`},
 		{"driven without drive", mechBase, `mech.toml:9: body "table": driven = true, but no [[drive]] names it`},
 		{"driven body with mass", mechBase + "mass = 3\n" + tableDrive, `body "table": a driven body moves only as its [[drive]] says, so it takes no mass`},
@@ -219,7 +219,7 @@ func TestBadMechanismKeys(t *testing.T) {
 		{"negative tilt rate", mechBase + "[[drive]]\nbody = \"table\"\ntilt = { axis = [0, 1, 0], rate = -1 }\n", `rate must be positive; turn the axis around`},
 		{"missing pose table", mechBase + "[[drive]]\nbody = \"table\"\npath = \"nope.csv\"\n", `drive of "table": pose table "nope.csv" not found`},
 		{"repeat without path", mechBase + tableDrive + "repeat = true\n", `repeat belongs to a path`},
-		{"randomized jointed body", hinge("") + "[sweep]\ntrials = 2\n[sweep.randomize]\norientation = [\"flap\"]\n",
+		{"randomized jointed body", revolute("") + "[sweep]\ntrials = 2\n[sweep.randomize]\norientation = [\"flap\"]\n",
 			`body "flap" is held by a joint, whose geometry is fixed in the scene`},
 	} {
 		t.Run(c.name, func(t *testing.T) {
