@@ -322,9 +322,9 @@ func (r *reader) world(root section) {
 		Step:         DefaultStep,
 		Duration:     DefaultDuration,
 		UntilSettled: true,
-		RestSpeed:    5e-3,
-		RestSpin:     0.05,
-		RestTime:     0.25,
+		RestSpeed:    engine.DefaultRestSpeed,
+		RestSpin:     engine.DefaultRestSpin,
+		RestTime:     engine.DefaultRestTime,
 		Seed:         DefaultSeed,
 	}
 	sec, ok := r.table(root, "world", "[world]", "[world] ")
