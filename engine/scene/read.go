@@ -317,7 +317,7 @@ func (r *reader) units(root section) {
 
 func (r *reader) world(root section) {
 	w := &r.s.World
-	*w = World{
+	*w = Settings{
 		Gravity:      shapes.Vec3{0, 0, -engine.StandardGravity},
 		Step:         DefaultStep,
 		Duration:     DefaultDuration,

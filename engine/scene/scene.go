@@ -22,7 +22,8 @@ type Scene struct {
 	File string
 	// Units are the file's units; result writers convert back to them.
 	Units Units
-	World World
+	// World is the [world] section.
+	World Settings
 	// Materials are sorted by name; Pairs, Bodies and Kicks are in file order.
 	Materials []Material
 	Pairs     []Pair
@@ -47,8 +48,10 @@ type Scene struct {
 	cache map[string][]byte // mesh files read, by resolved path
 }
 
-// World holds the [world] settings in SI.
-type World struct {
+// Settings are the [world] section in SI: gravity, step, duration, rest
+// and seed. (The world itself, with its bodies, is the engine.World that
+// Build makes.)
+type Settings struct {
 	Gravity        shapes.Vec3
 	Step, Duration float64
 	// UntilSettled ends a run once every dynamic body has rested for RestTime.
