@@ -140,7 +140,7 @@ func (r *reader) quantitySI(v any, d Dim, path []string, what string) (float64, 
 			if d == Dimensionless {
 				r.errAt(path, "%s is a plain number without unit, got %q (%s)", what, t, qd)
 			} else {
-				r.errAt(path, "%s must be %s, got %q, which is %s (e.g. %s)", what, d, t, qd, d.example())
+				r.errAt(path, "%s must be %s, got %q, which is %s (e.g. %s)", what, d, t, qd, d.Example())
 			}
 			return 0, false
 		}
@@ -151,7 +151,7 @@ func (r *reader) quantitySI(v any, d Dim, path []string, what string) (float64, 
 }
 
 func exampleOr(d Dim) string {
-	if e := d.example(); e != "" && d != Dimensionless {
+	if e := d.Example(); e != "" && d != Dimensionless {
 		return e
 	}
 	return `"2 mm"`

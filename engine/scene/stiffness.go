@@ -8,13 +8,6 @@ import (
 	"clatter/shapes"
 )
 
-// Stiffness and Pressure are the dimensions of a cushion's stiffness
-// (N/m) and of an elastic modulus (Pa).
-var (
-	Stiffness = Dim{M: 1, T: -2}
-	Pressure  = Dim{L: -1, M: 1, T: -2}
-)
-
 // Compliance is a material's or pair's `stiffness`, in SI: Linear (N/m)
 // for a linear cushion, or Modulus (Pa) and Poisson for Hertz contact.
 // The zero value is rigid.
