@@ -8,12 +8,13 @@ import (
 	"path"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 
 	"clatter/shapes"
 	"clatter/shapes/mesh"
 
-	"github.com/BurntSushi/toml"
+	"github.com/pelletier/go-toml/v2"
 )
 
 // Scene is a scene file read, checked and converted to SI units.
@@ -203,14 +204,17 @@ func Parse(data []byte, name string, opt Options) (*Scene, error) {
 		return nil, Errors{e}
 	}
 	var raw map[string]any
-	if _, err := toml.Decode(string(data), &raw); err != nil {
-		var pe toml.ParseError
-		if errors.As(err, &pe) {
-			return nil, Errors{{File: name, Line: pe.Position.Line, Msg: "not valid TOML: " + pe.Message}}
+	if err := toml.Unmarshal(data, &raw); err != nil {
+		var de *toml.DecodeError
+		if errors.As(err, &de) {
+			line, _ := de.Position()
+			return nil, Errors{{File: name, Line: line, Msg: "not valid TOML: " + strings.TrimPrefix(de.Error(), "toml: ")}}
 		}
 		return nil, Errors{{File: name, Line: 1, Msg: "not valid TOML: " + err.Error()}}
 	}
-	s := &Scene{File: name, raw: raw, lines: indexLines(string(data)), opt: opt, cache: map[string][]byte{}}
+	doc := locate(data)
+	arraysOfTables(raw, doc.tables)
+	s := &Scene{File: name, raw: raw, lines: doc.lines, opt: opt, cache: map[string][]byte{}}
 	return s.read()
 }
 
@@ -233,6 +237,36 @@ func (s *Scene) With(key string, v float64) (*Scene, error) {
 	p.set(v)
 	n := &Scene{File: s.File, raw: raw, lines: s.lines, opt: s.opt, cache: s.cache}
 	return n.read()
+}
+
+// arraysOfTables gives the arrays of tables of raw (at the paths of
+// tables) the type []map[string]any, which tells them apart from arrays
+// of values written inline.
+func arraysOfTables(raw map[string]any, tables [][]string) {
+	for _, p := range tables {
+		var cur any = raw
+		for _, k := range p[:len(p)-1] {
+			switch t := cur.(type) {
+			case map[string]any:
+				cur = t[k]
+			case []map[string]any:
+				if i, err := strconv.Atoi(k); err == nil && i >= 0 && i < len(t) {
+					cur = t[i]
+				}
+			}
+		}
+		m, ok := cur.(map[string]any)
+		if !ok {
+			continue
+		}
+		if a, ok := m[p[len(p)-1]].([]any); ok {
+			list := make([]map[string]any, len(a))
+			for i, x := range a {
+				list[i], _ = x.(map[string]any)
+			}
+			m[p[len(p)-1]] = list
+		}
+	}
 }
 
 func deepCopy(v any) any {
