@@ -20,12 +20,11 @@ func (c Compliance) Given() bool { return c.Linear > 0 || c.Modulus > 0 }
 
 // stiffness reads the `stiffness` key of a material or pair: a quantity,
 // "40 N/mm", or a table { modulus = "2.4 GPa", poisson = 0.35 }.
-func (r *reader) stiffness(sec section) Compliance {
-	v, ok := sec.m["stiffness"]
-	if !ok {
+func (r *reader) stiffness(sec section, st value) Compliance {
+	if !st.Given() {
 		return Compliance{}
 	}
-	path := sub(sec.path, "stiffness")
+	v, path := st.v, st.path
 	if t, isTable := v.(map[string]any); isTable {
 		return r.hertzStiffness(sec, t, path)
 	}
