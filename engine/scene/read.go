@@ -628,8 +628,6 @@ func (r *reader) pairNames(sec *section, mats value) ([2]string, bool) {
 	return [2]string{names[0], names[1]}, true
 }
 
-var shapeKinds = []string{"box", "sphere", "cylinder", "capsule", "plane", "mesh", "pieces"}
-
 func (r *reader) bodies(root section) {
 	if _, ok := root.m["body"]; !ok {
 		r.errAt(nil, "the scene has no bodies: add at least one [[body]] section")
@@ -898,12 +896,27 @@ func RandomOrientation(rng *rand.Rand) shapes.Quat {
 	return mgl64.Quat{W: b * math.Cos(t2), V: mgl64.Vec3{a * math.Sin(t1), a * math.Cos(t1), b * math.Sin(t2)}}
 }
 
+// shapeKeys are the keys of a body's shape: one kind of shape, and for a
+// mesh how to keep it and its file's unit.
+type shapeKeys struct {
+	Box      Vector   `toml:"box"`
+	Sphere   Quantity `toml:"sphere"`
+	Cylinder value    `toml:"cylinder"` // [radius, length]
+	Capsule  value    `toml:"capsule"`  // [radius, length]
+	Plane    Vector   `toml:"plane"`
+	Mesh     Text     `toml:"mesh"`
+	Pieces   value    `toml:"pieces"` // compound.go
+	As       Text     `toml:"as"`
+	Units    Text     `toml:"units"`
+}
+
 func (r *reader) shape(sec section, b *Body, staticGiven bool) {
-	unknown := r.keys(sec, append(append([]string{}, shapeKinds...), "as", "units")...)
-	var kinds []string
-	for _, k := range shapeKinds {
-		if _, ok := sec.m[k]; ok {
-			kinds = append(kinds, k)
+	var k shapeKeys
+	unknown := r.decode(sec, &k)
+	var kinds []value
+	for _, v := range []value{k.Box.value, k.Sphere.value, k.Cylinder, k.Capsule, k.Plane.value, k.Mesh.value, k.Pieces} {
+		if v.Given() {
+			kinds = append(kinds, v)
 		}
 	}
 	if len(kinds) != 1 {
@@ -913,37 +926,60 @@ func (r *reader) shape(sec section, b *Body, staticGiven bool) {
 		r.errAt(sec.path, "%sshape must have exactly one of box, sphere, cylinder, capsule, plane, mesh and pieces, got %d", r.bodyPre(b), len(kinds))
 		return
 	}
-	k := kinds[0]
-	b.Kind = k
+	kind := kinds[0]
+	b.Kind = kind.key
 	pre := r.bodyPre(b)
-	kpath := sub(sec.path, k)
-	if k != "mesh" {
-		for _, extra := range []string{"as", "units"} {
-			if _, ok := sec.m[extra]; ok {
-				r.errAt(sub(sec.path, extra), "%sshape key %q belongs to a mesh shape only", pre, extra)
+	if kind.key != "mesh" {
+		for _, extra := range []Text{k.As, k.Units} {
+			if extra.Given() {
+				r.errAt(extra.path, "%sshape key %q belongs to a mesh shape only", pre, extra.key)
 			}
 		}
 	}
+	switch kind.key {
+	case "box", "sphere", "cylinder", "capsule":
+		r.solid(kind, b)
+	case "plane":
+		n, ok := r.vec(kind.v, Dimensionless, kind.path, pre+"plane normal", 3)
+		if !ok {
+			return
+		}
+		if !(n.Len() > 1e-12) {
+			r.errAt(kind.path, "%splane normal must not be zero", pre)
+			return
+		}
+		r.mustBeStatic(b, staticGiven, kind.path, "a plane")
+		b.Shape = shapes.Plane{Normal: n.Normalize()}
+	case "mesh":
+		r.meshShape(sec, k, b, staticGiven)
+	case "pieces":
+		r.pieces(sec, b)
+	}
+}
+
+// solid reads a box, sphere, cylinder or capsule.
+func (r *reader) solid(kind value, b *Body) {
+	pre := r.bodyPre(b)
 	positive := func(x float64, what string) bool {
 		if !(x > 0) {
-			r.errAt(kpath, "%s%s must be positive, got %g %s", pre, what, r.s.Units.FromSI(x, Length), r.s.Units.Length)
+			r.errAt(kind.path, "%s%s must be positive, got %g %s", pre, what, r.s.Units.FromSI(x, Length), r.s.Units.Length)
 			return false
 		}
 		return true
 	}
-	switch k {
+	switch k := kind.key; k {
 	case "box":
-		e, ok := r.vec(sec.m[k], Length, kpath, pre+"box", 3)
+		e, ok := r.vec(kind.v, Length, kind.path, pre+"box", 3)
 		if ok && positive(e[0], "box x edge") && positive(e[1], "box y edge") && positive(e[2], "box z edge") {
 			b.Shape = shapes.Box{Half: e.Mul(0.5)}
 		}
 	case "sphere":
-		rad, ok := r.quantity(sec.m[k], Length, kpath, pre+"sphere radius")
+		rad, ok := r.quantity(kind.v, Length, kind.path, pre+"sphere radius")
 		if ok && positive(rad, "sphere radius") {
 			b.Shape = shapes.Sphere{Radius: rad}
 		}
 	case "cylinder", "capsule":
-		v, ok := r.vec2(sec.m[k], kpath, pre+k+" [radius, length]")
+		v, ok := r.vec2(kind.v, kind.path, pre+k+" [radius, length]")
 		if !ok || !positive(v[0], k+" radius") {
 			return
 		}
@@ -952,25 +988,10 @@ func (r *reader) shape(sec section, b *Body, staticGiven bool) {
 				b.Shape = shapes.Cylinder{Radius: v[0], HalfLength: v[1] / 2}
 			}
 		} else if v[1] < 0 {
-			r.errAt(kpath, "%scapsule length must be >= 0, got %g %s", pre, r.s.Units.FromSI(v[1], Length), r.s.Units.Length)
+			r.errAt(kind.path, "%scapsule length must be >= 0, got %g %s", pre, r.s.Units.FromSI(v[1], Length), r.s.Units.Length)
 		} else {
 			b.Shape = shapes.Capsule{Radius: v[0], HalfLength: v[1] / 2}
 		}
-	case "plane":
-		n, ok := r.vec(sec.m[k], Dimensionless, kpath, pre+"plane normal", 3)
-		if !ok {
-			return
-		}
-		if !(n.Len() > 1e-12) {
-			r.errAt(kpath, "%splane normal must not be zero", pre)
-			return
-		}
-		r.mustBeStatic(b, staticGiven, kpath, "a plane")
-		b.Shape = shapes.Plane{Normal: n.Normalize()}
-	case "mesh":
-		r.meshShape(sec, b, staticGiven)
-	case "pieces":
-		r.pieces(sec, b)
 	}
 }
 
@@ -1000,26 +1021,26 @@ func (r *reader) mustBeStatic(b *Body, staticGiven bool, path []string, what str
 	b.Static = true
 }
 
-func (r *reader) meshShape(sec section, b *Body, staticGiven bool) {
+func (r *reader) meshShape(sec section, k shapeKeys, b *Body, staticGiven bool) {
 	pre := r.bodyPre(b)
-	file, ok := r.str(sec, "mesh")
+	file, ok := r.text(sec, k.Mesh)
 	if !ok {
 		return
 	}
 	if strings.TrimSpace(file) == "" {
-		r.errAt(sub(sec.path, "mesh"), "%smesh must name an STL file", pre)
+		r.errAt(k.Mesh.path, "%smesh must name an STL file", pre)
 		return
 	}
-	as, asGiven := r.str(sec, "as")
+	as, asGiven := r.text(sec, k.As)
 	if asGiven && as != "hull" && as != "triangles" {
-		r.errAt(sub(sec.path, "as"), "%sshape as must be \"hull\" (the default: its convex hull, for moving parts) or \"triangles\" (a static fixture kept as its triangles), got %q%s", pre, as, Suggest(as, []string{"hull", "triangles"}))
+		r.errAt(k.As.path, "%sshape as must be \"hull\" (the default: its convex hull, for moving parts) or \"triangles\" (a static fixture kept as its triangles), got %q%s", pre, as, Suggest(as, []string{"hull", "triangles"}))
 		return
 	}
 	unit := mesh.Unit(r.s.Units.L)
-	if us, ok := r.str(sec, "units"); ok {
+	if us, ok := r.text(sec, k.Units); ok {
 		u, known := LengthUnits[us]
 		if !known {
-			r.errAt(sub(sec.path, "units"), "%sunknown mesh length unit %q%s", pre, us, Suggest(us, keysOf(LengthUnits)))
+			r.errAt(k.Units.path, "%sunknown mesh length unit %q%s", pre, us, Suggest(us, keysOf(LengthUnits)))
 			return
 		}
 		unit = mesh.Unit(u)
@@ -1030,31 +1051,31 @@ func (r *reader) meshShape(sec section, b *Body, staticGiven bool) {
 			if abs, aerr := filepath.Abs(p); aerr == nil && r.s.opt.FS == nil {
 				p = abs
 			}
-			r.errAt(sub(sec.path, "mesh"), "%smesh file %q not found (looked for %s; paths are relative to the scene file)", pre, file, p)
+			r.errAt(k.Mesh.path, "%smesh file %q not found (looked for %s; paths are relative to the scene file)", pre, file, p)
 		} else {
-			r.errAt(sub(sec.path, "mesh"), "%scannot read mesh file %q: %v", pre, file, unwrapPath(err))
+			r.errAt(k.Mesh.path, "%scannot read mesh file %q: %v", pre, file, unwrapPath(err))
 		}
 		return
 	}
 	m, err := mesh.ReadSTL(bytes.NewReader(data), file, unit)
 	if err != nil {
-		r.errAt(sub(sec.path, "mesh"), "%s%v", pre, err)
+		r.errAt(k.Mesh.path, "%s%v", pre, err)
 		return
 	}
 	b.MeshFile = p
 	if as == "triangles" {
-		r.mustBeStatic(b, staticGiven, sub(sec.path, "as"), "a mesh kept as triangles")
+		r.mustBeStatic(b, staticGiven, k.As.path, "a mesh kept as triangles")
 		b.Triangles = true
 		b.Shape = m.TriMesh()
 		return
 	}
 	part, err := mesh.NewPart(m)
 	if err != nil {
-		r.errAt(sub(sec.path, "mesh"), "%s%v", pre, err)
+		r.errAt(k.Mesh.path, "%s%v", pre, err)
 		return
 	}
 	for _, w := range part.Warnings {
-		r.warnAt(sub(sec.path, "mesh"), "%s%s", pre, w)
+		r.warnAt(k.Mesh.path, "%s%s", pre, w)
 	}
 	b.Part = part
 	b.Shape = part.Hull

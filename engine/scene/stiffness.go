@@ -39,26 +39,31 @@ func (r *reader) stiffness(sec section, st value) Compliance {
 	return Compliance{Linear: k}
 }
 
+// hertzKeys are the keys of stiffness = { modulus, poisson }.
+type hertzKeys struct {
+	Modulus Quantity `toml:"modulus"`
+	Poisson Quantity `toml:"poisson"`
+}
+
 func (r *reader) hertzStiffness(sec section, t map[string]any, path []string) Compliance {
 	tsec := section{m: t, path: path, name: sec.name + " stiffness", pre: sec.pre + "stiffness: "}
-	r.keys(tsec, "modulus", "poisson")
-	mv, okM := t["modulus"]
-	pv, okP := t["poisson"]
-	if !okM || !okP {
+	var k hertzKeys
+	r.decode(tsec, &k)
+	if !k.Modulus.Given() || !k.Poisson.Given() {
 		r.errAt(path, `%sstiffness as a table needs both modulus and poisson, e.g. stiffness = { modulus = "210 GPa", poisson = 0.3 } (Hertz contact), or give a linear stiffness such as "40 N/mm"`, sec.pre)
 		return Compliance{}
 	}
-	e, ok1 := r.quantitySI(mv, Pressure, sub(path, "modulus"), tsec.pre+"modulus")
-	nu, ok2 := r.quantitySI(pv, Dimensionless, sub(path, "poisson"), tsec.pre+"poisson")
-	if !ok1 || !ok2 || !r.inRange(e, Pressure, sub(path, "modulus"), tsec.pre+"modulus") {
+	e, ok1 := r.quantitySI(k.Modulus.v, Pressure, k.Modulus.path, tsec.pre+"modulus")
+	nu, ok2 := r.quantitySI(k.Poisson.v, Dimensionless, k.Poisson.path, tsec.pre+"poisson")
+	if !ok1 || !ok2 || !r.inRange(e, Pressure, k.Modulus.path, tsec.pre+"modulus") {
 		return Compliance{}
 	}
 	if !(e > 0) {
-		r.errAt(sub(path, "modulus"), `%smodulus must be > 0, got %g Pa; give Young's modulus, e.g. "2.4 GPa"`, tsec.pre, e)
+		r.errAt(k.Modulus.path, `%smodulus must be > 0, got %g Pa; give Young's modulus, e.g. "2.4 GPa"`, tsec.pre, e)
 		return Compliance{}
 	}
 	if !(nu > -1 && nu < 0.5) || math.IsNaN(nu) {
-		r.errAt(sub(path, "poisson"), "%spoisson must be between -1 and 0.5 (most solids 0.2 to 0.45), got %g", tsec.pre, nu)
+		r.errAt(k.Poisson.path, "%spoisson must be between -1 and 0.5 (most solids 0.2 to 0.45), got %g", tsec.pre, nu)
 		return Compliance{}
 	}
 	return Compliance{Modulus: e, Poisson: nu}
