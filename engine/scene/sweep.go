@@ -399,6 +399,35 @@ func namedBy(walked []string) (nameKey, what string) {
 	return "", ""
 }
 
+// element finds the element s of an array of tables of a dotted key: by
+// its name for bodies, joints and drives, else by its index.
+func element(t []map[string]any, walked []string, s, key string) (int, error) {
+	nameKey, what := namedBy(walked)
+	if nameKey == "" {
+		j, err := strconv.Atoi(s)
+		if err != nil || j < 0 || j >= len(t) {
+			return 0, fmt.Errorf("key %q: %q is not an index from 0 to %d", key, s, len(t)-1)
+		}
+		return j, nil
+	}
+	idx := -1
+	for j, b := range t {
+		if n, _ := b[nameKey].(string); n == s {
+			idx = j
+		}
+	}
+	if idx >= 0 {
+		return idx, nil
+	}
+	var cands []string
+	for _, b := range t {
+		if n, ok := b[nameKey].(string); ok {
+			cands = append(cands, n)
+		}
+	}
+	return 0, fmt.Errorf("key %q: no %s %q%s", key, what, s, Suggest(s, cands))
+}
+
 // keyRef is a resolved numeric key of a document: a slot to set.
 type keyRef struct {
 	set func(v float64)
@@ -437,28 +466,9 @@ func resolveKey(raw map[string]any, key string) (keyRef, error) {
 			setParent = func(v any) { m[k] = v }
 			cur = next
 		case []map[string]any:
-			idx := -1
-			if nameKey, what := namedBy(walked); nameKey != "" {
-				for j, b := range t {
-					if n, _ := b[nameKey].(string); n == s {
-						idx = j
-					}
-				}
-				if idx < 0 {
-					var cands []string
-					for _, b := range t {
-						if n, ok := b[nameKey].(string); ok {
-							cands = append(cands, n)
-						}
-					}
-					return keyRef{}, fmt.Errorf("key %q: no %s %q%s", key, what, s, Suggest(s, cands))
-				}
-			} else {
-				j, err := strconv.Atoi(s)
-				if err != nil || j < 0 || j >= len(t) {
-					return keyRef{}, fmt.Errorf("key %q: %q is not an index from 0 to %d", key, s, len(t)-1)
-				}
-				idx = j
+			idx, err := element(t, walked, s, key)
+			if err != nil {
+				return keyRef{}, err
 			}
 			cur = t[idx]
 			setParent = nil
