@@ -30,7 +30,7 @@ type Config struct {
 	BounceThreshold float64
 	// RestSpeed (m/s), RestSpin (rad/s) and RestTime (s): a body slower than
 	// both for RestTime is at rest; an island at rest sleeps (defaults
-	// DefaultRestSpeed, DefaultRestSpin, DefaultRestTime in rest.go).
+	// DefaultRestSpeed, DefaultRestSpin, DefaultRestTime in defaults.go).
 	RestSpeed, RestSpin, RestTime float64
 	// NoSleep keeps every body awake (rest is still tracked for Settled).
 	NoSleep bool
@@ -66,7 +66,7 @@ func (c *Config) fill() error {
 		defInt(&c.SubSteps, 1, "sub-steps"),
 		defInt(&c.VelocityIterations, 30, "velocity iterations"),
 		defInt(&c.PositionIterations, 3, "position iterations"),
-		def(&c.Slop, 2e-4, "slop"),
+		def(&c.Slop, DefaultSlop, "slop"),
 		def(&c.BounceThreshold, 0.1, "bounce threshold"),
 		def(&c.RestSpeed, DefaultRestSpeed, "rest speed"),
 		def(&c.RestSpin, DefaultRestSpin, "rest spin"),

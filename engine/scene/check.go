@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"clatter/engine"
 	"clatter/shapes"
 )
 
@@ -24,7 +25,6 @@ const (
 	// slopSizeWarn: bodies smaller than this many times the engine's
 	// default contact slop (0.2 mm) rest visibly sunk into their supports.
 	slopSizeWarn = 5
-	defaultSlop  = 2e-4
 	// manySteps warns of a run that will take long.
 	manySteps = 2e6
 )
@@ -161,7 +161,7 @@ func (r *reader) checkBodyStep(c *stepCheck, b Body) {
 		r.warnAt(r.pathOr(c.path, b), "%s is borderline for body %q (smallest size %s, speeds up to %.3g %s); results may be rough: a step of %s s is safer",
 			what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), roundDown(fix))
 	}
-	if size < slopSizeWarn*defaultSlop {
+	if size < slopSizeWarn*engine.DefaultSlop {
 		r.warnAt(r.pathOr(nil, b), "body %q is only %s thick; the solver's contact slop of 0.2 mm is a large part of it, so it will rest visibly sunk into its support", b.Name, sizeText)
 	}
 }
