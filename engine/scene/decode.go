@@ -104,7 +104,8 @@ func (r *reader) refuseUnknown(sec section, known []string) int {
 	return bad
 }
 
-func sortedKeys(m map[string]any) []string {
+// sortedKeys returns the keys of m in order.
+func sortedKeys[V any](m map[string]V) []string {
 	names := make([]string, 0, len(m))
 	for k := range m {
 		names = append(names, k)

@@ -15,6 +15,7 @@ import (
 	"clatter/engine"
 	"clatter/shapes"
 	"clatter/shapes/mesh"
+	"clatter/units"
 
 	"github.com/go-gl/mathgl/mgl64"
 )
@@ -227,7 +228,7 @@ func (r *reader) subTable(parent section, t Table, name, pre string) (section, b
 	return section{m: m, path: t.path, name: name, pre: pre}, true
 }
 
-// number, vector, str, boolean, integer and table read a key of a section
+// number, vector, str, boolean and table read a key of a section
 // read key by key.
 func (r *reader) number(sec section, key string, d Dim, def float64) (float64, bool) {
 	return r.scalar(sec, Quantity{sec.value(key)}, d, def)
@@ -243,10 +244,6 @@ func (r *reader) str(sec section, key string) (string, bool) {
 
 func (r *reader) boolean(sec section, key string, def bool) (bool, bool) {
 	return r.flag(sec, Flag{sec.value(key)}, def)
-}
-
-func (r *reader) integer(sec section, key string, def int64) (int64, bool) {
-	return r.whole(sec, Whole{sec.value(key)}, def)
 }
 
 func (r *reader) table(parent section, key, name, pre string) (section, bool) {
@@ -326,14 +323,14 @@ func (r *reader) units(root section) {
 	l, m0 := "m", "kg"
 	if x, ok := r.text(sec, k.Length); ok {
 		if _, known := LengthUnits[x]; !known {
-			r.errAt(k.Length.path, "units: unknown length unit %q%s", x, Suggest(x, keysOf(LengthUnits)))
+			r.errAt(k.Length.path, "units: unknown length unit %q%s", x, Suggest(x, units.FileLengths))
 		} else {
 			l = x
 		}
 	}
 	if x, ok := r.text(sec, k.Mass); ok {
 		if _, known := MassUnits[x]; !known {
-			r.errAt(k.Mass.path, "units: unknown mass unit %q%s", x, Suggest(x, keysOf(MassUnits)))
+			r.errAt(k.Mass.path, "units: unknown mass unit %q%s", x, Suggest(x, units.FileMasses))
 		} else {
 			m0 = x
 		}
@@ -460,12 +457,7 @@ func (r *reader) materials(root section) {
 		r.errAt([]string{"material"}, "material must be tables such as [material.abs], got %s", show(v))
 		return
 	}
-	names := make([]string, 0, len(all))
-	for n := range all {
-		names = append(names, n)
-	}
-	sort.Strings(names)
-	for _, n := range names {
+	for _, n := range sortedKeys(all) {
 		path := []string{"material", n}
 		m, ok := all[n].(map[string]any)
 		if !ok {
@@ -1040,7 +1032,7 @@ func (r *reader) meshShape(sec section, k shapeKeys, b *Body, staticGiven bool) 
 	if us, ok := r.text(sec, k.Units); ok {
 		u, known := LengthUnits[us]
 		if !known {
-			r.errAt(k.Units.path, "%sunknown mesh length unit %q%s", pre, us, Suggest(us, keysOf(LengthUnits)))
+			r.errAt(k.Units.path, "%sunknown mesh length unit %q%s", pre, us, Suggest(us, units.FileLengths))
 			return
 		}
 		unit = mesh.Unit(u)

@@ -3,7 +3,6 @@ package scene
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -454,12 +453,7 @@ func resolveKey(raw map[string]any, key string) (keyRef, error) {
 		case map[string]any:
 			next, ok := t[s]
 			if !ok {
-				cands := make([]string, 0, len(t))
-				for k := range t {
-					cands = append(cands, k)
-				}
-				sort.Strings(cands)
-				return keyRef{}, fmt.Errorf("key %q: %q has no %q%s", key, strings.Join(walked, "."), s, Suggest(s, cands))
+				return keyRef{}, fmt.Errorf("key %q: %q has no %q%s", key, strings.Join(walked, "."), s, Suggest(s, sortedKeys(t)))
 			}
 			m := t
 			k := s

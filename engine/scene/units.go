@@ -3,7 +3,6 @@ package scene
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -56,11 +55,11 @@ var SI = Units{Length: "m", Mass: "kg", L: 1, M: 1}
 func NewUnits(length, mass string) (Units, error) {
 	l, ok := LengthUnits[length]
 	if !ok {
-		return Units{}, fmt.Errorf("unknown length unit %q%s", length, Suggest(length, keysOf(LengthUnits)))
+		return Units{}, fmt.Errorf("unknown length unit %q%s", length, Suggest(length, units.FileLengths))
 	}
 	m, ok := MassUnits[mass]
 	if !ok {
-		return Units{}, fmt.Errorf("unknown mass unit %q%s", mass, Suggest(mass, keysOf(MassUnits)))
+		return Units{}, fmt.Errorf("unknown mass unit %q%s", mass, Suggest(mass, units.FileMasses))
 	}
 	return Units{Length: length, Mass: mass, L: l, M: m}, nil
 }
@@ -257,13 +256,4 @@ func unitFactor(s string) (float64, Dim, error) {
 		return 0, Dim{}, fmt.Errorf("unknown unit %q%s", name, Suggest(name, units.Names()))
 	}
 	return math.Pow(def.SI, float64(pow)), def.Dim.Pow(int8(pow)), nil
-}
-
-func keysOf(m map[string]float64) []string {
-	k := make([]string, 0, len(m))
-	for n := range m {
-		k = append(k, n)
-	}
-	sort.Strings(k)
-	return k
 }
