@@ -10,7 +10,7 @@ import (
 // such a struct from a table of the decoded document: every key must be a
 // field's, and each field keeps the value as written with its place in the
 // file. The values are checked and converted to SI where they are used
-// (reader.number, reader.vector, ...), so that every message names the
+// (reader.scalar, reader.vec3, ...), so that every message names the
 // file, the line, the section and the key.
 
 // value is a value of a section as written, with where it is written (or
