@@ -178,54 +178,40 @@ func (r *reader) vec3(sec section, v Vector, d Dim, def shapes.Vec3) (shapes.Vec
 
 // text reads an optional string of sec.
 func (r *reader) text(sec section, t Text) (string, bool) {
-	if !t.Given() {
-		return "", false
-	}
-	s, ok := t.v.(string)
-	if !ok {
-		r.errAt(t.path, "%s%s must be a string, got %s", sec.pre, t.key, show(t.v))
-		return "", false
-	}
-	return s, true
+	return typed(r, sec, t.value, "", "a string")
 }
 
 // flag reads an optional true or false of sec.
 func (r *reader) flag(sec section, f Flag, def bool) (bool, bool) {
-	if !f.Given() {
-		return def, false
-	}
-	b, ok := f.v.(bool)
-	if !ok {
-		r.errAt(f.path, "%s%s must be true or false, got %s", sec.pre, f.key, show(f.v))
-		return def, false
-	}
-	return b, true
+	return typed(r, sec, f.value, def, "true or false")
 }
 
 // whole reads an optional whole number of sec.
 func (r *reader) whole(sec section, w Whole, def int64) (int64, bool) {
-	if !w.Given() {
-		return def, false
-	}
-	i, ok := w.v.(int64)
-	if !ok {
-		r.errAt(w.path, "%s%s must be a whole number, got %s", sec.pre, w.key, show(w.v))
-		return def, false
-	}
-	return i, true
+	return typed(r, sec, w.value, def, "a whole number")
 }
 
 // subTable reads an optional table of parent as a section of its own.
 func (r *reader) subTable(parent section, t Table, name, pre string) (section, bool) {
-	if !t.Given() {
-		return section{}, false
-	}
-	m, ok := t.v.(map[string]any)
+	m, ok := typed[map[string]any](r, parent, t.value, nil, "a table")
 	if !ok {
-		r.errAt(t.path, "%s%s must be a table, got %s", parent.pre, t.key, show(t.v))
 		return section{}, false
 	}
 	return section{m: m, path: t.path, name: name, pre: pre}, true
+}
+
+// typed returns x as a T, or def if it is not given or, with a message
+// saying it must be what, not a T.
+func typed[T any](r *reader, sec section, x value, def T, what string) (T, bool) {
+	if !x.Given() {
+		return def, false
+	}
+	v, ok := x.v.(T)
+	if !ok {
+		r.errAt(x.path, "%s%s must be %s, got %s", sec.pre, x.key, what, show(x.v))
+		return def, false
+	}
+	return v, true
 }
 
 // number, vector, str, boolean and table read a key of a section
