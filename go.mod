@@ -3,9 +3,9 @@ module clatter
 go 1.26.8
 
 require (
-	github.com/BurntSushi/toml v1.6.0
 	github.com/go-gl/mathgl v1.2.0
 	github.com/hschendel/stl v1.0.4
+	github.com/pelletier/go-toml/v2 v2.4.3
 	github.com/qmuntal/gltf v0.28.0
 	github.com/schollz/progressbar/v3 v3.19.1
 	golang.org/x/image v0.30.0

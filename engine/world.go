@@ -29,8 +29,8 @@ type Config struct {
 	// BounceThreshold, m/s: slower impacts get no restitution (default 0.1 m/s).
 	BounceThreshold float64
 	// RestSpeed (m/s), RestSpin (rad/s) and RestTime (s): a body slower than
-	// both for RestTime is at rest; an island at rest sleeps (defaults 5 mm/s,
-	// 0.05 rad/s, 0.25 s).
+	// both for RestTime is at rest; an island at rest sleeps (defaults
+	// DefaultRestSpeed, DefaultRestSpin, DefaultRestTime in defaults.go).
 	RestSpeed, RestSpin, RestTime float64
 	// NoSleep keeps every body awake (rest is still tracked for Settled).
 	NoSleep bool
@@ -66,11 +66,11 @@ func (c *Config) fill() error {
 		defInt(&c.SubSteps, 1, "sub-steps"),
 		defInt(&c.VelocityIterations, 30, "velocity iterations"),
 		defInt(&c.PositionIterations, 3, "position iterations"),
-		def(&c.Slop, 2e-4, "slop"),
+		def(&c.Slop, DefaultSlop, "slop"),
 		def(&c.BounceThreshold, 0.1, "bounce threshold"),
-		def(&c.RestSpeed, 5e-3, "rest speed"),
-		def(&c.RestSpin, 0.05, "rest spin"),
-		def(&c.RestTime, 0.25, "rest time"),
+		def(&c.RestSpeed, DefaultRestSpeed, "rest speed"),
+		def(&c.RestSpin, DefaultRestSpin, "rest spin"),
+		def(&c.RestTime, DefaultRestTime, "rest time"),
 	} {
 		if e != nil {
 			return e

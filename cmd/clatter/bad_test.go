@@ -44,7 +44,8 @@ func TestBadInput(t *testing.T) {
 		args  []string          // default: run scene.toml
 		want  string
 	}{
-		{name: "toml syntax", scene: "[world\nstep = 1\n", want: "scene.toml:2: not valid TOML"},
+		// The header left open is on line 1, where the parser stops.
+		{name: "toml syntax", scene: "[world\nstep = 1\n", want: "scene.toml:1: not valid TOML: expected ']' to close table name"},
 		{name: "misspelt material key", scene: mm + "[material.abs]\nfricton = 0.3\n" + floor + part,
 			want: `scene.toml:3: unknown key "fricton" in [material.abs]; did you mean "friction"?`},
 		{name: "misspelt table", scene: "[[bodies]]\nname = \"x\"\n", want: `unknown key "bodies" in the scene's top level; did you mean "body"?`},

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"clatter/engine"
 	"clatter/shapes"
 )
 
@@ -21,25 +22,50 @@ const (
 	// slopSizeWarn: bodies smaller than this many times the engine's
 	// default contact slop (0.2 mm) rest visibly sunk into their supports.
 	slopSizeWarn = 5
-	defaultSlop  = 2e-4
 	// manySteps warns of a run that will take long.
 	manySteps = 2e6
 )
+
+// stepCheck is what checkStep knows of the scene as a whole.
+type stepCheck struct {
+	path      []string // of [world] step, or nil for the default step
+	g         float64  // gravity, m/s2
+	up        shapes.Vec3
+	lowest    float64 // the lowest point of the static bodies, along up
+	anyStatic bool
+	kick      map[string]float64 // surface speed kicks give, by body
+	mb        mechBounds
+}
 
 // checkStep refuses a step the solver cannot hold for the sizes and speeds
 // of the scene, and warns of borderline ones.
 func (r *reader) checkStep() {
 	s := r.s
 	w := s.World
-	stepPath := []string{"world", "step"}
+	c := &stepCheck{path: []string{"world", "step"}, g: w.Gravity.Len(), up: shapes.Vec3{0, 0, 1}}
 	if _, given := r.stepGiven(); !given {
-		stepPath = nil
+		c.path = nil
 	}
-	g := w.Gravity.Len()
-	up := shapes.Vec3{0, 0, 1}
-	if g > 0 {
-		up = w.Gravity.Mul(-1 / g)
+	if c.g > 0 {
+		c.up = w.Gravity.Mul(-1 / c.g)
 	}
+	c.lowest, c.anyStatic = s.lowestStatic(c.up)
+	c.kick = s.kickSpeeds()
+	c.mb = s.mechanismBounds()
+	r.checkVibration()
+	for _, b := range s.Bodies {
+		if !b.Static {
+			r.checkBodyStep(c, b)
+		}
+	}
+	if n := w.Duration / w.Step; n > manySteps {
+		r.warnAt(c.path, "the run takes %.3g steps (duration %g s / step %g s); it may take a while", n, w.Duration, w.Step)
+	}
+}
+
+// lowestStatic returns the lowest point of the static bodies along up,
+// and whether there are any.
+func (s *Scene) lowestStatic(up shapes.Vec3) (float64, bool) {
 	lowest, anyStatic := math.Inf(1), false
 	for _, b := range s.Bodies {
 		if !b.Static {
@@ -63,6 +89,11 @@ func (r *reader) checkStep() {
 			lowest = math.Min(lowest, up.Dot(c))
 		}
 	}
+	return lowest, anyStatic
+}
+
+// kickSpeeds bounds the surface speed the kicks give each body.
+func (s *Scene) kickSpeeds() map[string]float64 {
 	kickSpeed := map[string]float64{}
 	for _, k := range s.Kicks {
 		i := s.BodyIndex(k.Body)
@@ -70,57 +101,60 @@ func (r *reader) checkStep() {
 		// speed bounds the surface speed for ordinary parts.
 		kickSpeed[k.Body] += 2 * k.Impulse.Len() / s.Bodies[i].Props.Mass
 	}
-	mb := s.mechanismBounds()
-	r.checkVibration()
-	for _, b := range s.Bodies {
-		if b.Static {
-			continue
-		}
-		bb := b.Shape.Bounds()
-		sz := bb.Size()
-		size := math.Min(sz[0], math.Min(sz[1], sz[2]))
-		radius := sz.Len() / 2
-		top, extra := s.sweepReach(b.Name, radius)
-		v0 := b.Velocity.Len() + b.Spin.Len()*radius + kickSpeed[b.Name] + extra + mb.motor[b.Name] + mb.push
-		fall := g * w.Duration
-		if anyStatic && g > 0 {
-			// The fall is of the body's underside, not its centre: a part
-			// resting on the floor falls nowhere.
-			h := math.Max(0, math.Max(s.underside(b, up)-s.heightBelow(b, up), top)-lowest)
-			fall = math.Min(fall, math.Sqrt(2*g*h))
-		}
-		if h, held := mb.drop[b.Name]; held {
-			fall = math.Min(fall, math.Sqrt(2*g*h))
-		}
-		v := math.Sqrt(v0*v0 + fall*fall)
-		if v0+g*w.Duration < v {
-			v = v0 + g*w.Duration
-		}
-		travel := v * w.Step
-		fix := math.Inf(1)
-		if v > 0 {
-			fix = travelWarn * size / v
-		}
-		u := s.Units
-		what := fmt.Sprintf("[world] step %g s", w.Step)
-		if stepPath == nil {
-			what = fmt.Sprintf("the default step %g s", w.Step)
-		}
-		sizeText := fmt.Sprintf("%.3g %s", u.FromSI(size, Length), u.Length)
-		switch {
-		case travel > travelRefuse*size:
-			r.errAt(r.pathOr(stepPath, b), "%s is too large for body %q (smallest size %s): at the %.3g %s it can reach it would move %.3g %s in one step, more than its own size; use a step of at most %s s",
-				what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), u.FromSI(travel, Length), u.Length, roundDown(fix))
-		case travel > travelWarn*size:
-			r.warnAt(r.pathOr(stepPath, b), "%s is borderline for body %q (smallest size %s, speeds up to %.3g %s); results may be rough: a step of %s s is safer",
-				what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), roundDown(fix))
-		}
-		if size < slopSizeWarn*defaultSlop {
-			r.warnAt(r.pathOr(nil, b), "body %q is only %s thick; the solver's contact slop of 0.2 mm is a large part of it, so it will rest visibly sunk into its support", b.Name, sizeText)
-		}
+	return kickSpeed
+}
+
+// topSpeed bounds the speed a point of moving body b can reach: its
+// starting, kicked, drawn and driven speeds, and its fall.
+func (s *Scene) topSpeed(c *stepCheck, b Body, radius float64) float64 {
+	w, g := s.World, c.g
+	top, extra := s.sweepReach(b.Name, radius)
+	v0 := b.Velocity.Len() + b.Spin.Len()*radius + c.kick[b.Name] + extra + c.mb.motor[b.Name] + c.mb.push
+	fall := g * w.Duration
+	if c.anyStatic && g > 0 {
+		// The fall is of the body's underside, not its centre: a part
+		// resting on the floor falls nowhere.
+		h := math.Max(0, math.Max(s.underside(b, c.up)-s.heightBelow(b, c.up), top)-c.lowest)
+		fall = math.Min(fall, math.Sqrt(2*g*h))
 	}
-	if n := w.Duration / w.Step; n > manySteps {
-		r.warnAt(stepPath, "the run takes %.3g steps (duration %g s / step %g s); it may take a while", n, w.Duration, w.Step)
+	if h, held := c.mb.drop[b.Name]; held {
+		fall = math.Min(fall, math.Sqrt(2*g*h))
+	}
+	v := math.Sqrt(v0*v0 + fall*fall)
+	if v0+g*w.Duration < v {
+		v = v0 + g*w.Duration
+	}
+	return v
+}
+
+// checkBodyStep judges the step for one moving body.
+func (r *reader) checkBodyStep(c *stepCheck, b Body) {
+	s, w := r.s, r.s.World
+	bb := b.Shape.Bounds()
+	sz := bb.Size()
+	size := math.Min(sz[0], math.Min(sz[1], sz[2]))
+	v := s.topSpeed(c, b, sz.Len()/2)
+	travel := v * w.Step
+	fix := math.Inf(1)
+	if v > 0 {
+		fix = travelWarn * size / v
+	}
+	u := s.Units
+	what := fmt.Sprintf("[world] step %g s", w.Step)
+	if c.path == nil {
+		what = fmt.Sprintf("the default step %g s", w.Step)
+	}
+	sizeText := fmt.Sprintf("%.3g %s", u.FromSI(size, Length), u.Length)
+	switch {
+	case travel > travelRefuse*size:
+		r.errAt(r.pathOr(c.path, b), "%s is too large for body %q (smallest size %s): at the %.3g %s it can reach it would move %.3g %s in one step, more than its own size; use a step of at most %s s",
+			what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), u.FromSI(travel, Length), u.Length, roundDown(fix))
+	case travel > travelWarn*size:
+		r.warnAt(r.pathOr(c.path, b), "%s is borderline for body %q (smallest size %s, speeds up to %.3g %s); results may be rough: a step of %s s is safer",
+			what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), roundDown(fix))
+	}
+	if size < slopSizeWarn*engine.DefaultSlop {
+		r.warnAt(r.pathOr(nil, b), "body %q is only %s thick; the solver's contact slop of 0.2 mm is a large part of it, so it will rest visibly sunk into its support", b.Name, sizeText)
 	}
 }
 

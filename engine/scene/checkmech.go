@@ -34,33 +34,7 @@ type mechBounds struct {
 func (s *Scene) mechanismBounds() mechBounds {
 	mb := mechBounds{drop: map[string]float64{}, motor: map[string]float64{}}
 	n := len(s.Bodies)
-	// Union-find over the bodies joined by joints; index n is the world.
-	parent := make([]int, n+1)
-	for i := range parent {
-		parent[i] = i
-	}
-	find := func(i int) int {
-		for parent[i] != i {
-			parent[i] = parent[parent[i]]
-			i = parent[i]
-		}
-		return i
-	}
-	index := func(name string) int {
-		if name == "" {
-			return n
-		}
-		if i := s.BodyIndex(name); i >= 0 && s.Bodies[i].Static {
-			return n // a static or driven base holds like the world
-		}
-		return s.BodyIndex(name)
-	}
-	for _, j := range s.Joints {
-		a, b := find(index(j.A)), find(index(j.B))
-		if a != b {
-			parent[a] = b
-		}
-	}
+	find, index := s.assemblies()
 	// The reach of each held group: the diagonal of the box around its
 	// bodies and anchors.
 	boxes := map[int]shapes.AABB{}
@@ -109,37 +83,77 @@ func (s *Scene) mechanismBounds() mechBounds {
 		}
 	}
 	for _, d := range s.Drives {
-		i := s.BodyIndex(d.Body)
-		radius := s.worldBounds(i).Size().Len() / 2
-		pos := s.Bodies[i].Position
-		v := d.Conveyor.Len()
-		switch m := d.Motion.(type) {
-		case *engine.Vibration:
-			for _, o := range m.Terms {
-				w := 2 * math.Pi * o.Frequency
-				if o.Rotary {
-					v += o.Amplitude * w * (radius + m.Center.Sub(pos).Len())
-				} else {
-					v += o.Amplitude * w
-				}
-			}
-		case *engine.Tilt:
-			v += m.Rate * (radius + m.Point.Sub(pos).Len())
-		case *engine.PoseTable:
-			// A scene's table turns the body about its own origin: no point
-			// of it is farther from there than arm.
-			bb := s.worldBounds(i)
-			arm := radius + bb.Min.Add(bb.Max).Mul(0.5).Sub(pos).Len()
-			for k := 1; k < len(m.Times); k++ {
-				dt := m.Times[k] - m.Times[k-1]
-				a, b := m.Poses[k-1], m.Poses[k]
-				turn := 2 * math.Acos(math.Min(1, math.Abs(a.Orientation.Dot(b.Orientation))))
-				v = math.Max(v, (b.Position.Sub(a.Position).Len()+turn*arm)/dt)
-			}
-		}
-		mb.push = math.Max(mb.push, v)
+		mb.push = math.Max(mb.push, s.driveSpeed(d))
 	}
 	return mb
+}
+
+// driveSpeed bounds the surface speed of a drive's body.
+func (s *Scene) driveSpeed(d Drive) float64 {
+	i := s.BodyIndex(d.Body)
+	radius := s.worldBounds(i).Size().Len() / 2
+	pos := s.Bodies[i].Position
+	v := d.Conveyor.Len()
+	switch m := d.Motion.(type) {
+	case *engine.Vibration:
+		for _, o := range m.Terms {
+			w := 2 * math.Pi * o.Frequency
+			if o.Rotary {
+				v += o.Amplitude * w * (radius + m.Center.Sub(pos).Len())
+			} else {
+				v += o.Amplitude * w
+			}
+		}
+	case *engine.Tilt:
+		v += m.Rate * (radius + m.Point.Sub(pos).Len())
+	case *engine.PoseTable:
+		// A scene's table turns the body about its own origin: no point
+		// of it is farther from there than arm.
+		bb := s.worldBounds(i)
+		arm := radius + bb.Min.Add(bb.Max).Mul(0.5).Sub(pos).Len()
+		for k := 1; k < len(m.Times); k++ {
+			dt := m.Times[k] - m.Times[k-1]
+			a, b := m.Poses[k-1], m.Poses[k]
+			turn := 2 * math.Acos(math.Min(1, math.Abs(a.Orientation.Dot(b.Orientation))))
+			v = math.Max(v, (b.Position.Sub(a.Position).Len()+turn*arm)/dt)
+		}
+	}
+	return v
+}
+
+// assemblies groups the bodies joined by joints: find returns the group
+// of a body's index, and index the index of a body by name, n (the
+// world's) for the world and for static and driven bodies, which hold
+// like the world (a union-find over the bodies).
+func (s *Scene) assemblies() (find func(int) int, index func(string) int) {
+	n := len(s.Bodies)
+	parent := make([]int, n+1)
+	for i := range parent {
+		parent[i] = i
+	}
+	find = func(i int) int {
+		for parent[i] != i {
+			parent[i] = parent[parent[i]]
+			i = parent[i]
+		}
+		return i
+	}
+	index = func(name string) int {
+		if name == "" {
+			return n
+		}
+		if i := s.BodyIndex(name); i >= 0 && s.Bodies[i].Static {
+			return n
+		}
+		return s.BodyIndex(name)
+	}
+	for _, j := range s.Joints {
+		a, b := find(index(j.A)), find(index(j.B))
+		if a != b {
+			parent[a] = b
+		}
+	}
+	return find, index
 }
 
 // worldBounds is the box around body i at its starting pose.

@@ -77,7 +77,7 @@ func (r *reader) piece(path []string, m map[string]any, b *Body, i int) (shapes.
 	}
 	sec := section{m: m, path: path, name: name, pre: pre}
 	at, _ := r.vector(sec, "at", Length, shapes.Vec3{})
-	r.orientation(sec, &tmp, i)
+	r.orientation(sec, sec.value("orientation"), &tmp, i)
 	if tmp.RandomOrientation {
 		r.errAt(sub(path, "orientation"), "%sa piece's orientation must be a table { axis = [x, y, z], angle = degrees }, not \"random\"", pre)
 		return shapes.Piece{}, false

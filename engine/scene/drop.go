@@ -37,39 +37,41 @@ const DropNumberKey = "drop.number"
 // TenDrops is the only sequence [sweep] drops may name.
 const TenDrops = "ten"
 
+// dropKeys are the keys of [drop].
+type dropKeys struct {
+	Body   Text  `toml:"body"`
+	Strike Text  `toml:"strike"`
+	Height value `toml:"height"` // a length or "by mass"
+	Onto   Text  `toml:"onto"`
+	Number Whole `toml:"number"` // set by a study of the ten drops
+}
+
 func (r *reader) drop(root section) {
 	sec, ok := r.table(root, "drop", "[drop]", "[drop] ")
 	if !ok {
 		r.noTenDrops(root)
 		return
 	}
-	r.keys(sec, "body", "strike", "height", "onto", "number")
+	var k dropKeys
+	r.decode(sec, &k)
 	d := &Drop{Line: r.s.lines.line(sec.path)}
-	name, okB := r.required(sec, "body", "name the body to drop, e.g. body = \"carton\"")
-	strike, okS := r.required(sec, "strike", "name the face, edge or corner that strikes, e.g. strike = \"corner 2-3-5\" (faces: 1 top, 2 right side, 3 bottom, 4 left side, 5 near end, 6 far end)")
+	name, okB := r.requiredText(sec, k.Body, "name the body to drop, e.g. body = \"carton\"")
+	strike, okS := r.requiredText(sec, k.Strike, "name the face, edge or corner that strikes, e.g. strike = \"corner 2-3-5\" (faces: 1 top, 2 right side, 3 bottom, 4 left side, 5 near end, 6 far end)")
 	if okS {
 		ft, err := pack.ParseFeature(strike)
 		if err != nil {
-			r.errAt(sub(sec.path, "strike"), "[drop] strike %v", err)
+			r.errAt(k.Strike.path, "[drop] strike %v", err)
 			okS = false
 		}
 		d.Strike = ft
 	}
 	bi := -1
 	if okB {
-		bi = r.bodyNamed(name, sub(sec.path, "body"), "[drop] ")
-		if bi >= 0 && r.s.Bodies[bi].Static {
-			r.errAt(sub(sec.path, "body"), "[drop] body %q is %s; only a body moved by gravity and contact can be dropped", name, r.s.Bodies[bi].kindName())
-			bi = -1
-		}
-		if bi >= 0 && r.s.jointed(name) {
-			r.errAt(sub(sec.path, "body"), "[drop] body %q is held by a joint; a drop test lets a body fall freely", name)
-			bi = -1
-		}
+		bi = r.droppedBody(name, k.Body.path)
 	}
 	d.Body = name
-	onto := r.dropSurface(sec, d)
-	if _, given := sec.m["height"]; !given {
+	onto := r.dropSurface(sec, k.Onto, d)
+	if !k.Height.Given() {
 		r.errAt(sec.path, "[drop] height is missing: give the free fall of the body's lowest point, e.g. height = \"760 mm\", or height = \"by mass\" for the ISTA 1A table")
 		return
 	}
@@ -77,27 +79,11 @@ func (r *reader) drop(root section) {
 		return
 	}
 	b := &r.s.Bodies[bi]
-	if s, isStr := sec.m["height"].(string); isStr && strings.TrimSpace(s) == "by mass" {
-		h, err := pack.HeightByMass(b.Props.Mass)
-		if err != nil {
-			r.errAt(sub(sec.path, "height"), "[drop] height \"by mass\": %v", err)
-			return
-		}
-		d.Height, d.ByMass = h, true
-	} else if isStr && strings.HasPrefix(strings.TrimSpace(s), "by") {
-		r.errAt(sub(sec.path, "height"), "[drop] height %q: write height = \"by mass\" for the ISTA 1A table's height, or a length such as \"760 mm\"", s)
-		return
-	} else if h, ok := r.number(sec, "height", Length, 0); ok {
-		if h < 0 {
-			r.errAt(sub(sec.path, "height"), "[drop] height must be >= 0, got %s", show(sec.m["height"]))
-			return
-		}
-		d.Height = h
-	} else {
+	if !r.dropHeight(sec, k.Height, b, d) {
 		return
 	}
-	if n, given := r.integer(sec, "number", 0); given {
-		d.Strike = r.tenDropsStrike(sub(sec.path, "number"), b, n, d.Strike)
+	if n, given := r.whole(sec, k.Number, 0); given {
+		d.Strike = r.tenDropsStrike(k.Number.path, b, n, d.Strike)
 	}
 	r.dropConflicts(sec, b)
 	if _, given := r.at([]string{"body", strconv.Itoa(bi), "orientation"}).(map[string]any); given {
@@ -114,16 +100,56 @@ func (r *reader) drop(root section) {
 	r.tenDrops(root)
 }
 
+// droppedBody returns the index of the body [drop] names, or -1 after
+// saying why it cannot be dropped.
+func (r *reader) droppedBody(name string, path []string) int {
+	bi := r.bodyNamed(name, path, "[drop] ")
+	if bi >= 0 && r.s.Bodies[bi].Static {
+		r.errAt(path, "[drop] body %q is %s; only a body moved by gravity and contact can be dropped", name, r.s.Bodies[bi].kindName())
+		return -1
+	}
+	if bi >= 0 && r.s.jointed(name) {
+		r.errAt(path, "[drop] body %q is held by a joint; a drop test lets a body fall freely", name)
+		return -1
+	}
+	return bi
+}
+
+// dropHeight reads the height of the drop: a length, or "by mass" for the
+// ISTA 1A table's height for the body's mass.
+func (r *reader) dropHeight(sec section, hv value, b *Body, d *Drop) bool {
+	if s, isStr := hv.v.(string); isStr && strings.TrimSpace(s) == "by mass" {
+		h, err := pack.HeightByMass(b.Props.Mass)
+		if err != nil {
+			r.errAt(hv.path, "[drop] height \"by mass\": %v", err)
+			return false
+		}
+		d.Height, d.ByMass = h, true
+	} else if isStr && strings.HasPrefix(strings.TrimSpace(s), "by") {
+		r.errAt(hv.path, "[drop] height %q: write height = \"by mass\" for the ISTA 1A table's height, or a length such as \"760 mm\"", s)
+		return false
+	} else if h, ok := r.scalar(sec, Quantity{hv}, Length, 0); ok {
+		if h < 0 {
+			r.errAt(hv.path, "[drop] height must be >= 0, got %s", show(hv.v))
+			return false
+		}
+		d.Height = h
+	} else {
+		return false
+	}
+	return true
+}
+
 // dropSurface finds the static plane struck: onto, or the only static
 // plane of the scene. It returns its index, or -1 after reporting why.
-func (r *reader) dropSurface(sec section, d *Drop) int {
-	if name, given := r.str(sec, "onto"); given {
-		i := r.bodyNamed(name, sub(sec.path, "onto"), "[drop] onto: ")
+func (r *reader) dropSurface(sec section, ontov Text, d *Drop) int {
+	if name, given := r.text(sec, ontov); given {
+		i := r.bodyNamed(name, ontov.path, "[drop] onto: ")
 		if i < 0 {
 			return -1
 		}
 		if _, plane := r.s.Bodies[i].Shape.(shapes.Plane); !plane || r.s.Bodies[i].Driven {
-			r.errAt(sub(sec.path, "onto"), "[drop] onto %q must be a static plane (shape = { plane = [0, 0, 1] }): the drop-test standards strike a flat, rigid surface", name)
+			r.errAt(ontov.path, "[drop] onto %q must be a static plane (shape = { plane = [0, 0, 1] }): the drop-test standards strike a flat, rigid surface", name)
 			return -1
 		}
 		d.Onto = name

@@ -67,7 +67,6 @@ func FuzzScene(f *testing.F) {
 			}
 			return
 		}
-		indexLines(string(data))
 		w, _, err := s.Build()
 		if err != nil {
 			t.Logf("accepted but did not build: %v", err)

@@ -44,6 +44,15 @@ func (r *reader) gates(root section) {
 	}
 }
 
+// gateKeys are the keys of a [[gate]].
+type gateKeys struct {
+	Name   Text     `toml:"name"`
+	At     Vector   `toml:"at"`
+	Normal Vector   `toml:"normal"`
+	Radius Quantity `toml:"radius"`
+	Wanted value    `toml:"wanted"` // face numbers
+}
+
 func (r *reader) gate(i int, m map[string]any) (Gate, bool) {
 	path := []string{"gate", strconv.Itoa(i)}
 	sec := section{m: m, path: path, name: fmt.Sprintf("[[gate]] number %d", i+1), pre: fmt.Sprintf("[[gate]] number %d: ", i+1)}
@@ -55,48 +64,49 @@ func (r *reader) gate(i int, m map[string]any) (Gate, bool) {
 		sec.name = fmt.Sprintf("gate %q", name)
 		sec.pre = fmt.Sprintf("gate %q: ", name)
 	}
-	r.keys(sec, "name", "at", "normal", "radius", "wanted")
+	var k gateKeys
+	r.decode(sec, &k)
 	if !ok {
 		return g, false
 	}
-	for _, k := range []string{"at", "normal"} {
-		if _, given := m[k]; !given {
-			r.errAt(path, "%s%s is missing: a gate is the plane through at = [x, y, z] that counts parts crossing it along normal = [x, y, z]", sec.pre, k)
+	for _, v := range []Vector{k.At, k.Normal} {
+		if !v.Given() {
+			r.errAt(path, "%s%s is missing: a gate is the plane through at = [x, y, z] that counts parts crossing it along normal = [x, y, z]", sec.pre, v.key)
 		}
 	}
-	g.At, _ = r.vector(sec, "at", Length, shapes.Vec3{})
-	n, given := r.vector(sec, "normal", Dimensionless, shapes.Vec3{})
+	g.At, _ = r.vec3(sec, k.At, Length, shapes.Vec3{})
+	n, given := r.vec3(sec, k.Normal, Dimensionless, shapes.Vec3{})
 	if given && !(n.Len() > 1e-12) {
-		r.errAt(sub(path, "normal"), "%snormal must not be zero: give the direction in which parts pass, e.g. [1, 0, 0]", sec.pre)
+		r.errAt(k.Normal.path, "%snormal must not be zero: give the direction in which parts pass, e.g. [1, 0, 0]", sec.pre)
 	} else if given {
 		g.Normal = n.Normalize()
 	}
-	if rad, given := r.number(sec, "radius", Length, 0); given {
+	if rad, given := r.scalar(sec, k.Radius, Length, 0); given {
 		if !(rad > 0) {
-			r.errAt(sub(path, "radius"), "%sradius must be positive; leave it out to count across the whole plane", sec.pre)
+			r.errAt(k.Radius.path, "%sradius must be positive; leave it out to count across the whole plane", sec.pre)
 		}
 		g.Radius = rad
 	}
-	g.Wanted = r.faceList(sec, "wanted")
+	g.Wanted = r.faceList(sec, k.Wanted)
 	return g, r.n == nerr
 }
 
 // faceList reads an optional list of face indices.
-func (r *reader) faceList(sec section, key string) []int {
-	v, given := sec.m[key]
-	if !given {
+func (r *reader) faceList(sec section, list value) []int {
+	if !list.Given() {
 		return nil
 	}
+	v, key := list.v, list.key
 	a, ok := v.([]any)
 	if !ok || len(a) == 0 {
-		r.errAt(sub(sec.path, key), "%s%s must be a list of face numbers as `clatter inspect` lists them, e.g. [4, 5], got %s", sec.pre, key, show(v))
+		r.errAt(list.path, "%s%s must be a list of face numbers as `clatter inspect` lists them, e.g. [4, 5], got %s", sec.pre, key, show(v))
 		return nil
 	}
 	out := make([]int, 0, len(a))
 	for k, x := range a {
 		f, ok := x.(int64)
 		if !ok || f < 0 || f > 1<<20 {
-			r.errAt(sub(sec.path, key, strconv.Itoa(k)), "%s%s[%d] must be a face number (a whole number >= 0), got %s", sec.pre, key, k, show(x))
+			r.errAt(sub(list.path, strconv.Itoa(k)), "%s%s[%d] must be a face number (a whole number >= 0), got %s", sec.pre, key, k, show(x))
 			return nil
 		}
 		out = append(out, int(f))

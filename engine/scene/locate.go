@@ -1,8 +1,12 @@
 package scene
 
 import (
+	"bytes"
+	"sort"
 	"strconv"
 	"strings"
+
+	"github.com/pelletier/go-toml/v2/unstable"
 )
 
 // lineIndex maps the path of every key, table and array element of a TOML
@@ -11,11 +15,9 @@ import (
 // index of each element of an array of tables or of an array value as a
 // decimal segment: "body", "0", "shape", "box".
 //
-// The TOML decoder keeps key positions to itself, and keeps one per key
-// name rather than per array element, so the index is built by a small
-// scanner of its own. It runs only on documents the decoder has accepted,
-// which keeps it simple; on anything it does not understand it stops and
-// keeps what it has, and it never panics.
+// The lines come from the TOML parser's syntax tree, which keeps where
+// every key and value is written; the index only resolves the elements of
+// arrays of tables, which the tree names by their header.
 type lineIndex map[string]int
 
 func pathKey(p []string) string { return strings.Join(p, "\x1f") }
@@ -30,290 +32,146 @@ func (ix lineIndex) line(path []string) int {
 	return 1
 }
 
-// indexLines builds the line index of a TOML document.
-func indexLines(src string) (ix lineIndex) {
-	ix = lineIndex{}
-	defer func() {
-		if recover() != nil {
-			return // keep what was recorded
-		}
-	}()
-	s := &lineScanner{src: src, line: 1, ix: ix, arrays: map[string]int{}}
-	s.document()
-	return ix
+// document is a parsed scene file: its values, and the line of each.
+type document struct {
+	lines lineIndex
+	// tables are the paths of the arrays of tables ([[body]], and
+	// [[drive.vibration]] as "drive", "0", "vibration").
+	tables [][]string
 }
 
-type lineScanner struct {
-	src    string
-	i      int
-	line   int
-	ix     lineIndex
-	arrays map[string]int // resolved path of an array of tables -> elements so far
-	steps  int            // guards against a loop that makes no progress
-}
-
-func (s *lineScanner) eof() bool { return s.i >= len(s.src) }
-
-func (s *lineScanner) peek() byte {
-	if s.eof() {
-		return 0
-	}
-	return s.src[s.i]
-}
-
-func (s *lineScanner) advance() {
-	if s.eof() {
-		return
-	}
-	if s.src[s.i] == '\n' {
-		s.line++
-	}
-	s.i++
-}
-
-func (s *lineScanner) record(path []string, line int) {
-	k := pathKey(path)
-	if _, ok := s.ix[k]; !ok {
-		s.ix[k] = line
-	}
-}
-
-// skipBlank skips spaces and tabs, and newlines and comments if nl.
-func (s *lineScanner) skipBlank(nl bool) {
-	for !s.eof() {
-		switch c := s.peek(); {
-		case c == ' ' || c == '\t' || c == '\r':
-			s.advance()
-		case c == '\n' && nl:
-			s.advance()
-		case c == '#':
-			for !s.eof() && s.peek() != '\n' {
-				s.advance()
-			}
-		default:
-			return
-		}
-	}
-}
-
-func (s *lineScanner) document() {
+// locate walks the syntax tree of a document that the decoder accepted.
+func locate(data []byte) document {
+	w := &locator{ix: lineIndex{}, arrays: map[string]int{}, newlines: newlines(data)}
+	var p unstable.Parser
+	p.Reset(data)
 	var table []string
-	for !s.eof() {
-		s.steps++
-		if s.steps > len(s.src)+16 {
-			return
-		}
-		s.skipBlank(true)
-		if s.eof() {
-			return
-		}
-		start := s.i
-		line := s.line
-		if s.peek() == '[' {
-			s.advance()
-			double := s.peek() == '['
-			if double {
-				s.advance()
-			}
-			s.skipBlank(false)
-			keys := s.key()
-			if keys == nil {
-				return
-			}
-			s.skipBlank(false)
-			for s.peek() == ']' {
-				s.advance()
-			}
-			table = s.resolve(keys)
-			if double {
+	for p.NextExpression() {
+		e := p.Expression()
+		switch e.Kind {
+		case unstable.Table, unstable.ArrayTable:
+			keys, line := w.key(e.Key())
+			table = w.resolve(keys)
+			if e.Kind == unstable.ArrayTable {
 				k := pathKey(table)
-				n := s.arrays[k]
-				s.arrays[k] = n + 1
-				s.record(table, line)
+				if _, seen := w.arrays[k]; !seen {
+					w.tables = append(w.tables, table)
+				}
+				n := w.arrays[k]
+				w.arrays[k] = n + 1
+				w.record(table, line)
 				table = append(table, strconv.Itoa(n))
 			}
 			for n := 1; n <= len(table); n++ {
-				s.record(table[:n], line)
+				w.record(table[:n], line)
 			}
-		} else {
-			keys := s.key()
-			if keys == nil {
-				return
-			}
-			path := append(append([]string{}, table...), keys...)
-			for n := len(table) + 1; n <= len(path); n++ {
-				s.record(path[:n], line)
-			}
-			s.skipBlank(false)
-			if s.peek() != '=' {
-				return
-			}
-			s.advance()
-			s.skipBlank(false)
-			s.value(path)
-		}
-		if s.i == start {
-			return
+		case unstable.KeyValue:
+			w.keyValue(table, e)
 		}
 	}
+	return document{lines: w.ix, tables: w.tables}
+}
+
+type locator struct {
+	ix       lineIndex
+	arrays   map[string]int // resolved path of an array of tables -> elements so far
+	tables   [][]string
+	newlines []int // offsets of the document's line ends
+}
+
+// newlines returns the offsets of the '\n' bytes of data.
+func newlines(data []byte) []int {
+	var nl []int
+	for i := 0; ; {
+		j := bytes.IndexByte(data[i:], '\n')
+		if j < 0 {
+			return nl
+		}
+		nl = append(nl, i+j)
+		i += j + 1
+	}
+}
+
+// lineAt returns the line of a byte offset.
+func (w *locator) lineAt(offset uint32) int {
+	return sort.SearchInts(w.newlines, int(offset)) + 1
+}
+
+func (w *locator) record(path []string, line int) {
+	k := pathKey(path)
+	if _, ok := w.ix[k]; !ok {
+		w.ix[k] = line
+	}
+}
+
+// key returns the parts of a dotted key and the line of its first part.
+func (w *locator) key(it unstable.Iterator) ([]string, int) {
+	var keys []string
+	line := 0
+	for it.Next() {
+		n := it.Node()
+		if line == 0 {
+			line = w.lineAt(n.Raw.Offset)
+		}
+		keys = append(keys, string(n.Data))
+	}
+	return keys, line
 }
 
 // resolve turns the keys of a table header into a path, adding the current
 // element index after every prefix that names an array of tables.
-func (s *lineScanner) resolve(keys []string) []string {
+func (w *locator) resolve(keys []string) []string {
 	var p []string
-	for _, k := range keys {
+	for i, k := range keys {
 		p = append(p, k)
-		if n, ok := s.arrays[pathKey(p)]; ok && n > 0 {
+		if n, ok := w.arrays[pathKey(p)]; ok && n > 0 && i < len(keys)-1 {
 			p = append(p, strconv.Itoa(n-1))
-		}
-	}
-	// The header's own last key is not an element of itself.
-	if len(p) > 0 && len(keys) > 0 && p[len(p)-1] != keys[len(keys)-1] {
-		if _, ok := s.arrays[pathKey(p[:len(p)-1])]; ok {
-			p = p[:len(p)-1]
 		}
 	}
 	return p
 }
 
-// key reads a dotted key: bare or quoted parts joined by dots.
-func (s *lineScanner) key() []string {
-	var keys []string
-	for {
-		s.skipBlank(false)
-		var k string
-		switch c := s.peek(); {
-		case c == '"' || c == '\'':
-			k = s.str()
-		case isBare(c):
-			st := s.i
-			for !s.eof() && isBare(s.peek()) {
-				s.advance()
-			}
-			k = s.src[st:s.i]
-		default:
-			return nil
+// keyValue records a key = value line below table.
+func (w *locator) keyValue(table []string, e *unstable.Node) {
+	keys, line := w.key(e.Key())
+	path := append(append([]string{}, table...), keys...)
+	for n := len(table) + 1; n <= len(path); n++ {
+		w.record(path[:n], line)
+	}
+	w.value(path, e.Value(), line)
+}
+
+// value records the keys of inline tables and the elements of arrays
+// below path; line is where the value's key is written.
+func (w *locator) value(path []string, v *unstable.Node, line int) {
+	switch v.Kind {
+	case unstable.InlineTable:
+		it := v.Children()
+		for it.Next() {
+			w.keyValue(path, it.Node())
 		}
-		keys = append(keys, k)
-		s.skipBlank(false)
-		if s.peek() != '.' {
-			return keys
+	case unstable.Array:
+		it := v.Children()
+		for i := 0; it.Next(); i++ {
+			sub := append(append([]string{}, path...), strconv.Itoa(i))
+			l := w.firstLine(it.Node(), line)
+			w.record(sub, l)
+			w.value(sub, it.Node(), l)
 		}
-		s.advance()
 	}
 }
 
-func isBare(c byte) bool {
-	return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '_' || c == '-'
-}
-
-// str reads a basic or literal string, single- or multi-line, and returns
-// its content (escapes decoded where Go's rules agree with TOML's).
-func (s *lineScanner) str() string {
-	q := s.peek()
-	multi := strings.HasPrefix(s.src[s.i:], strings.Repeat(string(q), 3))
-	if multi {
-		for k := 0; k < 3; k++ {
-			s.advance()
-		}
-		st := s.i
-		end := strings.Repeat(string(q), 3)
-		for !s.eof() && !strings.HasPrefix(s.src[s.i:], end) {
-			if q == '"' && s.peek() == '\\' {
-				s.advance()
-			}
-			s.advance()
-		}
-		content := s.src[st:s.i]
-		for k := 0; k < 3; k++ {
-			s.advance()
-		}
-		for s.peek() == q { // up to two quotes may close the content
-			s.advance()
-		}
-		return content
+// firstLine returns the line where a value starts, or def for an empty
+// array.
+func (w *locator) firstLine(v *unstable.Node, def int) int {
+	if v.Raw.Length > 0 {
+		return w.lineAt(v.Raw.Offset)
 	}
-	s.advance()
-	st := s.i
-	for !s.eof() && s.peek() != q && s.peek() != '\n' {
-		if q == '"' && s.peek() == '\\' {
-			s.advance()
+	if c := v.Child(); c != nil {
+		if v.Kind == unstable.KeyValue { // the key is after the value
+			c = c.Next()
 		}
-		s.advance()
+		return w.firstLine(c, def)
 	}
-	raw := s.src[st:s.i]
-	s.advance()
-	if q == '"' {
-		if u, err := strconv.Unquote(`"` + raw + `"`); err == nil {
-			return u
-		}
-	}
-	return raw
-}
-
-// value skips one value, recording the lines of the keys of inline tables
-// and of the elements of arrays below path.
-func (s *lineScanner) value(path []string) {
-	switch c := s.peek(); {
-	case c == '"' || c == '\'':
-		s.str()
-	case c == '{':
-		s.advance()
-		for !s.eof() {
-			s.skipBlank(true)
-			if s.peek() == '}' {
-				s.advance()
-				return
-			}
-			line := s.line
-			keys := s.key()
-			if keys == nil {
-				return
-			}
-			sub := append(append([]string{}, path...), keys...)
-			for n := len(path) + 1; n <= len(sub); n++ {
-				s.record(sub[:n], line)
-			}
-			s.skipBlank(false)
-			if s.peek() != '=' {
-				return
-			}
-			s.advance()
-			s.skipBlank(false)
-			s.value(sub)
-			s.skipBlank(true)
-			if s.peek() == ',' {
-				s.advance()
-			}
-		}
-	case c == '[':
-		s.advance()
-		for n := 0; !s.eof(); n++ {
-			s.skipBlank(true)
-			if s.peek() == ']' {
-				s.advance()
-				return
-			}
-			sub := append(append([]string{}, path...), strconv.Itoa(n))
-			s.record(sub, s.line)
-			st := s.i
-			s.value(sub)
-			if s.i == st {
-				return
-			}
-			s.skipBlank(true)
-			if s.peek() == ',' {
-				s.advance()
-			}
-		}
-	default:
-		st := s.i
-		for !s.eof() && !strings.ContainsRune(",]}#\n", rune(s.peek())) {
-			s.advance()
-		}
-		if s.i == st {
-			s.advance()
-		}
-	}
+	return def
 }

@@ -15,27 +15,25 @@ var MomentOfInertia = Dim{L: 2, M: 1}
 // mass properties as CAD reports them for a packed product, in the
 // shape's axes. A centre of mass without an inertia moves the uniform
 // solid's inertia to it by the parallel-axis theorem.
-func (r *reader) measured(sec section, b *Body) {
-	com, hasCOM := r.vector(sec, "center_of_mass", Length, shapes.Vec3{})
-	_, comGiven := sec.m["center_of_mass"]
-	_, inGiven := sec.m["inertia"]
-	if comGiven && !hasCOM {
+func (r *reader) measured(sec section, comv Vector, inv value, b *Body) {
+	com, hasCOM := r.vec3(sec, comv, Length, shapes.Vec3{})
+	if comv.Given() && !hasCOM {
 		return
 	}
 	if hasCOM {
 		if !inside(b.Shape, com) {
-			r.errAt(sub(sec.path, "center_of_mass"), "%scenter_of_mass %v %s lies outside the body's shape; give it in the shape's own axes, from the shape's origin (a box's centre, a mesh file's origin)", sec.pre, r.s.Units.VecFromSI(com, Length), r.s.Units.Length)
+			r.errAt(comv.path, "%scenter_of_mass %v %s lies outside the body's shape; give it in the shape's own axes, from the shape's origin (a box's centre, a mesh file's origin)", sec.pre, r.s.Units.VecFromSI(com, Length), r.s.Units.Length)
 			return
 		}
 		d := com.Sub(b.Props.Center)
 		b.Props.Inertia = shapes.ParallelAxis(b.Props.Inertia, b.Props.Mass, d)
 		b.Props.Center = com
 	}
-	if !inGiven {
+	if !inv.Given() {
 		return
 	}
-	in, ok := r.inertia(sub(sec.path, "inertia"), sec.pre)
-	if ok && r.plausible(sub(sec.path, "inertia"), sec.pre, b, in) {
+	in, ok := r.inertia(inv, sec.pre)
+	if ok && r.plausible(inv.path, sec.pre, b, in) {
 		b.Props.Inertia = in
 	}
 }
@@ -78,9 +76,9 @@ func (r *reader) plausible(path []string, pre string, b *Body, in shapes.Mat3) b
 // checks that a rigid body can have it: symmetric, positive moments that
 // satisfy the triangle inequality (each principal moment at most the sum
 // of the other two, since I_x + I_y - I_z = 2 sum m z^2 >= 0).
-func (r *reader) inertia(path []string, pre string) (shapes.Mat3, bool) {
-	v := r.at(path)
-	rows, ok := v.([]any)
+func (r *reader) inertia(inv value, pre string) (shapes.Mat3, bool) {
+	path := inv.path
+	rows, ok := inv.v.([]any)
 	const how = "inertia must be a 3 x 3 matrix by rows, e.g. [[0.25, 0, 0], [0, 0.31, 0], [0, 0, 0.33]] (mass x length^2 about the centre of mass, shape axes)"
 	if !ok || len(rows) != 3 {
 		r.errAt(path, "%s%s", pre, how)

@@ -292,10 +292,10 @@ func (r *reader) motor(sec section, k engine.JointKind, free, effort Dim) (engin
 		r.errAt(sub(sec.path, other), "%s(use %s: a %s)", sec.pre, capKey, effort)
 	}
 	mo := engine.Motor{MaxForce: math.Inf(1)}
-	speed, hasSpeed := r.number(sec, "speed", free.add(Time, -1), 0)
+	speed, hasSpeed := r.number(sec, "speed", free.Per(Time), 0)
 	target, hasTarget := r.number(sec, "target", free, 0)
-	stiff, hasStiff := r.number(sec, "stiffness", effort.add(free, -1), 0)
-	damp, hasDamp := r.number(sec, "damping", effort.add(free, -1).add(Time, 1), 0)
+	stiff, hasStiff := r.number(sec, "stiffness", effort.Per(free), 0)
+	damp, hasDamp := r.number(sec, "damping", effort.Per(free).Times(Time), 0)
 	if c, ok := r.number(sec, capKey, effort, 0); ok {
 		if !(c > 0) {
 			r.errAt(sub(sec.path, capKey), "%s%s must be positive (leave it out for no cap)", sec.pre, capKey)
@@ -324,7 +324,7 @@ func (r *reader) motor(sec section, k engine.JointKind, free, effort Dim) (engin
 		r.errAt(sub(sec.path, "program"), "%sprogram must be a list such as [{ time = 0.5, target = 30 }, { time = 1.2, target = 0 }], got %s", sec.pre, show(pv))
 		return mo, nil
 	}
-	key, d, kind := "speed", free.add(Time, -1), "speed"
+	key, d, kind := "speed", free.Per(Time), "speed"
 	if mo.Mode == engine.MotorServo {
 		key, d, kind = "target", free, "servo"
 	}

@@ -15,6 +15,7 @@ import (
 	"clatter/engine"
 	"clatter/shapes"
 	"clatter/shapes/mesh"
+	"clatter/units"
 
 	"github.com/go-gl/mathgl/mgl64"
 )
@@ -39,6 +40,19 @@ type reader struct {
 	errs Errors
 	warn []string
 	n    int // problems found, including those past maxErrors
+	// moved maps the path of a key read under its new name to where its
+	// old name is written (alias.go).
+	moved map[string][]string
+}
+
+// line returns the line where the key at path is written.
+func (r *reader) line(path []string) int {
+	for n := len(path); n > 0 && len(r.moved) > 0; n-- {
+		if old, ok := r.moved[pathKey(path[:n])]; ok {
+			return r.s.lines.line(append(append([]string{}, old...), path[n:]...))
+		}
+	}
+	return r.s.lines.line(path)
 }
 
 func (r *reader) errAt(path []string, format string, args ...any) {
@@ -46,36 +60,14 @@ func (r *reader) errAt(path []string, format string, args ...any) {
 	if len(r.errs) >= maxErrors {
 		return
 	}
-	r.errs = append(r.errs, &Error{File: r.s.File, Line: r.s.lines.line(path), Msg: fmt.Sprintf(format, args...)})
+	r.errs = append(r.errs, &Error{File: r.s.File, Line: r.line(path), Msg: fmt.Sprintf(format, args...)})
 }
 
 func (r *reader) warnAt(path []string, format string, args ...any) {
-	r.warn = append(r.warn, fmt.Sprintf("%s:%d: %s", r.s.File, r.s.lines.line(path), fmt.Sprintf(format, args...)))
+	r.warn = append(r.warn, fmt.Sprintf("%s:%d: %s", r.s.File, r.line(path), fmt.Sprintf(format, args...)))
 }
 
 func sub(p []string, k ...string) []string { return append(append([]string{}, p...), k...) }
-
-// keys refuses keys of sec that are not in allowed, suggesting the nearest,
-// and returns how many it refused.
-func (r *reader) keys(sec section, allowed ...string) int {
-	names := make([]string, 0, len(sec.m))
-	for k := range sec.m {
-		names = append(names, k)
-	}
-	sort.Strings(names)
-	ok := map[string]bool{}
-	for _, a := range allowed {
-		ok[a] = true
-	}
-	bad := 0
-	for _, k := range names {
-		if !ok[k] {
-			r.errAt(sub(sec.path, k), "unknown key %q in %s%s", k, sec.name, Suggest(k, allowed))
-			bad++
-		}
-	}
-	return bad
-}
 
 func typeName(v any) string {
 	switch v.(type) {
@@ -140,7 +132,7 @@ func (r *reader) quantitySI(v any, d Dim, path []string, what string) (float64, 
 			if d == Dimensionless {
 				r.errAt(path, "%s is a plain number without unit, got %q (%s)", what, t, qd)
 			} else {
-				r.errAt(path, "%s must be %s, got %q, which is %s (e.g. %s)", what, d, t, qd, d.example())
+				r.errAt(path, "%s must be %s, got %q, which is %s (e.g. %s)", what, d, t, qd, d.Example())
 			}
 			return 0, false
 		}
@@ -151,32 +143,97 @@ func (r *reader) quantitySI(v any, d Dim, path []string, what string) (float64, 
 }
 
 func exampleOr(d Dim) string {
-	if e := d.example(); e != "" && d != Dimensionless {
+	if e := d.Example(); e != "" && d != Dimensionless {
 		return e
 	}
 	return `"2 mm"`
 }
 
-// number reads an optional scalar of sec.
-func (r *reader) number(sec section, key string, d Dim, def float64) (float64, bool) {
-	v, ok := sec.m[key]
-	if !ok {
+// value returns the value of sec at key, for the sections still read key
+// by key.
+func (sec section) value(key string) value {
+	v := sec.m[key]
+	return value{v: v, path: sub(sec.path, key), key: key}
+}
+
+// scalar reads an optional quantity of sec.
+func (r *reader) scalar(sec section, q Quantity, d Dim, def float64) (float64, bool) {
+	if !q.Given() {
 		return def, false
 	}
-	x, good := r.quantity(v, d, sub(sec.path, key), sec.pre+key)
+	x, good := r.quantity(q.v, d, q.path, sec.pre+q.key)
 	if !good {
 		return def, false
 	}
 	return x, true
 }
 
-// vector reads an optional 3-vector of sec.
-func (r *reader) vector(sec section, key string, d Dim, def shapes.Vec3) (shapes.Vec3, bool) {
-	v, ok := sec.m[key]
-	if !ok {
+// vec3 reads an optional 3-vector of sec.
+func (r *reader) vec3(sec section, v Vector, d Dim, def shapes.Vec3) (shapes.Vec3, bool) {
+	if !v.Given() {
 		return def, false
 	}
-	return r.vec(v, d, sub(sec.path, key), sec.pre+key, 3)
+	return r.vec(v.v, d, v.path, sec.pre+v.key, 3)
+}
+
+// text reads an optional string of sec.
+func (r *reader) text(sec section, t Text) (string, bool) {
+	return typed(r, sec, t.value, "", "a string")
+}
+
+// flag reads an optional true or false of sec.
+func (r *reader) flag(sec section, f Flag, def bool) (bool, bool) {
+	return typed(r, sec, f.value, def, "true or false")
+}
+
+// whole reads an optional whole number of sec.
+func (r *reader) whole(sec section, w Whole, def int64) (int64, bool) {
+	return typed(r, sec, w.value, def, "a whole number")
+}
+
+// subTable reads an optional table of parent as a section of its own.
+func (r *reader) subTable(parent section, t Table, name, pre string) (section, bool) {
+	m, ok := typed[map[string]any](r, parent, t.value, nil, "a table")
+	if !ok {
+		return section{}, false
+	}
+	return section{m: m, path: t.path, name: name, pre: pre}, true
+}
+
+// typed returns x as a T, or def if it is not given or, with a message
+// saying it must be what, not a T.
+func typed[T any](r *reader, sec section, x value, def T, what string) (T, bool) {
+	if !x.Given() {
+		return def, false
+	}
+	v, ok := x.v.(T)
+	if !ok {
+		r.errAt(x.path, "%s%s must be %s, got %s", sec.pre, x.key, what, show(x.v))
+		return def, false
+	}
+	return v, true
+}
+
+// number, vector, str, boolean and table read a key of a section
+// read key by key.
+func (r *reader) number(sec section, key string, d Dim, def float64) (float64, bool) {
+	return r.scalar(sec, Quantity{sec.value(key)}, d, def)
+}
+
+func (r *reader) vector(sec section, key string, d Dim, def shapes.Vec3) (shapes.Vec3, bool) {
+	return r.vec3(sec, Vector{sec.value(key)}, d, def)
+}
+
+func (r *reader) str(sec section, key string) (string, bool) {
+	return r.text(sec, Text{sec.value(key)})
+}
+
+func (r *reader) boolean(sec section, key string, def bool) (bool, bool) {
+	return r.flag(sec, Flag{sec.value(key)}, def)
+}
+
+func (r *reader) table(parent section, key, name, pre string) (section, bool) {
+	return r.subTable(parent, Table{parent.value(key)}, name, pre)
 }
 
 // vec reads an array of n quantities.
@@ -200,58 +257,6 @@ func (r *reader) vec(v any, d Dim, path []string, what string, n int) (shapes.Ve
 		}
 	}
 	return out, good
-}
-
-func (r *reader) str(sec section, key string) (string, bool) {
-	v, ok := sec.m[key]
-	if !ok {
-		return "", false
-	}
-	s, ok := v.(string)
-	if !ok {
-		r.errAt(sub(sec.path, key), "%s%s must be a string, got %s", sec.pre, key, show(v))
-		return "", false
-	}
-	return s, true
-}
-
-func (r *reader) boolean(sec section, key string, def bool) (bool, bool) {
-	v, ok := sec.m[key]
-	if !ok {
-		return def, false
-	}
-	b, ok := v.(bool)
-	if !ok {
-		r.errAt(sub(sec.path, key), "%s%s must be true or false, got %s", sec.pre, key, show(v))
-		return def, false
-	}
-	return b, true
-}
-
-func (r *reader) integer(sec section, key string, def int64) (int64, bool) {
-	v, ok := sec.m[key]
-	if !ok {
-		return def, false
-	}
-	i, ok := v.(int64)
-	if !ok {
-		r.errAt(sub(sec.path, key), "%s%s must be a whole number, got %s", sec.pre, key, show(v))
-		return def, false
-	}
-	return i, true
-}
-
-func (r *reader) table(parent section, key, name, pre string) (section, bool) {
-	v, ok := parent.m[key]
-	if !ok {
-		return section{}, false
-	}
-	m, ok := v.(map[string]any)
-	if !ok {
-		r.errAt(sub(parent.path, key), "%s%s must be a table, got %s", parent.pre, key, show(v))
-		return section{}, false
-	}
-	return section{m: m, path: sub(parent.path, key), name: name, pre: pre}, true
 }
 
 // read checks the decoded document and fills the scene.
@@ -282,6 +287,12 @@ func (s *Scene) read() (*Scene, error) {
 	return s, nil
 }
 
+// unitsKeys are the keys of units = { length, mass }.
+type unitsKeys struct {
+	Length Text `toml:"length"`
+	Mass   Text `toml:"mass"`
+}
+
 func (r *reader) units(root section) {
 	v, ok := root.m["units"]
 	if !ok {
@@ -293,18 +304,19 @@ func (r *reader) units(root section) {
 		return
 	}
 	sec := section{m: m, path: []string{"units"}, name: "units", pre: "units: "}
-	r.keys(sec, "length", "mass")
+	var k unitsKeys
+	r.decode(sec, &k)
 	l, m0 := "m", "kg"
-	if x, ok := r.str(sec, "length"); ok {
+	if x, ok := r.text(sec, k.Length); ok {
 		if _, known := LengthUnits[x]; !known {
-			r.errAt(sub(sec.path, "length"), "units: unknown length unit %q%s", x, Suggest(x, keysOf(LengthUnits)))
+			r.errAt(k.Length.path, "units: unknown length unit %q%s", x, Suggest(x, units.FileLengths))
 		} else {
 			l = x
 		}
 	}
-	if x, ok := r.str(sec, "mass"); ok {
+	if x, ok := r.text(sec, k.Mass); ok {
 		if _, known := MassUnits[x]; !known {
-			r.errAt(sub(sec.path, "mass"), "units: unknown mass unit %q%s", x, Suggest(x, keysOf(MassUnits)))
+			r.errAt(k.Mass.path, "units: unknown mass unit %q%s", x, Suggest(x, units.FileMasses))
 		} else {
 			m0 = x
 		}
@@ -315,44 +327,57 @@ func (r *reader) units(root section) {
 	}
 }
 
+// worldKeys are the keys of [world].
+type worldKeys struct {
+	Gravity      Vector   `toml:"gravity"`
+	Step         Quantity `toml:"step"`
+	Duration     Quantity `toml:"duration"`
+	UntilSettled Flag     `toml:"until_settled"`
+	RestSpeed    Quantity `toml:"rest_speed"`
+	RestSpin     Quantity `toml:"rest_spin"`
+	RestTime     Quantity `toml:"rest_time"`
+	Seed         Whole    `toml:"seed"`
+}
+
 func (r *reader) world(root section) {
 	w := &r.s.World
-	*w = World{
+	*w = Settings{
 		Gravity:      shapes.Vec3{0, 0, -engine.StandardGravity},
 		Step:         DefaultStep,
 		Duration:     DefaultDuration,
 		UntilSettled: true,
-		RestSpeed:    5e-3,
-		RestSpin:     0.05,
-		RestTime:     0.25,
+		RestSpeed:    engine.DefaultRestSpeed,
+		RestSpin:     engine.DefaultRestSpin,
+		RestTime:     engine.DefaultRestTime,
 		Seed:         DefaultSeed,
 	}
 	sec, ok := r.table(root, "world", "[world]", "[world] ")
 	if !ok {
 		return
 	}
-	r.keys(sec, "gravity", "step", "duration", "until_settled", "rest_speed", "rest_spin", "rest_time", "seed")
-	w.Gravity, _ = r.vector(sec, "gravity", Acceleration, w.Gravity)
-	positive := func(key string, d Dim, v *float64) {
-		x, ok := r.number(sec, key, d, *v)
+	var k worldKeys
+	r.decode(sec, &k)
+	w.Gravity, _ = r.vec3(sec, k.Gravity, Acceleration, w.Gravity)
+	positive := func(q Quantity, d Dim, v *float64) {
+		x, ok := r.scalar(sec, q, d, *v)
 		if !ok {
 			return
 		}
 		if !(x > 0) {
-			r.errAt(sub(sec.path, key), "[world] %s must be positive, got %s", key, show(sec.m[key]))
+			r.errAt(q.path, "[world] %s must be positive, got %s", q.key, show(q.v))
 			return
 		}
 		*v = x
 	}
-	positive("step", Time, &w.Step)
-	positive("duration", Time, &w.Duration)
-	positive("rest_speed", Speed, &w.RestSpeed)
-	positive("rest_spin", AngularSpeed, &w.RestSpin)
-	positive("rest_time", Time, &w.RestTime)
-	w.UntilSettled, _ = r.boolean(sec, "until_settled", true)
-	if seed, ok := r.integer(sec, "seed", DefaultSeed); ok {
+	positive(k.Step, Time, &w.Step)
+	positive(k.Duration, Time, &w.Duration)
+	positive(k.RestSpeed, Speed, &w.RestSpeed)
+	positive(k.RestSpin, AngularSpeed, &w.RestSpin)
+	positive(k.RestTime, Time, &w.RestTime)
+	w.UntilSettled, _ = r.flag(sec, k.UntilSettled, true)
+	if seed, ok := r.whole(sec, k.Seed, DefaultSeed); ok {
 		if seed < 0 {
-			r.errAt(sub(sec.path, "seed"), "[world] seed must be a whole number >= 0, got %d", seed)
+			r.errAt(k.Seed.path, "[world] seed must be a whole number >= 0, got %d", seed)
 		} else {
 			w.Seed = uint64(seed)
 		}
@@ -362,39 +387,47 @@ func (r *reader) world(root section) {
 	}
 }
 
+// contactKeys are the keys that materials and pairs share.
+type contactKeys struct {
+	Friction       Quantity `toml:"friction"`
+	StaticFriction Quantity `toml:"static_friction"`
+	Restitution    Quantity `toml:"restitution"`
+	// Stiffness is a quantity ("40 N/mm") or a table (stiffness.go).
+	Stiffness value `toml:"stiffness"`
+}
+
 // coefficients reads friction, static_friction and restitution of a
 // material or pair section; missing ones are nil.
-func (r *reader) coefficients(sec section) (f, fs, e *float64) {
-	get := func(key string) *float64 {
-		v, given := sec.m[key]
-		if !given {
+func (r *reader) coefficients(sec section, k contactKeys) (f, fs, e *float64) {
+	get := func(q Quantity) *float64 {
+		if !q.Given() {
 			return nil
 		}
-		x, ok := r.quantitySI(v, Dimensionless, sub(sec.path, key), sec.pre+key)
-		if ok && key != "restitution" && x > maxFriction {
-			r.errAt(sub(sec.path, key), "%s%s %g is beyond any measured surface (dry surfaces stay below about 5); clatter accepts at most %d, and 10 already holds every contact that can hold", sec.pre, key, x, maxFriction)
+		x, ok := r.quantitySI(q.v, Dimensionless, q.path, sec.pre+q.key)
+		if ok && q.key != "restitution" && x > maxFriction {
+			r.errAt(q.path, "%s%s %g is beyond any measured surface (dry surfaces stay below about 5); clatter accepts at most %d, and 10 already holds every contact that can hold", sec.pre, q.key, x, maxFriction)
 			return nil
 		}
-		if !ok || !r.inRange(x, Dimensionless, sub(sec.path, key), sec.pre+key) {
+		if !ok || !r.inRange(x, Dimensionless, q.path, sec.pre+q.key) {
 			return nil
 		}
 		return &x
 	}
-	f, fs, e = get("friction"), get("static_friction"), get("restitution")
+	f, fs, e = get(k.Friction), get(k.StaticFriction), get(k.Restitution)
 	if f != nil && *f < 0 {
-		r.errAt(sub(sec.path, "friction"), "%sfriction must be >= 0, got %g", sec.pre, *f)
+		r.errAt(k.Friction.path, "%sfriction must be >= 0, got %g", sec.pre, *f)
 		f = nil
 	}
 	if fs != nil && *fs < 0 {
-		r.errAt(sub(sec.path, "static_friction"), "%sstatic_friction must be >= 0, got %g", sec.pre, *fs)
+		r.errAt(k.StaticFriction.path, "%sstatic_friction must be >= 0, got %g", sec.pre, *fs)
 		fs = nil
 	}
 	if f != nil && fs != nil && *fs < *f {
-		r.errAt(sub(sec.path, "static_friction"), "%sstatic_friction %g must be at least friction %g (a contact that sticks holds at least as well as one that slides)", sec.pre, *fs, *f)
+		r.errAt(k.StaticFriction.path, "%sstatic_friction %g must be at least friction %g (a contact that sticks holds at least as well as one that slides)", sec.pre, *fs, *f)
 		fs = nil
 	}
 	if e != nil && (*e < 0 || *e > 1) {
-		r.errAt(sub(sec.path, "restitution"), "%srestitution must be between 0 and 1, got %g", sec.pre, *e)
+		r.errAt(k.Restitution.path, "%srestitution must be between 0 and 1, got %g", sec.pre, *e)
 		e = nil
 	}
 	return f, fs, e
@@ -410,12 +443,7 @@ func (r *reader) materials(root section) {
 		r.errAt([]string{"material"}, "material must be tables such as [material.abs], got %s", show(v))
 		return
 	}
-	names := make([]string, 0, len(all))
-	for n := range all {
-		names = append(names, n)
-	}
-	sort.Strings(names)
-	for _, n := range names {
+	for _, n := range sortedKeys(all) {
 		path := []string{"material", n}
 		m, ok := all[n].(map[string]any)
 		if !ok {
@@ -427,11 +455,12 @@ func (r *reader) materials(root section) {
 			continue
 		}
 		sec := section{m: m, path: path, name: fmt.Sprintf("[material.%s]", n), pre: fmt.Sprintf("material %q: ", n)}
-		unknown := r.keys(sec, "friction", "static_friction", "restitution", "stiffness")
-		f, fs, e := r.coefficients(sec)
-		mat := Material{Name: n, Line: r.s.lines.line(path), Stiffness: r.stiffness(sec)}
+		var k contactKeys
+		unknown := r.decode(sec, &k)
+		f, fs, e := r.coefficients(sec, k)
+		mat := Material{Name: n, Line: r.s.lines.line(path), Stiffness: r.stiffness(sec, k.Stiffness)}
 		if f == nil {
-			if _, given := m["friction"]; !given && unknown == 0 {
+			if !k.Friction.Given() && unknown == 0 {
 				r.errAt(path, "material %q: friction is missing; give the kinetic Coulomb coefficient measured for this material, e.g. friction = 0.35", n)
 			}
 		} else {
@@ -482,12 +511,16 @@ func (r *reader) sections(root section, key string) ([]map[string]any, bool) {
 // required reads a string key that must be given and not blank; a missing
 // or blank one is reported as "KEY is missing: " followed by hint.
 func (r *reader) required(sec section, key, hint string) (string, bool) {
-	v, ok := r.str(sec, key)
+	return r.requiredText(sec, Text{sec.value(key)}, hint)
+}
+
+func (r *reader) requiredText(sec section, t Text, hint string) (string, bool) {
+	v, ok := r.text(sec, t)
 	if ok && strings.TrimSpace(v) != "" {
 		return v, true
 	}
-	if _, given := sec.m[key]; !given || ok {
-		r.errAt(sec.path, "%s%s is missing: %s", sec.pre, key, hint)
+	if !t.Given() || ok {
+		r.errAt(sec.path, "%s%s is missing: %s", sec.pre, t.key, hint)
 	}
 	return "", false
 }
@@ -510,6 +543,12 @@ func arrayOfTables(v any) ([]map[string]any, bool) {
 	return nil, false
 }
 
+// pairKeys are the keys of a [[pair]].
+type pairKeys struct {
+	Materials value `toml:"materials"` // two names
+	contactKeys
+}
+
 func (r *reader) pairs(root section) {
 	list, ok := r.sections(root, "pair")
 	if !ok {
@@ -519,35 +558,22 @@ func (r *reader) pairs(root section) {
 	for i, m := range list {
 		path := []string{"pair", strconv.Itoa(i)}
 		sec := section{m: m, path: path, name: fmt.Sprintf("[[pair]] number %d", i+1), pre: fmt.Sprintf("[[pair]] number %d: ", i+1)}
-		r.keys(sec, "materials", "friction", "static_friction", "restitution", "stiffness")
-		p := Pair{Line: r.s.lines.line(path)}
-		mv, ok := m["materials"]
+		var k pairKeys
+		r.decode(sec, &k)
+		names, ok := r.pairNames(&sec, k.Materials)
 		if !ok {
-			r.errAt(path, "%smaterials is missing: name the two materials, e.g. materials = [\"abs\", \"steel\"]", sec.pre)
 			continue
 		}
-		a, ok := mv.([]any)
-		var names []string
-		for _, x := range a {
-			if s, isStr := x.(string); isStr {
-				names = append(names, s)
-			}
-		}
-		if !ok || len(a) != 2 || len(names) != 2 {
-			r.errAt(sub(path, "materials"), "%smaterials must name two materials, e.g. [\"abs\", \"steel\"], got %s", sec.pre, show(mv))
-			continue
-		}
-		sec.pre = fmt.Sprintf("[[pair]] %s/%s: ", names[0], names[1])
-		good := r.knownMaterial(names[0], sub(path, "materials"), sec.pre)
-		good = r.knownMaterial(names[1], sub(path, "materials"), sec.pre) && good
+		good := r.knownMaterial(names[0], k.Materials.path, sec.pre)
+		good = r.knownMaterial(names[1], k.Materials.path, sec.pre) && good
 		key := [2]string{min(names[0], names[1]), max(names[0], names[1])}
 		if j, dup := seen[key]; dup {
 			r.errAt(path, "%sthis pair of materials is already given in the [[pair]] at line %d", sec.pre, r.s.Pairs[j].Line)
 			continue
 		}
-		p.A, p.B = names[0], names[1]
-		p.Friction, p.StaticFriction, p.Restitution = r.coefficients(sec)
-		p.Stiffness = r.stiffness(sec)
+		p := Pair{A: names[0], B: names[1], Line: r.s.lines.line(path)}
+		p.Friction, p.StaticFriction, p.Restitution = r.coefficients(sec, k.contactKeys)
+		p.Stiffness = r.stiffness(sec, k.Stiffness)
 		if p.Friction == nil && p.StaticFriction == nil && p.Restitution == nil && len(m) == 1 {
 			r.errAt(path, "%sgive at least one of friction, static_friction, restitution and stiffness", sec.pre)
 		}
@@ -558,7 +584,27 @@ func (r *reader) pairs(root section) {
 	}
 }
 
-var shapeKinds = []string{"box", "sphere", "cylinder", "capsule", "plane", "mesh", "pieces"}
+// pairNames reads the two material names of a [[pair]] and names sec by
+// them.
+func (r *reader) pairNames(sec *section, mats value) ([2]string, bool) {
+	if !mats.Given() {
+		r.errAt(sec.path, "%smaterials is missing: name the two materials, e.g. materials = [\"abs\", \"steel\"]", sec.pre)
+		return [2]string{}, false
+	}
+	a, ok := mats.v.([]any)
+	var names []string
+	for _, x := range a {
+		if s, isStr := x.(string); isStr {
+			names = append(names, s)
+		}
+	}
+	if !ok || len(a) != 2 || len(names) != 2 {
+		r.errAt(mats.path, "%smaterials must name two materials, e.g. [\"abs\", \"steel\"], got %s", sec.pre, show(mats.v))
+		return [2]string{}, false
+	}
+	sec.pre = fmt.Sprintf("[[pair]] %s/%s: ", names[0], names[1])
+	return [2]string{names[0], names[1]}, true
+}
 
 func (r *reader) bodies(root section) {
 	if _, ok := root.m["body"]; !ok {
@@ -591,6 +637,23 @@ func (r *reader) bodies(root section) {
 	}
 }
 
+// bodyKeys are the keys of a [[body]].
+type bodyKeys struct {
+	Name         Text     `toml:"name"`
+	Shape        Table    `toml:"shape"`
+	Static       Flag     `toml:"static"`
+	Driven       Flag     `toml:"driven"`
+	Material     Text     `toml:"material"`
+	Density      Quantity `toml:"density"`
+	Mass         Quantity `toml:"mass"`
+	Position     Vector   `toml:"position"`
+	Orientation  value    `toml:"orientation"` // "random" or a table (orientation)
+	Velocity     Vector   `toml:"velocity"`
+	Spin         Vector   `toml:"spin"`
+	CenterOfMass Vector   `toml:"center_of_mass"`
+	Inertia      value    `toml:"inertia"` // a 3x3 matrix or its 6 entries (mass.go)
+}
+
 func (r *reader) body(i int, m map[string]any) (Body, bool) {
 	path := []string{"body", strconv.Itoa(i)}
 	sec := section{m: m, path: path, name: fmt.Sprintf("[[body]] number %d", i+1), pre: fmt.Sprintf("[[body]] number %d: ", i+1)}
@@ -603,75 +666,86 @@ func (r *reader) body(i int, m map[string]any) (Body, bool) {
 	sec.name = fmt.Sprintf("body %q", name)
 	sec.pre = fmt.Sprintf("body %q: ", name)
 	nerr := r.n
-	r.keys(sec, "name", "shape", "static", "driven", "material", "density", "mass", "position", "orientation", "velocity", "spin", "center_of_mass", "inertia")
+	var k bodyKeys
+	r.decode(sec, &k)
 
-	static, staticGiven := r.boolean(sec, "static", false)
-	driven, drivenGiven := r.boolean(sec, "driven", false)
+	static, staticGiven := r.flag(sec, k.Static, false)
+	driven, drivenGiven := r.flag(sec, k.Driven, false)
 	if static && driven {
-		r.errAt(sub(path, "driven"), "%sa body is either static (it never moves) or driven (it moves as a [[drive]] says), not both", sec.pre)
+		r.errAt(k.Driven.path, "%sa body is either static (it never moves) or driven (it moves as a [[drive]] says), not both", sec.pre)
 	}
 	b.Static, b.Driven = static || driven, driven
 	staticGiven = staticGiven || drivenGiven
-	if mat, ok := r.str(sec, "material"); ok {
-		if r.knownMaterial(mat, sub(path, "material"), sec.pre) {
+	if mat, ok := r.text(sec, k.Material); ok {
+		if r.knownMaterial(mat, k.Material.path, sec.pre) {
 			b.Material = mat
 		}
 	}
-	b.Position, _ = r.vector(sec, "position", Length, shapes.Vec3{})
-	b.Velocity, _ = r.vector(sec, "velocity", Speed, shapes.Vec3{})
-	b.Spin, _ = r.vector(sec, "spin", AngularSpeed, shapes.Vec3{})
-	r.orientation(sec, &b, i)
+	b.Position, _ = r.vec3(sec, k.Position, Length, shapes.Vec3{})
+	b.Velocity, _ = r.vec3(sec, k.Velocity, Speed, shapes.Vec3{})
+	b.Spin, _ = r.vec3(sec, k.Spin, AngularSpeed, shapes.Vec3{})
+	r.orientation(sec, k.Orientation, &b, i)
 
-	shapeSec, ok := r.table(sec, "shape", fmt.Sprintf("the shape of body %q", name), sec.pre+"shape ")
+	shapeSec, ok := r.subTable(sec, k.Shape, fmt.Sprintf("the shape of body %q", name), sec.pre+"shape ")
 	if !ok {
-		if _, given := m["shape"]; !given {
+		if !k.Shape.Given() {
 			r.errAt(path, "%sshape is missing: give one of shape = { box = [x, y, z] }, { sphere = r }, { cylinder = [r, length] }, { capsule = [r, length] }, { plane = [nx, ny, nz] }, { mesh = \"part.stl\" }", sec.pre)
 		}
 		return b, false
 	}
 	r.shape(shapeSec, &b, staticGiven)
-
-	density, hasDensity := r.number(sec, "density", Density, 0)
-	mass, hasMass := r.number(sec, "mass", Mass, 0)
-	_, densityGiven := m["density"]
-	_, massGiven := m["mass"]
+	r.massOf(sec, k, &b)
 	if b.Static {
-		why, what := "remove it, or leave out static = true", "a static body does not move"
-		switch {
-		case driven:
-			why, what = "remove it, or leave out driven = true", "a driven body moves only as its [[drive]] says"
-		case !static:
-			why = "remove it (planes and meshes kept as triangles are always static)"
-		}
-		for _, k := range []string{"density", "mass", "velocity", "spin", "center_of_mass", "inertia"} {
-			if _, given := m[k]; given {
-				r.errAt(sub(path, k), "%s%s, so it takes no %s; %s", sec.pre, what, k, why)
-			}
-		}
-	} else {
-		switch {
-		case densityGiven && massGiven:
-			r.errAt(sub(path, "mass"), "%sgive either density or mass, not both", sec.pre)
-		case !densityGiven && !massGiven:
-			r.errAt(path, "%sa moving body needs a density (e.g. density = \"1.05 g/cm3\") or a mass; or set static = true", sec.pre)
-		case hasDensity && !(density > 0):
-			r.errAt(sub(path, "density"), "%sdensity must be positive, got %s", sec.pre, show(m["density"]))
-		case hasMass && !(mass > 0):
-			r.errAt(sub(path, "mass"), "%smass must be positive, got %s", sec.pre, show(m["mass"]))
-		case hasDensity:
-			b.Density = density
-		case hasMass:
-			b.Mass = mass
-		}
+		r.noMotion(sec, k, static, driven)
 	}
 	if r.n > nerr || b.Shape == nil {
 		return b, false
 	}
 	if !b.Static {
-		r.massProps(&b, sub(path, "shape"), sec.pre)
-		r.measured(sec, &b)
+		r.massProps(&b, k.Shape.path, sec.pre)
+		r.measured(sec, k.CenterOfMass, k.Inertia, &b)
 	}
 	return b, r.n == nerr
+}
+
+// noMotion refuses the keys of motion and mass on a body that does not
+// move by contact.
+func (r *reader) noMotion(sec section, k bodyKeys, static, driven bool) {
+	why, what := "remove it, or leave out static = true", "a static body does not move"
+	switch {
+	case driven:
+		why, what = "remove it, or leave out driven = true", "a driven body moves only as its [[drive]] says"
+	case !static:
+		why = "remove it (planes and meshes kept as triangles are always static)"
+	}
+	for _, v := range []value{k.Density.value, k.Mass.value, k.Velocity.value, k.Spin.value, k.CenterOfMass.value, k.Inertia} {
+		if v.Given() {
+			r.errAt(v.path, "%s%s, so it takes no %s; %s", sec.pre, what, v.key, why)
+		}
+	}
+}
+
+// massOf reads the density and the mass, and keeps one for a moving body.
+func (r *reader) massOf(sec section, k bodyKeys, b *Body) {
+	density, hasDensity := r.scalar(sec, k.Density, Density, 0)
+	mass, hasMass := r.scalar(sec, k.Mass, Mass, 0)
+	if b.Static {
+		return
+	}
+	switch {
+	case k.Density.Given() && k.Mass.Given():
+		r.errAt(k.Mass.path, "%sgive either density or mass, not both", sec.pre)
+	case !k.Density.Given() && !k.Mass.Given():
+		r.errAt(sec.path, "%sa moving body needs a density (e.g. density = \"1.05 g/cm3\") or a mass; or set static = true", sec.pre)
+	case hasDensity && !(density > 0):
+		r.errAt(k.Density.path, "%sdensity must be positive, got %s", sec.pre, show(k.Density.v))
+	case hasMass && !(mass > 0):
+		r.errAt(k.Mass.path, "%smass must be positive, got %s", sec.pre, show(k.Mass.v))
+	case hasDensity:
+		b.Density = density
+	case hasMass:
+		b.Mass = mass
+	}
 }
 
 // massProps fills b.Props for a dynamic body.
@@ -709,12 +783,20 @@ func (r *reader) massProps(b *Body, path []string, pre string) {
 	}
 }
 
-func (r *reader) orientation(sec section, b *Body, index int) {
-	v, ok := sec.m["orientation"]
-	if !ok {
+// orientationKeys are the keys of a table orientation.
+type orientationKeys struct {
+	Axis       Vector   `toml:"axis"`
+	Angle      Quantity `toml:"angle"`
+	Quaternion value    `toml:"quaternion"` // [w, x, y, z]
+}
+
+// orientation reads the orientation of a body or a piece: "random" or a
+// table of orientationKeys.
+func (r *reader) orientation(sec section, o value, b *Body, index int) {
+	if !o.Given() {
 		return
 	}
-	path := sub(sec.path, "orientation")
+	v, path := o.v, o.path
 	if s, isStr := v.(string); isStr {
 		if s != "random" {
 			r.errAt(path, "%sorientation must be \"random\" or a table { axis = [x, y, z], angle = degrees }, got %q", sec.pre, s)
@@ -731,42 +813,22 @@ func (r *reader) orientation(sec section, b *Body, index int) {
 		return
 	}
 	osec := section{m: m, path: path, name: fmt.Sprintf("the orientation of body %q", b.Name), pre: sec.pre + "orientation "}
-	r.keys(osec, "axis", "angle", "quaternion")
-	if qv, has := m["quaternion"]; has {
-		if _, a := m["axis"]; a {
+	var k orientationKeys
+	r.decode(osec, &k)
+	if k.Quaternion.Given() {
+		if k.Axis.Given() || k.Angle.Given() {
 			r.errAt(path, "%sorientation: give either quaternion or axis and angle, not both", sec.pre)
 			return
 		}
-		if _, a := m["angle"]; a {
-			r.errAt(path, "%sorientation: give either quaternion or axis and angle, not both", sec.pre)
-			return
+		q, ok := r.quaternion(sec, k.Quaternion)
+		if ok {
+			b.Orientation = q
 		}
-		a, isArr := qv.([]any)
-		if !isArr || len(a) != 4 {
-			r.errAt(sub(path, "quaternion"), "%sorientation quaternion must be [w, x, y, z], got %s", sec.pre, show(qv))
-			return
-		}
-		var q [4]float64
-		for i, x := range a {
-			f, ok := r.quantity(x, Dimensionless, sub(path, "quaternion", strconv.Itoa(i)), sec.pre+"orientation quaternion")
-			if !ok {
-				return
-			}
-			q[i] = f
-		}
-		quat := mgl64.Quat{W: q[0], V: mgl64.Vec3{q[1], q[2], q[3]}}
-		if l := quat.Len(); !(l > 1e-9) {
-			r.errAt(sub(path, "quaternion"), "%sorientation quaternion must not be zero", sec.pre)
-			return
-		}
-		b.Orientation = quat.Normalize()
 		return
 	}
-	axis, okA := r.vector(osec, "axis", Dimensionless, shapes.Vec3{})
-	angle, okN := r.number(osec, "angle", Angle, 0)
-	_, axisGiven := m["axis"]
-	_, angleGiven := m["angle"]
-	if !axisGiven || !angleGiven {
+	axis, okA := r.vec3(osec, k.Axis, Dimensionless, shapes.Vec3{})
+	angle, okN := r.scalar(osec, k.Angle, Angle, 0)
+	if !k.Axis.Given() || !k.Angle.Given() {
 		r.errAt(path, "%sorientation needs both axis = [x, y, z] and angle = degrees", sec.pre)
 		return
 	}
@@ -774,10 +836,33 @@ func (r *reader) orientation(sec section, b *Body, index int) {
 		return
 	}
 	if !(axis.Len() > 1e-12) {
-		r.errAt(sub(path, "axis"), "%sorientation axis must not be zero", sec.pre)
+		r.errAt(k.Axis.path, "%sorientation axis must not be zero", sec.pre)
 		return
 	}
 	b.Orientation = mgl64.QuatRotate(angle, axis.Normalize())
+}
+
+// quaternion reads an orientation written as a quaternion [w, x, y, z].
+func (r *reader) quaternion(sec section, qv value) (shapes.Quat, bool) {
+	a, isArr := qv.v.([]any)
+	if !isArr || len(a) != 4 {
+		r.errAt(qv.path, "%sorientation quaternion must be [w, x, y, z], got %s", sec.pre, show(qv.v))
+		return shapes.Quat{}, false
+	}
+	var q [4]float64
+	for i, x := range a {
+		f, ok := r.quantity(x, Dimensionless, sub(qv.path, strconv.Itoa(i)), sec.pre+"orientation quaternion")
+		if !ok {
+			return shapes.Quat{}, false
+		}
+		q[i] = f
+	}
+	quat := mgl64.Quat{W: q[0], V: mgl64.Vec3{q[1], q[2], q[3]}}
+	if l := quat.Len(); !(l > 1e-9) {
+		r.errAt(qv.path, "%sorientation quaternion must not be zero", sec.pre)
+		return shapes.Quat{}, false
+	}
+	return quat.Normalize(), true
 }
 
 // RandomOrientation draws a rotation uniformly from all rotations
@@ -789,12 +874,27 @@ func RandomOrientation(rng *rand.Rand) shapes.Quat {
 	return mgl64.Quat{W: b * math.Cos(t2), V: mgl64.Vec3{a * math.Sin(t1), a * math.Cos(t1), b * math.Sin(t2)}}
 }
 
+// shapeKeys are the keys of a body's shape: one kind of shape, and for a
+// mesh how to keep it and its file's unit.
+type shapeKeys struct {
+	Box      Vector   `toml:"box"`
+	Sphere   Quantity `toml:"sphere"`
+	Cylinder value    `toml:"cylinder"` // [radius, length]
+	Capsule  value    `toml:"capsule"`  // [radius, length]
+	Plane    Vector   `toml:"plane"`
+	Mesh     Text     `toml:"mesh"`
+	Pieces   value    `toml:"pieces"` // compound.go
+	As       Text     `toml:"as"`
+	Units    Text     `toml:"units"`
+}
+
 func (r *reader) shape(sec section, b *Body, staticGiven bool) {
-	unknown := r.keys(sec, append(append([]string{}, shapeKinds...), "as", "units")...)
-	var kinds []string
-	for _, k := range shapeKinds {
-		if _, ok := sec.m[k]; ok {
-			kinds = append(kinds, k)
+	var k shapeKeys
+	unknown := r.decode(sec, &k)
+	var kinds []value
+	for _, v := range []value{k.Box.value, k.Sphere.value, k.Cylinder, k.Capsule, k.Plane.value, k.Mesh.value, k.Pieces} {
+		if v.Given() {
+			kinds = append(kinds, v)
 		}
 	}
 	if len(kinds) != 1 {
@@ -804,37 +904,60 @@ func (r *reader) shape(sec section, b *Body, staticGiven bool) {
 		r.errAt(sec.path, "%sshape must have exactly one of box, sphere, cylinder, capsule, plane, mesh and pieces, got %d", r.bodyPre(b), len(kinds))
 		return
 	}
-	k := kinds[0]
-	b.Kind = k
+	kind := kinds[0]
+	b.Kind = kind.key
 	pre := r.bodyPre(b)
-	kpath := sub(sec.path, k)
-	if k != "mesh" {
-		for _, extra := range []string{"as", "units"} {
-			if _, ok := sec.m[extra]; ok {
-				r.errAt(sub(sec.path, extra), "%sshape key %q belongs to a mesh shape only", pre, extra)
+	if kind.key != "mesh" {
+		for _, extra := range []Text{k.As, k.Units} {
+			if extra.Given() {
+				r.errAt(extra.path, "%sshape key %q belongs to a mesh shape only", pre, extra.key)
 			}
 		}
 	}
+	switch kind.key {
+	case "box", "sphere", "cylinder", "capsule":
+		r.solid(kind, b)
+	case "plane":
+		n, ok := r.vec(kind.v, Dimensionless, kind.path, pre+"plane normal", 3)
+		if !ok {
+			return
+		}
+		if !(n.Len() > 1e-12) {
+			r.errAt(kind.path, "%splane normal must not be zero", pre)
+			return
+		}
+		r.mustBeStatic(b, staticGiven, kind.path, "a plane")
+		b.Shape = shapes.Plane{Normal: n.Normalize()}
+	case "mesh":
+		r.meshShape(sec, k, b, staticGiven)
+	case "pieces":
+		r.pieces(sec, b)
+	}
+}
+
+// solid reads a box, sphere, cylinder or capsule.
+func (r *reader) solid(kind value, b *Body) {
+	pre := r.bodyPre(b)
 	positive := func(x float64, what string) bool {
 		if !(x > 0) {
-			r.errAt(kpath, "%s%s must be positive, got %g %s", pre, what, r.s.Units.FromSI(x, Length), r.s.Units.Length)
+			r.errAt(kind.path, "%s%s must be positive, got %g %s", pre, what, r.s.Units.FromSI(x, Length), r.s.Units.Length)
 			return false
 		}
 		return true
 	}
-	switch k {
+	switch k := kind.key; k {
 	case "box":
-		e, ok := r.vec(sec.m[k], Length, kpath, pre+"box", 3)
+		e, ok := r.vec(kind.v, Length, kind.path, pre+"box", 3)
 		if ok && positive(e[0], "box x edge") && positive(e[1], "box y edge") && positive(e[2], "box z edge") {
 			b.Shape = shapes.Box{Half: e.Mul(0.5)}
 		}
 	case "sphere":
-		rad, ok := r.quantity(sec.m[k], Length, kpath, pre+"sphere radius")
+		rad, ok := r.quantity(kind.v, Length, kind.path, pre+"sphere radius")
 		if ok && positive(rad, "sphere radius") {
 			b.Shape = shapes.Sphere{Radius: rad}
 		}
 	case "cylinder", "capsule":
-		v, ok := r.vec2(sec.m[k], kpath, pre+k+" [radius, length]")
+		v, ok := r.vec2(kind.v, kind.path, pre+k+" [radius, length]")
 		if !ok || !positive(v[0], k+" radius") {
 			return
 		}
@@ -843,25 +966,10 @@ func (r *reader) shape(sec section, b *Body, staticGiven bool) {
 				b.Shape = shapes.Cylinder{Radius: v[0], HalfLength: v[1] / 2}
 			}
 		} else if v[1] < 0 {
-			r.errAt(kpath, "%scapsule length must be >= 0, got %g %s", pre, r.s.Units.FromSI(v[1], Length), r.s.Units.Length)
+			r.errAt(kind.path, "%scapsule length must be >= 0, got %g %s", pre, r.s.Units.FromSI(v[1], Length), r.s.Units.Length)
 		} else {
 			b.Shape = shapes.Capsule{Radius: v[0], HalfLength: v[1] / 2}
 		}
-	case "plane":
-		n, ok := r.vec(sec.m[k], Dimensionless, kpath, pre+"plane normal", 3)
-		if !ok {
-			return
-		}
-		if !(n.Len() > 1e-12) {
-			r.errAt(kpath, "%splane normal must not be zero", pre)
-			return
-		}
-		r.mustBeStatic(b, staticGiven, kpath, "a plane")
-		b.Shape = shapes.Plane{Normal: n.Normalize()}
-	case "mesh":
-		r.meshShape(sec, b, staticGiven)
-	case "pieces":
-		r.pieces(sec, b)
 	}
 }
 
@@ -891,26 +999,26 @@ func (r *reader) mustBeStatic(b *Body, staticGiven bool, path []string, what str
 	b.Static = true
 }
 
-func (r *reader) meshShape(sec section, b *Body, staticGiven bool) {
+func (r *reader) meshShape(sec section, k shapeKeys, b *Body, staticGiven bool) {
 	pre := r.bodyPre(b)
-	file, ok := r.str(sec, "mesh")
+	file, ok := r.text(sec, k.Mesh)
 	if !ok {
 		return
 	}
 	if strings.TrimSpace(file) == "" {
-		r.errAt(sub(sec.path, "mesh"), "%smesh must name an STL file", pre)
+		r.errAt(k.Mesh.path, "%smesh must name an STL file", pre)
 		return
 	}
-	as, asGiven := r.str(sec, "as")
+	as, asGiven := r.text(sec, k.As)
 	if asGiven && as != "hull" && as != "triangles" {
-		r.errAt(sub(sec.path, "as"), "%sshape as must be \"hull\" (the default: its convex hull, for moving parts) or \"triangles\" (a static fixture kept as its triangles), got %q%s", pre, as, Suggest(as, []string{"hull", "triangles"}))
+		r.errAt(k.As.path, "%sshape as must be \"hull\" (the default: its convex hull, for moving parts) or \"triangles\" (a static fixture kept as its triangles), got %q%s", pre, as, Suggest(as, []string{"hull", "triangles"}))
 		return
 	}
 	unit := mesh.Unit(r.s.Units.L)
-	if us, ok := r.str(sec, "units"); ok {
+	if us, ok := r.text(sec, k.Units); ok {
 		u, known := LengthUnits[us]
 		if !known {
-			r.errAt(sub(sec.path, "units"), "%sunknown mesh length unit %q%s", pre, us, Suggest(us, keysOf(LengthUnits)))
+			r.errAt(k.Units.path, "%sunknown mesh length unit %q%s", pre, us, Suggest(us, units.FileLengths))
 			return
 		}
 		unit = mesh.Unit(u)
@@ -921,34 +1029,42 @@ func (r *reader) meshShape(sec section, b *Body, staticGiven bool) {
 			if abs, aerr := filepath.Abs(p); aerr == nil && r.s.opt.FS == nil {
 				p = abs
 			}
-			r.errAt(sub(sec.path, "mesh"), "%smesh file %q not found (looked for %s; paths are relative to the scene file)", pre, file, p)
+			r.errAt(k.Mesh.path, "%smesh file %q not found (looked for %s; paths are relative to the scene file)", pre, file, p)
 		} else {
-			r.errAt(sub(sec.path, "mesh"), "%scannot read mesh file %q: %v", pre, file, unwrapPath(err))
+			r.errAt(k.Mesh.path, "%scannot read mesh file %q: %v", pre, file, unwrapPath(err))
 		}
 		return
 	}
 	m, err := mesh.ReadSTL(bytes.NewReader(data), file, unit)
 	if err != nil {
-		r.errAt(sub(sec.path, "mesh"), "%s%v", pre, err)
+		r.errAt(k.Mesh.path, "%s%v", pre, err)
 		return
 	}
 	b.MeshFile = p
 	if as == "triangles" {
-		r.mustBeStatic(b, staticGiven, sub(sec.path, "as"), "a mesh kept as triangles")
+		r.mustBeStatic(b, staticGiven, k.As.path, "a mesh kept as triangles")
 		b.Triangles = true
 		b.Shape = m.TriMesh()
 		return
 	}
 	part, err := mesh.NewPart(m)
 	if err != nil {
-		r.errAt(sub(sec.path, "mesh"), "%s%v", pre, err)
+		r.errAt(k.Mesh.path, "%s%v", pre, err)
 		return
 	}
 	for _, w := range part.Warnings {
-		r.warnAt(sub(sec.path, "mesh"), "%s%s", pre, w)
+		r.warnAt(k.Mesh.path, "%s%s", pre, w)
 	}
 	b.Part = part
 	b.Shape = part.Hull
+}
+
+// kickKeys are the keys of a [[kick]].
+type kickKeys struct {
+	Body    Text     `toml:"body"`
+	Time    Quantity `toml:"time"`
+	Impulse Vector   `toml:"impulse"`
+	At      Vector   `toml:"at"`
 }
 
 func (r *reader) kicks(root section) {
@@ -959,35 +1075,36 @@ func (r *reader) kicks(root section) {
 	for i, m := range list {
 		path := []string{"kick", strconv.Itoa(i)}
 		sec := section{m: m, path: path, name: fmt.Sprintf("[[kick]] number %d", i+1), pre: fmt.Sprintf("[[kick]] number %d: ", i+1)}
-		r.keys(sec, "body", "time", "impulse", "at")
-		k := Kick{Line: r.s.lines.line(path), AtCenter: true}
-		name, ok := r.required(sec, "body", "name the body to kick")
+		var k kickKeys
+		r.decode(sec, &k)
+		kick := Kick{Line: r.s.lines.line(path), AtCenter: true}
+		name, ok := r.requiredText(sec, k.Body, "name the body to kick")
 		if !ok {
 			continue
 		}
 		sec.pre = fmt.Sprintf("kick on %q: ", name)
-		bi := r.bodyNamed(name, sub(path, "body"), sec.pre)
+		bi := r.bodyNamed(name, k.Body.path, sec.pre)
 		switch {
 		case bi < 0:
 			continue
 		case r.s.Bodies[bi].Static:
-			r.errAt(sub(path, "body"), "%sbody %q is %s; only bodies moved by gravity and contact can be kicked", sec.pre, name, r.s.Bodies[bi].kindName())
+			r.errAt(k.Body.path, "%sbody %q is %s; only bodies moved by gravity and contact can be kicked", sec.pre, name, r.s.Bodies[bi].kindName())
 			continue
 		}
-		k.Body = name
-		t, _ := r.number(sec, "time", Time, 0)
+		kick.Body = name
+		t, _ := r.scalar(sec, k.Time, Time, 0)
 		if t < 0 {
-			r.errAt(sub(path, "time"), "%stime must be >= 0, got %g s", sec.pre, t)
+			r.errAt(k.Time.path, "%stime must be >= 0, got %g s", sec.pre, t)
 		}
-		k.Time = t
-		if _, given := m["impulse"]; !given {
+		kick.Time = t
+		if !k.Impulse.Given() {
 			r.errAt(path, "%simpulse is missing: give impulse = [x, y, z] (mass x length / s, world frame)", sec.pre)
 			continue
 		}
-		k.Impulse, _ = r.vector(sec, "impulse", Impulse, shapes.Vec3{})
-		if at, given := r.vector(sec, "at", Length, shapes.Vec3{}); given {
-			k.At, k.AtCenter = at, false
+		kick.Impulse, _ = r.vec3(sec, k.Impulse, Impulse, shapes.Vec3{})
+		if at, given := r.vec3(sec, k.At, Length, shapes.Vec3{}); given {
+			kick.At, kick.AtCenter = at, false
 		}
-		r.s.Kicks = append(r.s.Kicks, k)
+		r.s.Kicks = append(r.s.Kicks, kick)
 	}
 }

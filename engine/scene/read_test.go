@@ -150,7 +150,7 @@ k = 1
 [material."abs.x"]
 friction = 0.1
 `
-	ix := indexLines(src)
+	ix := locate([]byte(src)).lines
 	for _, c := range []struct {
 		path []string
 		line int

@@ -8,12 +8,13 @@ import (
 	"path"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 
 	"clatter/shapes"
 	"clatter/shapes/mesh"
 
-	"github.com/BurntSushi/toml"
+	"github.com/pelletier/go-toml/v2"
 )
 
 // Scene is a scene file read, checked and converted to SI units.
@@ -22,7 +23,8 @@ type Scene struct {
 	File string
 	// Units are the file's units; result writers convert back to them.
 	Units Units
-	World World
+	// World is the [world] section.
+	World Settings
 	// Materials are sorted by name; Pairs, Bodies and Kicks are in file order.
 	Materials []Material
 	Pairs     []Pair
@@ -47,8 +49,10 @@ type Scene struct {
 	cache map[string][]byte // mesh files read, by resolved path
 }
 
-// World holds the [world] settings in SI.
-type World struct {
+// Settings are the [world] section in SI: gravity, step, duration, rest
+// and seed. (The world itself, with its bodies, is the engine.World that
+// Build makes.)
+type Settings struct {
 	Gravity        shapes.Vec3
 	Step, Duration float64
 	// UntilSettled ends a run once every dynamic body has rested for RestTime.
@@ -215,14 +219,17 @@ func Parse(data []byte, name string, opt Options) (*Scene, error) {
 		return nil, Errors{e}
 	}
 	var raw map[string]any
-	if _, err := toml.Decode(string(data), &raw); err != nil {
-		var pe toml.ParseError
-		if errors.As(err, &pe) {
-			return nil, Errors{{File: name, Line: pe.Position.Line, Msg: "not valid TOML: " + pe.Message}}
+	if err := toml.Unmarshal(data, &raw); err != nil {
+		var de *toml.DecodeError
+		if errors.As(err, &de) {
+			line, _ := de.Position()
+			return nil, Errors{{File: name, Line: line, Msg: "not valid TOML: " + strings.TrimPrefix(de.Error(), "toml: ")}}
 		}
 		return nil, Errors{{File: name, Line: 1, Msg: "not valid TOML: " + err.Error()}}
 	}
-	s := &Scene{File: name, raw: raw, lines: indexLines(string(data)), opt: opt, cache: map[string][]byte{}}
+	doc := locate(data)
+	arraysOfTables(raw, doc.tables)
+	s := &Scene{File: name, raw: raw, lines: doc.lines, opt: opt, cache: map[string][]byte{}}
 	return s.read()
 }
 
@@ -245,6 +252,36 @@ func (s *Scene) With(key string, v float64) (*Scene, error) {
 	p.set(v)
 	n := &Scene{File: s.File, raw: raw, lines: s.lines, opt: s.opt, cache: s.cache}
 	return n.read()
+}
+
+// arraysOfTables gives the arrays of tables of raw (at the paths of
+// tables) the type []map[string]any, which tells them apart from arrays
+// of values written inline.
+func arraysOfTables(raw map[string]any, tables [][]string) {
+	for _, p := range tables {
+		var cur any = raw
+		for _, k := range p[:len(p)-1] {
+			switch t := cur.(type) {
+			case map[string]any:
+				cur = t[k]
+			case []map[string]any:
+				if i, err := strconv.Atoi(k); err == nil && i >= 0 && i < len(t) {
+					cur = t[i]
+				}
+			}
+		}
+		m, ok := cur.(map[string]any)
+		if !ok {
+			continue
+		}
+		if a, ok := m[p[len(p)-1]].([]any); ok {
+			list := make([]map[string]any, len(a))
+			for i, x := range a {
+				list[i], _ = x.(map[string]any)
+			}
+			m[p[len(p)-1]] = list
+		}
+	}
 }
 
 func deepCopy(v any) any {

@@ -8,13 +8,6 @@ import (
 	"clatter/shapes"
 )
 
-// Stiffness and Pressure are the dimensions of a cushion's stiffness
-// (N/m) and of an elastic modulus (Pa).
-var (
-	Stiffness = Dim{M: 1, T: -2}
-	Pressure  = Dim{L: -1, M: 1, T: -2}
-)
-
 // Compliance is a material's or pair's `stiffness`, in SI: Linear (N/m)
 // for a linear cushion, or Modulus (Pa) and Poisson for Hertz contact.
 // The zero value is rigid.
@@ -27,12 +20,11 @@ func (c Compliance) Given() bool { return c.Linear > 0 || c.Modulus > 0 }
 
 // stiffness reads the `stiffness` key of a material or pair: a quantity,
 // "40 N/mm", or a table { modulus = "2.4 GPa", poisson = 0.35 }.
-func (r *reader) stiffness(sec section) Compliance {
-	v, ok := sec.m["stiffness"]
-	if !ok {
+func (r *reader) stiffness(sec section, st value) Compliance {
+	if !st.Given() {
 		return Compliance{}
 	}
-	path := sub(sec.path, "stiffness")
+	v, path := st.v, st.path
 	if t, isTable := v.(map[string]any); isTable {
 		return r.hertzStiffness(sec, t, path)
 	}
@@ -47,26 +39,31 @@ func (r *reader) stiffness(sec section) Compliance {
 	return Compliance{Linear: k}
 }
 
+// hertzKeys are the keys of stiffness = { modulus, poisson }.
+type hertzKeys struct {
+	Modulus Quantity `toml:"modulus"`
+	Poisson Quantity `toml:"poisson"`
+}
+
 func (r *reader) hertzStiffness(sec section, t map[string]any, path []string) Compliance {
 	tsec := section{m: t, path: path, name: sec.name + " stiffness", pre: sec.pre + "stiffness: "}
-	r.keys(tsec, "modulus", "poisson")
-	mv, okM := t["modulus"]
-	pv, okP := t["poisson"]
-	if !okM || !okP {
+	var k hertzKeys
+	r.decode(tsec, &k)
+	if !k.Modulus.Given() || !k.Poisson.Given() {
 		r.errAt(path, `%sstiffness as a table needs both modulus and poisson, e.g. stiffness = { modulus = "210 GPa", poisson = 0.3 } (Hertz contact), or give a linear stiffness such as "40 N/mm"`, sec.pre)
 		return Compliance{}
 	}
-	e, ok1 := r.quantitySI(mv, Pressure, sub(path, "modulus"), tsec.pre+"modulus")
-	nu, ok2 := r.quantitySI(pv, Dimensionless, sub(path, "poisson"), tsec.pre+"poisson")
-	if !ok1 || !ok2 || !r.inRange(e, Pressure, sub(path, "modulus"), tsec.pre+"modulus") {
+	e, ok1 := r.quantitySI(k.Modulus.v, Pressure, k.Modulus.path, tsec.pre+"modulus")
+	nu, ok2 := r.quantitySI(k.Poisson.v, Dimensionless, k.Poisson.path, tsec.pre+"poisson")
+	if !ok1 || !ok2 || !r.inRange(e, Pressure, k.Modulus.path, tsec.pre+"modulus") {
 		return Compliance{}
 	}
 	if !(e > 0) {
-		r.errAt(sub(path, "modulus"), `%smodulus must be > 0, got %g Pa; give Young's modulus, e.g. "2.4 GPa"`, tsec.pre, e)
+		r.errAt(k.Modulus.path, `%smodulus must be > 0, got %g Pa; give Young's modulus, e.g. "2.4 GPa"`, tsec.pre, e)
 		return Compliance{}
 	}
 	if !(nu > -1 && nu < 0.5) || math.IsNaN(nu) {
-		r.errAt(sub(path, "poisson"), "%spoisson must be between -1 and 0.5 (most solids 0.2 to 0.45), got %g", tsec.pre, nu)
+		r.errAt(k.Poisson.path, "%spoisson must be between -1 and 0.5 (most solids 0.2 to 0.45), got %g", tsec.pre, nu)
 		return Compliance{}
 	}
 	return Compliance{Modulus: e, Poisson: nu}

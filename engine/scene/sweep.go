@@ -3,7 +3,6 @@ package scene
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
@@ -79,93 +78,120 @@ const (
 	maxTrials      = 10000000
 )
 
+// sweepKeys are the keys of [sweep].
+type sweepKeys struct {
+	Trials     Whole `toml:"trials"`
+	Seed       Whole `toml:"seed"`
+	Vary       value `toml:"vary"` // [[sweep.vary]]
+	Randomize  Table `toml:"randomize"`
+	GroupFaces Flag  `toml:"group_faces"`
+	Drops      value `toml:"drops"` // "ten" (drop.go)
+}
+
+// randomizeKeys are the keys of [sweep.randomize]: tables of body names.
+type randomizeKeys struct {
+	Orientation value `toml:"orientation"` // a list of names
+	Position    value `toml:"position"`
+	Height      value `toml:"height"`
+	Spin        value `toml:"spin"`
+	Velocity    value `toml:"velocity"`
+}
+
 func (r *reader) sweep(root section) {
 	sec, ok := r.table(root, "sweep", "[sweep]", "[sweep] ")
 	if !ok {
 		return
 	}
-	r.keys(sec, "trials", "seed", "vary", "randomize", "group_faces", "drops")
+	var k sweepKeys
+	r.decode(sec, &k)
 	sw := &Sweep{Trials: 1, Seed: DefaultSeed, Line: r.s.lines.line(sec.path)}
-	if t, ok := r.integer(sec, "trials", 1); ok {
+	if t, ok := r.whole(sec, k.Trials, 1); ok {
 		if t < 1 || t > maxTrials {
-			r.errAt(sub(sec.path, "trials"), "[sweep] trials must be between 1 and %d, got %d", maxTrials, t)
+			r.errAt(k.Trials.path, "[sweep] trials must be between 1 and %d, got %d", maxTrials, t)
 		} else {
 			sw.Trials = int(t)
 		}
 	}
-	if seed, ok := r.integer(sec, "seed", DefaultSeed); ok {
+	if seed, ok := r.whole(sec, k.Seed, DefaultSeed); ok {
 		if seed < 0 {
-			r.errAt(sub(sec.path, "seed"), "[sweep] seed must be a whole number >= 0, got %d", seed)
+			r.errAt(k.Seed.path, "[sweep] seed must be a whole number >= 0, got %d", seed)
 		} else {
 			sw.Seed = uint64(seed)
 		}
 	}
-	sw.GroupFaces, _ = r.boolean(sec, "group_faces", false)
-	if v, ok := sec.m["vary"]; ok {
-		list, ok := arrayOfTables(v)
-		if !ok {
-			r.errAt(sub(sec.path, "vary"), "[sweep] vary must be an array of tables: write each as [[sweep.vary]], got %s", show(v))
-		}
-		seen := map[string]bool{}
-		for i, m := range list {
-			if vr, ok := r.vary(sub(sec.path, "vary", strconv.Itoa(i)), m, i); ok {
-				if seen[vr.Key] {
-					r.errAt(sub(sec.path, "vary", strconv.Itoa(i)), "[[sweep.vary]] key %q is varied twice", vr.Key)
-					continue
-				}
-				seen[vr.Key] = true
-				sw.Vary = append(sw.Vary, vr)
-			}
-		}
+	sw.GroupFaces, _ = r.flag(sec, k.GroupFaces, false)
+	if k.Vary.Given() {
+		sw.Vary = r.varies(k.Vary)
 	}
-	if rs, ok := r.table(sec, "randomize", "[sweep.randomize]", "[sweep.randomize] "); ok {
-		r.keys(rs, "orientation", "position", "height", "spin", "velocity")
-		if v, ok := rs.m["orientation"]; ok {
-			a, isArr := v.([]any)
-			if !isArr {
-				r.errAt(sub(rs.path, "orientation"), "[sweep.randomize] orientation must list body names, e.g. [\"cap\"], got %s", show(v))
-			}
-			for i, x := range a {
-				p := sub(rs.path, "orientation", strconv.Itoa(i))
-				name, isStr := x.(string)
-				if !isStr {
-					r.errAt(p, "[sweep.randomize] orientation must list body names, got %s", show(x))
-					continue
-				}
-				if r.movingBody(name, p, "[sweep.randomize] orientation: ") {
-					sw.RandomOrientation = append(sw.RandomOrientation, name)
-				}
-			}
-		}
-		sw.Jitter = r.jitters(rs, "position", Length)
-		sw.Height = r.ranges(rs, "height", Length, false)
-		sw.Spin = r.ranges(rs, "spin", AngularSpeed, true)
-		sw.VelocityJitter = r.jitters(rs, "velocity", Speed)
+	if rs, ok := r.subTable(sec, k.Randomize, "[sweep.randomize]", "[sweep.randomize] "); ok {
+		r.randomize(rs, sw)
 	}
 	r.s.Sweep = sw
+}
+
+// varies reads the [[sweep.vary]] tables.
+func (r *reader) varies(v value) []Vary {
+	list, ok := arrayOfTables(v.v)
+	if !ok {
+		r.errAt(v.path, "[sweep] vary must be an array of tables: write each as [[sweep.vary]], got %s", show(v.v))
+	}
+	var out []Vary
+	seen := map[string]bool{}
+	for i, m := range list {
+		if vr, ok := r.vary(sub(v.path, strconv.Itoa(i)), m, i); ok {
+			if seen[vr.Key] {
+				r.errAt(sub(v.path, strconv.Itoa(i)), "[[sweep.vary]] key %q is varied twice", vr.Key)
+				continue
+			}
+			seen[vr.Key] = true
+			out = append(out, vr)
+		}
+	}
+	return out
+}
+
+// randomize reads [sweep.randomize].
+func (r *reader) randomize(rs section, sw *Sweep) {
+	var k randomizeKeys
+	r.decode(rs, &k)
+	if o := k.Orientation; o.Given() {
+		a, isArr := o.v.([]any)
+		if !isArr {
+			r.errAt(o.path, "[sweep.randomize] orientation must list body names, e.g. [\"cap\"], got %s", show(o.v))
+		}
+		for i, x := range a {
+			p := sub(o.path, strconv.Itoa(i))
+			name, isStr := x.(string)
+			if !isStr {
+				r.errAt(p, "[sweep.randomize] orientation must list body names, got %s", show(x))
+				continue
+			}
+			if r.movingBody(name, p, "[sweep.randomize] orientation: ") {
+				sw.RandomOrientation = append(sw.RandomOrientation, name)
+			}
+		}
+	}
+	sw.Jitter = r.jitters(k.Position, Length)
+	sw.Height = r.ranges(k.Height, Length, false)
+	sw.Spin = r.ranges(k.Spin, AngularSpeed, true)
+	sw.VelocityJitter = r.jitters(k.Velocity, Speed)
 }
 
 // bodyTable returns the body names of a [sweep.randomize] table such as
 // height = { cap = [50, 300] }, sorted, with each name checked to be a
 // moving body.
-func (r *reader) bodyTable(rs section, key, example string) (map[string]any, []string) {
-	v, ok := rs.m[key]
-	if !ok {
+func (r *reader) bodyTable(t value, example string) (map[string]any, []string) {
+	if !t.Given() {
 		return nil, nil
 	}
-	m, isMap := v.(map[string]any)
+	m, isMap := t.v.(map[string]any)
 	if !isMap {
-		r.errAt(sub(rs.path, key), "[sweep.randomize] %s must be a table of body = %s, got %s", key, example, show(v))
+		r.errAt(t.path, "[sweep.randomize] %s must be a table of body = %s, got %s", t.key, example, show(t.v))
 		return nil, nil
 	}
-	all := make([]string, 0, len(m))
-	for n := range m {
-		all = append(all, n)
-	}
-	sort.Strings(all)
 	var names []string
-	for _, n := range all {
-		if r.movingBody(n, sub(rs.path, key, n), "[sweep.randomize] "+key+": ") {
+	for _, n := range sortedKeys(m) {
+		if r.movingBody(n, sub(t.path, n), "[sweep.randomize] "+t.key+": ") {
 			names = append(names, n)
 		}
 	}
@@ -174,15 +200,16 @@ func (r *reader) bodyTable(rs section, key, example string) (map[string]any, []s
 
 // ranges reads a table of body = [low, high] (or body = high, from 0,
 // when fromZero) of dimension d.
-func (r *reader) ranges(rs section, key string, d Dim, fromZero bool) []Range {
+func (r *reader) ranges(t value, d Dim, fromZero bool) []Range {
 	example := "[low, high]"
 	if fromZero {
 		example = "[low, high] or body = high"
 	}
-	m, names := r.bodyTable(rs, key, example)
+	m, names := r.bodyTable(t, example)
+	key := t.key
 	var out []Range
 	for _, n := range names {
-		p := sub(rs.path, key, n)
+		p := sub(t.path, n)
 		what := fmt.Sprintf("[sweep.randomize] %s of %q", key, n)
 		var lo, hi float64
 		if _, isArr := m[n].([]any); !isArr && fromZero {
@@ -212,11 +239,12 @@ func (r *reader) ranges(rs section, key string, d Dim, fromZero bool) []Range {
 }
 
 // jitters reads a table of body = [dx, dy, dz] amounts of dimension d.
-func (r *reader) jitters(rs section, key string, d Dim) []Jitter {
-	m, names := r.bodyTable(rs, key, "[dx, dy, dz]")
+func (r *reader) jitters(t value, d Dim) []Jitter {
+	m, names := r.bodyTable(t, "[dx, dy, dz]")
+	key := t.key
 	var out []Jitter
 	for _, n := range names {
-		p := sub(rs.path, key, n)
+		p := sub(t.path, n)
 		amt, ok := r.vec(m[n], d, p, fmt.Sprintf("[sweep.randomize] %s of %q", key, n), 3)
 		if !ok {
 			continue
@@ -245,80 +273,100 @@ func (r *reader) movingBody(name string, path []string, pre string) bool {
 	return true
 }
 
+// varyKeys are the keys of a [[sweep.vary]]: values, or from, to and
+// count (and log).
+type varyKeys struct {
+	Key    Text  `toml:"key"`
+	Values value `toml:"values"`
+	From   value `toml:"from"`
+	To     value `toml:"to"`
+	Count  value `toml:"count"`
+	Log    Flag  `toml:"log"`
+}
+
 func (r *reader) vary(path []string, m map[string]any, i int) (Vary, bool) {
 	sec := section{m: m, path: path, name: fmt.Sprintf("[[sweep.vary]] number %d", i+1), pre: fmt.Sprintf("[[sweep.vary]] number %d: ", i+1)}
-	r.keys(sec, "key", "values", "from", "to", "count", "log")
+	var k varyKeys
+	r.decode(sec, &k)
 	vr := Vary{Line: r.s.lines.line(path)}
-	key, ok := r.required(sec, "key", "name a numeric key of the scene, e.g. key = \"material.abs.friction\"")
+	key, ok := r.requiredText(sec, k.Key, "name a numeric key of the scene, e.g. key = \"material.abs.friction\"")
 	if !ok {
 		return vr, false
 	}
 	sec.pre = fmt.Sprintf("[[sweep.vary]] %q: ", key)
 	ref, err := resolveKey(r.s.raw, key)
 	if err != nil {
-		r.errAt(sub(path, "key"), "%s%v", sec.pre, err)
+		r.errAt(k.Key.path, "%s%v", sec.pre, err)
 		return vr, false
 	}
 	if _, d, err := ParseQuantity(ref.written); ref.written != "" && err == nil && d != Dimensionless {
 		// The values replace the string with plain numbers, whose unit
 		// may differ from the one the scene wrote ("2 deg/s" -> rad/s).
-		r.warnAt(sub(path, "key"), "%sthe scene writes %q, but the values are plain numbers in the file's units, %s", sec.pre, ref.written, r.s.Units.Symbol(d))
+		r.warnAt(k.Key.path, "%sthe scene writes %q, but the values are plain numbers in the file's units, %s", sec.pre, ref.written, r.s.Units.Symbol(d))
 	}
 	vr.Key = key
 	nerr := r.n
-	_, hasValues := m["values"]
-	_, hasFrom := m["from"]
-	_, hasTo := m["to"]
-	_, hasCount := m["count"]
-	_, hasLog := m["log"]
 	switch {
-	case hasValues && (hasFrom || hasTo || hasCount || hasLog):
+	case k.Values.Given() && (k.From.Given() || k.To.Given() || k.Count.Given() || k.Log.Given()):
 		r.errAt(path, "%sgive either values or from, to and count, not both", sec.pre)
-	case hasValues:
-		a, isArr := m["values"].([]any)
-		if !isArr || len(a) == 0 {
-			r.errAt(sub(path, "values"), "%svalues must be a non-empty array of numbers, got %s", sec.pre, show(m["values"]))
-			break
-		}
-		if len(a) > maxSweepValues {
-			r.errAt(sub(path, "values"), "%sat most %d values, got %d", sec.pre, maxSweepValues, len(a))
-			break
-		}
-		for j, x := range a {
-			f, ok := plainNumber(x)
-			if !ok {
-				r.errAt(sub(path, "values", strconv.Itoa(j)), "%svalues must be plain finite numbers in the file's units, got %s", sec.pre, show(x))
-				continue
-			}
-			vr.Values = append(vr.Values, f)
-		}
-	case hasFrom && hasTo && hasCount:
-		from, ok1 := plainNumber(m["from"])
-		to, ok2 := plainNumber(m["to"])
-		count, ok3 := m["count"].(int64)
-		logScale, _ := r.boolean(sec, "log", false)
-		switch {
-		case !ok1 || !ok2:
-			r.errAt(path, "%sfrom and to must be plain finite numbers in the file's units", sec.pre)
-		case !ok3 || count < 2 || count > maxSweepValues:
-			r.errAt(sub(path, "count"), "%scount must be a whole number from 2 to %d, got %s", sec.pre, maxSweepValues, show(m["count"]))
-		case logScale && (from <= 0 || to <= 0):
-			r.errAt(path, "%sa geometric series (log = true) needs from and to above 0, got %g and %g", sec.pre, from, to)
-		default:
-			vr.Log = logScale
-			for j := int64(0); j < count; j++ {
-				f := float64(j) / float64(count-1)
-				if logScale {
-					vr.Values = append(vr.Values, from*math.Pow(to/from, f))
-				} else {
-					vr.Values = append(vr.Values, from+(to-from)*f)
-				}
-			}
-		}
+	case k.Values.Given():
+		vr.Values = r.values(sec, k.Values)
+	case k.From.Given() && k.To.Given() && k.Count.Given():
+		r.series(sec, k, &vr)
 	default:
 		r.errAt(path, "%sgive values = [...] or from, to and count", sec.pre)
 	}
 	return vr, r.n == nerr
+}
+
+// values reads the values = [...] of a [[sweep.vary]].
+func (r *reader) values(sec section, v value) []float64 {
+	a, isArr := v.v.([]any)
+	if !isArr || len(a) == 0 {
+		r.errAt(v.path, "%svalues must be a non-empty array of numbers, got %s", sec.pre, show(v.v))
+		return nil
+	}
+	if len(a) > maxSweepValues {
+		r.errAt(v.path, "%sat most %d values, got %d", sec.pre, maxSweepValues, len(a))
+		return nil
+	}
+	var out []float64
+	for j, x := range a {
+		f, ok := plainNumber(x)
+		if !ok {
+			r.errAt(sub(v.path, strconv.Itoa(j)), "%svalues must be plain finite numbers in the file's units, got %s", sec.pre, show(x))
+			continue
+		}
+		out = append(out, f)
+	}
+	return out
+}
+
+// series reads the from, to and count (and log) of a [[sweep.vary]]: an
+// arithmetic or a geometric series.
+func (r *reader) series(sec section, k varyKeys, vr *Vary) {
+	from, ok1 := plainNumber(k.From.v)
+	to, ok2 := plainNumber(k.To.v)
+	count, ok3 := k.Count.v.(int64)
+	logScale, _ := r.flag(sec, k.Log, false)
+	switch {
+	case !ok1 || !ok2:
+		r.errAt(sec.path, "%sfrom and to must be plain finite numbers in the file's units", sec.pre)
+	case !ok3 || count < 2 || count > maxSweepValues:
+		r.errAt(k.Count.path, "%scount must be a whole number from 2 to %d, got %s", sec.pre, maxSweepValues, show(k.Count.v))
+	case logScale && (from <= 0 || to <= 0):
+		r.errAt(sec.path, "%sa geometric series (log = true) needs from and to above 0, got %g and %g", sec.pre, from, to)
+	default:
+		vr.Log = logScale
+		for j := int64(0); j < count; j++ {
+			f := float64(j) / float64(count-1)
+			if logScale {
+				vr.Values = append(vr.Values, from*math.Pow(to/from, f))
+			} else {
+				vr.Values = append(vr.Values, from+(to-from)*f)
+			}
+		}
+	}
 }
 
 func plainNumber(v any) (float64, bool) {
@@ -350,6 +398,35 @@ func namedBy(walked []string) (nameKey, what string) {
 	return "", ""
 }
 
+// element finds the element s of an array of tables of a dotted key: by
+// its name for bodies, joints and drives, else by its index.
+func element(t []map[string]any, walked []string, s, key string) (int, error) {
+	nameKey, what := namedBy(walked)
+	if nameKey == "" {
+		j, err := strconv.Atoi(s)
+		if err != nil || j < 0 || j >= len(t) {
+			return 0, fmt.Errorf("key %q: %q is not an index from 0 to %d", key, s, len(t)-1)
+		}
+		return j, nil
+	}
+	idx := -1
+	for j, b := range t {
+		if n, _ := b[nameKey].(string); n == s {
+			idx = j
+		}
+	}
+	if idx >= 0 {
+		return idx, nil
+	}
+	var cands []string
+	for _, b := range t {
+		if n, ok := b[nameKey].(string); ok {
+			cands = append(cands, n)
+		}
+	}
+	return 0, fmt.Errorf("key %q: no %s %q%s", key, what, s, Suggest(s, cands))
+}
+
 // keyRef is a resolved numeric key of a document: a slot to set.
 type keyRef struct {
 	set func(v float64)
@@ -376,40 +453,16 @@ func resolveKey(raw map[string]any, key string) (keyRef, error) {
 		case map[string]any:
 			next, ok := t[s]
 			if !ok {
-				cands := make([]string, 0, len(t))
-				for k := range t {
-					cands = append(cands, k)
-				}
-				sort.Strings(cands)
-				return keyRef{}, fmt.Errorf("key %q: %q has no %q%s", key, strings.Join(walked, "."), s, Suggest(s, cands))
+				return keyRef{}, fmt.Errorf("key %q: %q has no %q%s", key, strings.Join(walked, "."), s, Suggest(s, sortedKeys(t)))
 			}
 			m := t
 			k := s
 			setParent = func(v any) { m[k] = v }
 			cur = next
 		case []map[string]any:
-			idx := -1
-			if nameKey, what := namedBy(walked); nameKey != "" {
-				for j, b := range t {
-					if n, _ := b[nameKey].(string); n == s {
-						idx = j
-					}
-				}
-				if idx < 0 {
-					var cands []string
-					for _, b := range t {
-						if n, ok := b[nameKey].(string); ok {
-							cands = append(cands, n)
-						}
-					}
-					return keyRef{}, fmt.Errorf("key %q: no %s %q%s", key, what, s, Suggest(s, cands))
-				}
-			} else {
-				j, err := strconv.Atoi(s)
-				if err != nil || j < 0 || j >= len(t) {
-					return keyRef{}, fmt.Errorf("key %q: %q is not an index from 0 to %d", key, s, len(t)-1)
-				}
-				idx = j
+			idx, err := element(t, walked, s, key)
+			if err != nil {
+				return keyRef{}, err
 			}
 			cur = t[idx]
 			setParent = nil

@@ -3,114 +3,40 @@ package scene
 import (
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 	"strings"
 
 	"clatter/shapes"
+	"clatter/units"
 )
 
-// Dim is the physical dimension of a quantity: the exponents of length,
-// mass, time and angle.
-type Dim struct{ L, M, T, A int8 }
+// Dim is the physical dimension of a quantity (package units).
+type Dim = units.Dim
 
-// The dimensions of the quantities a scene holds.
+// The dimensions of the quantities a scene holds (package units).
 var (
-	Dimensionless = Dim{}
-	Length        = Dim{L: 1}
-	Mass          = Dim{M: 1}
-	Time          = Dim{T: 1}
-	Speed         = Dim{L: 1, T: -1}
-	Acceleration  = Dim{L: 1, T: -2}
-	Density       = Dim{L: -3, M: 1}
-	Angle         = Dim{A: 1}
-	AngularSpeed  = Dim{A: 1, T: -1}
-	Impulse       = Dim{L: 1, M: 1, T: -1}
-	Frequency     = Dim{T: -1}
-	Force         = Dim{L: 1, M: 1, T: -2}
-	Torque        = Dim{L: 2, M: 1, T: -2}
+	Dimensionless = units.Dimensionless
+	Length        = units.Length
+	Mass          = units.Mass
+	Time          = units.Time
+	Speed         = units.Speed
+	Acceleration  = units.Acceleration
+	Density       = units.Density
+	Angle         = units.Angle
+	AngularSpeed  = units.AngularSpeed
+	Impulse       = units.Impulse
+	Frequency     = units.Frequency
+	Force         = units.Force
+	Torque        = units.Torque
+	Stiffness     = units.Stiffness // a cushion's stiffness, N/m (stiffness.go)
+	Pressure      = units.Pressure  // an elastic modulus, Pa (stiffness.go)
 )
 
-// dimNames describe the dimensions in errors, with an example of each.
-var dimNames = map[Dim][2]string{
-	Dimensionless: {"a plain number", "0.5"},
-	Length:        {"a length", `"2 mm"`},
-	Mass:          {"a mass", `"500 g"`},
-	Time:          {"a time", `"0.5 s"`},
-	Speed:         {"a speed", `"1.5 m/s"`},
-	Acceleration:  {"an acceleration", `"9.81 m/s2"`},
-	Density:       {"a density", `"1.05 g/cm3"`},
-	Angle:         {"an angle", `"30 deg"`},
-	AngularSpeed:  {"an angular speed", `"2 rad/s"`},
-	Impulse:       {"an impulse", `"0.002 kg m/s"`},
-	Frequency:     {"a frequency", `"50 Hz"`},
-	Force:         {"a force", `"20 N"`},
-	Torque:        {"a torque", `"0.5 N m"`},
-	Stiffness:     {"a stiffness", `"40 N/mm"`},
-	Pressure:      {"a modulus", `"2.4 GPa"`},
-}
-
-func (d Dim) String() string {
-	if n, ok := dimNames[d]; ok {
-		return n[0]
-	}
-	var parts []string
-	for _, p := range []struct {
-		name string
-		e    int8
-	}{{"length", d.L}, {"mass", d.M}, {"time", d.T}, {"angle", d.A}} {
-		switch {
-		case p.e == 1:
-			parts = append(parts, p.name)
-		case p.e != 0:
-			parts = append(parts, fmt.Sprintf("%s^%d", p.name, p.e))
-		}
-	}
-	return strings.Join(parts, " ")
-}
-
-func (d Dim) example() string {
-	if n, ok := dimNames[d]; ok {
-		return n[1]
-	}
-	return ""
-}
-
-func (d Dim) add(e Dim, sign int8) Dim {
-	return Dim{d.L + sign*e.L, d.M + sign*e.M, d.T + sign*e.T, d.A + sign*e.A}
-}
-
-func (d Dim) scale(k int8) Dim { return Dim{d.L * k, d.M * k, d.T * k, d.A * k} }
-
-// unitDef is one named unit: its size in SI (radians for angles) and its
-// dimension.
-type unitDef struct {
-	si  float64
-	dim Dim
-}
-
-// Exact by definition: the inch is 0.0254 m and the pound 0.45359237 kg
-// (international yard and pound agreement, 1959).
-const (
-	metresPerInch = 0.0254
-	kgPerPound    = 0.45359237
-)
-
-var unitTable = map[string]unitDef{
-	"m": {1, Length}, "cm": {1e-2, Length}, "mm": {1e-3, Length}, "um": {1e-6, Length}, "µm": {1e-6, Length},
-	"km": {1e3, Length}, "in": {metresPerInch, Length}, "ft": {12 * metresPerInch, Length},
-	"kg": {1, Mass}, "g": {1e-3, Mass}, "mg": {1e-6, Mass}, "lb": {kgPerPound, Mass},
-	"s": {1, Time}, "ms": {1e-3, Time}, "min": {60, Time}, "h": {3600, Time},
-	"N": {1, Force}, "Hz": {1, Frequency},
-	"Pa": {1, Pressure}, "kPa": {1e3, Pressure}, "MPa": {1e6, Pressure}, "GPa": {1e9, Pressure},
-	"rad": {1, Angle}, "deg": {math.Pi / 180, Angle}, "rev": {2 * math.Pi, Angle},
-	"rpm": {2 * math.Pi / 60, AngularSpeed},
-}
-
-// LengthUnits and MassUnits are the units a scene's units table may name.
+// LengthUnits and MassUnits are the units a scene's units table may name,
+// with their sizes in metres and kilograms (from package units).
 var (
-	LengthUnits = map[string]float64{"m": 1, "cm": 1e-2, "mm": 1e-3, "in": metresPerInch}
-	MassUnits   = map[string]float64{"kg": 1, "g": 1e-3, "lb": kgPerPound}
+	LengthUnits = units.Sizes(units.FileLengths)
+	MassUnits   = units.Sizes(units.FileMasses)
 )
 
 // Units are the length and mass units of a scene's numbers (time is always
@@ -129,11 +55,11 @@ var SI = Units{Length: "m", Mass: "kg", L: 1, M: 1}
 func NewUnits(length, mass string) (Units, error) {
 	l, ok := LengthUnits[length]
 	if !ok {
-		return Units{}, fmt.Errorf("unknown length unit %q%s", length, Suggest(length, keysOf(LengthUnits)))
+		return Units{}, fmt.Errorf("unknown length unit %q%s", length, Suggest(length, units.FileLengths))
 	}
 	m, ok := MassUnits[mass]
 	if !ok {
-		return Units{}, fmt.Errorf("unknown mass unit %q%s", mass, Suggest(mass, keysOf(MassUnits)))
+		return Units{}, fmt.Errorf("unknown mass unit %q%s", mass, Suggest(mass, units.FileMasses))
 	}
 	return Units{Length: length, Mass: mass, L: l, M: m}, nil
 }
@@ -289,7 +215,11 @@ func parseUnit(u string) (float64, Dim, error) {
 			if err := powersInRange(u, d, ud, sign); err != nil {
 				return 0, Dim{}, err
 			}
-			d = d.add(ud, sign)
+			if sign > 0 {
+				d = d.Times(ud)
+			} else {
+				d = d.Per(ud)
+			}
 		}
 	}
 	if f == 0 || math.IsInf(f, 0) {
@@ -321,27 +251,9 @@ func unitFactor(s string) (float64, Dim, error) {
 			pow = p
 		}
 	}
-	def, ok := unitTable[name]
+	def, ok := units.Lookup(name)
 	if !ok {
-		return 0, Dim{}, fmt.Errorf("unknown unit %q%s", name, Suggest(name, keysOfUnits()))
+		return 0, Dim{}, fmt.Errorf("unknown unit %q%s", name, Suggest(name, units.Names()))
 	}
-	return math.Pow(def.si, float64(pow)), def.dim.scale(int8(pow)), nil
-}
-
-func keysOfUnits() []string {
-	k := make([]string, 0, len(unitTable))
-	for n := range unitTable {
-		k = append(k, n)
-	}
-	sort.Strings(k)
-	return k
-}
-
-func keysOf(m map[string]float64) []string {
-	k := make([]string, 0, len(m))
-	for n := range m {
-		k = append(k, n)
-	}
-	sort.Strings(k)
-	return k
+	return math.Pow(def.SI, float64(pow)), def.Dim.Pow(int8(pow)), nil
 }

@@ -8,8 +8,11 @@ import (
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
+
+	"clatter/units"
 
 	"github.com/hschendel/stl"
 )
@@ -17,35 +20,28 @@ import (
 // Unit is the length of one unit of a file's numbers, in metres.
 type Unit float64
 
-// Length units of STL files. The inch is 0.0254 m exactly (international
-// yard and pound agreement, 1959).
+// Length units of STL files (sizes from package units).
 const (
-	Metre      Unit = 1
-	Centimetre Unit = 0.01
-	Millimetre Unit = 0.001
-	Inch       Unit = 0.0254
+	Metre      Unit = units.Metre
+	Centimetre Unit = units.Centimetre
+	Millimetre Unit = units.Millimetre
+	Inch       Unit = units.Inch
 )
-
-var unitNames = []struct {
-	name string
-	unit Unit
-}{{"m", Metre}, {"cm", Centimetre}, {"mm", Millimetre}, {"in", Inch}}
 
 // ParseUnit reads a unit name: "m", "cm", "mm" or "in".
 func ParseUnit(s string) (Unit, error) {
-	for _, u := range unitNames {
-		if s == u.name {
-			return u.unit, nil
-		}
+	if slices.Contains(units.FileLengths, s) {
+		u, _ := units.Lookup(s)
+		return Unit(u.SI), nil
 	}
 	return 0, fmt.Errorf("unknown length unit %q; use m, cm, mm or in", s)
 }
 
 // String returns the unit's name, or its length in metres for other units.
 func (u Unit) String() string {
-	for _, n := range unitNames {
-		if u == n.unit {
-			return n.name
+	for _, n := range units.FileLengths {
+		if v, _ := units.Lookup(n); float64(u) == v.SI {
+			return n
 		}
 	}
 	return strconv.FormatFloat(float64(u), 'g', -1, 64) + " m"
