@@ -153,10 +153,15 @@ func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa sh
 
 // lookup returns the pair's entry, or nil.
 func (p *persistMem) lookup(key uint64) *persistEntry {
-	m := p.mem
-	if p.cursor < len(m) && m[p.cursor].key == key {
-		p.cursor++
-		return &m[p.cursor-1]
+	m, i := p.mem, p.cursor
+	// Queries come in key order: the key is at the cursor, or between it
+	// and the entry before (most pairs of a step are apart and have none).
+	if (i == 0 || m[i-1].key < key) && (i == len(m) || m[i].key >= key) {
+		if i < len(m) && m[i].key == key {
+			p.cursor++
+			return &m[i]
+		}
+		return nil
 	}
 	i, ok := slices.BinarySearchFunc(m, key, func(e persistEntry, k uint64) int { return cmp.Compare(e.key, k) })
 	if !ok {
