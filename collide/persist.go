@@ -30,10 +30,12 @@ import (
 // resting face of restband.go, the reference face) that a fresh query would
 // now decide the other way. So the full query runs again when
 //
-//   - the relative motion since the full query (translation of the
-//     moving shape's origin plus the chord its farthest point sweeps by the
-//     rotation) exceeds persistFraction of the contact slop: no feature not
-//     seen then can have closed more than that;
+//   - the relative motion since the full query exceeds persistFraction of
+//     the contact slop: no feature not seen then can have closed more than
+//     that. It is measured as the motion of the smaller shape (or the
+//     bounded one, against a plane or mesh) in the other's frame: the
+//     translation of its origin plus the chord its farthest point sweeps
+//     by the rotation;
 //   - the margin has grown by more than that: a speculative point could
 //     appear that the old margin excluded;
 //   - the full query is persistAge steps old;
@@ -51,10 +53,11 @@ import (
 // relative to each other before the full query runs again. The solver
 // matches a point to last step's within the slop (contact/match.go) and
 // leaves penetration below the slop alone; with a tenth of it, a refreshed
-// point's position (off by at most half the motion) stays a twentieth of
-// the slop from a fresh query's, its separation exact for the same
-// features, and a point a refresh misses is still apart by most of the slop
-// beyond this step's travel, so it could carry no load this step.
+// point's position stays within a tenth of the slop of a fresh query's
+// (each point moved with its shape by at most the motion), its separation
+// is exact for the same features, and a point a refresh misses is still
+// apart by most of the slop beyond this step's travel, so it could carry
+// no load this step.
 const persistFraction = 0.1
 
 // persistAge is the most steps a full query's points are refreshed before
