@@ -56,6 +56,7 @@ func restingPairs(t *testing.T) []restingPair {
 		{"cylinder on its cap on box", slab, cyl, slabAt, up(0.04, turn, 0.01, 0)},
 		{"cylinder on its side on box", slab, cyl, slabAt, up(0.03, side, 0.01, 0)},
 		{"compound on plane", floor, ell2, shapes.IdentityPose, up(0.01, turn, 0, 0)},
+		{"box on a tessellated floor", NewMesh(gridMesh(8, 0.4, flatZero)), box, shapes.IdentityPose, up(0.02, turn, 0.013, 0.021)},
 	}
 }
 
