@@ -209,6 +209,29 @@ func TestPersistentRequeries(t *testing.T) {
 			}
 		})
 	}
+	t.Run("tilted out of the rest band", func(t *testing.T) {
+		// A 4 mm hexagonal prism flat on the floor, then tilted by 1.5e-3
+		// rad about a corner: within the motion limit (its corners move
+		// 7 um), but past restBand's milliradian, where a fresh query may
+		// keep other points (restband.go).
+		small := prismHull(t, 6, 0.004, 0.002)
+		d := NewDetector()
+		d.SetPersistence(persistSlop)
+		flat := shapes.Pose{Position: vec3{0, 0, 0.002 - 5e-5}, Orientation: mgl64.QuatIdent()}
+		var r []Manifold
+		r = d.CollidePair(r[:0], 1, c.a, c.pa, small, flat, 1e-3)
+		d.NextStep()
+		corner := vec3{0.004, 0, -0.002}
+		q := mgl64.QuatRotate(1.5e-3, vec3{0, 1, 0})
+		tilted := shapes.Pose{Position: flat.Position.Add(corner).Sub(q.Rotate(corner)), Orientation: q}
+		if m := q.Rotate(vec3{-0.004, 0, -0.002}).Add(tilted.Position).Sub(vec3{-0.004, 0, flat.Position[2] - 0.002}).Len(); m > tol {
+			t.Fatalf("the tilt moves the far corner %.3g m, beyond the motion limit", m)
+		}
+		r = d.CollidePair(r[:0], 1, c.a, c.pa, small, tilted, 1e-3)
+		if d.Stats().Persisted != 0 {
+			t.Errorf("refreshed a manifold that tilted out of the rest band: %+v", r)
+		}
+	})
 	t.Run("age", func(t *testing.T) {
 		d := NewDetector()
 		d.SetPersistence(persistSlop)
