@@ -127,3 +127,48 @@ func TestPersistentTowerHeight(t *testing.T) {
 		t.Errorf("top cube %.3g mm apart with and without persistence, want below %.3g mm", d*1e3, sameTol*1e3)
 	}
 }
+
+// TestPersistentSlidingBox: a box sliding to a stop on the floor gets a
+// full query every step while it slides (it moves far beyond a tenth of
+// the slop per step) and refreshed points once it rests, and stops where
+// Coulomb friction stops it, d = v^2 / (2 mu g) (any mechanics text), the
+// same with persistence as without.
+func TestPersistentSlidingBox(t *testing.T) {
+	// stopTol: 1 percent of the distance; semi-implicit Euler at 1 ms is
+	// off by about v dt / 2 = 0.5 mm of the 170 mm (0.3 percent).
+	// sameTol: the runs differ only once the box rests, by the refreshed
+	// points' error, a tenth of the slop.
+	const v0, mu, dt, seconds = 1.0, 0.3, 1e-3, 0.6
+	want := v0 * v0 / (2 * mu * StandardGravity)
+	var stop [2]float64
+	var slop float64
+	for k, on := range []bool{false, true} {
+		w, mat := floorWorld(t, Config{NoSleep: true}, 0, Material{Friction: mu})
+		slop = w.cfg.Slop
+		id := mustAdd(t, w, BodyDef{Name: "box", Shape: shapes.Box{Half: shapes.Vec3{0.02, 0.02, 0.01}}, Density: 800, Material: mat, Position: shapes.Vec3{0, 0, 0.01}, Velocity: shapes.Vec3{v0, 0, 0}})
+		if !on {
+			w.collision.det.SetPersistence(0)
+		}
+		slid, rested := 0, 0
+		run(t, w, dt, seconds, func() {
+			n := w.collision.det.Stats().Persisted
+			w.collision.det.ResetStats()
+			if w.Velocity(id).Len()*dt > 0.2*w.cfg.Slop {
+				slid += n
+			} else {
+				rested += n
+			}
+		})
+		stop[k] = w.Position(id)[0]
+		t.Logf("persistence %v: stopped after %.6f m (Coulomb %.6f m); refreshed %d sliding, %d resting", on, stop[k], want, slid, rested)
+		if on && (slid != 0 || rested < int(0.1/dt)) {
+			t.Errorf("%d refreshed queries while sliding (want 0), %d at rest", slid, rested)
+		}
+		if math.Abs(stop[k]-want) > 0.01*want {
+			t.Errorf("persistence %v: stopped after %.5f m, Coulomb friction gives %.5f m", on, stop[k], want)
+		}
+	}
+	if d := math.Abs(stop[1] - stop[0]); d > 0.1*slop {
+		t.Errorf("stopped %.3g mm apart with and without persistence", d*1e3)
+	}
+}
