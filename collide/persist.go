@@ -312,7 +312,9 @@ func (p *persistMem) nextStep() {
 	n := 0
 	for i := range p.mem {
 		if p.mem[i].seen == p.step {
-			p.mem[n] = p.mem[i]
+			if n != i { // entries stay put until one is forgotten
+				p.mem[n] = p.mem[i]
+			}
 			n++
 		}
 	}
