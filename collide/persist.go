@@ -46,6 +46,12 @@ import (
 //     sense (its points' depths within restBand of their spread), where the
 //     resting-face rule of hulls on planes and reduce's depth ties switch.
 //
+// A pair is kept when its full query gave one manifold: any two convex
+// shapes, a convex shape on a plane, a compound with one piece touching, a
+// convex shape on one flat region of a mesh. Results of several manifolds
+// (compounds and meshes touching in several places) run the full query
+// every step.
+//
 // The memory is a pure function of the poses and margins queried, in the
 // order queried: the same queries give bit-identical results.
 
