@@ -84,11 +84,10 @@ func (c *pairCache) lookup(key uint64) pairHint {
 	return p[i]
 }
 
-// CollidePair is Collide for a pair that is queried step after step under
-// the same key (for example the two body ids): it returns the same
-// manifolds, and uses what the pair's last query found to answer sooner.
-// Call NextStep once all of a step's pairs have been queried.
-func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
+// collideHinted is CollidePair's query (persist.go) for a pair with no
+// persistent points: it returns the same manifolds as Collide, and uses
+// the axis that separated the pair last step to prove it apart sooner.
+func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
 	c := &d.cache
 	if !plainConvex(a) || !plainConvex(b) {
 		return d.Collide(dst, a, pa, b, pb, margin)
@@ -134,6 +133,7 @@ func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa sh
 // NextStep ends a step of CollidePair queries: what they found becomes the
 // memory for the next step, and pairs not queried this step are forgotten.
 func (d *Detector) NextStep() {
+	d.persist.nextStep() // persistent manifolds (persist.go)
 	c := &d.cache
 	if !slices.IsSortedFunc(c.cur, cmpHint) {
 		slices.SortStableFunc(c.cur, cmpHint)

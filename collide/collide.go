@@ -51,6 +51,9 @@ type Stats struct {
 	// Remembered counts the CollidePair queries that the axis remembered
 	// from the pair's last query proved apart.
 	Remembered int
+	// Persisted counts the CollidePair queries answered by refreshing the
+	// pair's persistent points (persist.go).
+	Persisted int
 }
 
 // A Detector is the narrow phase. It holds scratch space so that queries
@@ -90,6 +93,8 @@ type Detector struct {
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
 
 	stats Stats
+
+	persist persistMem // persistent manifolds (persist.go)
 }
 
 // NewDetector returns a Detector with its buffers sized for common shapes.

@@ -41,6 +41,7 @@ func (w *World) initCollision() {
 	c := &w.collision
 	c.bp = broad.New()
 	c.det = collide.NewDetector()
+	c.det.SetPersistence(w.cfg.Slop) // resting pairs refresh their points (collide/persist.go)
 	s := contact.DefaultSettings()
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations

@@ -1,0 +1,364 @@
+package collide
+
+import (
+	"cmp"
+	"math"
+	"slices"
+
+	"clatter/shapes"
+	"github.com/go-gl/mathgl/mgl64"
+)
+
+// Persistent manifolds: temporal coherence for touching pairs. A pair at
+// rest finds the same features touching step after step; CollidePair keeps
+// each point of a pair's last full query as the two surface points it joins,
+// each in its own shape's frame, and while the shapes have barely moved
+// relative to each other since then it moves those points with the shapes
+// instead of querying again: the separation is the gap between them along
+// the normal, the position midway between them. This is the coherence of
+// Lin and Canny, "A fast algorithm for incremental distance calculation",
+// IEEE ICRA 1991 (the closest features change rarely between steps, so the
+// last ones are the starting guess), taken to its simplest form for
+// contact manifolds (Ericson, "Real-Time Collision Detection", 2005, on
+// exploiting frame-to-frame coherence).
+//
+// A refreshed point is exact for the same features as long as they touch:
+// a vertex against a face keeps its separation along the face's normal, and
+// the position it reports is off by at most the motion. What a refresh
+// cannot see is a feature coming within the margin that was not there at
+// the full query, and a near tie (reduce's choice of four points, the
+// resting face of restband.go, the reference face) that a fresh query would
+// now decide the other way. So the full query runs again when
+//
+//   - the relative motion since the full query exceeds persistFraction of
+//     the contact slop: no feature not seen then can have closed more than
+//     that. It is measured as the motion of the smaller shape (or the
+//     bounded one, against a plane or mesh) in the other's frame: the
+//     translation of its origin plus the chord its farthest point sweeps
+//     by the rotation;
+//   - the margin has grown by more than that: a speculative point could
+//     appear that the old margin excluded;
+//   - the full query is persistAge steps old;
+//   - a refreshed point is beyond the margin (a fresh query would drop it)
+//     or its two surface points have drifted apart along the surface by more
+//     than the slop (the same point no longer);
+//   - a manifold changed between lying flat and tilted in restband.go's
+//     sense (its points' depths within restBand of their spread), where the
+//     resting-face rule of hulls on planes and reduce's depth ties switch.
+//
+// A pair is kept when its full query gave one manifold: any two convex
+// shapes, a convex shape on a plane, a compound with one piece touching, a
+// convex shape on one flat region of a mesh. Results of several manifolds
+// (compounds and meshes touching in several places) run the full query
+// every step.
+//
+// The memory is a pure function of the poses and margins queried, in the
+// order queried: the same queries give bit-identical results.
+
+// persistFraction is the part of the contact slop that the shapes may move
+// relative to each other before the full query runs again. The solver
+// matches a point to last step's within the slop (contact/match.go) and
+// leaves penetration below the slop alone; with a tenth of it, a refreshed
+// point's position stays within a tenth of the slop of a fresh query's
+// (each point moved with its shape by at most the motion), its separation
+// is exact for the same features, and a point a refresh misses is still
+// apart by most of the slop beyond this step's travel, so it could carry
+// no load this step.
+const persistFraction = 0.1
+
+// persistAge is the most steps a full query's points are refreshed before
+// the full query runs again. Motion and margin below their limits cannot
+// bring a new feature into contact, but a near tie of the query (which four
+// points reduce keeps, which face is the reference, whether a hull rests
+// flat) may be decided another way at the current pose; this bounds how long
+// the persistent result may lag the fresh one, and the history a step's
+// contacts depend on, to a few steps, while a resting pair still skips
+// seven full queries in eight.
+const persistAge = 8
+
+// persistEntry is the memory of one pair.
+type persistEntry struct {
+	key        uint64
+	full, seen uint32 // step of the last full query, of the last query (0: forgotten)
+	// The shapes of the full query: a key queried with others (an index
+	// reused for a new body) runs a full query.
+	a, b shapes.Shape
+	// mOnB: the moving shape M, whose motion in the frame of the other
+	// shape F is measured, is B (the smaller of the two, or the bounded one
+	// against a plane or mesh).
+	mOnB   bool
+	rq     mgl64.Quat // M's orientation in F's frame at the full query
+	rt     vec3       // M's origin in F's frame at the full query
+	rho    float64    // bound on the distance of M's points from its origin
+	margin float64    // the margin of the full query
+	flat   bool       // the manifold lay flat (see flatPoints)
+	m      keptManifold
+}
+
+// keptManifold is a manifold in the shapes' frames.
+type keptManifold struct {
+	n          vec3 // normal, A toward B, in F's frame
+	pa, pb     [4]vec3
+	id         [4]uint32
+	count      int
+	subA, subB int32
+	ca, cb     vec3 // the patch centre in A's and in B's frame
+	radius     float64
+}
+
+// persistMem holds the entries sorted by key, and those first made this
+// step until NextStep merges them in.
+type persistMem struct {
+	slop   float64 // the contact slop; 0 turns the memory off
+	step   uint32  // counts NextStep calls from 1
+	mem    []persistEntry
+	add    []persistEntry
+	cursor int
+}
+
+// SetPersistence turns persistent manifolds of CollidePair on for contacts
+// whose slop, the depth the solver leaves alone (m), is slop, or off when
+// slop is 0: every touching pair then runs a full query, as Collide does.
+// They are off in a new Detector.
+func (d *Detector) SetPersistence(slop float64) {
+	if !(slop > 0) || math.IsInf(slop, 0) {
+		slop = 0
+	}
+	d.persist = persistMem{slop: slop, step: 1, mem: d.persist.mem[:0], add: d.persist.add[:0]}
+}
+
+// CollidePair is Collide for a pair that is queried step after step under
+// the same key (for example the two body ids; a key names one pair of
+// shapes): it uses what the pair's last query found to answer sooner. A
+// pair apart is proved apart by the axis that separated it last (cache.go)
+// and returns the same manifolds as Collide. A touching pair that has
+// barely moved since its last full query, with persistence on
+// (SetPersistence), refreshes that query's points (persist.go): the same
+// features and ids, positions within persistFraction of the slop and
+// separations exact for those features. Call NextStep once all of a step's
+// pairs have been queried.
+func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
+	p := &d.persist
+	if p.slop == 0 {
+		return d.collideHinted(dst, key, a, pa, b, pb, margin)
+	}
+	if !(margin >= 0) || math.IsInf(margin, 0) {
+		margin = 0
+	}
+	e := p.lookup(key)
+	if e != nil && e.a == a && e.b == b && finitePose(pa) && finitePose(pb) {
+		if m, ok := p.refresh(e, pa, pb, margin); ok {
+			e.seen = p.step
+			d.cache.carry(key)
+			d.stats.Persisted++
+			return append(dst, m)
+		}
+	}
+	n := len(dst)
+	dst = d.collideHinted(dst, key, a, pa, b, pb, margin)
+	p.keep(e, key, a, pa, b, pb, margin, dst[n:])
+	return dst
+}
+
+// lookup returns the pair's entry, or nil.
+func (p *persistMem) lookup(key uint64) *persistEntry {
+	m, i := p.mem, p.cursor
+	// Queries come in key order: the key is at the cursor, or between it
+	// and the entry before (most pairs of a step are apart and have none).
+	if (i == 0 || m[i-1].key < key) && (i == len(m) || m[i].key >= key) {
+		if i < len(m) && m[i].key == key {
+			p.cursor++
+			return &m[i]
+		}
+		return nil
+	}
+	i, ok := slices.BinarySearchFunc(m, key, func(e persistEntry, k uint64) int { return cmp.Compare(e.key, k) })
+	if !ok {
+		p.cursor = i
+		return nil
+	}
+	p.cursor = i + 1
+	return &m[i]
+}
+
+// relPose returns the pose of M in F's frame.
+func relPose(mOnB bool, pa, pb shapes.Pose) (mgl64.Quat, vec3) {
+	f, m := pa, pb
+	if !mOnB {
+		f, m = pb, pa
+	}
+	fc := f.Orientation.Conjugate()
+	return fc.Mul(m.Orientation), fc.Rotate(m.Position.Sub(f.Position))
+}
+
+// refresh moves e's points with the shapes at pa and pb and reports whether
+// they stand for a fresh query (the conditions of the file comment).
+func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64) (Manifold, bool) {
+	tol := persistFraction * p.slop
+	if p.step-e.full >= persistAge || margin > e.margin+tol {
+		return Manifold{}, false
+	}
+	q, t := relPose(e.mOnB, pa, pb)
+	dq := e.rq.Conjugate().Mul(q)
+	// The chord a point at distance rho sweeps by the rotation dq is
+	// 2 sin(angle/2) rho = 2 |dq.V| rho.
+	if t.Sub(e.rt).Len()+2*dq.V.Len()*e.rho > tol {
+		return Manifold{}, false
+	}
+	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
+	rf := ra
+	if !e.mOnB {
+		rf = rb
+	}
+	k := &e.m
+	n := mul(rf, k.n)
+	out := Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
+	for i := 0; i < k.count; i++ {
+		a := pa.Position.Add(mul(ra, k.pa[i]))
+		b := pb.Position.Add(mul(rb, k.pb[i]))
+		gap := b.Sub(a)
+		sep := gap.Dot(n)
+		if sep > margin || gap.Sub(n.Mul(sep)).Len() > p.slop {
+			return Manifold{}, false
+		}
+		out.Points[i] = Point{Position: a.Add(b).Mul(0.5), Separation: sep, ID: k.id[i]}
+	}
+	if flatPoints(&out) != e.flat {
+		return Manifold{}, false
+	}
+	ca := pa.Position.Add(mul(ra, k.ca))
+	cb := pb.Position.Add(mul(rb, k.cb))
+	out.PatchCenter = ca.Add(cb).Mul(0.5)
+	return out, true
+}
+
+// flatPoints reports whether m's points lie flat in the sense of
+// restband.go: their depths within restBand of their spread in the contact
+// plane (a tilt under a milliradian).
+func flatPoints(m *Manifold) bool {
+	if m.Count < 2 {
+		return false
+	}
+	lo, hi, w := math.Inf(1), math.Inf(-1), 0.0
+	p0 := m.Points[0].Position
+	for _, pt := range m.Points[:m.Count] {
+		lo, hi = min(lo, pt.Separation), max(hi, pt.Separation)
+		w = max(w, pt.Position.Sub(p0).Len())
+	}
+	return hi-lo <= restBand*w
+}
+
+// keep stores the result res of a full query of the pair in its entry e
+// (nil if it has none): a result of one manifold is kept, any other forgets
+// the pair.
+func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64, res []Manifold) {
+	if e != nil {
+		e.seen = 0
+	}
+	if len(res) != 1 || res[0].Count == 0 || !finitePose(pa) || !finitePose(pb) || !persistable(a) || !persistable(b) {
+		return
+	}
+	sa, sb := boundRadius(a), boundRadius(b)
+	if math.IsInf(sa, 0) && math.IsInf(sb, 0) {
+		return
+	}
+	if e == nil {
+		p.add = append(p.add, persistEntry{})
+		e = &p.add[len(p.add)-1]
+	}
+	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: sb <= sa, margin: margin}
+	e.rho = min(sa, sb)
+	e.rq, e.rt = relPose(e.mOnB, pa, pb)
+	m := &res[0]
+	e.flat = flatPoints(m)
+	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
+	rf := ra
+	if !e.mOnB {
+		rf = rb
+	}
+	k := &e.m
+	k.n = mulT(rf, m.Normal)
+	k.count, k.subA, k.subB, k.radius = m.Count, m.SubA, m.SubB, m.PatchRadius
+	for i, pt := range m.Points[:m.Count] {
+		h := m.Normal.Mul(0.5 * pt.Separation)
+		k.pa[i] = mulT(ra, pt.Position.Sub(h).Sub(pa.Position))
+		k.pb[i] = mulT(rb, pt.Position.Add(h).Sub(pb.Position))
+		k.id[i] = pt.ID
+	}
+	k.ca = mulT(ra, m.PatchCenter.Sub(pa.Position))
+	k.cb = mulT(rb, m.PatchCenter.Sub(pb.Position))
+}
+
+// persistable reports the shapes of this package whose values == compares
+// without a panic (a pointer, or a struct of numbers).
+func persistable(s shapes.Shape) bool {
+	switch s.(type) {
+	case shapes.Box, shapes.Cylinder, shapes.Sphere, shapes.Capsule, shapes.Plane,
+		*shapes.Hull, *shapes.Compound, *shapes.Plane, *Mesh:
+		return true
+	}
+	return false
+}
+
+// boundRadius bounds the distance of s's points from its frame's origin
+// (infinite for a plane).
+func boundRadius(s shapes.Shape) float64 {
+	bb := s.Bounds()
+	if !finite(bb.Min) || !finite(bb.Max) {
+		return math.Inf(1)
+	}
+	return 0.5*bb.Size().Len() + bb.Center().Len()
+}
+
+// nextStep forgets the pairs not queried this step and merges in the new.
+func (p *persistMem) nextStep() {
+	if p.slop == 0 {
+		return
+	}
+	n := 0
+	for i := range p.mem {
+		if p.mem[i].seen == p.step {
+			if n != i { // entries stay put until one is forgotten
+				p.mem[n] = p.mem[i]
+			}
+			n++
+		}
+	}
+	// A key first queried twice in one step keeps its last entry.
+	add := p.add
+	slices.SortStableFunc(add, func(x, y persistEntry) int { return cmp.Compare(x.key, y.key) })
+	k := 0
+	for i := range add {
+		if k > 0 && add[k-1].key == add[i].key {
+			add[k-1] = add[i]
+			continue
+		}
+		add[k] = add[i]
+		k++
+	}
+	// Merge from the back, in place.
+	mem := slices.Grow(p.mem[:n], k)[:n+k]
+	i, j := n-1, k-1
+	for w := n + k - 1; j >= 0; w-- {
+		if i >= 0 && mem[i].key > add[j].key {
+			mem[w] = mem[i]
+			i--
+		} else {
+			mem[w] = add[j]
+			j--
+		}
+	}
+	p.mem, p.add = mem, add[:0]
+	p.cursor = 0
+	if p.step++; p.step == 0 { // wrapped: 0 marks forgotten entries
+		p.step = 1
+	}
+}
+
+// carry keeps the pair's separating-axis memory for the next step when its
+// persistent points answered the query instead.
+func (c *pairCache) carry(key uint64) {
+	if h := c.lookup(key); h.kind != hintNone {
+		c.cur = append(c.cur, h)
+	}
+}
