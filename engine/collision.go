@@ -19,6 +19,7 @@ type collisionState struct {
 	margin []float64     // speculative margin of each body this step
 	pose   []shapes.Pose // each body's shape pose this step, computed once
 
+	planes    planeSet // planes, kept out of the sweep (planes.go)
 	pairs     [][2]int32
 	manifolds []collide.Manifold
 	points    []contact.Point
@@ -65,11 +66,16 @@ func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) error {
 		kind = broad.Static
 	}
 	w.b.bounds[id] = w.worldBounds(id, 0)
-	if err := c.bp.Insert(int32(id), w.b.bounds[id], kind); err != nil {
+	if unbounded(w.b.shape[id]) {
+		w.addPlane(id) // (planes.go)
+	} else if err := c.bp.Insert(int32(id), w.b.bounds[id], kind); err != nil {
+		return err
+	} else if err := c.bp.SetFilter(int32(id), cat, mask); err != nil {
 		return err
 	}
 	c.margin = append(c.margin, 0)
-	return c.bp.SetFilter(int32(id), cat, mask)
+	c.planes.filter = append(c.planes.filter, [2]uint32{cat, mask})
+	return nil
 }
 
 func (w *World) setActive(id BodyID, active bool) {
@@ -99,7 +105,7 @@ func (w *World) collide(dt float64) {
 		}
 		w.moveBounds(BodyID(i), dt)
 	}
-	c.pairs = c.bp.Pairs(c.pairs[:0])
+	c.pairs = w.broadPairs(c.pairs) // (planes.go)
 	c.points = c.points[:0]
 	w.soft.pts = w.soft.pts[:0] // compliant.go
 	c.prevTouching, c.touching = c.touching, c.prevTouching[:0]
@@ -123,7 +129,8 @@ func (w *World) moveBounds(id BodyID, dt float64) {
 	if b := w.b.shape[id].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
 		w.b.bounds[id] = b.Transform(c.pose[id]).Grow(m)
 	} else {
-		w.b.bounds[id] = b // a plane: unbounded
+		w.b.bounds[id] = b // a plane: unbounded, outside the broad phase
+		return
 	}
 	_ = c.bp.Move(int32(id), w.b.bounds[id])
 }

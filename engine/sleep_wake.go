@@ -125,7 +125,7 @@ func (w *World) collideWoken(dt float64) {
 		}
 		pass := s.pass
 		s.pass++
-		s.pairs = c.bp.Pairs(s.pairs[:0])
+		s.pairs = w.broadPairs(s.pairs)
 		for _, p := range s.pairs {
 			a, b := BodyID(p[0]), BodyID(p[1])
 			// The pass's pairs: at least one body woken in the last pass,
