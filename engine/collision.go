@@ -94,16 +94,10 @@ func (w *World) worldBounds(id BodyID, margin float64) shapes.AABB {
 // collide runs the broad and narrow phases and fills the contact points.
 func (w *World) collide(dt float64) {
 	c := &w.collision
-	c.pose = c.pose[:0]
-	for i := range w.b.kind {
-		c.pose = append(c.pose, w.ShapePose(BodyID(i)))
-	}
+	w.shapePoses() // (active.go)
 	w.beginWakes() // sleep_wake.go
-	for i, k := range w.b.kind {
-		if k == Static || !w.b.awake[i] {
-			continue
-		}
-		w.moveBounds(BodyID(i), dt)
+	for _, id := range w.awakeBodies() {
+		w.moveBounds(id, dt)
 	}
 	c.pairs = w.broadPairs(c.pairs) // (planes.go)
 	c.points = c.points[:0]

@@ -41,9 +41,15 @@ type planeWorld struct {
 // times that keeps every pair it could find.
 const planeTol = 1e-13
 
-// unbounded reports whether a shape's bounds are infinite (a plane).
+// unbounded reports whether a shape's bounds are infinite: a plane, not an
+// empty shape (whose bounds are inverted, and which the broad phase refuses).
 func unbounded(s shapes.Shape) bool {
 	b := s.Bounds()
+	for k := 0; k < 3; k++ {
+		if b.Min[k] > b.Max[k] {
+			return false
+		}
+	}
 	return !finiteVec(b.Min) || !finiteVec(b.Max)
 }
 

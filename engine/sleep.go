@@ -118,6 +118,7 @@ func (w *World) sleep(id BodyID) {
 	w.b.awake[id] = false
 	w.b.vel[id], w.b.spin[id] = [3]float64{}, [3]float64{}
 	w.setActive(id, false)
+	w.fellAsleep(id) // (active.go)
 	w.emit(Event{Kind: Sleep, Time: w.time, A: id, B: -1})
 }
 

@@ -98,6 +98,7 @@ func (w *World) wakeOne(id BodyID) {
 	w.b.awake[id] = true
 	w.b.restFor[id] = 0
 	w.setActive(id, true)
+	w.wokeUp(id) // (active.go)
 	s.recall = true
 	if int(id) < len(s.wokePass) {
 		s.wokePass[id] = s.pass
