@@ -2,7 +2,6 @@ package engine
 
 import (
 	"math"
-	"slices"
 
 	"clatter/collide"
 	"clatter/collide/broad"
@@ -27,11 +26,13 @@ type collisionState struct {
 	inertia   []shapes.Mat3 // world inertia tensor of each awake dynamic body this step
 	rows      []contact.Row
 
-	touching, prevTouching []touchPair
-	sleep                  sleepState // islands, wakes and the warm memory of sleepers (sleep_wake.go)
+	touching, prevTouching []touchPair // pairs with an awake body, this step and the last
+	rest                   restState   // touching pairs of still bodies (touching.go)
+	sleep                  sleepState  // islands, wakes and the warm memory of sleepers (sleep_wake.go)
 
-	parent, size []int32
-	islandRest   []float64
+	parent, size []int32   // the step's union-find of islands (sleep.go)
+	islandRest   []float64 // by island root: how long its least rested body has rested
+	isl          islandState
 }
 
 // touchPair is a pair of bodies with at least one contact point at or
@@ -210,29 +211,27 @@ func contactKey(a, b BodyID, subA, subB int32, id uint32) uint64 {
 // (both in the broad phase's sorted order) and emits begin and end events.
 //
 // A pair of bodies that are both asleep (or one static) is not examined
-// while they sleep; it stays in the touching list, with events or without,
-// so that the islands of sleeping bodies hold together (sleep.go).
+// while they sleep; it is set aside, with events or without, so that the
+// islands of sleeping bodies hold together (sleep.go), and comes back to
+// this comparison when one of them wakes (touching.go).
 func (w *World) contactEvents() {
 	c := &w.collision
 	cur, prev := c.touching, c.prevTouching
-	less := func(x, y touchPair) int {
-		if x.a != y.a {
-			return int(x.a) - int(y.a)
-		}
-		return int(x.b) - int(y.b)
+	if c.rest.woke {
+		prev = w.wokenPairs(prev)
 	}
 	i, j := 0, 0
 	for i < len(cur) || j < len(prev) {
 		switch {
-		case j >= len(prev) || (i < len(cur) && less(cur[i], prev[j]) < 0):
+		case j >= len(prev) || (i < len(cur) && touchLess(cur[i], prev[j])):
 			w.emit(Event{Kind: ContactBegin, Time: w.time, A: cur[i].a, B: cur[i].b})
 			i++
-		case i >= len(cur) || less(cur[i], prev[j]) > 0:
+		case i >= len(cur) || touchLess(prev[j], cur[i]):
 			// A pair that merely fell asleep has not ended its contact.
 			if w.b.awake[prev[j].a] || w.b.awake[prev[j].b] {
 				w.emit(Event{Kind: ContactEnd, Time: w.time, A: prev[j].a, B: prev[j].b})
 			} else {
-				c.touching = append(c.touching, prev[j])
+				w.keepResting(prev[j])
 			}
 			j++
 		default:
@@ -240,9 +239,7 @@ func (w *World) contactEvents() {
 			j++
 		}
 	}
-	if len(c.touching) > len(cur) {
-		slices.SortFunc(c.touching, less)
-	}
+	w.markTouching()
 }
 
 // solve runs the contact solver and records impacts.

@@ -76,40 +76,57 @@ func (w *World) broadPairs(dst [][2]int32) [][2]int32 {
 // reach it, sorted. A static plane pairs with awake bodies only, a moving
 // (kinematic) one with sleeping bodies too, as in the broad phase.
 func (w *World) planePairs(dst [][2]int32) [][2]int32 {
-	c := &w.collision
-	pl := &c.planes
+	pl := &w.collision.planes
 	pl.nd = pl.nd[:0]
+	moving := false
 	for _, p := range pl.ids {
 		pl.nd = append(pl.nd, w.planeInWorld(p))
+		moving = moving || w.b.kind[p] != Static
 	}
-	for i, k := range w.b.kind {
-		if k != Dynamic {
-			continue
+	for _, id := range w.awakeBodies() {
+		if w.b.kind[id] == Dynamic {
+			dst = w.meetPlanes(dst, id)
 		}
-		awake := w.b.awake[i]
-		box := &w.b.bounds[i]
-		f := pl.filter[i]
-		for j, p := range pl.ids {
-			if !awake && w.b.kind[p] == Static {
-				continue
-			}
-			g := pl.filter[p]
-			if f[0]&g[1] == 0 || g[0]&f[1] == 0 {
-				continue
-			}
-			if boxReaches(box, pl.nd[j], c.margin[p]) {
-				a, b := int32(p), int32(i)
-				if a > b {
-					a, b = b, a
-				}
-				dst = append(dst, [2]int32{a, b})
+	}
+	if moving {
+		for i, k := range w.b.kind {
+			if k == Dynamic && !w.b.awake[i] {
+				dst = w.meetPlanes(dst, BodyID(i))
 			}
 		}
 	}
 	// Bodies were visited in id order: the pairs are sorted unless a plane
-	// was added after a body it pairs with.
+	// was added after a body it pairs with or sleeping bodies met a moving
+	// plane.
 	if !slices.IsSortedFunc(dst, cmpPair) {
 		slices.SortFunc(dst, cmpPair)
+	}
+	return dst
+}
+
+// meetPlanes appends the pairs of dynamic body i with the planes its
+// bounds reach (pl.nd holds the planes in the world).
+func (w *World) meetPlanes(dst [][2]int32, i BodyID) [][2]int32 {
+	c := &w.collision
+	pl := &c.planes
+	awake := w.b.awake[i]
+	box := &w.b.bounds[i]
+	f := pl.filter[i]
+	for j, p := range pl.ids {
+		if !awake && w.b.kind[p] == Static {
+			continue
+		}
+		g := pl.filter[p]
+		if f[0]&g[1] == 0 || g[0]&f[1] == 0 {
+			continue
+		}
+		if boxReaches(box, pl.nd[j], c.margin[p]) {
+			a, b := int32(p), int32(i)
+			if a > b {
+				a, b = b, a
+			}
+			dst = append(dst, [2]int32{a, b})
+		}
 	}
 	return dst
 }
