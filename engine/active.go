@@ -24,6 +24,13 @@ type activeSet struct {
 	// poseAll asks the next narrow phase to recompute every body's pose,
 	// not only the awake ones' (a body was placed by hand).
 	poseAll bool
+	// end holds the energies the guard summed at the end of step endStep
+	// (linear and rotational kinetic, potential); the next step starts
+	// from them unless a body was woken, moved or pushed by hand since.
+	end     [3]float64
+	endStep int
+	endN    int // bodies then
+	endOK   bool
 	// floor is the guard's energy floor (checkEnergy) for floorN bodies
 	// under gravity floorG.
 	floor  float64
@@ -71,6 +78,7 @@ func (w *World) fellAsleep(id BodyID) {
 func (w *World) shapePoses() {
 	c := &w.collision
 	if len(c.pose) != len(w.b.kind) || w.active.poseAll {
+		c.planes.ndOK = false // (planes.go)
 		c.pose = c.pose[:0]
 		for i := range w.b.kind {
 			c.pose = append(c.pose, w.ShapePose(BodyID(i)))
@@ -144,3 +152,27 @@ func (w *World) energyFloor() float64 {
 	}
 	return a.floor
 }
+
+// startEnergies returns the energies at the start of a step, as
+// awakeEnergies, reusing the sums of the last step's end when nothing has
+// changed them since.
+func (w *World) startEnergies() (lin, rot, pot float64) {
+	a := &w.active
+	if a.endOK && a.endStep == w.steps && a.endN == len(w.b.kind) {
+		return a.end[0], a.end[1], a.end[2]
+	}
+	return w.awakeEnergies()
+}
+
+// endEnergies sums the energies at the end of a step for the guard and
+// keeps them for the next step's start.
+func (w *World) endEnergies() (lin, rot, pot float64) {
+	lin, rot, pot = w.awakeEnergies()
+	a := &w.active
+	a.end, a.endStep, a.endN, a.endOK = [3]float64{lin, rot, pot}, w.steps, len(w.b.kind), true
+	return lin, rot, pot
+}
+
+// stateChanged drops the kept energies: a body was woken, placed, pushed
+// or gravity changed between steps.
+func (w *World) stateChanged() { w.active.endOK = false }

@@ -114,3 +114,55 @@ func TestTouchingMatchesContacts(t *testing.T) {
 		}
 	}
 }
+
+// TestKeptEnergiesStayTrue checks that the energies the guard keeps from
+// one step's end for the next step's start equal the sums taken afresh
+// (the definitions 1/2 m v^2, 1/2 w . I w and -m g . x, summed anew by
+// awakeEnergies) after every way a caller can change the state between
+// steps: otherwise the guard would measure a step against a stale start.
+func TestKeptEnergiesStayTrue(t *testing.T) {
+	w, mat := floorWorld(t, DefaultConfig(), 0, Material{Friction: 0.5})
+	box := shapes.Box{Half: shapes.Vec3{0.02, 0.03, 0.01}}
+	a := mustAdd(t, w, BodyDef{Name: "a", Shape: box, Density: 900, Material: mat, Position: shapes.Vec3{0, 0, 0.2}, Spin: shapes.Vec3{1, 2, 3}})
+	b := mustAdd(t, w, BodyDef{Name: "b", Shape: box, Density: 900, Material: mat, Position: shapes.Vec3{0.2, 0, 0.01}})
+	check := func(what string) {
+		t.Helper()
+		if !w.active.endOK || w.active.endStep != w.Steps() || w.active.endN != w.NumBodies() {
+			return // not kept: the next step sums afresh
+		}
+		l0, r0, p0 := w.startEnergies()
+		l1, r1, p1 := w.awakeEnergies()
+		if l0 != l1 || r0 != r1 || p0 != p1 {
+			t.Fatalf("after %s: kept energies (%g, %g, %g), afresh (%g, %g, %g)", what, l0, r0, p0, l1, r1, p1)
+		}
+	}
+	changes := []struct {
+		what string
+		do   func()
+	}{
+		{"a step", func() {}},
+		{"SetVelocity", func() { w.SetVelocity(a, shapes.Vec3{0.1, 0, 0}, shapes.Vec3{0, 0, 1}) }},
+		{"SetPose", func() { w.SetPose(a, shapes.Vec3{0, 0, 0.3}, shapes.Quat{W: 1}) }},
+		{"ApplyImpulse", func() { w.ApplyImpulse(a, shapes.Vec3{0, 0.01, 0}, shapes.Vec3{0.01, 0, 0.3}) }},
+		{"SetGravity", func() { _ = w.SetGravity(shapes.Vec3{0, 1, -9}) }},
+		{"AddBody", func() {
+			mustAdd(t, w, BodyDef{Name: "c", Shape: box, Density: 900, Material: mat, Position: shapes.Vec3{-0.2, 0, 0.1}, Velocity: shapes.Vec3{0, 0, 1}})
+		}},
+		{"a kick", func() { _ = w.Kick(b, w.Time(), shapes.Vec3{0.01, 0, 0}, shapes.Vec3{}, true) }},
+	}
+	for round := 0; round < 3; round++ {
+		for _, ch := range changes {
+			if ch.what == "AddBody" && round > 0 {
+				continue
+			}
+			for s := 0; s < 20; s++ {
+				if err := w.Step(1e-3); err != nil {
+					t.Fatal(err)
+				}
+				check("a step")
+			}
+			ch.do()
+			check(ch.what)
+		}
+	}
+}

@@ -25,7 +25,8 @@ type planeSet struct {
 	filter [][2]uint32  // category and mask of every body, by id
 	sap    [][2]int32   // scratch: the sweep's pairs
 	found  [][2]int32   // scratch: the planes' pairs
-	nd     []planeWorld // scratch: each plane's world normal and offset
+	nd     []planeWorld // each plane's world normal and offset
+	ndOK   bool         // nd holds the static planes where they are
 }
 
 // planeWorld is a plane in world coordinates: {x : n . x <= d}.
@@ -67,7 +68,10 @@ func (w *World) broadPairs(dst [][2]int32) [][2]int32 {
 	if len(pl.ids) == 0 {
 		return c.bp.Pairs(dst[:0])
 	}
-	pl.sap = c.bp.Pairs(pl.sap[:0])
+	pl.sap = pl.sap[:0]
+	if c.bp.Len() > 1 { // a single part over a floor has no pair to sweep for
+		pl.sap = c.bp.Pairs(pl.sap)
+	}
 	pl.found = w.planePairs(pl.found[:0])
 	return mergePairs(dst[:0], pl.sap, pl.found)
 }
@@ -77,12 +81,21 @@ func (w *World) broadPairs(dst [][2]int32) [][2]int32 {
 // (kinematic) one with sleeping bodies too, as in the broad phase.
 func (w *World) planePairs(dst [][2]int32) [][2]int32 {
 	pl := &w.collision.planes
-	pl.nd = pl.nd[:0]
+	if w.active.poseAll { // placed by hand since the poses were taken
+		pl.ndOK = false
+	}
+	if len(pl.nd) != len(pl.ids) {
+		pl.nd, pl.ndOK = append(pl.nd[:0], make([]planeWorld, len(pl.ids))...), false
+	}
+	// A static plane moves only when placed by hand (SetPose clears ndOK).
 	moving := false
-	for _, p := range pl.ids {
-		pl.nd = append(pl.nd, w.planeInWorld(p))
+	for j, p := range pl.ids {
+		if !pl.ndOK || w.b.kind[p] != Static {
+			pl.nd[j] = w.planeInWorld(p)
+		}
 		moving = moving || w.b.kind[p] != Static
 	}
+	pl.ndOK = true
 	for _, id := range w.awakeBodies() {
 		if w.b.kind[id] == Dynamic {
 			dst = w.meetPlanes(dst, id)

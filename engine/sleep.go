@@ -195,6 +195,7 @@ func (w *World) sleep(id BodyID) {
 // wake restarts a dynamic body's rest time and wakes it, with its island,
 // if it sleeps.
 func (w *World) wake(id BodyID) {
+	w.stateChanged() // the energies kept for the guard are stale (active.go)
 	if w.b.kind[id] != Dynamic {
 		return
 	}

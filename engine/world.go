@@ -218,7 +218,7 @@ func (w *World) step(dt float64) error {
 	driven := w.driven()
 	if guard {
 		var lin0 float64
-		lin0, rot0, pot0 = w.awakeEnergies() // (active.go)
+		lin0, rot0, pot0 = w.startEnergies() // (active.go)
 		k0 = lin0 + rot0
 		e0 = k0 + pot0
 	}
@@ -352,6 +352,9 @@ func (w *World) checkFinite() error {
 	ids := w.awakeBodies()
 	for pass := 0; pass < 2; pass++ {
 		for _, id := range ids {
+			if finiteState(&w.b.pos[id], &w.b.vel[id], &w.b.spin[id], &w.b.rot[id]) {
+				continue
+			}
 			if what := w.notFinite(int(id)); what != "" { // (diverge.go)
 				return &DivergenceError{Body: id, Name: w.b.name[id], Time: w.time,
 					Cause: "its " + what + " is no longer a finite number; " + stepAdvice}
@@ -371,7 +374,7 @@ const energyJumpFraction = 0.5
 
 // checkEnergy compares the energy after the step with e0 before it.
 func (w *World) checkEnergy(e0, k0 float64) error {
-	lin, rot, pot := w.awakeEnergies() // (active.go)
+	lin, rot, pot := w.endEnergies() // (active.go)
 	e1 := lin + rot + pot
 	if e1-e0 <= energyJumpFraction*(k0+w.energyFloor()) {
 		return nil
@@ -395,10 +398,21 @@ func (w *World) SetGravity(g shapes.Vec3) error {
 		return fmt.Errorf("gravity must be finite, got %v", g)
 	}
 	w.cfg.Gravity = g
+	w.stateChanged() // (active.go)
 	for i, k := range w.b.kind {
 		if k == Dynamic {
 			w.wake(BodyID(i))
 		}
 	}
 	return nil
+}
+
+// finiteState reports whether a body's state is all finite numbers, with
+// one test: x - x is 0 for a finite x and NaN for NaN or an infinity, and
+// a sum with a NaN is NaN.
+func finiteState(p, v, s *shapes.Vec3, q *shapes.Quat) bool {
+	z := (p[0] - p[0]) + (p[1] - p[1]) + (p[2] - p[2]) +
+		(v[0] - v[0]) + (v[1] - v[1]) + (v[2] - v[2]) +
+		(s[0] - s[0]) + (s[1] - s[1]) + (s[2] - s[2]) + (q.W - q.W)
+	return z == 0
 }
