@@ -279,6 +279,7 @@ func (w *World) SetVelocity(id BodyID, v, spin shapes.Vec3) {
 // SetPose moves a body (centre of mass for a dynamic body) and wakes it.
 func (w *World) SetPose(id BodyID, position shapes.Vec3, orientation shapes.Quat) {
 	w.b.pos[id], w.b.rot[id] = position, orientation.Normalize()
+	w.active.poseAll = true // (active.go)
 	w.wake(id)
 }
 

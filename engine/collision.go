@@ -2,7 +2,6 @@ package engine
 
 import (
 	"math"
-	"slices"
 
 	"clatter/collide"
 	"clatter/collide/broad"
@@ -19,6 +18,7 @@ type collisionState struct {
 	margin []float64     // speculative margin of each body this step
 	pose   []shapes.Pose // each body's shape pose this step, computed once
 
+	planes    planeSet // planes, kept out of the sweep (planes.go)
 	pairs     [][2]int32
 	manifolds []collide.Manifold
 	points    []contact.Point
@@ -26,11 +26,13 @@ type collisionState struct {
 	inertia   []shapes.Mat3 // world inertia tensor of each awake dynamic body this step
 	rows      []contact.Row
 
-	touching, prevTouching []touchPair
-	sleep                  sleepState // islands, wakes and the warm memory of sleepers (sleep_wake.go)
+	touching, prevTouching []touchPair // pairs with an awake body, this step and the last
+	rest                   restState   // touching pairs of still bodies (touching.go)
+	sleep                  sleepState  // islands, wakes and the warm memory of sleepers (sleep_wake.go)
 
-	parent, size []int32
-	islandRest   []float64
+	parent, size []int32   // the step's union-find of islands (sleep.go)
+	islandRest   []float64 // by island root: how long its least rested body has rested
+	isl          islandState
 }
 
 // touchPair is a pair of bodies with at least one contact point at or
@@ -66,11 +68,16 @@ func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) error {
 		kind = broad.Static
 	}
 	w.b.bounds[id] = w.worldBounds(id, 0)
-	if err := c.bp.Insert(int32(id), w.b.bounds[id], kind); err != nil {
+	if unbounded(w.b.shape[id]) {
+		w.addPlane(id) // (planes.go)
+	} else if err := c.bp.Insert(int32(id), w.b.bounds[id], kind); err != nil {
+		return err
+	} else if err := c.bp.SetFilter(int32(id), cat, mask); err != nil {
 		return err
 	}
 	c.margin = append(c.margin, 0)
-	return c.bp.SetFilter(int32(id), cat, mask)
+	c.planes.filter = append(c.planes.filter, [2]uint32{cat, mask})
+	return nil
 }
 
 func (w *World) setActive(id BodyID, active bool) {
@@ -89,18 +96,12 @@ func (w *World) worldBounds(id BodyID, margin float64) shapes.AABB {
 // collide runs the broad and narrow phases and fills the contact points.
 func (w *World) collide(dt float64) {
 	c := &w.collision
-	c.pose = c.pose[:0]
-	for i := range w.b.kind {
-		c.pose = append(c.pose, w.ShapePose(BodyID(i)))
-	}
+	w.shapePoses() // (active.go)
 	w.beginWakes() // sleep_wake.go
-	for i, k := range w.b.kind {
-		if k == Static || !w.b.awake[i] {
-			continue
-		}
-		w.moveBounds(BodyID(i), dt)
+	for _, id := range w.awakeBodies() {
+		w.moveBounds(id, dt)
 	}
-	c.pairs = c.bp.Pairs(c.pairs[:0])
+	c.pairs = w.broadPairs(c.pairs) // (planes.go)
 	c.points = c.points[:0]
 	w.soft.pts = w.soft.pts[:0] // compliant.go
 	c.prevTouching, c.touching = c.touching, c.prevTouching[:0]
@@ -124,7 +125,8 @@ func (w *World) moveBounds(id BodyID, dt float64) {
 	if b := w.b.shape[id].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
 		w.b.bounds[id] = b.Transform(c.pose[id]).Grow(m)
 	} else {
-		w.b.bounds[id] = b // a plane: unbounded
+		w.b.bounds[id] = b // a plane: unbounded, outside the broad phase
+		return
 	}
 	_ = c.bp.Move(int32(id), w.b.bounds[id])
 }
@@ -210,29 +212,27 @@ func contactKey(a, b BodyID, subA, subB int32, id uint32) uint64 {
 // (both in the broad phase's sorted order) and emits begin and end events.
 //
 // A pair of bodies that are both asleep (or one static) is not examined
-// while they sleep; it stays in the touching list, with events or without,
-// so that the islands of sleeping bodies hold together (sleep.go).
+// while they sleep; it is set aside, with events or without, so that the
+// islands of sleeping bodies hold together (sleep.go), and comes back to
+// this comparison when one of them wakes (touching.go).
 func (w *World) contactEvents() {
 	c := &w.collision
 	cur, prev := c.touching, c.prevTouching
-	less := func(x, y touchPair) int {
-		if x.a != y.a {
-			return int(x.a) - int(y.a)
-		}
-		return int(x.b) - int(y.b)
+	if c.rest.woke {
+		prev = w.wokenPairs(prev)
 	}
 	i, j := 0, 0
 	for i < len(cur) || j < len(prev) {
 		switch {
-		case j >= len(prev) || (i < len(cur) && less(cur[i], prev[j]) < 0):
+		case j >= len(prev) || (i < len(cur) && touchLess(cur[i], prev[j])):
 			w.emit(Event{Kind: ContactBegin, Time: w.time, A: cur[i].a, B: cur[i].b})
 			i++
-		case i >= len(cur) || less(cur[i], prev[j]) > 0:
+		case i >= len(cur) || touchLess(prev[j], cur[i]):
 			// A pair that merely fell asleep has not ended its contact.
 			if w.b.awake[prev[j].a] || w.b.awake[prev[j].b] {
 				w.emit(Event{Kind: ContactEnd, Time: w.time, A: prev[j].a, B: prev[j].b})
 			} else {
-				c.touching = append(c.touching, prev[j])
+				w.keepResting(prev[j])
 			}
 			j++
 		default:
@@ -240,9 +240,7 @@ func (w *World) contactEvents() {
 			j++
 		}
 	}
-	if len(c.touching) > len(cur) {
-		slices.SortFunc(c.touching, less)
-	}
+	w.markTouching()
 }
 
 // solve runs the contact solver and records impacts.

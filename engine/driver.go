@@ -371,6 +371,7 @@ func (w *World) SetMotion(id BodyID, m Motion) error {
 		return fmt.Errorf("%w: body %q: the motion's pose at t = %g s is not finite", ErrBadMotion, w.b.name[id], w.time)
 	}
 	w.b.pos[id], w.b.rot[id] = p.Position, p.Orientation.Normalize()
+	w.active.poseAll = true // (active.go)
 	w.b.bounds[id] = w.worldBounds(id, 0)
 	_ = w.collision.bp.Move(int32(id), w.b.bounds[id])
 	w.updatePowered()

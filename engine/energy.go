@@ -15,29 +15,6 @@ func (w *World) KineticEnergy() float64 {
 	return e
 }
 
-// linearKinetic and rotationalKinetic are the translational and the
-// rotational part of KineticEnergy, for the divergence guard.
-func (w *World) linearKinetic() float64 {
-	e := 0.0
-	for i, k := range w.b.kind {
-		if k == Dynamic {
-			v := &w.b.vel[i]
-			e += 0.5 * w.b.mass[i] * (v[0]*v[0] + v[1]*v[1] + v[2]*v[2])
-		}
-	}
-	return e
-}
-
-func (w *World) rotationalKinetic() float64 {
-	e := 0.0
-	for i, k := range w.b.kind {
-		if k == Dynamic {
-			e += w.spinEnergy(BodyID(i))
-		}
-	}
-	return e
-}
-
 // spinEnergy is a dynamic body's rotational kinetic energy.
 func (w *World) spinEnergy(id BodyID) float64 {
 	q := qmul(&w.b.rot[id], &w.b.axes[id])

@@ -73,7 +73,7 @@ func (w *World) CheckOverlaps() error {
 	}
 	var worst *OverlapError
 	n := 0
-	c.pairs = c.bp.Pairs(c.pairs[:0])
+	c.pairs = w.broadPairs(c.pairs)
 	for _, p := range c.pairs {
 		a, b := BodyID(p[0]), BodyID(p[1])
 		if w.b.kind[a] != Dynamic && w.b.kind[b] != Dynamic || w.jointedApart(a, b) {

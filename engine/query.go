@@ -5,10 +5,12 @@ package engine
 // leans against something. A body asleep since before the last step is not
 // examined again; it keeps the pairs it had as it fell asleep.
 func (w *World) Touching(id BodyID) bool {
-	for _, p := range w.collision.touching {
-		if p.a == id || p.b == id {
-			return true
-		}
+	r := &w.collision.rest
+	if id < 0 || int(id) >= len(w.b.kind) {
+		return false
 	}
-	return false
+	if int(id) < len(r.mark) && r.stamp != 0 && r.mark[id] == r.stamp {
+		return true
+	}
+	return int(id) < len(r.count) && r.count[id] > 0
 }

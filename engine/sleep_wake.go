@@ -97,7 +97,12 @@ func (w *World) wakeOne(id BodyID) {
 	s := &w.collision.sleep
 	w.b.awake[id] = true
 	w.b.restFor[id] = 0
+	if int(id) < len(w.collision.isl.isle) {
+		w.collision.isl.isle[id] = int32(id) // its island is no longer asleep (sleep.go)
+	}
 	w.setActive(id, true)
+	w.wokeUp(id)                 // (active.go)
+	w.collision.rest.woke = true // (touching.go)
 	s.recall = true
 	if int(id) < len(s.wokePass) {
 		s.wokePass[id] = s.pass
@@ -125,7 +130,7 @@ func (w *World) collideWoken(dt float64) {
 		}
 		pass := s.pass
 		s.pass++
-		s.pairs = c.bp.Pairs(s.pairs[:0])
+		s.pairs = w.broadPairs(s.pairs)
 		for _, p := range s.pairs {
 			a, b := BodyID(p[0]), BodyID(p[1])
 			// The pass's pairs: at least one body woken in the last pass,
@@ -154,17 +159,28 @@ func (w *World) level(id BodyID) int32 {
 	return 0
 }
 
-// buildRings links the bodies of each island of the union-find in a cycle.
-func (w *World) buildRings() {
-	s := &w.collision.sleep
-	n := len(w.b.kind)
-	s.ring = s.ring[:0]
-	for i := 0; i < n; i++ {
-		s.ring = append(s.ring, int32(i))
+// linkSleepers joins each island falling asleep this step (its awake
+// bodies, isl.dozing, and the sleeping islands it touches) into one ring
+// and one sleeping island, whose representative is the island's root.
+// Two distinct rings become one by swapping the successors of one body of
+// each.
+func (w *World) linkSleepers() {
+	c := &w.collision
+	s, isl := &c.sleep, &c.isl
+	for _, id := range isl.dozing {
+		s.ring[id] = int32(id)
+		isl.doze[w.find(int32(id))] = isl.mark
 	}
-	for i := 0; i < n; i++ {
-		if r := w.find(int32(i)); r != int32(i) {
-			s.ring[i], s.ring[r] = s.ring[r], int32(i)
+	for _, id := range isl.dozing {
+		if r := w.find(int32(id)); r != int32(id) {
+			s.ring[id], s.ring[r] = s.ring[r], s.ring[id]
+			isl.isle[id] = r
+		}
+	}
+	for _, rep := range isl.reps {
+		if r := w.find(rep); r != rep && isl.doze[r] == isl.mark {
+			s.ring[rep], s.ring[r] = s.ring[r], s.ring[rep]
+			isl.isle[rep] = r
 		}
 	}
 }

@@ -103,6 +103,7 @@ type World struct {
 	pushed       []bool        // bodies a contact, joint or force acted on this step (flight.go)
 
 	collision collisionState
+	active    activeSet  // the awake bodies (active.go)
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
 	gates     gateState  // counting gates (gate.go)
 	soft      softState  // compliant contacts (compliant.go)
@@ -218,16 +219,17 @@ func (w *World) step(dt float64) error {
 	guard := !w.cfg.NoDivergenceCheck
 	driven := w.driven()
 	if guard {
-		rot0, pot0 = w.rotationalKinetic(), w.PotentialEnergy()
-		k0 = w.linearKinetic() + rot0
+		var lin0 float64
+		lin0, rot0, pot0 = w.startEnergies() // (active.go)
+		k0 = lin0 + rot0
 		e0 = k0 + pot0
 	}
 	kicked := w.applyKicks(dt)
 
 	g := w.cfg.Gravity.Mul(dt)
-	for i, k := range w.b.kind {
-		if k == Dynamic && w.b.awake[i] {
-			w.b.vel[i] = w.b.vel[i].Add(g)
+	for _, id := range w.awakeBodies() {
+		if w.b.kind[id] == Dynamic {
+			w.b.vel[id] = w.b.vel[id].Add(g)
 		}
 	}
 	w.noteFlight() // flight.go
@@ -250,11 +252,14 @@ func (w *World) step(dt float64) error {
 	ePre := 0.0
 	switch {
 	case guard && kicked:
-		ePre = w.Energy()
+		lin, rot, pot := w.awakeEnergies()
+		ePre = lin + rot + pot
 	case guard:
 		// Only gravity has changed the velocities since e0: the spins and
-		// positions, so the rotational and potential parts, are as they were.
-		ePre = w.linearKinetic() + rot0 + pot0
+		// positions, so the rotational and potential parts, are as they were
+		// (a body woken meanwhile had no spin and its potential energy was
+		// in the sleepers' share of pot0).
+		ePre = w.awakeLinear() + rot0 + pot0
 	}
 	if err := w.solve(dt); err != nil {
 		return err
@@ -291,8 +296,8 @@ func (w *World) driven() bool {
 	if w.mechanismDriven() { // motors, driven bodies, conveyors (joint.go)
 		return true
 	}
-	for i, k := range w.b.kind {
-		if k == Kinematic && (w.b.vel[i] != (shapes.Vec3{}) || w.b.spin[i] != (shapes.Vec3{})) {
+	for _, id := range w.awakeBodies() {
+		if w.b.kind[id] == Kinematic && (w.b.vel[id] != (shapes.Vec3{}) || w.b.spin[id] != (shapes.Vec3{})) {
 			return true
 		}
 	}
@@ -319,11 +324,8 @@ func (w *World) applyKicks(dt float64) bool {
 // the free-rotation splitting for orientation, plus the position
 // correction's pseudo-velocities, which are then dropped.
 func (w *World) integrate(dt float64) {
-	for i, k := range w.b.kind {
-		if k == Static || !w.b.awake[i] {
-			continue
-		}
-		id := BodyID(i)
+	for _, id := range w.awakeBodies() {
+		i, k := int(id), w.b.kind[id]
 		vp, wp := w.pseudoVelocity(id)
 		w.b.pos[i] = w.b.pos[i].Add(w.b.vel[i].Add(vp).Mul(dt)).Add(w.flightDrift(i, dt))
 		q := w.b.rot[i]
@@ -351,15 +353,22 @@ func (w *World) integrate(dt float64) {
 
 // checkFinite stops the run on the first body whose state is not finite.
 func (w *World) checkFinite() error {
-	for i, k := range w.b.kind {
-		if k == Static {
-			continue
+	// The awake bodies, and those that fell asleep at the end of the step;
+	// the others have not moved since they were last checked.
+	ids := w.awakeBodies()
+	for pass := 0; pass < 2; pass++ {
+		for _, id := range ids {
+			if finiteState(&w.b.pos[id], &w.b.vel[id], &w.b.spin[id], &w.b.rot[id]) {
+				continue
+			}
+			if what := w.notFinite(int(id)); what != "" { // (diverge.go)
+				return &DivergenceError{Body: id, Name: w.b.name[id], Time: w.time,
+					Cause: "its " + what + " is no longer a finite number; " + stepAdvice}
+			}
 		}
-		if what := w.notFinite(i); what != "" { // (diverge.go)
-			return &DivergenceError{Body: BodyID(i), Name: w.b.name[i], Time: w.time,
-				Cause: "its " + what + " is no longer a finite number; " + stepAdvice}
-		}
+		ids = w.active.dozed
 	}
+	w.active.dozed = w.active.dozed[:0]
 	return nil
 }
 
@@ -371,17 +380,9 @@ const energyJumpFraction = 0.5
 
 // checkEnergy compares the energy after the step with e0 before it.
 func (w *World) checkEnergy(e0, k0 float64) error {
-	k1 := w.KineticEnergy()
-	e1 := k1 + w.PotentialEnergy()
-	// Floor: the energy of each body lifted by its own size, so resting
-	// bodies' rounding never trips the guard.
-	floor, g := 0.0, w.cfg.Gravity.Len()
-	for i, k := range w.b.kind {
-		if k == Dynamic {
-			floor += w.b.mass[i] * g * w.b.radius[i] * 0.01
-		}
-	}
-	if e1-e0 <= energyJumpFraction*(k0+floor) {
+	lin, rot, pot := w.endEnergies() // (active.go)
+	e1 := lin + rot + pot
+	if e1-e0 <= energyJumpFraction*(k0+w.energyFloor()) {
 		return nil
 	}
 	worst, gain := BodyID(0), math.Inf(-1)
@@ -403,10 +404,21 @@ func (w *World) SetGravity(g shapes.Vec3) error {
 		return fmt.Errorf("gravity must be finite, got %v", g)
 	}
 	w.cfg.Gravity = g
+	w.stateChanged() // (active.go)
 	for i, k := range w.b.kind {
 		if k == Dynamic {
 			w.wake(BodyID(i))
 		}
 	}
 	return nil
+}
+
+// finiteState reports whether a body's state is all finite numbers, with
+// one test: x - x is 0 for a finite x and NaN for NaN or an infinity, and
+// a sum with a NaN is NaN.
+func finiteState(p, v, s *shapes.Vec3, q *shapes.Quat) bool {
+	z := (p[0] - p[0]) + (p[1] - p[1]) + (p[2] - p[2]) +
+		(v[0] - v[0]) + (v[1] - v[1]) + (v[2] - v[2]) +
+		(s[0] - s[0]) + (s[1] - s[1]) + (s[2] - s[2]) + (q.W - q.W)
+	return z == 0
 }

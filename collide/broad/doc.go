@@ -11,7 +11,10 @@
 // Bodies move little from one step to the next, so the order changes little
 // and an insertion sort restores it in close to linear time. The sweep axis is
 // the one along which the box centres are most spread out, re-chosen with
-// hysteresis as the scene changes.
+// hysteresis as the scene changes. Static and sleeping boxes do not move:
+// they are kept apart in a list sorted once when it changes, never swept
+// against each other, and each awake box finds those it meets by a binary
+// search (still.go), so a world at rest costs what its awake bodies cost.
 //
 // Bodies are addressed by the caller's own small integer ids (the world's body
 // index). Pairs come back sorted by (smaller id, larger id), smaller id first,

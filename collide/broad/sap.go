@@ -65,6 +65,7 @@ const (
 	fAsleep                    // marked asleep by the caller
 	fListed                    // has a proxy in SAP.p
 	fPending                   // id is in SAP.pend, waiting to be listed
+	fStill                     // its proxy is in SAP.still (static or asleep), not SAP.p
 )
 
 type slot struct {
@@ -91,10 +92,12 @@ type SAP struct {
 	slots []slot
 	live  int
 
-	p     []proxy // listed bodies, sorted by lo after Pairs
+	p     []proxy // listed awake bodies, sorted by lo after Pairs
 	pend  []int32 // ids inserted since the last Pairs, not yet listed
-	fresh []proxy // scratch: proxies of pend
+	fresh []proxy // scratch: proxies of pend and of bodies that woke
 	purge bool    // some listed body was removed
+
+	still stillSet // listed static and sleeping bodies (still.go)
 
 	axes [3]int // axes[0] is the sweep axis; axes[1] is tested before axes[2]
 
@@ -144,9 +147,13 @@ func (s *SAP) Insert(id int32, box shapes.AABB, kind Kind) error {
 	}
 	sl.box = box
 	sl.cat, sl.mask = AllBits, AllBits
-	sl.flags = sl.flags&(fListed|fPending) | fLive
+	sl.flags = sl.flags&(fListed|fPending|fStill) | fLive
 	if kind == Static {
 		sl.flags |= fStatic
+	}
+	if sl.flags&fListed != 0 {
+		// Back before Pairs dropped its proxy: its list and box may change.
+		s.still.reclass, s.still.dirty = true, true
 	}
 	// A body removed and inserted again before Pairs keeps its proxy and
 	// simply moves; otherwise it waits to be merged in.
@@ -168,6 +175,9 @@ func (s *SAP) Move(id int32, box shapes.AABB) error {
 		return fmt.Errorf("broad: move body %d: %w", id, err)
 	}
 	sl.box = box
+	if sl.flags&fStill != 0 {
+		s.still.dirty = true
+	}
 	return nil
 }
 
@@ -193,10 +203,14 @@ func (s *SAP) SetAsleep(id int32, asleep bool) error {
 	if err != nil {
 		return err
 	}
+	was := sl.flags
 	if asleep {
 		sl.flags |= fAsleep
 	} else {
 		sl.flags &^= fAsleep
+	}
+	if sl.flags != was && sl.flags&fListed != 0 {
+		s.still.reclass = true // its proxy changes lists (still.go)
 	}
 	return nil
 }
@@ -248,23 +262,33 @@ func (s *SAP) Pairs(dst [][2]int32) [][2]int32 {
 	if s.purge {
 		s.compact()
 	}
-	// Refresh every proxy from its body's box, measuring the spread of the
-	// centres on the way, then pick the sweep axis.
+	s.fresh = s.fresh[:0]
+	if s.still.reclass {
+		s.reclassify() // (still.go)
+	}
+	// Refresh every awake proxy from its body's box, measuring the spread
+	// of the centres on the way, then pick the sweep axis. The still
+	// proxies are refreshed only when one of them has changed.
 	var st spreadSums
 	s.gather(s.p, &st)
-	s.fresh = s.fresh[:0]
 	for _, id := range s.pend {
 		sl := &s.slots[id]
 		sl.flags &^= fPending
 		if sl.flags&fLive != 0 && sl.flags&fListed == 0 {
 			sl.flags |= fListed
-			s.fresh = append(s.fresh, proxy{id: id})
+			if sl.awake() {
+				s.fresh = append(s.fresh, proxy{id: id})
+			} else {
+				s.addStill(id)
+			}
 		}
 	}
 	s.pend = s.pend[:0]
 	s.gather(s.fresh, &st)
+	s.stillSpread(&st)
 	old := s.axes
 	s.chooseAxes(&st)
+	s.arrangeStill(old)
 
 	if s.axes[0] != old[0] {
 		// A new sweep axis: the old order says nothing, sort from scratch.
@@ -294,24 +318,34 @@ func (s *SAP) Pairs(dst [][2]int32) [][2]int32 {
 
 	start := len(dst)
 	dst = s.sweep(dst)
+	dst = s.sweepStill(dst) // (still.go)
 	s.sortPairs(dst[start:])
 	return dst
 }
 
 // compact drops the proxies of removed bodies.
 func (s *SAP) compact() {
-	w := 0
-	for _, q := range s.p {
-		sl := &s.slots[q.id]
-		if sl.flags&fLive != 0 {
-			s.p[w] = q
-			w++
-		} else {
-			sl.flags &^= fListed
+	s.p = s.dropRemoved(s.p)
+	if n := len(s.still.p); n > 0 {
+		if s.still.p = s.dropRemoved(s.still.p); len(s.still.p) != n {
+			s.still.dirty = true
 		}
 	}
-	s.p = s.p[:w]
 	s.purge = false
+}
+
+func (s *SAP) dropRemoved(ps []proxy) []proxy {
+	w := 0
+	for _, q := range ps {
+		sl := &s.slots[q.id]
+		if sl.flags&fLive != 0 {
+			ps[w] = q
+			w++
+		} else {
+			sl.flags &^= fListed | fStill
+		}
+	}
+	return ps[:w]
 }
 
 type spreadSums struct {

@@ -1,0 +1,5 @@
+package bench
+
+import "testing"
+
+func BenchmarkSleep1000(b *testing.B) { Sleep1000(b) }
