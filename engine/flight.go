@@ -21,8 +21,15 @@ import "clatter/shapes"
 // noteFlight starts a step's record of pushed bodies, once kicks and
 // gravity are in the velocities and before anything else acts on them.
 func (w *World) noteFlight() {
-	w.flight = append(w.flight[:0], w.b.vel...)
-	w.pushed = append(w.pushed[:0], make([]bool, len(w.b.kind))...)
+	if n := len(w.b.kind); cap(w.pushed) < n {
+		w.pushed = make([]bool, n, n+n/4)
+	} else {
+		w.pushed = w.pushed[:n]
+		clear(w.pushed)
+	}
+	if w.soft.on { // only compliant forces act before the solve (markForced)
+		w.flight = append(w.flight[:0], w.b.vel...)
+	}
 }
 
 // markForced marks the bodies whose velocity a force changed since
