@@ -37,28 +37,32 @@ type crow struct {
 // setup fills r for slots a, b of bodies A, B from its direction and lever
 // terms. Every product is rounded as the general form J, M^-1 J^T would
 // round it (the negations are exact), so both forms give the same bits.
-func (r *crow) setup(A, B *Body, a, b int32, d, cA, cB vec) {
+func (r *crow) setup(A, B *Body, a, b int32, d, cA, cB *vec) {
 	r.a, r.b = a, b
-	r.d, r.cA, r.cB = d, cA, cB
+	r.d, r.cA, r.cB = *d, *cA, *cB
+	r.finish(A, B)
+}
+
+// setupContact is setup for a contact row along unit direction n at lever
+// arms rA and rB: cA = rA x n, cB = rB x n.
+func (r *crow) setupContact(A, B *Body, a, b int32, n, rA, rB *vec) {
+	r.a, r.b = a, b
+	r.d = *n
+	r.cA = vec{rA[1]*n[2] - rA[2]*n[1], rA[2]*n[0] - rA[0]*n[2], rA[0]*n[1] - rA[1]*n[0]}
+	r.cB = vec{rB[1]*n[2] - rB[2]*n[1], rB[2]*n[0] - rB[0]*n[2], rB[0]*n[1] - rB[1]*n[0]}
+	r.finish(A, B)
+}
+
+// finish fills the rest of r from its Jacobian.
+func (r *crow) finish(A, B *Body) {
 	r.mA, r.mB = A.InvMass, B.InvMass
-	r.wA, r.wB = mulMat(&A.InvInertia, &cA), mulMat(&B.InvInertia, &cB)
-	r.k = dotScaled(&d, &d, r.mA) + dot3(&cA, &r.wA) + dotScaled(&d, &d, r.mB) + dot3(&cB, &r.wB)
+	r.wA, r.wB = mulMat(&A.InvInertia, &r.cA), mulMat(&B.InvInertia, &r.cB)
+	r.k = dotScaled(&r.d, &r.d, r.mA) + dot3(&r.cA, &r.wA) + dotScaled(&r.d, &r.d, r.mB) + dot3(&r.cB, &r.wB)
 	r.mass = 0
 	if r.k > 0 && !math.IsInf(r.k, 1) {
 		r.mass = 1 / r.k
 	}
 	r.lambda = 0
-}
-
-// setupContact is setup for a contact row along unit direction n at lever
-// arms rA and rB.
-func (r *crow) setupContact(A, B *Body, a, b int32, n, rA, rB *vec) {
-	r.setup(A, B, a, b, *n, cross(rA, n), cross(rB, n))
-}
-
-// cross is a x b written out, with the roundings of the vector method.
-func cross(a, b *vec) vec {
-	return vec{a[1]*b[2] - a[2]*b[1], a[2]*b[0] - a[0]*b[2], a[0]*b[1] - a[1]*b[0]}
 }
 
 // mulMat is m.Mul3x1(v) written out, with its roundings.

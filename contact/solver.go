@@ -139,9 +139,6 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 	if err := check(bodies, points, rows); err != nil {
 		return rep, err
 	}
-	if err := checkPatches(points); err != nil { // patch friction (twist.go)
-		return rep, err
-	}
 	s.sl.gather(bodies, points, rows)
 	s.prepare(dt, bodies, points, rows)
 	s.matchPoints(points)
@@ -183,6 +180,9 @@ func check(bodies []Body, points []Point, rows []Row) error {
 		if !finite3(p.Position) || !finite3(p.SurfaceVelocity) || math.IsNaN(p.Separation) || math.IsInf(p.Separation, 0) ||
 			math.IsNaN(p.Friction+p.StaticFriction+p.Restitution) || math.IsInf(p.Friction+p.StaticFriction+p.Restitution, 0) {
 			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: position, separation, surface velocity and coefficients must be finite", i, p.Key, p.A, p.B)
+		}
+		if err := checkPatch(i, p); err != nil { // patch friction (twist.go)
+			return err
 		}
 	}
 	for j := range rows {
@@ -400,16 +400,27 @@ func (s *Solver) warmStart(dt float64, points []Point, rows []Row) {
 	if f == 0 {
 		return
 	}
+	prev, k := s.prevRows, 0
 	for j := range rows {
-		k, ok := slices.BinarySearchFunc(s.prevRows, rows[j].Key, rowKeyOrder)
-		if !ok {
+		// A cursor over last step's rows, which are in key order: the rows
+		// of a step mostly come in key order too, and where one does not,
+		// a binary search puts the cursor back.
+		key := rows[j].Key
+		if k > 0 && prev[k-1].key >= key {
+			k, _ = slices.BinarySearchFunc(prev, key, rowKeyOrder)
+		}
+		for k < len(prev) && prev[k].key < key {
+			k++
+		}
+		if k == len(prev) || prev[k].key != key {
 			continue
 		}
+		k++
 		jr := &s.jrows[j]
 		if jr.mass == 0 {
 			continue
 		}
-		jr.lambda = min(max(f*s.prevRows[k].impulse, jr.lo), jr.hi)
+		jr.lambda = min(max(f*prev[k-1].impulse, jr.lo), jr.hi)
 		jr.apply(vel, jr.lambda)
 	}
 }
@@ -708,7 +719,10 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		rows[j].Impulse = s.jrows[j].lambda
 		s.curRows = append(s.curRows, warmRow{key: rows[j].Key, impulse: rows[j].Impulse})
 	}
-	slices.SortFunc(s.curRows, func(a, b warmRow) int { return cmp.Compare(a.key, b.key) })
+	order := func(a, b warmRow) int { return cmp.Compare(a.key, b.key) }
+	if !slices.IsSortedFunc(s.curRows, order) {
+		slices.SortFunc(s.curRows, order)
+	}
 	s.prevRows, s.curRows = s.curRows, s.prevRows
 	s.prevDt = dt
 }

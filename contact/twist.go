@@ -114,13 +114,10 @@ func (s *Solver) matchPatch(pa *patch) {
 	}
 }
 
-// checkPatches reports a point whose patch is not finite.
-func checkPatches(points []Point) error {
-	for i := range points {
-		p := &points[i]
-		if !finite3(p.PatchCenter) || !(p.PatchRadius >= 0) || math.IsInf(p.PatchRadius, 1) {
-			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: patch centre %v and radius %v must be finite, radius >= 0", i, p.Key, p.A, p.B, p.PatchCenter, p.PatchRadius)
-		}
+// checkPatch reports point i, p, if its patch is not finite.
+func checkPatch(i int, p *Point) error {
+	if !finite3(p.PatchCenter) || !(p.PatchRadius >= 0) || math.IsInf(p.PatchRadius, 1) {
+		return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: patch centre %v and radius %v must be finite, radius >= 0", i, p.Key, p.A, p.B, p.PatchCenter, p.PatchRadius)
 	}
 	return nil
 }
@@ -141,7 +138,7 @@ func (s *Solver) setupPatch(bodies []Body, points []Point, pa *patch) {
 	pa.rows[1].setupContact(A, B, a, b, &t2, &rA, &rB)
 	pa.rows[1].target = dot3(&t2, &p.SurfaceVelocity)
 	rn := n.Mul(pa.r)
-	pa.rows[2].setup(A, B, a, b, vec{}, rn, rn)
+	pa.rows[2].setup(A, B, a, b, &vec{}, &rn, &rn)
 	pa.rows[2].target = 0
 	pa.muK = max(p.Friction, 0)
 	pa.muS = max(p.StaticFriction, pa.muK)
