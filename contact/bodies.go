@@ -64,21 +64,10 @@ func (s *slots) gather(bodies []Body, points []Point, rows []Row) {
 
 // scatter writes the slots' velocities and pseudo-velocities back to their
 // bodies, zeroes the pseudo-velocities of the others and frees the slots.
+// The velocities of bodies without a slot are left as they came.
 func (s *slots) scatter(bodies []Body) {
 	for i := range bodies {
-		b := &bodies[i]
-		b.Vp, b.Wp = vec{}, vec{}
-		if s.of[i] < 0 {
-			// Bodies without contact get this step's forces taken out and
-			// added back, as every body did before the compact arrays, so
-			// that results stay the same to the bit.
-			if b.DV != (vec{}) || b.DW != (vec{}) {
-				addScaled(&b.V, &b.DV, -1)
-				addScaled(&b.W, &b.DW, -1)
-				addScaled(&b.V, &b.DV, 1)
-				addScaled(&b.W, &b.DW, 1)
-			}
-		}
+		bodies[i].Vp, bodies[i].Wp = vec{}, vec{}
 	}
 	for k, i := range s.gid {
 		b := &bodies[i]
