@@ -209,7 +209,7 @@ func (s *Solver) massRatio(idx []int32) float64 {
 	lo, hi := math.Inf(1), 0.0
 	for _, i := range idx {
 		r := &s.rows[3*i]
-		for _, m := range [2]float64{r.mA, r.mB} {
+		for _, m := range [2]float64{s.sl.im[r.a], s.sl.im[r.b]} {
 			if m > 0 {
 				lo, hi = min(lo, m), max(hi, m)
 			}
@@ -366,21 +366,26 @@ func (s *Solver) solveActive(n int, shift float64, target func(int) float64) boo
 	b.l = grow(b.l, m*m)
 	L := b.l
 	for i, si := range b.sub {
+		Li, ai := L[i*m:i*m+i+1], b.a[int(si)*n:int(si)*n+n]
 		for j, sj := range b.sub[:i+1] {
-			sum := b.a[int(si)*n+int(sj)]
+			sum := ai[sj]
 			if i == j {
 				sum += shift
 			}
-			for k := 0; k < j; k++ {
-				sum -= L[i*m+k] * L[j*m+k]
+			// Row slices, so that the inner product runs without index
+			// arithmetic and bounds checks: the factorisation is most of
+			// the direct solve's time.
+			Lj := L[j*m : j*m+j+1]
+			for k, x := range Lj[:j] {
+				sum -= Li[k] * x
 			}
 			if i == j {
 				if !(sum > 0) {
 					return false
 				}
-				L[i*m+i] = math.Sqrt(sum)
+				Li[i] = math.Sqrt(sum)
 			} else {
-				L[i*m+j] = sum / L[j*m+j]
+				Li[j] = sum / Lj[j]
 			}
 		}
 	}

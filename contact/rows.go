@@ -13,8 +13,8 @@ import (
 // slices in sweep order, velocities in the solver's compact body array
 // (bodies.go), indexed by slot. A contact row (normal, tangent, a patch's
 // tangent or twist) needs no general Jacobian: its linear parts are -d and
-// d, so it stores d once, the two lever-arm terms, their products with the
-// inverse inertias and the two inverse masses; 176 bytes where the general
+// d, so it stores d once beside the lever-arm terms and the products of
+// both with the inverse masses and inertias, 208 bytes where the general
 // form takes 248. Joint rows keep the general form (jrow).
 
 // crow is one scalar contact row between slots a and b: the Jacobian
@@ -26,8 +26,8 @@ type crow struct {
 	a, b   int32
 	d      vec     // linear direction, on B (-d on A)
 	cA, cB vec     // angular parts (-cA on A, cB on B)
-	wA, wB vec     // M^-1 parts: InvInertia cA, InvInertia cB
-	mA, mB float64 // inverse masses
+	vA, vB vec     // M^-1 parts: d InvMass_A, d InvMass_B
+	wA, wB vec     // and InvInertia_A cA, InvInertia_B cB
 	k      float64 // J M^-1 J^T
 	mass   float64 // 1/k, 0 if the row cannot move anything
 	target float64
@@ -47,17 +47,22 @@ func (r *crow) setup(A, B *Body, a, b int32, d, cA, cB *vec) {
 // arms rA and rB: cA = rA x n, cB = rB x n.
 func (r *crow) setupContact(A, B *Body, a, b int32, n, rA, rB *vec) {
 	r.a, r.b = a, b
-	r.d = *n
-	r.cA = vec{rA[1]*n[2] - rA[2]*n[1], rA[2]*n[0] - rA[0]*n[2], rA[0]*n[1] - rA[1]*n[0]}
-	r.cB = vec{rB[1]*n[2] - rB[2]*n[1], rB[2]*n[0] - rB[0]*n[2], rB[0]*n[1] - rB[1]*n[0]}
+	r.d[0], r.d[1], r.d[2] = n[0], n[1], n[2]
+	r.cA[0], r.cA[1], r.cA[2] = rA[1]*n[2]-rA[2]*n[1], rA[2]*n[0]-rA[0]*n[2], rA[0]*n[1]-rA[1]*n[0]
+	r.cB[0], r.cB[1], r.cB[2] = rB[1]*n[2]-rB[2]*n[1], rB[2]*n[0]-rB[0]*n[2], rB[0]*n[1]-rB[1]*n[0]
 	r.finish(A, B)
 }
 
 // finish fills the rest of r from its Jacobian.
 func (r *crow) finish(A, B *Body) {
-	r.mA, r.mB = A.InvMass, B.InvMass
-	r.wA, r.wB = mulMat(&A.InvInertia, &r.cA), mulMat(&B.InvInertia, &r.cB)
-	r.k = dotScaled(&r.d, &r.d, r.mA) + dot3(&r.cA, &r.wA) + dotScaled(&r.d, &r.d, r.mB) + dot3(&r.cB, &r.wB)
+	// Component by component: a vec built on the stack and copied costs
+	// a stalled store forward per field here.
+	mA, mB := A.InvMass, B.InvMass
+	r.vA[0], r.vA[1], r.vA[2] = r.d[0]*mA, r.d[1]*mA, r.d[2]*mA
+	r.vB[0], r.vB[1], r.vB[2] = r.d[0]*mB, r.d[1]*mB, r.d[2]*mB
+	mulMatTo(&r.wA, &A.InvInertia, &r.cA)
+	mulMatTo(&r.wB, &B.InvInertia, &r.cB)
+	r.k = dot3(&r.d, &r.vA) + dot3(&r.cA, &r.wA) + dot3(&r.d, &r.vB) + dot3(&r.cB, &r.wB)
 	r.mass = 0
 	if r.k > 0 && !math.IsInf(r.k, 1) {
 		r.mass = 1 / r.k
@@ -65,14 +70,16 @@ func (r *crow) finish(A, B *Body) {
 	r.lambda = 0
 }
 
+// mulMatTo sets dst to m.Mul3x1(v), with its roundings.
+func mulMatTo(dst *vec, m *shapes.Mat3, v *vec) {
+	dst[0] = m[0]*v[0] + m[3]*v[1] + m[6]*v[2]
+	dst[1] = m[1]*v[0] + m[4]*v[1] + m[7]*v[2]
+	dst[2] = m[2]*v[0] + m[5]*v[1] + m[8]*v[2]
+}
+
 // mulMat is m.Mul3x1(v) written out, with its roundings.
 func mulMat(m *shapes.Mat3, v *vec) vec {
 	return vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
-}
-
-// dotScaled is a · (b s), rounding b s first.
-func dotScaled(a, b *vec, s float64) float64 {
-	return a[0]*(b[0]*s) + a[1]*(b[1]*s) + a[2]*(b[2]*s)
 }
 
 // cdot is the row's velocity on the velocities vel (the real ones, the
@@ -90,15 +97,15 @@ func (r *crow) apply(vel []sbody, x float64) {
 
 // applyPair is apply on the row's two bodies A and B.
 func applyPair(A, B *sbody, r *crow, x float64) {
-	A.v[0] -= r.d[0] * r.mA * x
-	A.v[1] -= r.d[1] * r.mA * x
-	A.v[2] -= r.d[2] * r.mA * x
+	A.v[0] -= r.vA[0] * x
+	A.v[1] -= r.vA[1] * x
+	A.v[2] -= r.vA[2] * x
 	A.w[0] -= r.wA[0] * x
 	A.w[1] -= r.wA[1] * x
 	A.w[2] -= r.wA[2] * x
-	B.v[0] += r.d[0] * r.mB * x
-	B.v[1] += r.d[1] * r.mB * x
-	B.v[2] += r.d[2] * r.mB * x
+	B.v[0] += r.vB[0] * x
+	B.v[1] += r.vB[1] * x
+	B.v[2] += r.vB[2] * x
 	B.w[0] += r.wB[0] * x
 	B.w[1] += r.wB[1] * x
 	B.w[2] += r.wB[2] * x
@@ -108,14 +115,14 @@ func applyPair(A, B *sbody, r *crow, x float64) {
 func coupling(q, p *crow) float64 {
 	c := 0.0
 	if q.a == p.a {
-		c += dotScaled(&q.d, &p.d, p.mA) + dot3(&q.cA, &p.wA)
+		c += dot3(&q.d, &p.vA) + dot3(&q.cA, &p.wA)
 	} else if q.a == p.b {
-		c += -dotScaled(&q.d, &p.d, p.mB) - dot3(&q.cA, &p.wB)
+		c += -dot3(&q.d, &p.vB) - dot3(&q.cA, &p.wB)
 	}
 	if q.b == p.a {
-		c += -dotScaled(&q.d, &p.d, p.mA) - dot3(&q.cB, &p.wA)
+		c += -dot3(&q.d, &p.vA) - dot3(&q.cB, &p.wA)
 	} else if q.b == p.b {
-		c += dotScaled(&q.d, &p.d, p.mB) + dot3(&q.cB, &p.wB)
+		c += dot3(&q.d, &p.vB) + dot3(&q.cB, &p.wB)
 	}
 	return c
 }
@@ -223,5 +230,5 @@ func (r *jrow) solve(vel []sbody, target, lo, hi float64, lambda *float64) float
 // kWith is r's velocity change per unit impulse of q, a row on the same
 // two bodies (an entry of the block J M^-1 J^T).
 func (r *crow) kWith(q *crow) float64 {
-	return dotScaled(&r.d, &q.d, q.mA) + dot3(&r.cA, &q.wA) + dotScaled(&r.d, &q.d, q.mB) + dot3(&r.cB, &q.wB)
+	return dot3(&r.d, &q.vA) + dot3(&r.cA, &q.wA) + dot3(&r.d, &q.vB) + dot3(&r.cB, &q.wB)
 }
