@@ -56,6 +56,8 @@ type blockState struct {
 	order  []int32 // points grouped by island
 	a, l   []float64
 	v0, x  []float64
+	lam    []float64 // the rows' impulses when the solve starts
+	tgt    []float64 // the rows' targets
 	active []bool
 	sub    []int32
 	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
@@ -262,28 +264,31 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 		return &b.rows[i].lambda
 	}
-	target := func(i int) float64 {
+	// The impulses and targets, read once.
+	b.lam, b.tgt = grow(b.lam, n), grow(b.tgt, n)
+	for i := 0; i < n; i++ {
+		b.lam[i] = *lambda(i)
+		b.tgt[i] = b.rows[i].target
 		if pseudo {
-			return s.pts[idx[i]].pTarget
+			b.tgt[i] = s.pts[idx[i]].pTarget
 		}
-		return b.rows[i].target
 	}
 	// v0: each row's velocity without its island's impulses.
 	for i := 0; i < n; i++ {
 		v := b.rows[i].cdot(vel)
-		for j := 0; j < n; j++ {
-			v -= b.a[i*n+j] * *lambda(j)
+		for j, a := range b.a[i*n : i*n+n] {
+			v -= a * b.lam[j]
 		}
 		b.v0[i] = v
 	}
 	for i := 0; i < nn; i++ {
-		b.active[i] = *lambda(i) > 0
+		b.active[i] = b.lam[i] > 0
 	}
 	b.follow()
 	tol := s.Settings.Tolerance + 1e-12
 	done := false
 	for it := 0; it < maxPivots; it++ {
-		if !s.solveActive(n, shift, target) {
+		if !s.solveActive(n, shift) {
 			return false // not positive definite: leave the impulses to the sweeps
 		}
 		worst, wv := -1, 0.0
@@ -301,9 +306,10 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			if b.active[i] {
 				continue
 			}
-			v := b.v0[i] - target(i)
-			for j := 0; j < n; j++ {
-				v += b.a[i*n+j] * b.x[j]
+			v := b.v0[i] - b.tgt[i]
+			x := b.x[:n]
+			for j, a := range b.a[i*n : i*n+n] {
+				v += a * x[j]
 			}
 			if v < -tol && v < wv {
 				worst, wv = i, v
@@ -325,7 +331,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// to the sweeps and the world's checks.
 	rhs, big := 0.0, 0.0
 	for i := 0; i < n; i++ {
-		rhs = max(rhs, math.Abs(target(i)-b.v0[i]))
+		rhs = max(rhs, math.Abs(b.tgt[i]-b.v0[i]))
 		big = max(big, shift*math.Abs(b.x[i]))
 	}
 	if big > blockConsistent*rhs {
@@ -353,7 +359,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 // solveActive solves (A + shift I) x = target - v0 on the active rows by
 // Cholesky factorisation, with x = 0 on the others. It reports false if the
 // matrix is not positive definite.
-func (s *Solver) solveActive(n int, shift float64, target func(int) float64) bool {
+func (s *Solver) solveActive(n int, shift float64) bool {
 	b := &s.blk
 	b.sub = b.sub[:0]
 	for i := 0; i < n; i++ {
@@ -391,7 +397,7 @@ func (s *Solver) solveActive(n int, shift float64, target func(int) float64) boo
 	}
 	// Forward and back substitution into x.
 	for i, si := range b.sub {
-		sum := target(int(si)) - b.v0[si]
+		sum := b.tgt[si] - b.v0[si]
 		for k := 0; k < i; k++ {
 			sum -= L[i*m+k] * b.x[b.sub[k]]
 		}

@@ -277,9 +277,13 @@ func (s *Solver) solvePatchVel(pa *patch) float64 {
 // records each island's largest excess for blockSolve.
 func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	vel := s.sl.vel
-	conv := s.Settings.Convergence
-	note := func(d, ex float64, root int32) {
-		res, excess = max(res, d), max(excess, ex)
+	conv, tol := s.Settings.Convergence, s.Settings.Tolerance
+	// An excess counts only against Tolerance, and it is at most the
+	// velocity change d: a row that changed by no more than Tolerance (most
+	// of them once the sweeps near convergence) needs no scale.
+	note := func(d, scale float64, root int32) {
+		ex := d - conv*scale
+		excess = max(excess, ex)
 		if block {
 			s.blk.excess[root] = max(s.blk.excess[root], ex)
 		}
@@ -288,12 +292,18 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	for g := 0; g+1 < len(s.groups); g++ {
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
 			d := s.solvePoint(vel, i)
-			note(d, d-conv*s.pointScale(i), s.pointRootOf(i, block))
+			res = max(res, d)
+			if !(d <= tol) {
+				note(d, s.pointScale(i), s.pointRootOf(i, block))
+			}
 		}
 		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
 			pa := &ps.list[k]
 			d := s.solvePatchVel(pa)
-			note(d, d-conv*pa.scale(), s.pointRootOf(int(pa.lo), block))
+			res = max(res, d)
+			if !(d <= tol) {
+				note(d, pa.scale(), s.pointRootOf(int(pa.lo), block))
+			}
 		}
 	}
 	return res, excess
