@@ -262,11 +262,10 @@ func (s *Solver) solveFriction(vel []sbody, i int, bound float64, l1, l2 *float6
 		return 0, false
 	}
 	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
-	// Both rows join the point's bodies; cdot written out as in
-	// solveScalar.
+	// Both rows join the point's bodies.
 	A, B := &vel[r1.a], &vel[r1.b]
-	e1 := r1.target - (-dot3(&r1.d, &A.v) - dot3(&r1.cA, &A.w) + dot3(&r1.d, &B.v) + dot3(&r1.cB, &B.w))
-	e2 := r2.target - (-dot3(&r2.d, &A.v) - dot3(&r2.cA, &A.w) + dot3(&r2.d, &B.v) + dot3(&r2.cB, &B.w))
+	e1 := r1.target - rowVel(A, B, r1)
+	e2 := r2.target - rowVel(A, B, r2)
 	n1 := *l1 + p.inv11*e1 + p.inv12*e2
 	n2 := *l2 + p.inv12*e1 + p.inv22*e2
 	clamped := false

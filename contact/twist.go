@@ -211,7 +211,7 @@ func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, 
 	A, B := &vel[r[0].a], &vel[r[0].b]
 	var e [3]float64
 	for k := range r {
-		e[k] = r[k].target - (-dot3(&r[k].d, &A.v) - dot3(&r[k].cA, &A.w) + dot3(&r[k].d, &B.v) + dot3(&r[k].cB, &B.w))
+		e[k] = r[k].target - rowVel(A, B, &r[k])
 	}
 	var nl [3]float64
 	in := pa.inv
