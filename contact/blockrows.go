@@ -36,7 +36,7 @@ func (s *Solver) systemRows(idx []int32, fric bool) {
 		case q == 0:
 			add(&s.rows[3*pi+1], tangentRow, k, 0)
 			add(&s.rows[3*pi+2], tangentRow, k, 0)
-		case s.patches.list[q-1].lo == pi && s.patches.list[q-1].miso > 0:
+		case s.patches.list[q-1].lo == pi && s.patches.list[q-1].live:
 			// A patch's points are consecutive, in idx too (islands keeps
 			// the points' order), so they are idx[k:k+cnt].
 			pa := &s.patches.list[q-1]

@@ -43,8 +43,10 @@ type patch struct {
 	r        float64 // effective friction radius (m)
 	rows     [3]crow // tangent 1, tangent 2 at the centre; twist about the normal (scaled by r)
 	inv      [6]float64
-	block    bool    // inv holds the inverse of the 3x3 block (11, 12, 13, 22, 23, 33)
-	miso     float64 // 1 / largest eigenvalue of the block
+	block    bool       // inv holds the inverse of the 3x3 block (11, 12, 13, 22, 23, 33)
+	k        [6]float64 // the block J M^-1 J^T (11, 12, 13, 22, 23, 33)
+	live     bool       // the block is not zero: the rows can move something
+	miso     float64    // 1 / largest eigenvalue of the block, 0 until needed (isoMass)
 	muS, muK float64
 	mu       float64 // this step's coefficient
 	sliding  bool
@@ -146,15 +148,27 @@ func (s *Solver) setupPatch(bodies []Body, points []Point, pa *patch) {
 	// The block J M^-1 J^T: 11, 12, 13, 22, 23, 33.
 	r := &pa.rows
 	k := [6]float64{r[0].k, r[0].kWith(&r[1]), r[0].kWith(&r[2]), r[1].k, r[1].kWith(&r[2]), r[2].k}
+	pa.k = k
 	pa.inv, pa.block = invSym3(k)
-	if l := maxEigSym3(k); l > 0 {
-		pa.miso = 1 / l
-	}
+	// The block is positive semi-definite, so its largest eigenvalue is
+	// positive exactly when its trace is; the eigenvalue itself (two
+	// trigonometric functions) waits until a sliding patch needs it.
+	q := (k[0] + k[3] + k[5]) / 3
+	pa.live = q > 0 && !math.IsInf(q, 1)
 	for i := pa.lo; i < pa.hi; i++ {
 		q := &s.pts[i]
 		q.inv11, q.inv12, q.inv22 = 0, 0, 0  // the patch carries the friction
 		q.patch = int32(len(s.patches.list)) // pa is the list's last
 	}
+}
+
+// isoMass is the scalar mass of the isotropic step, 1 / the largest
+// eigenvalue of the block, computed on first use.
+func (pa *patch) isoMass() float64 {
+	if pa.miso == 0 {
+		pa.miso = 1 / maxEigSym3(pa.k)
+	}
+	return pa.miso
 }
 
 // invSym3 inverts the symmetric 3x3 matrix k (11, 12, 13, 22, 23, 33) by
@@ -205,7 +219,7 @@ func (s *Solver) normalSum(pa *patch) float64 {
 // It returns the largest velocity change and whether the ball limited it.
 func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, bool) {
 	r := &pa.rows
-	if pa.miso == 0 {
+	if !pa.live {
 		return 0, false
 	}
 	A, B := &vel[r[0].a], &vel[r[0].b]
@@ -225,8 +239,9 @@ func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, 
 	clamped := false
 	if !ok {
 		clamped = true
+		miso := pa.isoMass()
 		for k := range nl {
-			nl[k] = l[k] + pa.miso*e[k]
+			nl[k] = l[k] + miso*e[k]
 		}
 		if m2 := nl[0]*nl[0] + nl[1]*nl[1] + nl[2]*nl[2]; m2 > bound*bound {
 			f := 0.0
@@ -410,7 +425,7 @@ func (s *Solver) warmPatches(dt float64) {
 		} else {
 			fr = own // the pair's point contacts became a patch: their sum
 		}
-		if !pa.found || f == 0 || pa.miso == 0 {
+		if !pa.found || f == 0 || !pa.live {
 			continue
 		}
 		r := &pa.rows
