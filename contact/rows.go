@@ -174,13 +174,23 @@ func solveScalar(vel []sbody, r *crow, target, lo, hi float64, lambda *float64) 
 }
 
 // solveNormal is solveScalar for a normal row: its own target and
-// accumulator, impulse >= 0.
+// accumulator, impulse >= 0. It is the sweeps' innermost update, so rowVel
+// and applyPair are written out (they are too large to be inlined, and the
+// calls cost about as much as their arithmetic).
 func solveNormal(vel []sbody, r *crow) float64 {
 	if r.mass == 0 {
 		return 0
 	}
 	A, B := &vel[r.a], &vel[r.b]
-	cdot := rowVel(A, B, r)
+	onA, onB := r.a != fixedSlot, r.b != fixedSlot
+	cdot := 0.0
+	if onA {
+		cdot = -dot3(&r.d, &A.v) - dot3(&r.cA, &A.w)
+	}
+	if onB {
+		cdot += dot3(&r.d, &B.v)
+		cdot += dot3(&r.cB, &B.w)
+	}
 	old := r.lambda
 	nl := max(old+r.mass*(r.target-cdot), 0)
 	x := nl - old
@@ -188,7 +198,14 @@ func solveNormal(vel []sbody, r *crow) float64 {
 		return 0
 	}
 	r.lambda = nl
-	applyPair(A, B, r, x)
+	if onA {
+		addScaled(&A.v, &r.vA, -x)
+		addScaled(&A.w, &r.wA, -x)
+	}
+	if onB {
+		addScaled(&B.v, &r.vB, x)
+		addScaled(&B.w, &r.wB, x)
+	}
 	return math.Abs(x) * r.k
 }
 

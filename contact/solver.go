@@ -262,10 +262,22 @@ func (s *Solver) solveFriction(vel []sbody, i int, bound float64, l1, l2 *float6
 		return 0, false
 	}
 	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
-	// Both rows join the point's bodies.
+	// Both rows join the point's bodies; rowVel and applyPair written out
+	// as in solveNormal.
 	A, B := &vel[r1.a], &vel[r1.b]
-	e1 := r1.target - rowVel(A, B, r1)
-	e2 := r2.target - rowVel(A, B, r2)
+	onA, onB := r1.a != fixedSlot, r1.b != fixedSlot
+	c1, c2 := 0.0, 0.0
+	if onA {
+		c1 = -dot3(&r1.d, &A.v) - dot3(&r1.cA, &A.w)
+		c2 = -dot3(&r2.d, &A.v) - dot3(&r2.cA, &A.w)
+	}
+	if onB {
+		c1 += dot3(&r1.d, &B.v)
+		c1 += dot3(&r1.cB, &B.w)
+		c2 += dot3(&r2.d, &B.v)
+		c2 += dot3(&r2.cB, &B.w)
+	}
+	e1, e2 := r1.target-c1, r2.target-c2
 	n1 := *l1 + p.inv11*e1 + p.inv12*e2
 	n2 := *l2 + p.inv12*e1 + p.inv22*e2
 	clamped := false
@@ -288,11 +300,25 @@ func (s *Solver) solveFriction(vel []sbody, i int, bound float64, l1, l2 *float6
 	}
 	d1, d2 := n1-*l1, n2-*l2
 	*l1, *l2 = n1, n2
-	if d1 != 0 {
-		applyPair(A, B, r1, d1)
+	if onA {
+		if d1 != 0 {
+			addScaled(&A.v, &r1.vA, -d1)
+			addScaled(&A.w, &r1.wA, -d1)
+		}
+		if d2 != 0 {
+			addScaled(&A.v, &r2.vA, -d2)
+			addScaled(&A.w, &r2.wA, -d2)
+		}
 	}
-	if d2 != 0 {
-		applyPair(A, B, r2, d2)
+	if onB {
+		if d1 != 0 {
+			addScaled(&B.v, &r1.vB, d1)
+			addScaled(&B.w, &r1.wB, d1)
+		}
+		if d2 != 0 {
+			addScaled(&B.v, &r2.vB, d2)
+			addScaled(&B.w, &r2.wB, d2)
+		}
 	}
 	return max(math.Abs(d1)*r1.k, math.Abs(d2)*r2.k), clamped
 }
