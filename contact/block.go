@@ -50,15 +50,17 @@ const maxPivots = 24
 
 // blockState is the scratch space of the block solve.
 type blockState struct {
-	parent []int32 // union-find over bodies
+	parent []int32 // union-find over the solver's body slots
 	size   []int32 // points per island root; -1 for an island with joint rows
 	start  []int32 // first entry of each root's points in order
 	order  []int32 // points grouped by island
 	a, l   []float64
 	v0, x  []float64
+	lam    []float64 // the rows' impulses when the solve starts
+	tgt    []float64 // the rows' targets
 	active []bool
 	sub    []int32
-	rows   []*row    // the rows of the system: normal rows (in idx order), then friction rows
+	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
 	kind   []rowKind // what each row of the system is
 	of     []int32   // a tangent row's normal row; a patch row's first normal row
 	cnt    []int32   // a patch row's number of normal rows
@@ -76,14 +78,15 @@ func (b *blockState) find(i int32) int32 {
 
 // islands groups the points by island into b.order and reports the number
 // of points in each island root in b.size (-1 where joint rows take part).
-func (s *Solver) islands(bodies []Body, points []Point, rows []Row) {
+func (s *Solver) islands(points []Point, rows []Row) {
 	b := &s.blk
-	nb := len(bodies)
+	im := s.sl.im
+	nb := len(im)
 	b.parent, b.size, b.start = grow(b.parent, nb), grow(b.size, nb), grow(b.start, nb)
 	for i := range b.parent {
 		b.parent[i], b.size[i] = int32(i), 0
 	}
-	dyn := func(i int32) bool { return bodies[i].InvMass > 0 }
+	dyn := func(i int32) bool { return im[i] > 0 }
 	join := func(x, y int32) {
 		if dyn(x) && dyn(y) {
 			if rx, ry := b.find(x), b.find(y); rx != ry {
@@ -92,20 +95,20 @@ func (s *Solver) islands(bodies []Body, points []Point, rows []Row) {
 		}
 	}
 	for i := range points {
-		join(points[i].A, points[i].B)
+		join(s.rows[3*i].a, s.rows[3*i].b)
 	}
 	for j := range rows {
-		join(rows[j].A, rows[j].B)
+		join(s.jrows[j].a, s.jrows[j].b)
 	}
 	b.root = grow(b.root, len(points))
 	b.excess = grow(b.excess, nb)
 	for i := range points {
-		r := s.pointRoot(bodies, i, points)
+		r := s.pointRoot(i)
 		b.root[i] = r
 		b.size[r]++
 	}
 	for j := range rows {
-		for _, x := range [2]int32{rows[j].A, rows[j].B} {
+		for _, x := range [2]int32{s.jrows[j].a, s.jrows[j].b} {
 			if dyn(x) {
 				b.size[b.find(x)] = math.MinInt32 / 2
 			}
@@ -130,12 +133,12 @@ func (s *Solver) islands(bodies []Body, points []Point, rows []Row) {
 }
 
 // pointRoot is the island root of point i: that of its dynamic body.
-func (s *Solver) pointRoot(bodies []Body, i int, points []Point) int32 {
-	p := &points[i]
-	if bodies[p.A].InvMass > 0 {
-		return s.blk.find(p.A)
+func (s *Solver) pointRoot(i int) int32 {
+	r := &s.rows[3*i]
+	if s.sl.im[r.a] > 0 {
+		return s.blk.find(r.a)
 	}
-	return s.blk.find(p.B)
+	return s.blk.find(r.b)
 }
 
 // blockSolve solves the normal rows of every island with 2 to MaxBlock
@@ -150,7 +153,7 @@ func (s *Solver) pointRoot(bodies []Body, i int, points []Point) int32 {
 // After the sweeps the solve is spent only on islands whose last sweep had
 // not converged, in the position pass only on islands with a penetration
 // to remove.
-func (s *Solver) blockSolve(bodies []Body, pseudo, final bool) {
+func (s *Solver) blockSolve(pseudo, final bool) {
 	b := &s.blk
 	for r := range b.size {
 		n := int(b.size[r])
@@ -164,8 +167,8 @@ func (s *Solver) blockSolve(bodies []Body, pseudo, final bool) {
 		case final && b.excess[r] <= s.Settings.Tolerance:
 			continue
 		}
-		if !s.solveIsland(bodies, idx, pseudo, final) && final {
-			s.settlePatches(bodies, idx) // twist.go
+		if !s.solveIsland(idx, pseudo, final) && final {
+			s.settlePatches(idx) // twist.go
 		}
 	}
 }
@@ -181,21 +184,6 @@ func (s *Solver) penetrates(idx []int32) bool {
 }
 
 // coupling is the velocity change of row q per unit impulse of row p.
-func coupling(q, p *row) float64 {
-	c := 0.0
-	if q.a == p.a {
-		c += dot3(&q.linA, &p.dvA) + dot3(&q.angA, &p.dwA)
-	} else if q.a == p.b {
-		c += dot3(&q.linA, &p.dvB) + dot3(&q.angA, &p.dwB)
-	}
-	if q.b == p.a {
-		c += dot3(&q.linB, &p.dvA) + dot3(&q.angB, &p.dwA)
-	} else if q.b == p.b {
-		c += dot3(&q.linB, &p.dvB) + dot3(&q.angB, &p.dwB)
-	}
-	return c
-}
-
 // solveIsland solves the island of points idx. With friction (real
 // velocities only) the tangent rows of pressing points join the system as
 // sticking rows; that solution is taken only if every friction impulse
@@ -207,24 +195,24 @@ func coupling(q, p *row) float64 {
 // the patch's limit surface, so the direct solve and the sweeps bound the
 // same friction the same way.
 // It reports whether the friction rows were solved too.
-func (s *Solver) solveIsland(bodies []Body, idx []int32, pseudo, final bool) bool {
-	if !pseudo && len(idx) <= maxFrictionBlock && (final || s.massRatio(bodies, idx) > blockFrictionRatio) {
-		if s.solveRows(bodies, idx, false, true) {
+func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
+	if !pseudo && len(idx) <= maxFrictionBlock && (final || s.massRatio(idx) > blockFrictionRatio) {
+		if s.solveRows(idx, false, true) {
 			return true
 		}
 	}
-	s.solveRows(bodies, idx, pseudo, false)
+	s.solveRows(idx, pseudo, false)
 	return false
 }
 
 // massRatio is the ratio of the largest to the smallest inverse mass of the
 // dynamic bodies of an island.
-func (s *Solver) massRatio(bodies []Body, idx []int32) float64 {
+func (s *Solver) massRatio(idx []int32) float64 {
 	lo, hi := math.Inf(1), 0.0
 	for _, i := range idx {
 		r := &s.rows[3*i]
-		for _, k := range [2]int32{r.a, r.b} {
-			if m := bodies[k].InvMass; m > 0 {
+		for _, m := range [2]float64{s.sl.im[r.a], s.sl.im[r.b]} {
+			if m > 0 {
 				lo, hi = min(lo, m), max(hi, m)
 			}
 		}
@@ -250,8 +238,12 @@ const maxFrictionBlock = 64
 // three rows of each point, and applies the impulses unless the system has
 // no solution or, with fric, a friction impulse would leave its cone. It
 // reports whether it applied them.
-func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
+func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	b := &s.blk
+	vel := s.sl.vel
+	if pseudo {
+		vel = s.sl.ps
+	}
 	s.systemRows(idx, fric)
 	n, nn := len(b.rows), len(idx)
 	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
@@ -272,32 +264,31 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 		}
 		return &b.rows[i].lambda
 	}
-	target := func(i int) float64 {
+	// The impulses and targets, read once.
+	b.lam, b.tgt = grow(b.lam, n), grow(b.tgt, n)
+	for i := 0; i < n; i++ {
+		b.lam[i] = *lambda(i)
+		b.tgt[i] = b.rows[i].target
 		if pseudo {
-			return s.pts[idx[i]].pTarget
+			b.tgt[i] = s.pts[idx[i]].pTarget
 		}
-		return b.rows[i].target
 	}
 	// v0: each row's velocity without its island's impulses.
 	for i := 0; i < n; i++ {
-		r := b.rows[i]
-		v := r.cdot(bodies)
-		if pseudo {
-			v = r.cdotPseudo(bodies)
-		}
-		for j := 0; j < n; j++ {
-			v -= b.a[i*n+j] * *lambda(j)
+		v := b.rows[i].cdot(vel)
+		for j, a := range b.a[i*n : i*n+n] {
+			v -= a * b.lam[j]
 		}
 		b.v0[i] = v
 	}
 	for i := 0; i < nn; i++ {
-		b.active[i] = *lambda(i) > 0
+		b.active[i] = b.lam[i] > 0
 	}
 	b.follow()
 	tol := s.Settings.Tolerance + 1e-12
 	done := false
 	for it := 0; it < maxPivots; it++ {
-		if !s.solveActive(n, shift, target) {
+		if !s.solveActive(n, shift) {
 			return false // not positive definite: leave the impulses to the sweeps
 		}
 		worst, wv := -1, 0.0
@@ -315,9 +306,10 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 			if b.active[i] {
 				continue
 			}
-			v := b.v0[i] - target(i)
-			for j := 0; j < n; j++ {
-				v += b.a[i*n+j] * b.x[j]
+			v := b.v0[i] - b.tgt[i]
+			x := b.x[:n]
+			for j, a := range b.a[i*n : i*n+n] {
+				v += a * x[j]
 			}
 			if v < -tol && v < wv {
 				worst, wv = i, v
@@ -339,7 +331,7 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 	// to the sweeps and the world's checks.
 	rhs, big := 0.0, 0.0
 	for i := 0; i < n; i++ {
-		rhs = max(rhs, math.Abs(target(i)-b.v0[i]))
+		rhs = max(rhs, math.Abs(b.tgt[i]-b.v0[i]))
 		big = max(big, shift*math.Abs(b.x[i]))
 	}
 	if big > blockConsistent*rhs {
@@ -359,11 +351,7 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 			continue
 		}
 		*l += d
-		if pseudo {
-			b.rows[i].applyPseudo(bodies, d)
-		} else {
-			b.rows[i].apply(bodies, d)
-		}
+		b.rows[i].apply(vel, d)
 	}
 	return true
 }
@@ -371,7 +359,7 @@ func (s *Solver) solveRows(bodies []Body, idx []int32, pseudo, fric bool) bool {
 // solveActive solves (A + shift I) x = target - v0 on the active rows by
 // Cholesky factorisation, with x = 0 on the others. It reports false if the
 // matrix is not positive definite.
-func (s *Solver) solveActive(n int, shift float64, target func(int) float64) bool {
+func (s *Solver) solveActive(n int, shift float64) bool {
 	b := &s.blk
 	b.sub = b.sub[:0]
 	for i := 0; i < n; i++ {
@@ -384,27 +372,32 @@ func (s *Solver) solveActive(n int, shift float64, target func(int) float64) boo
 	b.l = grow(b.l, m*m)
 	L := b.l
 	for i, si := range b.sub {
+		Li, ai := L[i*m:i*m+i+1], b.a[int(si)*n:int(si)*n+n]
 		for j, sj := range b.sub[:i+1] {
-			sum := b.a[int(si)*n+int(sj)]
+			sum := ai[sj]
 			if i == j {
 				sum += shift
 			}
-			for k := 0; k < j; k++ {
-				sum -= L[i*m+k] * L[j*m+k]
+			// Row slices, so that the inner product runs without index
+			// arithmetic and bounds checks: the factorisation is most of
+			// the direct solve's time.
+			Lj := L[j*m : j*m+j+1]
+			for k, x := range Lj[:j] {
+				sum -= Li[k] * x
 			}
 			if i == j {
 				if !(sum > 0) {
 					return false
 				}
-				L[i*m+i] = math.Sqrt(sum)
+				Li[i] = math.Sqrt(sum)
 			} else {
-				L[i*m+j] = sum / L[j*m+j]
+				Li[j] = sum / Lj[j]
 			}
 		}
 	}
 	// Forward and back substitution into x.
 	for i, si := range b.sub {
-		sum := target(int(si)) - b.v0[si]
+		sum := b.tgt[si] - b.v0[si]
 		for k := 0; k < i; k++ {
 			sum -= L[i*m+k] * b.x[b.sub[k]]
 		}

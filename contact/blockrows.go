@@ -20,7 +20,7 @@ const (
 func (s *Solver) systemRows(idx []int32, fric bool) {
 	b := &s.blk
 	b.rows, b.kind, b.of, b.cnt = b.rows[:0], b.kind[:0], b.of[:0], b.cnt[:0]
-	add := func(r *row, k rowKind, of, cnt int) {
+	add := func(r *crow, k rowKind, of, cnt int) {
 		b.rows, b.kind = append(b.rows, r), append(b.kind, k)
 		b.of, b.cnt = append(b.of, int32(of)), append(b.cnt, int32(cnt))
 	}
@@ -36,7 +36,7 @@ func (s *Solver) systemRows(idx []int32, fric bool) {
 		case q == 0:
 			add(&s.rows[3*pi+1], tangentRow, k, 0)
 			add(&s.rows[3*pi+2], tangentRow, k, 0)
-		case s.patches.list[q-1].lo == pi && s.patches.list[q-1].miso > 0:
+		case s.patches.list[q-1].lo == pi && s.patches.list[q-1].live:
 			// A patch's points are consecutive, in idx too (islands keeps
 			// the points' order), so they are idx[k:k+cnt].
 			pa := &s.patches.list[q-1]

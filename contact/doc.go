@@ -27,9 +27,10 @@
 // Solve runs, in order:
 //
 //  1. Warm start: the impulses of the previous step, matched by Point.Key (a
-//     sorted slice, binary search), scaled and applied (Catto, "Iterative
-//     dynamics with temporal coherence", 2005). Friction is remembered as a
-//     world vector and projected onto the new tangent plane.
+//     radix sort of the keys merged with last step's, see keys.go), scaled
+//     and applied (Catto, "Iterative dynamics with temporal coherence",
+//     2005). Friction is remembered as a world vector and projected onto the
+//     new tangent plane.
 //  2. Sticking or sliding per point: the static coefficient while a contact
 //     sticks, the kinetic one while it slides (see Settings.CreepSpeed).
 //  3. Impacts: contacts approaching faster than Settings.BounceThreshold get
@@ -45,6 +46,14 @@
 //     per step, by pseudo-velocities (split impulses) in their own
 //     Gauss-Seidel sweeps. They are written to Body.Vp, Body.Wp and never
 //     into V, W, so position correction adds no kinetic energy.
+//
+// # Layout
+//
+// The sweeps touch contiguous memory only: the rows in slices in sweep
+// order, each contact row in a compact form (rows.go), and the velocities
+// of the bodies that the points join gathered into a solver-own slice
+// (bodies.go) and scattered back at the end; bodies that neither move nor
+// can be moved share one fixed slot whose side of a row is skipped.
 //
 // # Use by the world
 //

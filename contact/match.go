@@ -66,6 +66,7 @@ func (s *Solver) matchPoints(points []Point) {
 // points' order.
 func (s *Solver) matchByPosition(points []Point) {
 	r2 := s.Settings.Slop * s.Settings.Slop
+	cur := 0 // a cursor over prevPair (sorted by bodies)
 	for g := 0; g+1 < len(s.groups); g++ {
 		lo, hi := int(s.groups[g]), int(s.groups[g+1])
 		var pr *pairIndex
@@ -74,7 +75,7 @@ func (s *Solver) matchByPosition(points []Point) {
 				continue
 			}
 			if pr == nil {
-				k, ok := slices.BinarySearchFunc(s.prevPair, pairIndex{a: points[i].A, b: points[i].B}, pairOrder)
+				k, ok := s.findPair(pairIndex{a: points[i].A, b: points[i].B}, &cur)
 				if !ok {
 					break
 				}
@@ -97,6 +98,22 @@ func (s *Solver) matchByPosition(points []Point) {
 			}
 		}
 	}
+}
+
+// findPair finds pair p in prevPair from the cursor cur, which moves
+// forward while the pairs asked for come in order (the broad phase's pairs
+// mostly do); one asked for out of order puts it back by binary search.
+func (s *Solver) findPair(p pairIndex, cur *int) (int, bool) {
+	prev := s.prevPair
+	k := *cur
+	if k > 0 && pairOrder(prev[k-1], p) >= 0 {
+		k, _ = slices.BinarySearchFunc(prev, p, pairOrder)
+	}
+	for k < len(prev) && pairOrder(prev[k], p) < 0 {
+		k++
+	}
+	*cur = k
+	return k, k < len(prev) && pairOrder(prev[k], p) == 0
 }
 
 // storePairs remembers this step's points by body pair for the next step's

@@ -22,18 +22,6 @@ const impactRelTol = 1e-12
 // times this at the default threshold; rounding is twelve orders below.
 const loadFraction = 1e-3
 
-// row is one scalar constraint in solver form: Jacobian J, the velocity
-// changes per unit impulse M^-1 J^T, k = J M^-1 J^T and the effective mass 1/k.
-type row struct {
-	a, b                   int32
-	linA, angA, linB, angB vec
-	dvA, dwA, dvB, dwB     vec
-	k, mass                float64
-	target                 float64
-	lo, hi                 float64
-	lambda                 float64
-}
-
 // pstate is the solver's per-point state beside the point's three rows.
 type pstate struct {
 	muS, muK, mu, e     float64
@@ -82,7 +70,9 @@ type warmRow struct {
 type Solver struct {
 	Settings Settings
 
-	rows   []row // 3 per point (normal, tangent 1, tangent 2), then the extra rows
+	sl     slots  // the compact body arrays (bodies.go)
+	rows   []crow // 3 per point: normal, tangent 1, tangent 2 (zero for a point of a patch)
+	jrows  []jrow // the extra rows
 	pts    []pstate
 	jp     []jpos
 	groups []int32 // start of each run of points of one pair, then len(points)
@@ -149,25 +139,24 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 	if err := check(bodies, points, rows); err != nil {
 		return rep, err
 	}
-	if err := checkPatches(points); err != nil { // patch friction (twist.go)
-		return rep, err
-	}
+	s.sl.gather(bodies, points, rows)
 	s.prepare(dt, bodies, points, rows)
 	s.matchPoints(points)
 	s.preparePatches(bodies, points) // twist.go
 	// Sticking or sliding, and the impacts, are judged on the motion the
 	// bodies arrived with: this step's forces are taken out meanwhile.
-	addForces(bodies, -1)
-	s.classify(bodies, points)
-	s.classifyPatches(bodies, points) // twist.go
-	s.impacts(dt, bodies, points, &rep)
-	addForces(bodies, 1)
-	s.warmStart(dt, bodies, points, rows)
-	s.warmPatches(dt, bodies, points) // twist.go
-	s.velocities(bodies, points, rows, &rep)
-	s.store(dt, bodies, points, rows, &rep)
-	s.storePatches(bodies, points) // twist.go
-	s.positions(dt, bodies, points, rows)
+	s.sl.addForces(-1)
+	s.classify(points)
+	s.classifyPatches(points) // twist.go
+	s.impacts(dt, points, &rep)
+	s.sl.addForces(1)
+	s.warmStart(dt, points, rows)
+	s.warmPatches(dt) // twist.go
+	s.velocities(points, rows, &rep)
+	s.store(dt, points, rows, &rep)
+	s.storePatches(points) // twist.go
+	s.positions(dt, points, rows)
+	s.sl.scatter(bodies)
 	return rep, nil
 }
 
@@ -191,6 +180,9 @@ func check(bodies []Body, points []Point, rows []Row) error {
 		if !finite3(p.Position) || !finite3(p.SurfaceVelocity) || math.IsNaN(p.Separation) || math.IsInf(p.Separation, 0) ||
 			math.IsNaN(p.Friction+p.StaticFriction+p.Restitution) || math.IsInf(p.Friction+p.StaticFriction+p.Restitution, 0) {
 			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: position, separation, surface velocity and coefficients must be finite", i, p.Key, p.A, p.B)
+		}
+		if err := checkPatch(i, p); err != nil { // patch friction (twist.go)
+			return err
 		}
 	}
 	for j := range rows {
@@ -229,43 +221,8 @@ func grow[T any](s []T, n int) []T {
 	return s[:n]
 }
 
-func (r *row) setup(bodies []Body, a, b int32, linA, angA, linB, angB vec) {
-	r.linA, r.angA, r.linB, r.angB = linA, angA, linB, angB
-	r.setupJ(bodies, a, b)
-}
-
-// setupContact is setup for a contact row along unit direction n (from A
-// to B) at lever arms rA and rB: the Jacobian -n, -(rA x n), n, rB x n,
-// written out with the roundings of the vector methods.
-func (r *row) setupContact(bodies []Body, a, b int32, n, rA, rB *vec) {
-	r.linA = vec{n[0] * -1, n[1] * -1, n[2] * -1}
-	r.angA = vec{(rA[1]*n[2] - rA[2]*n[1]) * -1, (rA[2]*n[0] - rA[0]*n[2]) * -1, (rA[0]*n[1] - rA[1]*n[0]) * -1}
-	r.linB = *n
-	r.angB = vec{rB[1]*n[2] - rB[2]*n[1], rB[2]*n[0] - rB[0]*n[2], rB[0]*n[1] - rB[1]*n[0]}
-	r.setupJ(bodies, a, b)
-}
-
-// setupJ fills the rest of r from its Jacobian.
-func (r *row) setupJ(bodies []Body, a, b int32) {
-	A, B := &bodies[a], &bodies[b]
-	r.a, r.b = a, b
-	r.dvA = vec{r.linA[0] * A.InvMass, r.linA[1] * A.InvMass, r.linA[2] * A.InvMass}
-	r.dvB = vec{r.linB[0] * B.InvMass, r.linB[1] * B.InvMass, r.linB[2] * B.InvMass}
-	// InvInertia.Mul3x1(ang), with its roundings.
-	m, v := &A.InvInertia, &r.angA
-	r.dwA = vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
-	m, v = &B.InvInertia, &r.angB
-	r.dwB = vec{m[0]*v[0] + m[3]*v[1] + m[6]*v[2], m[1]*v[0] + m[4]*v[1] + m[7]*v[2], m[2]*v[0] + m[5]*v[1] + m[8]*v[2]}
-	r.k = dot3(&r.linA, &r.dvA) + dot3(&r.angA, &r.dwA) + dot3(&r.linB, &r.dvB) + dot3(&r.angB, &r.dwB)
-	r.mass = 0
-	if r.k > 0 && !math.IsInf(r.k, 1) {
-		r.mass = 1 / r.k
-	}
-	r.lambda = 0
-}
-
-// The hot loops below are written out by component: the vector methods
-// pass 24-byte arrays by value and cost about twice as much here.
+// The hot loops are written out by component: the vector methods pass
+// 24-byte arrays by value and cost about twice as much here.
 
 func dot3(a, b *vec) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }
 
@@ -273,19 +230,6 @@ func addScaled(v *vec, a *vec, d float64) {
 	v[0] += a[0] * d
 	v[1] += a[1] * d
 	v[2] += a[2] * d
-}
-
-func (r *row) cdot(bodies []Body) float64 {
-	A, B := &bodies[r.a], &bodies[r.b]
-	return dot3(&r.linA, &A.V) + dot3(&r.angA, &A.W) + dot3(&r.linB, &B.V) + dot3(&r.angB, &B.W)
-}
-
-func (r *row) apply(bodies []Body, d float64) {
-	A, B := &bodies[r.a], &bodies[r.b]
-	addScaled(&A.V, &r.dvA, d)
-	addScaled(&A.W, &r.dwA, d)
-	addScaled(&B.V, &r.dvB, d)
-	addScaled(&B.W, &r.dwB, d)
 }
 
 // arrivalSpeed is the approach speed with which a contact closing a gap sep
@@ -303,83 +247,33 @@ func arrivalSpeed(a0, fd, sep, dt float64) float64 {
 	return math.Sqrt(d)
 }
 
-// cdotForce is the row's velocity from the bodies' force velocities DV, DW.
-func (r *row) cdotForce(bodies []Body) float64 {
-	A, B := &bodies[r.a], &bodies[r.b]
-	return dot3(&r.linA, &A.DV) + dot3(&r.angA, &A.DW) + dot3(&r.linB, &B.DV) + dot3(&r.angB, &B.DW)
-}
-
-func (r *row) cdotPseudo(bodies []Body) float64 {
-	A, B := &bodies[r.a], &bodies[r.b]
-	return dot3(&r.linA, &A.Vp) + dot3(&r.angA, &A.Wp) + dot3(&r.linB, &B.Vp) + dot3(&r.angB, &B.Wp)
-}
-
-func (r *row) applyPseudo(bodies []Body, d float64) {
-	A, B := &bodies[r.a], &bodies[r.b]
-	addScaled(&A.Vp, &r.dvA, d)
-	addScaled(&A.Wp, &r.dwA, d)
-	addScaled(&B.Vp, &r.dvB, d)
-	addScaled(&B.Wp, &r.dwB, d)
-}
-
-// solveScalar is one projected Gauss-Seidel update of a row with its own
-// accumulator: the impulse that brings Cdot to target, with the accumulated
-// impulse (not the increment) clamped to [lo, hi] (Catto 2005). It returns
-// the velocity change along the row.
-func solveScalar(bodies []Body, r *row, target, lo, hi float64, lambda *float64) float64 {
-	if r.mass == 0 {
-		return 0
-	}
-	// r.cdot and r.apply written out: they are too large to be inlined, and
-	// the calls cost about as much as their arithmetic.
-	A, B := &bodies[r.a], &bodies[r.b]
-	cdot := dot3(&r.linA, &A.V) + dot3(&r.angA, &A.W) + dot3(&r.linB, &B.V) + dot3(&r.angB, &B.W)
-	old := *lambda
-	nl := min(max(old+r.mass*(target-cdot), lo), hi)
-	d := nl - old
-	if d == 0 {
-		return 0
-	}
-	*lambda = nl
-	addScaled(&A.V, &r.dvA, d)
-	addScaled(&A.W, &r.dwA, d)
-	addScaled(&B.V, &r.dvB, d)
-	addScaled(&B.W, &r.dwB, d)
-	return math.Abs(d) * r.k
-}
-
-// solvePseudo is solveScalar on the pseudo-velocities.
-func solvePseudo(bodies []Body, r *row, target, lo, hi float64, lambda *float64) float64 {
-	if r.mass == 0 {
-		return 0
-	}
-	old := *lambda
-	nl := min(max(old+r.mass*(target-r.cdotPseudo(bodies)), lo), hi)
-	d := nl - old
-	if d == 0 {
-		return 0
-	}
-	*lambda = nl
-	r.applyPseudo(bodies, d)
-	return math.Abs(d) * r.k
-}
-
 // solveFriction updates the two tangent rows of point i together: the 2x2
 // block impulse that brings the tangential relative velocity to the rows'
 // targets, then the accumulated pair (l1, l2) projected radially onto the
 // disk of radius bound (Coulomb's cone as a disk, not a pyramid). It returns
 // the velocity change and whether the disk limited the impulse.
-func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *float64) (float64, bool) {
+func (s *Solver) solveFriction(vel []sbody, i int, bound float64, l1, l2 *float64) (float64, bool) {
 	p := &s.pts[i]
 	if p.inv11 == 0 && p.inv22 == 0 {
 		return 0, false
 	}
 	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
-	// Both rows join the point's bodies; cdot and apply written out as in
-	// solveScalar.
-	A, B := &bodies[r1.a], &bodies[r1.b]
-	e1 := r1.target - (dot3(&r1.linA, &A.V) + dot3(&r1.angA, &A.W) + dot3(&r1.linB, &B.V) + dot3(&r1.angB, &B.W))
-	e2 := r2.target - (dot3(&r2.linA, &A.V) + dot3(&r2.angA, &A.W) + dot3(&r2.linB, &B.V) + dot3(&r2.angB, &B.W))
+	// Both rows join the point's bodies; rowVel and applyPair written out
+	// as in solveNormal.
+	A, B := &vel[r1.a], &vel[r1.b]
+	onA, onB := r1.a != fixedSlot, r1.b != fixedSlot
+	c1, c2 := 0.0, 0.0
+	if onA {
+		c1 = -dot3(&r1.d, &A.v) - dot3(&r1.cA, &A.w)
+		c2 = -dot3(&r2.d, &A.v) - dot3(&r2.cA, &A.w)
+	}
+	if onB {
+		c1 += dot3(&r1.d, &B.v)
+		c1 += dot3(&r1.cB, &B.w)
+		c2 += dot3(&r2.d, &B.v)
+		c2 += dot3(&r2.cB, &B.w)
+	}
+	e1, e2 := r1.target-c1, r2.target-c2
 	n1 := *l1 + p.inv11*e1 + p.inv12*e2
 	n2 := *l2 + p.inv12*e1 + p.inv22*e2
 	clamped := false
@@ -402,17 +296,25 @@ func (s *Solver) solveFriction(bodies []Body, i int, bound float64, l1, l2 *floa
 	}
 	d1, d2 := n1-*l1, n2-*l2
 	*l1, *l2 = n1, n2
-	if d1 != 0 {
-		addScaled(&A.V, &r1.dvA, d1)
-		addScaled(&A.W, &r1.dwA, d1)
-		addScaled(&B.V, &r1.dvB, d1)
-		addScaled(&B.W, &r1.dwB, d1)
+	if onA {
+		if d1 != 0 {
+			addScaled(&A.v, &r1.vA, -d1)
+			addScaled(&A.w, &r1.wA, -d1)
+		}
+		if d2 != 0 {
+			addScaled(&A.v, &r2.vA, -d2)
+			addScaled(&A.w, &r2.wA, -d2)
+		}
 	}
-	if d2 != 0 {
-		addScaled(&A.V, &r2.dvA, d2)
-		addScaled(&A.W, &r2.dwA, d2)
-		addScaled(&B.V, &r2.dvB, d2)
-		addScaled(&B.W, &r2.dwB, d2)
+	if onB {
+		if d1 != 0 {
+			addScaled(&B.v, &r1.vB, d1)
+			addScaled(&B.w, &r1.wB, d1)
+		}
+		if d2 != 0 {
+			addScaled(&B.v, &r2.vB, d2)
+			addScaled(&B.w, &r2.wB, d2)
+		}
 	}
 	return max(math.Abs(d1)*r1.k, math.Abs(d2)*r2.k), clamped
 }
@@ -423,7 +325,7 @@ func samePair(p, q *Point) bool {
 
 func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) {
 	n := len(points)
-	s.rows = grow(s.rows, 3*n+len(rows))
+	s.rows = grow(s.rows, 3*n)
 	s.pts = grow(s.pts, n)
 	s.jp = grow(s.jp, len(rows))
 	s.groups = s.groups[:0]
@@ -437,19 +339,14 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 	for i := range points {
 		p := &points[i]
 		A, B := &bodies[p.A], &bodies[p.B]
+		a, b := s.sl.of[p.A], s.sl.of[p.B]
 		rA := vec{p.Position[0] - A.Position[0], p.Position[1] - A.Position[1], p.Position[2] - A.Position[2]}
 		rB := vec{p.Position[0] - B.Position[0], p.Position[1] - B.Position[1], p.Position[2] - B.Position[2]}
-		t1, t2 := tangents(p.Normal)
 
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
-		rn.setupContact(bodies, p.A, p.B, &p.Normal, &rA, &rB)
+		rn.setupContact(A, B, a, b, &p.Normal, &rA, &rB)
 		// A speculative point may approach by its gap within the step.
 		rn.target = -max(p.Separation, 0) / dt
-		rn.lo, rn.hi = 0, math.Inf(1)
-		r1.setupContact(bodies, p.A, p.B, &t1, &rA, &rB)
-		r1.target = dot3(&t1, &p.SurfaceVelocity)
-		r2.setupContact(bodies, p.A, p.B, &t2, &rA, &rB)
-		r2.target = dot3(&t2, &p.SurfaceVelocity)
 
 		ps := &s.pts[i]
 		*ps = pstate{}
@@ -457,22 +354,32 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		ps.muS = max(p.StaticFriction, ps.muK)
 		ps.e = max(p.Restitution, 0)
 		ps.sep = p.Separation
-		// Off-diagonal of the friction block; the linear parts cancel (t1·t2 = 0).
-		k12 := dot3(&r1.linA, &r2.dvA) + dot3(&r1.angA, &r2.dwA) + dot3(&r1.linB, &r2.dvB) + dot3(&r1.angB, &r2.dwB)
-		if det := r1.k*r2.k - k12*k12; det > 1e-12*r1.k*r2.k && det > 0 {
-			ps.inv11, ps.inv12, ps.inv22 = r2.k/det, -k12/det, r1.k/det
-			h := 0.5 * (r1.k - r2.k)
-			ps.miso = 1 / (0.5*(r1.k+r2.k) + math.Sqrt(h*h+k12*k12))
+		if p.PatchRadius > 0 {
+			// Its patch carries its friction (twist.go): no tangent rows.
+			*r1, *r2 = crow{a: a, b: b}, crow{a: a, b: b}
+		} else {
+			t1, t2 := tangents(p.Normal)
+			r1.setupContact(A, B, a, b, &t1, &rA, &rB)
+			r1.target = dot3(&t1, &p.SurfaceVelocity)
+			r2.setupContact(A, B, a, b, &t2, &rA, &rB)
+			r2.target = dot3(&t2, &p.SurfaceVelocity)
+			// Off-diagonal of the friction block.
+			k12 := r1.kWith(r2)
+			if det := r1.k*r2.k - k12*k12; det > 1e-12*r1.k*r2.k && det > 0 {
+				ps.inv11, ps.inv12, ps.inv22 = r2.k/det, -k12/det, r1.k/det
+				h := 0.5 * (r1.k - r2.k)
+				ps.miso = 1 / (0.5*(r1.k+r2.k) + math.Sqrt(h*h+k12*k12))
+			}
 		}
 
 		p.NormalImpulse, p.FrictionImpulse = 0, vec{}
 		p.ImpactImpulse, p.ImpactFriction, p.ImpactSpeed = 0, vec{}, 0
 		p.Sliding = false
 	}
+	s.jrows = grow(s.jrows, len(rows))
 	for j := range rows {
-		r, jr := &rows[j], &s.rows[3*n+j]
-		jr.setup(bodies, r.A, r.B, r.LinA, r.AngA, r.LinB, r.AngB)
-		jr.target, jr.lo, jr.hi = r.Target, r.Lo, r.Hi
+		r := &rows[j]
+		s.jrows[j].setup(&bodies[r.A], &bodies[r.B], s.sl.of[r.A], s.sl.of[r.B], r)
 		r.Impulse = 0
 	}
 }
@@ -482,7 +389,8 @@ func rowKeyOrder(w warmRow, k uint64) int { return cmp.Compare(w.key, k) }
 // warmStart applies last step's impulses to the points matched by
 // matchPoints and the rows whose keys persist (Catto 2005). Friction is remembered as a world vector and
 // projected onto this step's tangents, so a turned basis loses nothing.
-func (s *Solver) warmStart(dt float64, bodies []Body, points []Point, rows []Row) {
+func (s *Solver) warmStart(dt float64, points []Point, rows []Row) {
+	vel := s.sl.vel
 	f := s.Settings.WarmStart
 	if s.prevDt > 0 {
 		f *= dt / s.prevDt // impulses of a steady load scale with the step
@@ -496,35 +404,45 @@ func (s *Solver) warmStart(dt float64, bodies []Body, points []Point, rows []Row
 		ps := &s.pts[i]
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
 		ln := f * w.normal
-		l1, l2 := f*w.friction.Dot(r1.linB), f*w.friction.Dot(r2.linB)
-		if m, b := math.Hypot(l1, l2), ps.muS*ln; m > b {
-			l1, l2 = l1*b/m, l2*b/m
-		}
 		if rn.mass > 0 {
 			rn.lambda = ln
-			rn.apply(bodies, ln)
+			rn.apply(vel, ln)
 		}
 		if ps.inv11 != 0 || ps.inv22 != 0 {
+			l1, l2 := f*w.friction.Dot(r1.d), f*w.friction.Dot(r2.d)
+			if m, b := math.Hypot(l1, l2), ps.muS*ln; m > b {
+				l1, l2 = l1*b/m, l2*b/m
+			}
 			r1.lambda, r2.lambda = l1, l2
-			r1.apply(bodies, l1)
-			r2.apply(bodies, l2)
+			r1.apply(vel, l1)
+			r2.apply(vel, l2)
 		}
 	}
 	if f == 0 {
 		return
 	}
-	n := len(points)
+	prev, k := s.prevRows, 0
 	for j := range rows {
-		k, ok := slices.BinarySearchFunc(s.prevRows, rows[j].Key, rowKeyOrder)
-		if !ok {
+		// A cursor over last step's rows, which are in key order: the rows
+		// of a step mostly come in key order too, and where one does not,
+		// a binary search puts the cursor back.
+		key := rows[j].Key
+		if k > 0 && prev[k-1].key >= key {
+			k, _ = slices.BinarySearchFunc(prev, key, rowKeyOrder)
+		}
+		for k < len(prev) && prev[k].key < key {
+			k++
+		}
+		if k == len(prev) || prev[k].key != key {
 			continue
 		}
-		jr := &s.rows[3*n+j]
+		k++
+		jr := &s.jrows[j]
 		if jr.mass == 0 {
 			continue
 		}
-		jr.lambda = min(max(f*s.prevRows[k].impulse, jr.lo), jr.hi)
-		jr.apply(bodies, jr.lambda)
+		jr.lambda = min(max(f*prev[k-1].impulse, jr.lo), jr.hi)
+		jr.apply(vel, jr.lambda)
 	}
 }
 
@@ -540,11 +458,15 @@ func (s *Solver) warmStart(dt float64, bodies []Body, points []Point, rows []Row
 // little slip that the next, warm-started step removes; taking that for
 // sliding would hand a block that static friction holds over to kinetic
 // friction for good.
-func (s *Solver) classify(bodies []Body, points []Point) {
+func (s *Solver) classify(points []Point) {
+	vel := s.sl.vel
 	for i := range points {
+		if points[i].PatchRadius > 0 {
+			continue // its patch decides (classifyPatches)
+		}
 		ps := &s.pts[i]
 		r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
-		slip := math.Hypot(r1.cdot(bodies)-r1.target, r2.cdot(bodies)-r2.target)
+		slip := math.Hypot(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target)
 		sliding := slip > s.Settings.SlipSpeed
 		if !sliding && ps.found {
 			if ps.prevSliding {
@@ -575,7 +497,8 @@ func (s *Solver) classify(bodies []Body, points []Point) {
 // not give. Touching points of the pair that do not impact keep the velocity
 // solve's target (no approach; a speculative point its gap per step).
 // A speculative point counts only if it would close its gap within the step.
-func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
+func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
+	vel, fv := s.sl.vel, s.sl.fv
 	set := &s.Settings
 	if set.PairIterations == 0 {
 		return
@@ -595,8 +518,8 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				// The bodies' velocities here lack this step's forces
 				// (Solve): approach is the speed they arrived with, and
 				// the gap closes at that plus the forces' part.
-				approach := -rn.cdot(bodies)
-				if ps.sep > 0 && (approach-rn.cdotForce(bodies))*dt <= ps.sep {
+				approach := -rn.cdot(vel)
+				if ps.sep > 0 && (approach-rn.cdot(fv))*dt <= ps.sep {
 					continue // stays apart this step
 				}
 				if ps.found && ps.prevN*rn.k > set.BounceThreshold*loadFraction {
@@ -616,7 +539,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// gap short of each other; moving them to make up for it
 					// would change angular momentum.
 					if approach > set.BounceThreshold || ps.pending > 0 {
-						ac := arrivalSpeed(approach, -rn.cdotForce(bodies), ps.sep, dt)
+						ac := arrivalSpeed(approach, -rn.cdot(fv), ps.sep, dt)
 						ps.deferred = max(ps.deferred, ac, ps.pending)
 					}
 					continue
@@ -654,11 +577,11 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					if !ps.active {
 						continue
 					}
-					res = max(res, solveScalar(bodies, &s.rows[3*i], ps.iTarget, 0, inf, &ps.iN))
-					d, _ := s.solveFriction(bodies, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
+					res = max(res, solveScalar(vel, &s.rows[3*i], ps.iTarget, 0, inf, &ps.iN))
+					d, _ := s.solveFriction(vel, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
 					res = max(res, d)
 				}
-				res = max(res, s.impactPatches(bodies, g, it == 0)) // twist.go
+				res = max(res, s.impactPatches(g, it == 0)) // twist.go
 				if res <= tol {
 					break
 				}
@@ -669,7 +592,9 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					continue
 				}
 				p.ImpactImpulse += ps.iN
-				p.ImpactFriction = p.ImpactFriction.Add(s.rows[3*i+1].linB.Mul(ps.iT1)).Add(s.rows[3*i+2].linB.Mul(ps.iT2))
+				if p.PatchRadius == 0 {
+					p.ImpactFriction = p.ImpactFriction.Add(s.rows[3*i+1].d.Mul(ps.iT1)).Add(s.rows[3*i+2].d.Mul(ps.iT2))
+				}
 			}
 		}
 		if !hitAny {
@@ -689,11 +614,11 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 // the normal row, then its friction disk, so that friction is clamped with
 // the normal impulse the update ends with and the impulses always lie in the
 // cone.
-func (s *Solver) solvePoint(bodies []Body, i int) float64 {
+func (s *Solver) solvePoint(vel []sbody, i int) float64 {
 	ps, rn := &s.pts[i], &s.rows[3*i]
-	res := solveScalar(bodies, rn, rn.target, 0, math.Inf(1), &rn.lambda)
+	res := solveNormal(vel, rn)
 	bound := ps.mu * rn.lambda
-	d, clamped := s.solveFriction(bodies, i, bound, &s.rows[3*i+1].lambda, &s.rows[3*i+2].lambda)
+	d, clamped := s.solveFriction(vel, i, bound, &s.rows[3*i+1].lambda, &s.rows[3*i+2].lambda)
 	ps.sat = clamped && bound > 0
 	return max(res, d)
 }
@@ -710,8 +635,8 @@ const coldRelTol = 1e-6
 // the corners of a new manifold once in sequence leaves a rocking and
 // turning motion (the first corner takes all the load) that plain sweeps
 // remove only slowly, and that slip could make static friction look broken.
-func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Report) {
-	n := len(points)
+func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
+	vel := s.sl.vel
 	if s.Settings.VelocityIterations > 0 {
 		for g := 0; g+1 < len(s.groups); g++ {
 			lo, hi := int(s.groups[g]), int(s.groups[g+1])
@@ -726,9 +651,9 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 			for it := 0; it < s.Settings.PairIterations; it++ {
 				res := 0.0
 				for i := lo; i < hi; i++ {
-					res = max(res, s.solvePoint(bodies, i))
+					res = max(res, s.solvePoint(vel, i))
 				}
-				res = max(res, s.solveGroupPatches(bodies, g)) // twist.go
+				res = max(res, s.solveGroupPatches(g)) // twist.go
 				if first < 0 {
 					first = res
 				}
@@ -740,8 +665,8 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 	}
 	block := s.Settings.MaxBlock >= 2 && s.Settings.VelocityIterations > 0
 	if block {
-		s.islands(bodies, points, rows)
-		s.blockSolve(bodies, false, false)
+		s.islands(points, rows)
+		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
@@ -750,15 +675,15 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 		// velocity change its accumulated impulse makes.
 		res, excess := 0.0, 0.0
 		for j := range rows {
-			r := &s.rows[3*n+j]
-			d := solveScalar(bodies, r, r.target, r.lo, r.hi, &r.lambda)
+			r := &s.jrows[j]
+			d := r.solve(vel, r.target, r.lo, r.hi, &r.lambda)
 			res, excess = max(res, d), max(excess, d-conv*math.Abs(r.lambda)*r.k)
 		}
 		if block {
 			clear(s.blk.excess)
 		}
 		// The points of each pair, then the pair's patches (twist.go).
-		r, ex := s.sweepPoints(bodies, block)
+		r, ex := s.sweepPoints(block)
 		res, excess = max(res, r), max(excess, ex)
 		rep.Iterations++
 		rep.Residual = res
@@ -772,7 +697,7 @@ func (s *Solver) velocities(bodies []Body, points []Point, rows []Row, rep *Repo
 		// solution again, and the sweeps bring them back slowly where
 		// masses differ or stacks are tall: solve them once more, with
 		// friction where the island is small enough.
-		s.blockSolve(bodies, false, true)
+		s.blockSolve(false, true)
 	}
 }
 
@@ -784,19 +709,19 @@ func (s *Solver) pointScale(i int) float64 {
 }
 
 // store writes the outputs and remembers this step's impulses by key.
-func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, rep *Report) {
-	n := len(points)
-	s.curPts = grow(s.curPts, n)
+func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
+	vel := s.sl.vel
+	s.curPts = grow(s.curPts, len(points))
 	for i := range points {
 		p := &points[i]
 		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
 		p.NormalImpulse = rn.lambda
-		p.FrictionImpulse = r1.linB.Mul(r1.lambda).Add(r2.linB.Mul(r2.lambda))
+		p.FrictionImpulse = r1.d.Mul(r1.lambda).Add(r2.d.Mul(r2.lambda))
 		rep.NormalImpulse += p.NormalImpulse + p.ImpactImpulse
 		// At the cone's limit and still slipping: count the steps in a row.
 		ps := &s.pts[i]
 		slips := uint8(0)
-		if ps.sat && math.Hypot(r1.cdot(bodies)-r1.target, r2.cdot(bodies)-r2.target) > s.Settings.CreepSpeed {
+		if ps.sat && math.Hypot(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target) > s.Settings.CreepSpeed {
 			slips = min(ps.prevSlips, 254) + 1
 		}
 		pending := ps.deferred
@@ -822,10 +747,13 @@ func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, re
 
 	s.curRows = s.curRows[:0]
 	for j := range rows {
-		rows[j].Impulse = s.rows[3*n+j].lambda
+		rows[j].Impulse = s.jrows[j].lambda
 		s.curRows = append(s.curRows, warmRow{key: rows[j].Key, impulse: rows[j].Impulse})
 	}
-	slices.SortFunc(s.curRows, func(a, b warmRow) int { return cmp.Compare(a.key, b.key) })
+	order := func(a, b warmRow) int { return cmp.Compare(a.key, b.key) }
+	if !slices.IsSortedFunc(s.curRows, order) {
+		slices.SortFunc(s.curRows, order)
+	}
 	s.prevRows, s.curRows = s.curRows, s.prevRows
 	s.prevDt = dt
 }
@@ -840,10 +768,9 @@ func (s *Solver) store(dt float64, bodies []Body, points []Point, rows []Row, re
 //
 // A point that impacted while still apart (speculative) is instead moved to
 // the gap that the impact within the step would have left.
-func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row) {
-	for i := range bodies {
-		bodies[i].Vp, bodies[i].Wp = vec{}, vec{}
-	}
+func (s *Solver) positions(dt float64, points []Point, rows []Row) {
+	vel, pv := s.sl.vel, s.sl.ps
+	clear(pv)
 	set := &s.Settings
 	if set.PositionIterations == 0 {
 		return
@@ -856,7 +783,7 @@ func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row
 		if rn.mass == 0 {
 			continue
 		}
-		pred := ps.sep + rn.cdot(bodies)*dt
+		pred := ps.sep + rn.cdot(vel)*dt
 		if pen := -pred - set.Slop; pen > 0 {
 			ps.pTarget = set.Correction * pen / dt
 		}
@@ -867,8 +794,7 @@ func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row
 		if !r.Correct {
 			continue
 		}
-		jr := &s.rows[3*n+j]
-		jp.target = -set.Correction * (r.Drift + jr.cdot(bodies)*dt) / dt
+		jp.target = -set.Correction * (r.Drift + s.jrows[j].cdot(vel)*dt) / dt
 		jp.lo, jp.hi = 0, 0
 		if r.Lo < 0 {
 			jp.lo = -inf
@@ -878,18 +804,18 @@ func (s *Solver) positions(dt float64, bodies []Body, points []Point, rows []Row
 		}
 	}
 	if set.MaxBlock >= 2 && set.VelocityIterations > 0 {
-		s.blockSolve(bodies, true, false) // islands as found by velocities
+		s.blockSolve(true, false) // islands as found by velocities
 	}
 	for it := 0; it < set.PositionIterations; it++ {
 		res := 0.0
 		for j := range rows {
 			if jp := &s.jp[j]; jp.on {
-				res = max(res, solvePseudo(bodies, &s.rows[3*n+j], jp.target, jp.lo, jp.hi, &jp.lambda))
+				res = max(res, s.jrows[j].solve(pv, jp.target, jp.lo, jp.hi, &jp.lambda))
 			}
 		}
 		for i := 0; i < n; i++ {
 			ps := &s.pts[i]
-			res = max(res, solvePseudo(bodies, &s.rows[3*i], ps.pTarget, ps.pLo, inf, &ps.pN))
+			res = max(res, solveScalar(pv, &s.rows[3*i], ps.pTarget, ps.pLo, inf, &ps.pN))
 		}
 		if res <= set.Tolerance {
 			break

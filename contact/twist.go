@@ -41,10 +41,12 @@ import (
 type patch struct {
 	lo, hi   int32   // its points
 	r        float64 // effective friction radius (m)
-	rows     [3]row  // tangent 1, tangent 2 at the centre; twist about the normal (scaled by r)
+	rows     [3]crow // tangent 1, tangent 2 at the centre; twist about the normal (scaled by r)
 	inv      [6]float64
-	block    bool    // inv holds the inverse of the 3x3 block (11, 12, 13, 22, 23, 33)
-	miso     float64 // 1 / largest eigenvalue of the block
+	block    bool       // inv holds the inverse of the 3x3 block (11, 12, 13, 22, 23, 33)
+	k        [6]float64 // the block J M^-1 J^T (11, 12, 13, 22, 23, 33)
+	live     bool       // the block is not zero: the rows can move something
+	miso     float64    // 1 / largest eigenvalue of the block, 0 until needed (isoMass)
 	muS, muK float64
 	mu       float64 // this step's coefficient
 	sliding  bool
@@ -114,13 +116,10 @@ func (s *Solver) matchPatch(pa *patch) {
 	}
 }
 
-// checkPatches reports a point whose patch is not finite.
-func checkPatches(points []Point) error {
-	for i := range points {
-		p := &points[i]
-		if !finite3(p.PatchCenter) || !(p.PatchRadius >= 0) || math.IsInf(p.PatchRadius, 1) {
-			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: patch centre %v and radius %v must be finite, radius >= 0", i, p.Key, p.A, p.B, p.PatchCenter, p.PatchRadius)
-		}
+// checkPatch reports point i, p, if its patch is not finite.
+func checkPatch(i int, p *Point) error {
+	if !finite3(p.PatchCenter) || !(p.PatchRadius >= 0) || math.IsInf(p.PatchRadius, 1) {
+		return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: patch centre %v and radius %v must be finite, radius >= 0", i, p.Key, p.A, p.B, p.PatchCenter, p.PatchRadius)
 	}
 	return nil
 }
@@ -129,36 +128,47 @@ func checkPatches(points []Point) error {
 func (s *Solver) setupPatch(bodies []Body, points []Point, pa *patch) {
 	p := &points[pa.lo]
 	A, B := &bodies[p.A], &bodies[p.B]
+	a, b := s.sl.of[p.A], s.sl.of[p.B]
 	c := p.PatchCenter
 	rA := vec{c[0] - A.Position[0], c[1] - A.Position[1], c[2] - A.Position[2]}
 	rB := vec{c[0] - B.Position[0], c[1] - B.Position[1], c[2] - B.Position[2]}
 	n := p.Normal
 	t1, t2 := tangents(n)
 	pa.r = p.PatchRadius
-	pa.rows[0].setupContact(bodies, p.A, p.B, &t1, &rA, &rB)
+	pa.rows[0].setupContact(A, B, a, b, &t1, &rA, &rB)
 	pa.rows[0].target = dot3(&t1, &p.SurfaceVelocity)
-	pa.rows[1].setupContact(bodies, p.A, p.B, &t2, &rA, &rB)
+	pa.rows[1].setupContact(A, B, a, b, &t2, &rA, &rB)
 	pa.rows[1].target = dot3(&t2, &p.SurfaceVelocity)
 	rn := n.Mul(pa.r)
-	pa.rows[2].setup(bodies, p.A, p.B, vec{}, rn.Mul(-1), vec{}, rn)
+	pa.rows[2].setup(A, B, a, b, &vec{}, &rn, &rn)
+	pa.rows[2].target = 0
 	pa.muK = max(p.Friction, 0)
 	pa.muS = max(p.StaticFriction, pa.muK)
 
-	var k [6]float64 // the block J M^-1 J^T: 11, 12, 13, 22, 23, 33
-	kk := func(a, b *row) float64 {
-		return dot3(&a.linA, &b.dvA) + dot3(&a.angA, &b.dwA) + dot3(&a.linB, &b.dvB) + dot3(&a.angB, &b.dwB)
-	}
+	// The block J M^-1 J^T: 11, 12, 13, 22, 23, 33.
 	r := &pa.rows
-	k = [6]float64{r[0].k, kk(&r[0], &r[1]), kk(&r[0], &r[2]), r[1].k, kk(&r[1], &r[2]), r[2].k}
+	k := [6]float64{r[0].k, r[0].kWith(&r[1]), r[0].kWith(&r[2]), r[1].k, r[1].kWith(&r[2]), r[2].k}
+	pa.k = k
 	pa.inv, pa.block = invSym3(k)
-	if l := maxEigSym3(k); l > 0 {
-		pa.miso = 1 / l
-	}
+	// The block is positive semi-definite, so its largest eigenvalue is
+	// positive exactly when its trace is; the eigenvalue itself (two
+	// trigonometric functions) waits until a sliding patch needs it.
+	q := (k[0] + k[3] + k[5]) / 3
+	pa.live = q > 0 && !math.IsInf(q, 1)
 	for i := pa.lo; i < pa.hi; i++ {
 		q := &s.pts[i]
 		q.inv11, q.inv12, q.inv22 = 0, 0, 0  // the patch carries the friction
 		q.patch = int32(len(s.patches.list)) // pa is the list's last
 	}
+}
+
+// isoMass is the scalar mass of the isotropic step, 1 / the largest
+// eigenvalue of the block, computed on first use.
+func (pa *patch) isoMass() float64 {
+	if pa.miso == 0 {
+		pa.miso = 1 / maxEigSym3(pa.k)
+	}
+	return pa.miso
 }
 
 // invSym3 inverts the symmetric 3x3 matrix k (11, 12, 13, 22, 23, 33) by
@@ -207,15 +217,15 @@ func (s *Solver) normalSum(pa *patch) float64 {
 // accumulators l inside the ball of radius bound: the block step if it stays
 // inside, else the isotropic step projected radially (see the file comment).
 // It returns the largest velocity change and whether the ball limited it.
-func solvePatch(bodies []Body, pa *patch, bound float64, l *[3]float64) (float64, bool) {
+func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, bool) {
 	r := &pa.rows
-	if pa.miso == 0 {
+	if !pa.live {
 		return 0, false
 	}
-	A, B := &bodies[r[0].a], &bodies[r[0].b]
+	A, B := &vel[r[0].a], &vel[r[0].b]
 	var e [3]float64
 	for k := range r {
-		e[k] = r[k].target - (dot3(&r[k].linA, &A.V) + dot3(&r[k].angA, &A.W) + dot3(&r[k].linB, &B.V) + dot3(&r[k].angB, &B.W))
+		e[k] = r[k].target - rowVel(A, B, &r[k])
 	}
 	var nl [3]float64
 	in := pa.inv
@@ -229,8 +239,9 @@ func solvePatch(bodies []Body, pa *patch, bound float64, l *[3]float64) (float64
 	clamped := false
 	if !ok {
 		clamped = true
+		miso := pa.isoMass()
 		for k := range nl {
-			nl[k] = l[k] + pa.miso*e[k]
+			nl[k] = l[k] + miso*e[k]
 		}
 		if m2 := nl[0]*nl[0] + nl[1]*nl[1] + nl[2]*nl[2]; m2 > bound*bound {
 			f := 0.0
@@ -247,10 +258,7 @@ func solvePatch(bodies []Body, pa *patch, bound float64, l *[3]float64) (float64
 			continue
 		}
 		l[k] = nl[k]
-		addScaled(&A.V, &r[k].dvA, d)
-		addScaled(&A.W, &r[k].dwA, d)
-		addScaled(&B.V, &r[k].dvB, d)
-		addScaled(&B.W, &r[k].dwB, d)
+		applyPair(A, B, &r[k], d)
 		res = max(res, math.Abs(d)*r[k].k)
 	}
 	return res, clamped
@@ -262,10 +270,10 @@ func (pa *patch) lambdas() [3]float64 {
 }
 
 // solvePatchVel is one velocity-solve update of pa.
-func (s *Solver) solvePatchVel(bodies []Body, pa *patch) float64 {
+func (s *Solver) solvePatchVel(pa *patch) float64 {
 	bound := pa.mu * s.normalSum(pa)
 	l := pa.lambdas()
-	d, clamped := solvePatch(bodies, pa, bound, &l)
+	d, clamped := solvePatch(s.sl.vel, pa, bound, &l)
 	pa.rows[0].lambda, pa.rows[1].lambda, pa.rows[2].lambda = l[0], l[1], l[2]
 	pa.sat = clamped && bound > 0
 	return d
@@ -282,10 +290,15 @@ func (s *Solver) solvePatchVel(bodies []Body, pa *patch) float64 {
 // Convergence times the velocity change of the accumulated impulses (a
 // point's by pointScale, a patch's by patchScale); with block it also
 // records each island's largest excess for blockSolve.
-func (s *Solver) sweepPoints(bodies []Body, block bool) (res, excess float64) {
-	conv := s.Settings.Convergence
-	note := func(d, ex float64, root int32) {
-		res, excess = max(res, d), max(excess, ex)
+func (s *Solver) sweepPoints(block bool) (res, excess float64) {
+	vel := s.sl.vel
+	conv, tol := s.Settings.Convergence, s.Settings.Tolerance
+	// An excess counts only against Tolerance, and it is at most the
+	// velocity change d: a row that changed by no more than Tolerance (most
+	// of them once the sweeps near convergence) needs no scale.
+	note := func(d, scale float64, root int32) {
+		ex := d - conv*scale
+		excess = max(excess, ex)
 		if block {
 			s.blk.excess[root] = max(s.blk.excess[root], ex)
 		}
@@ -293,13 +306,19 @@ func (s *Solver) sweepPoints(bodies []Body, block bool) (res, excess float64) {
 	ps := &s.patches
 	for g := 0; g+1 < len(s.groups); g++ {
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
-			d := s.solvePoint(bodies, i)
-			note(d, d-conv*s.pointScale(i), s.pointRootOf(i, block))
+			d := s.solvePoint(vel, i)
+			res = max(res, d)
+			if !(d <= tol) {
+				note(d, s.pointScale(i), s.pointRootOf(i, block))
+			}
 		}
 		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
 			pa := &ps.list[k]
-			d := s.solvePatchVel(bodies, pa)
-			note(d, d-conv*pa.scale(), s.pointRootOf(int(pa.lo), block))
+			d := s.solvePatchVel(pa)
+			res = max(res, d)
+			if !(d <= tol) {
+				note(d, pa.scale(), s.pointRootOf(int(pa.lo), block))
+			}
 		}
 	}
 	return res, excess
@@ -321,11 +340,11 @@ func (pa *patch) scale() float64 {
 }
 
 // solveGroupPatches is solvePatches for the patches of pair group g.
-func (s *Solver) solveGroupPatches(bodies []Body, g int) float64 {
+func (s *Solver) solveGroupPatches(g int) float64 {
 	res := 0.0
 	ps := &s.patches
 	for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
-		res = max(res, s.solvePatchVel(bodies, &ps.list[k]))
+		res = max(res, s.solvePatchVel(&ps.list[k]))
 	}
 	return res
 }
@@ -340,10 +359,10 @@ func (s *Solver) solveGroupPatches(bodies []Body, g int) float64 {
 // with the direct solve's load and the friction of the lifted-off half of
 // that cycle, none (measured: a plank slapping down on its far edge 2
 // percent too slowly, as its struck edge slid without friction).
-func (s *Solver) settlePatches(bodies []Body, idx []int32) {
+func (s *Solver) settlePatches(idx []int32) {
 	for _, i := range idx {
 		if q := s.pts[i].patch; q > 0 && s.patches.list[q-1].lo == i {
-			s.solvePatchVel(bodies, &s.patches.list[q-1])
+			s.solvePatchVel(&s.patches.list[q-1])
 		}
 	}
 }
@@ -351,7 +370,7 @@ func (s *Solver) settlePatches(bodies []Body, idx []int32) {
 // impactPatches is one update of the patches of pair group g in the impact
 // phase, bounded by the impact's normal impulses; start resets their
 // accumulators at the start of the pair's processing.
-func (s *Solver) impactPatches(bodies []Body, g int, start bool) float64 {
+func (s *Solver) impactPatches(g int, start bool) float64 {
 	res := 0.0
 	ps := &s.patches
 	for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
@@ -366,7 +385,7 @@ func (s *Solver) impactPatches(bodies []Body, g int, start bool) float64 {
 			}
 		}
 		old := pa.imp
-		d, _ := solvePatch(bodies, pa, pa.mu*n, &pa.imp)
+		d, _ := solvePatch(s.sl.vel, pa, pa.mu*n, &pa.imp)
 		for j := range old {
 			pa.impSum[j] += pa.imp[j] - old[j]
 		}
@@ -378,7 +397,7 @@ func (s *Solver) impactPatches(bodies []Body, g int, start bool) float64 {
 // warmPatches applies last step's patch impulses, summed over the points of
 // each patch that persist, scaled like the points' (factor f), and held in
 // the limit ball of the static coefficient. It runs after warmStart.
-func (s *Solver) warmPatches(dt float64, bodies []Body, points []Point) {
+func (s *Solver) warmPatches(dt float64) {
 	f := s.Settings.WarmStart
 	if s.prevDt > 0 {
 		f *= dt / s.prevDt
@@ -406,11 +425,11 @@ func (s *Solver) warmPatches(dt float64, bodies []Body, points []Point) {
 		} else {
 			fr = own // the pair's point contacts became a patch: their sum
 		}
-		if !pa.found || f == 0 || pa.miso == 0 {
+		if !pa.found || f == 0 || !pa.live {
 			continue
 		}
 		r := &pa.rows
-		l := [3]float64{f * fr.Dot(r[0].linB), f * fr.Dot(r[1].linB), 0}
+		l := [3]float64{f * fr.Dot(r[0].d), f * fr.Dot(r[1].d), 0}
 		if pa.r > 0 {
 			l[2] = f * tw / pa.r
 		}
@@ -422,24 +441,24 @@ func (s *Solver) warmPatches(dt float64, bodies []Body, points []Point) {
 		}
 		for j := range r {
 			r[j].lambda = l[j]
-			r[j].apply(bodies, l[j])
+			r[j].apply(s.sl.vel, l[j])
 		}
 	}
 }
 
 // patchSlip is the generalised slip speed |(v_t, r w_n)| of pa.
-func patchSlip(bodies []Body, pa *patch) float64 {
+func patchSlip(vel []sbody, pa *patch) float64 {
 	r := &pa.rows
-	a, b, c := r[0].cdot(bodies)-r[0].target, r[1].cdot(bodies)-r[1].target, r[2].cdot(bodies)-r[2].target
+	a, b, c := r[0].cdot(vel)-r[0].target, r[1].cdot(vel)-r[1].target, r[2].cdot(vel)-r[2].target
 	return math.Sqrt(a*a + b*b + c*c)
 }
 
 // classifyPatches picks each patch's coefficient by the rule of classify,
 // on the patch's generalised slip. It runs after classify.
-func (s *Solver) classifyPatches(bodies []Body, points []Point) {
+func (s *Solver) classifyPatches(points []Point) {
 	for k := range s.patches.list {
 		pa := &s.patches.list[k]
-		sliding := patchSlip(bodies, pa) > s.Settings.SlipSpeed
+		sliding := patchSlip(s.sl.vel, pa) > s.Settings.SlipSpeed
 		if !sliding && pa.found {
 			if pa.prevSl {
 				sliding = pa.prevSlip >= 1
@@ -460,18 +479,18 @@ func (s *Solver) classifyPatches(bodies []Body, points []Point) {
 
 // storePatches shares each patch's impulses out to its points (outputs and
 // memory) by normal impulse. It runs after store.
-func (s *Solver) storePatches(bodies []Body, points []Point) {
+func (s *Solver) storePatches(points []Point) {
 	ps := &s.patches
 	ps.mem = grow(ps.mem, len(points))
 	clear(ps.mem)
 	for k := range ps.list {
 		pa := &ps.list[k]
 		r := &pa.rows
-		fr := r[0].linB.Mul(r[0].lambda).Add(r[1].linB.Mul(r[1].lambda))
+		fr := r[0].d.Mul(r[0].lambda).Add(r[1].d.Mul(r[1].lambda))
 		tw := r[2].lambda * pa.r
-		fi := r[0].linB.Mul(pa.impSum[0]).Add(r[1].linB.Mul(pa.impSum[1]))
+		fi := r[0].d.Mul(pa.impSum[0]).Add(r[1].d.Mul(pa.impSum[1]))
 		slips := uint8(0)
-		if pa.sat && patchSlip(bodies, pa) > s.Settings.CreepSpeed {
+		if pa.sat && patchSlip(s.sl.vel, pa) > s.Settings.CreepSpeed {
 			slips = min(pa.prevSlip, 254) + 1
 		}
 		nSum, iSum := s.normalSum(pa), 0.0
