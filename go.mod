@@ -9,6 +9,7 @@ require (
 	github.com/qmuntal/gltf v0.28.0
 	github.com/schollz/progressbar/v3 v3.19.1
 	golang.org/x/image v0.30.0
+	golang.org/x/sync v0.25.0
 	golang.org/x/sys v0.46.0
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0
