@@ -41,7 +41,7 @@ const (
 // released from rest in 11 x 11 columns, 8 to 9 layers high, and measured
 // while they fall and land (see pourLead). 8 velocity iterations, no
 // sleeping. It reports the fraction of parts moving faster than 5 cm/s at
-// the start of the window.
+// the start of the window, and the CPU time per step.
 func Pour1000(b *testing.B) { pour(b, 1000) }
 
 func pourBench(n int) func(*testing.B) {
@@ -56,6 +56,7 @@ func pour(b *testing.B, n int) {
 	b.StopTimer()
 	pours := (b.N + pourWindow - 1) / pourWindow
 	moving := 0.0
+	var cpu cpuClock
 	for p := 0; p < pours; p++ {
 		timed := b.N*(p+1)/pours - b.N*p/pours // this pour's share of b.N
 		w := pourWorld(b, n)
@@ -69,17 +70,20 @@ func pour(b *testing.B, n int) {
 			on := s == (2*k+1)*pourWindow/(2*timed) // the middle of the k-th of timed equal spans
 			if on {
 				b.StartTimer()
+				cpu.start()
 			}
 			if err := w.Step(pourStep); err != nil {
 				b.Fatal(err)
 			}
 			if on {
+				cpu.stop()
 				b.StopTimer()
 				k++
 			}
 		}
 	}
 	b.ReportMetric(moving/float64(pours), "moving")
+	cpu.report(b)
 }
 
 // pourGrid returns the columns of a pour of n parts along x and y: 11 x 11

@@ -135,13 +135,13 @@ func main() {
 			ratio = fmt.Sprintf("%.3gx", base.ns/r.ns)
 		}
 		table = append(table, []string{r.b.Name, fmt.Sprintf("%.0f", r.ns), fmt.Sprintf("%.1f", r.allocs),
-			fmt.Sprintf("%.0f", r.B), vsRecorded(r.b.Name, r.ns), ratio, r.b.Baseline, metrics(r.extra)})
+			fmt.Sprintf("%.0f", r.B), vsRecorded(r), ratio, r.b.Baseline, metrics(r.extra)})
 	}
 	printTable(os.Stdout, table)
 	if *count > 1 {
 		fmt.Printf("medians of %d runs\n", *count)
 	}
-	fmt.Printf("vs baseline: the recorded ns/op (%s) over this run's; above 1x is faster\n", bench.RecordedOn)
+	fmt.Printf("vs baseline: the recorded time per op over this run's (CPU time where marked cpu); above 1x is faster; recorded on %s\n", bench.RecordedOn)
 	for _, r := range results {
 		if base := byName[r.b.Baseline]; base != nil && !base.failed && !r.failed {
 			if line := cpuSpeedup(r.b, base.b, r.extra, base.extra, r.ns, base.ns); line != "" {
