@@ -92,6 +92,9 @@ func pile(b *testing.B, n int) {
 	w := pileWorld(b, n)
 	b.ReportAllocs()
 	b.ResetTimer()
+	var cpu cpuClock // cputime.go
+	cpu.start()
+	defer func() { cpu.stop(); cpu.report(b) }()
 	for i := 0; i < b.N; i++ {
 		if err := w.Step(1e-3); err != nil {
 			b.Fatal(err)
@@ -106,6 +109,9 @@ func DropTrial(b *testing.B) {
 	part := randomPart(rng, 40)
 	b.ReportAllocs()
 	b.ResetTimer()
+	var cpu cpuClock // cputime.go
+	cpu.start()
+	defer func() { cpu.stop(); cpu.report(b) }()
 	steps := 0
 	for i := 0; i < b.N; i++ {
 		cfg := engine.DefaultConfig()

@@ -45,6 +45,9 @@ func DropTrialMesh(b *testing.B) {
 	rng := rand.New(rand.NewPCG(7, 7))
 	b.ReportAllocs()
 	b.ResetTimer()
+	var cpu cpuClock // cputime.go
+	cpu.start()
+	defer func() { cpu.stop(); cpu.report(b) }()
 	steps := 0
 	for i := 0; i < b.N; i++ {
 		cfg := engine.DefaultConfig()

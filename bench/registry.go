@@ -18,6 +18,15 @@ type Benchmark struct {
 	// is compared against: the table prints Baseline's ns/op divided by
 	// this one's.
 	Baseline string
+	// Series and Size, if set, put this benchmark in a scaling series:
+	// benchmarks of one series do the same work at different sizes (Size
+	// bodies), and the table fits the exponent of ns/op against Size.
+	Series string
+	Size   int
+	// Workers is the number of goroutines an op runs on (0 for 1). With a
+	// cpu-ns metric it gives the speed-up the table reports from CPU time:
+	// Workers times the baseline's CPU per op over this one's.
+	Workers int
 }
 
 var registry []Benchmark

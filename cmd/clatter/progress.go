@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"github.com/schollz/progressbar/v3"
+	"golang.org/x/term"
 )
 
 // progressDelay is how long a run goes before a bar appears: short runs
@@ -27,14 +28,11 @@ func newProgress(e *env, label string) *progress {
 	return &progress{w: e.stderr, label: label, enabled: !e.quiet && isTerminal(e.stderr), start: time.Now()}
 }
 
-// isTerminal reports whether w is a character device (a terminal).
+// isTerminal reports whether w is a terminal. A character device is not
+// enough: /dev/null is one too.
 func isTerminal(w io.Writer) bool {
 	f, ok := w.(*os.File)
-	if !ok {
-		return false
-	}
-	st, err := f.Stat()
-	return err == nil && st.Mode()&os.ModeCharDevice != 0
+	return ok && term.IsTerminal(int(f.Fd()))
 }
 
 // update shows the fraction done.

@@ -228,7 +228,7 @@ type stats struct {
 	// case when there are few enough cases to plot them apart.
 	pooled []int64
 	hist   [][]int64
-	fields []string
+	csv    csvLine
 	// down counts face_down at the end like counts (facedown.go).
 	down [][]int64
 
@@ -253,8 +253,7 @@ func (s *stats) add(g group) error {
 	nb := len(s.meta.Bodies)
 	lines := bytes.SplitAfter(g.data, []byte("\n"))
 	for b := 0; b < nb; b++ {
-		f, _ := splitCSV(bytes.TrimSuffix(lines[b], []byte("\n")), s.fields)
-		s.fields = f
+		f, _ := s.csv.split(bytes.TrimSuffix(lines[b], []byte("\n")))
 		face := -1
 		if v := f[4+s.nv]; v != "" {
 			i, err := strconv.Atoi(v)

@@ -89,7 +89,7 @@ func (wk *worker) crossings(c, t int64, w *engine.World) {
 		b = append(b, ',')
 		b = append(b, csvField(wk.st.meta.Gates[x.Gate].Name)...)
 		b = append(b, ',')
-		b = append(b, csvField(wk.st.meta.Bodies[k].Name)...)
+		b = append(b, wk.names[k]...)
 		b = append(b, ',')
 		b = appendNumber(b, x.Time)
 		b = append(b, ',')
@@ -113,7 +113,7 @@ type gateKey struct {
 type gateStats struct {
 	meta   *Meta
 	counts map[gateKey]int64
-	fields []string
+	csv    csvLine
 	// byTrio lists the faces counted per case, gate and body (face 0).
 	byTrio map[gateKey][]int
 }
@@ -136,8 +136,7 @@ func (s *gateStats) add(g group) error {
 		if len(line) == 0 {
 			continue
 		}
-		f, ok := splitCSV(bytes.TrimSuffix(line, []byte("\n")), s.fields)
-		s.fields = f
+		f, ok := s.csv.split(bytes.TrimSuffix(line, []byte("\n")))
 		if !ok || len(f) != 6 {
 			return fmt.Errorf("case %d trial %d: a crossing row without its six fields", c, g.g%s.meta.Trials)
 		}

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"container/heap"
+	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -11,6 +12,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strconv"
+	"strings"
 )
 
 // A table is the layout of one of the CSV files written as trials finish
@@ -49,52 +51,39 @@ type group struct {
 	data []byte
 }
 
-// splitCSV splits one line (without its line break) into fields, undoing
-// RFC 4180 quoting; ok is false for a malformed line.
-func splitCSV(line []byte, out []string) ([]string, bool) {
-	out = out[:0]
-	for {
-		if len(line) > 0 && line[0] == '"' {
-			var f []byte
-			i := 1
-			for {
-				j := bytes.IndexByte(line[i:], '"')
-				if j < 0 {
-					return out, false
-				}
-				f = append(f, line[i:i+j]...)
-				i += j + 1
-				if i < len(line) && line[i] == '"' {
-					f = append(f, '"')
-					i++
-					continue
-				}
-				break
-			}
-			out = append(out, string(f))
-			line = line[i:]
-			if len(line) == 0 {
-				return out, true
-			}
-			if line[0] != ',' {
-				return out, false
-			}
-			line = line[1:]
-			continue
-		}
-		j := bytes.IndexByte(line, ',')
-		if j < 0 {
-			if bytes.IndexByte(line, '"') >= 0 {
-				return out, false
-			}
-			return append(out, string(line)), true
-		}
-		if bytes.IndexByte(line[:j], '"') >= 0 {
-			return out, false
-		}
-		out = append(out, string(line[:j]))
-		line = line[j+1:]
+// A csvLine splits single lines of CSV (RFC 4180, by encoding/csv) into
+// fields. Its zero value is ready to use; it keeps one csv.Reader, fed a
+// line at a time, so that scanning a large file allocates little. Each row
+// of our files is one line: the logs are framed by line breaks, so that a
+// row torn by a crash or damaged stays confined to its own line.
+type csvLine struct {
+	src bytes.Reader
+	r   *csv.Reader
+}
+
+// split returns the fields of line (without its line break); ok is false
+// for a malformed line. The slice is reused by the next call.
+func (l *csvLine) split(line []byte) (fields []string, ok bool) {
+	if l.r == nil {
+		l.r = csv.NewReader(&l.src)
+		l.r.FieldsPerRecord = -1
+		l.r.ReuseRecord = true
 	}
+	// The Reader has read src to its end (the line holds no line break, so
+	// a record ends only there), so it reads the next line from src afresh.
+	l.src.Reset(line)
+	f, err := l.r.Read()
+	return f, err == nil
+}
+
+// csvField returns s as one CSV field, quoted as encoding/csv's Writer
+// quotes it.
+func csvField(s string) string {
+	var b strings.Builder
+	w := csv.NewWriter(&b)
+	w.Write([]string{s}) // a strings.Builder does not fail
+	w.Flush()
+	return strings.TrimSuffix(b.String(), "\n")
 }
 
 // scanStats counts what a scan dropped.
@@ -114,6 +103,7 @@ type scanStats struct {
 func (tb *table) scan(r io.Reader, header bool, fn func(group) error) (scanStats, error) {
 	br := bufio.NewReaderSize(r, 1<<16)
 	var st scanStats
+	var split csvLine
 	var fields []string
 	var cur []byte
 	curG, curN := int64(-1), 0
@@ -162,7 +152,7 @@ func (tb *table) scan(r io.Reader, header bool, fn func(group) error) (scanStats
 			}
 			continue
 		}
-		g, ok := tb.parse(body, &fields, curN, curG)
+		g, ok := tb.parse(body, &split, &fields, curN, curG)
 		if !ok {
 			st.dropped++
 			if err := flush(); err != nil {
@@ -201,8 +191,8 @@ func truncate(s string, n int) string {
 
 // parse checks one row and returns its trial's global index. A row that
 // continues a group must name the next body of the trial.
-func (tb *table) parse(line []byte, fields *[]string, curN int, curG int64) (int64, bool) {
-	f, ok := splitCSV(line, *fields)
+func (tb *table) parse(line []byte, l *csvLine, fields *[]string, curN int, curG int64) (int64, bool) {
+	f, ok := l.split(line)
 	*fields = f
 	if !ok || len(f) != tb.fields {
 		return 0, false

@@ -119,13 +119,6 @@ func (m *Meta) span() (lo, hi int64) {
 	return m.Shard.From, m.Shard.To
 }
 
-func csvField(s string) string {
-	if !strings.ContainsAny(s, ",\"\r\n") {
-		return s
-	}
-	return `"` + strings.ReplaceAll(s, `"`, `""`) + `"`
-}
-
 func (m *Meta) keysHeader() string {
 	var b strings.Builder
 	for _, v := range m.Vary {

@@ -8,8 +8,9 @@ import (
 	"path/filepath"
 	"runtime"
 	"strings"
-	"sync"
 	"time"
+
+	"golang.org/x/sync/errgroup"
 )
 
 // Options control a Run.
@@ -131,7 +132,10 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 	defer cancel()
 	jobs := make(chan int64, workers)
 	results := make(chan result, workers)
-	go func() {
+	// The group's context ends at the first failed trial (a worker's
+	// error), an interruption (ctx) or a write error (cancel).
+	grp, gctx := errgroup.WithContext(ctx)
+	grp.Go(func() error {
 		defer close(jobs)
 		for g := lo; g < hi; g++ {
 			if done != nil && done.has(g-lo) {
@@ -139,38 +143,35 @@ func (st *Study) Run(ctx context.Context, opt Options) (*RunInfo, error) {
 			}
 			select {
 			case jobs <- g:
-			case <-ctx.Done():
-				return
+			case <-gctx.Done():
+				return nil
 			}
 		}
-	}()
-	var wg sync.WaitGroup
-	var fatal error
-	var fatalOnce sync.Once
+		return nil
+	})
 	for i := 0; i < workers; i++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
+		grp.Go(func() error {
 			wk := newWorker(st)
 			for g := range jobs {
-				r, err := wk.safeRun(ctx, g)
+				r, err := wk.safeRun(gctx, g)
 				if err != nil {
-					if ctx.Err() == nil {
-						fatalOnce.Do(func() { fatal = err })
-						cancel()
+					if gctx.Err() != nil {
+						return nil // stopped by another's failure or an interruption
 					}
-					return
+					return err
 				}
 				select {
 				case results <- r:
-				case <-ctx.Done():
-					return
+				case <-gctx.Done():
+					return nil
 				}
 			}
-		}()
+			return nil
+		})
 	}
+	var fatal error
 	go func() {
-		wg.Wait()
+		fatal = grp.Wait()
 		close(results)
 	}()
 

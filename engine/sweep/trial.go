@@ -21,7 +21,8 @@ type worker struct {
 	st     *Study
 	c      int64 // case of cs, -1 before the first
 	cs     *scene.Scene
-	values []byte // the case's value columns, "0.2,1,"
+	values []byte   // the case's value columns, "0.2,1,"
+	names  []string // the moving bodies' names as CSV fields
 	faces  [][]resting.Face
 	bodies []scene.Body
 	touch  []bool
@@ -55,6 +56,10 @@ func (wk *worker) useCase(c int64) error {
 		return err
 	}
 	wk.c, wk.cs, wk.faces = c, cs, nil
+	wk.names = wk.names[:0]
+	for _, i := range wk.st.dyn {
+		wk.names = append(wk.names, csvField(cs.Bodies[i].Name))
+	}
 	wk.values = wk.values[:0]
 	for _, v := range wk.st.caseValues(c) {
 		wk.values = appendNumber(wk.values, v)
@@ -195,7 +200,7 @@ func (wk *worker) rows(g, c, t int64, seed uint64, sc *scene.Scene, w *engine.Wo
 		b = strconv.AppendUint(b, seed, 10)
 		b = append(b, ',')
 		b = append(b, wk.values...)
-		b = append(b, csvField(sc.Bodies[i].Name)...)
+		b = append(b, wk.names[k]...)
 		b = append(b, ',')
 		if face >= 0 {
 			b = strconv.AppendInt(b, int64(face), 10)

@@ -1,6 +1,10 @@
 // Command benchtable runs the benchmarks registered in package bench and
-// prints a table of medians: ns/op, allocs/op, B/op, each benchmark's own
-// metrics, and the speed-up over its baseline.
+// prints a table of medians: ns/op, allocs/op, B/op, the ratio of the figure
+// recorded before the speed work (bench.Recorded) to this run's, the
+// speed-up over another benchmark named as its baseline, and each
+// benchmark's own metrics. Below the table it prints the speed-up from CPU
+// time of benchmarks that report it, and the fitted exponent of time
+// against size of each series (the pours of 1000 to 8000 bodies).
 //
 //	go run ./bench/cmd/benchtable [-run REGEXP] [-count N] [-benchtime D]
 //
@@ -106,12 +110,6 @@ func main() {
 			}
 		}
 	}
-	type result struct {
-		b             bench.Benchmark
-		ns, allocs, B float64
-		extra         map[string]float64
-		failed        bool
-	}
 	results := make([]result, len(rows))
 	byName := map[string]*result{}
 	for i, rw := range rows {
@@ -126,23 +124,42 @@ func main() {
 		byName[rw.b.Name] = &results[i]
 	}
 
-	table := [][]string{{"benchmark", "ns/op", "allocs/op", "B/op", "speed-up", "over", "metrics"}}
+	table := [][]string{{"benchmark", "ns/op", "allocs/op", "B/op", "vs baseline", "speed-up", "over", "metrics"}}
 	for _, r := range results {
 		if r.failed {
-			table = append(table, []string{r.b.Name, "FAILED", "", "", "", "", ""})
+			table = append(table, []string{r.b.Name, "FAILED", "", "", "", "", "", ""})
 			continue
 		}
 		ratio := ""
 		if base := byName[r.b.Baseline]; base != nil && !base.failed && r.ns > 0 {
-			ratio = fmt.Sprintf("%.0fx", base.ns/r.ns)
+			ratio = fmt.Sprintf("%.3gx", base.ns/r.ns)
 		}
 		table = append(table, []string{r.b.Name, fmt.Sprintf("%.0f", r.ns), fmt.Sprintf("%.1f", r.allocs),
-			fmt.Sprintf("%.0f", r.B), ratio, r.b.Baseline, metrics(r.extra)})
+			fmt.Sprintf("%.0f", r.B), vsRecorded(r), ratio, r.b.Baseline, metrics(r.extra)})
 	}
 	printTable(os.Stdout, table)
 	if *count > 1 {
 		fmt.Printf("medians of %d runs\n", *count)
 	}
+	fmt.Printf("vs baseline: the recorded time per op over this run's (CPU time where marked cpu); above 1x is faster; recorded on %s\n", bench.RecordedOn)
+	for _, r := range results {
+		if base := byName[r.b.Baseline]; base != nil && !base.failed && !r.failed {
+			if line := cpuSpeedup(r.b, base.b, r.extra, base.extra, r.ns, base.ns); line != "" {
+				fmt.Println(line)
+			}
+		}
+	}
+	for _, line := range seriesFits(results) {
+		fmt.Println(line)
+	}
+}
+
+// A result is the medians of one benchmark's runs.
+type result struct {
+	b             bench.Benchmark
+	ns, allocs, B float64
+	extra         map[string]float64
+	failed        bool
 }
 
 // printTable prints rows in columns: the first left-aligned, numbers
