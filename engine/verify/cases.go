@@ -1,14 +1,11 @@
 package verify
 
 import (
-	"context"
 	"errors"
 	"fmt"
 	"math"
 
 	"clatter/engine"
-	"clatter/engine/report"
-	"clatter/engine/scene"
 	"clatter/shapes"
 	"clatter/shapes/mesh"
 	"clatter/shapes/resting"
@@ -524,11 +521,7 @@ velocity = ["2 m/s", 0, 0]
 `
 
 func sceneSlide() (float64, float64, float64, error) {
-	s, err := scene.Parse([]byte(slideScene), "verify-slide.toml", scene.Options{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	sum, err := report.Run(context.Background(), s, report.Options{})
+	sum, err := runScene(slideScene, "verify-slide.toml")
 	if err != nil {
 		return 0, 0, 0, err
 	}
