@@ -184,18 +184,22 @@ func freeFall() (float64, float64, float64, error) {
 	return g / 2, z0 - w.Position(id)[2], math.NaN(), err
 }
 
-func box(w *engine.World, mat int, half shapes.Vec3, v shapes.Vec3) (engine.BodyID, error) {
-	return w.AddBody(engine.BodyDef{Name: "block", Shape: shapes.Box{Half: half}, Density: 1000, Material: mat,
+// block returns a world with a 0.1 m cube of water's density resting on
+// the floor of floorWorld(DefaultConfig(), theta, m), moving at v.
+func block(theta float64, m engine.Material, v shapes.Vec3) (*engine.World, engine.BodyID, error) {
+	w, mat, err := floorWorld(engine.DefaultConfig(), theta, m)
+	if err != nil {
+		return nil, 0, err
+	}
+	half := shapes.Vec3{0.05, 0.05, 0.05}
+	id, err := w.AddBody(engine.BodyDef{Name: "block", Shape: shapes.Box{Half: half}, Density: 1000, Material: mat,
 		Position: shapes.Vec3{0, 0, half[2]}, Velocity: v})
+	return w, id, err
 }
 
 func inclineSlide() (float64, float64, float64, error) {
 	th, mu := mgl64.DegToRad(30), 0.2
-	w, mat, err := floorWorld(engine.DefaultConfig(), th, engine.Material{Friction: mu})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{})
+	w, id, err := block(th, engine.Material{Friction: mu}, shapes.Vec3{})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -209,11 +213,7 @@ func inclineSlide() (float64, float64, float64, error) {
 
 func inclineStick() (float64, float64, float64, error) {
 	th := mgl64.DegToRad(20)
-	w, mat, err := floorWorld(engine.DefaultConfig(), th, engine.Material{Friction: 0.3, StaticFriction: 0.45})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{})
+	w, id, err := block(th, engine.Material{Friction: 0.3, StaticFriction: 0.45}, shapes.Vec3{})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -224,11 +224,7 @@ func inclineStick() (float64, float64, float64, error) {
 
 func slideToStop() (float64, float64, float64, error) {
 	v0, mu := 2.0, 0.3
-	w, mat, err := floorWorld(engine.DefaultConfig(), 0, engine.Material{Friction: mu})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{v0, 0, 0})
+	w, id, err := block(0, engine.Material{Friction: mu}, shapes.Vec3{v0, 0, 0})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -238,11 +234,7 @@ func slideToStop() (float64, float64, float64, error) {
 
 func stopTime() (float64, float64, float64, error) {
 	v0, mu := 2.0, 0.3
-	w, mat, err := floorWorld(engine.DefaultConfig(), 0, engine.Material{Friction: mu})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{v0, 0, 0})
+	w, id, err := block(0, engine.Material{Friction: mu}, shapes.Vec3{v0, 0, 0})
 	if err != nil {
 		return 0, 0, 0, err
 	}
