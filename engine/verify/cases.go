@@ -460,6 +460,16 @@ func boxInertia() (float64, float64, float64, error) {
 }
 
 func cubeProbability() (float64, float64, float64, error) {
+	return cubeWorst(1.0/6, func(f resting.Face) float64 { return f.Probability })
+}
+
+func cubeTip() (float64, float64, float64, error) {
+	return cubeWorst(45, func(f resting.Face) float64 { return mgl64.RadToDeg(f.TipAngleRad) })
+}
+
+// cubeWorst returns want and the value of the cube's resting face farthest
+// from it, with its deviation.
+func cubeWorst(want float64, value func(resting.Face) float64) (float64, float64, float64, error) {
 	faces, err := resting.OfShape(shapes.Box{Half: shapes.Vec3{1, 1, 1}}, shapes.Vec3{})
 	if err != nil {
 		return 0, 0, 0, err
@@ -469,26 +479,12 @@ func cubeProbability() (float64, float64, float64, error) {
 	}
 	dev, worst := 0.0, 0.0
 	for _, f := range faces {
-		if d := math.Abs(f.Probability - 1.0/6); d >= dev {
-			dev, worst = d, f.Probability
+		v := value(f)
+		if d := math.Abs(v - want); d >= dev {
+			dev, worst = d, v
 		}
 	}
-	return 1.0 / 6, worst, dev, nil
-}
-
-func cubeTip() (float64, float64, float64, error) {
-	faces, err := resting.OfShape(shapes.Box{Half: shapes.Vec3{1, 1, 1}}, shapes.Vec3{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	dev, worst := 0.0, 0.0
-	for _, f := range faces {
-		a := mgl64.RadToDeg(f.TipAngleRad)
-		if d := math.Abs(a - 45); d >= dev {
-			dev, worst = d, a
-		}
-	}
-	return 45, worst, dev, nil
+	return want, worst, dev, nil
 }
 
 // slideScene is the scene-file case: a steel block of 50 mm sliding on a
