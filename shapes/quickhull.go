@@ -341,87 +341,127 @@ func (q *quickhull) assign(points []int, faces []int) {
 // Geometry is computed on the centred points pts; the hull's vertices are
 // the caller's original points orig, exactly.
 func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
+	a := newTriangles(pts, tris)
+	groups := a.groupCoplanar(mergeTol)
+	h, remap := hullOfLoops(a.boundaryLoops(groups), orig)
+	sortFaces(h.Faces)
+	buildAdjacency(h)
+	buildClimbGraph(h, tris, len(pts), remap, 2*mergeTol)
+	return h
+}
+
+// hullEdge is a directed edge between two points.
+type hullEdge struct{ a, b int }
+
+// hullTriangles are the triangles of a hull with their adjacency, unit
+// normals and areas, and the group of coplanar triangles each falls in.
+type hullTriangles struct {
+	pts    []Vec3
+	tris   [][3]int
+	owner  map[hullEdge]int // directed edge -> its triangle
+	normal []Vec3
+	area   []float64
+	group  []int
+}
+
+func newTriangles(pts []Vec3, tris [][3]int) *hullTriangles {
 	nt := len(tris)
-	// Triangle adjacency through a map from directed edge to triangle.
-	type edgeKey struct{ a, b int }
-	owner := make(map[edgeKey]int, 3*nt)
+	a := &hullTriangles{pts: pts, tris: tris, owner: make(map[hullEdge]int, 3*nt),
+		normal: make([]Vec3, nt), area: make([]float64, nt)}
 	for i, t := range tris {
 		for e := 0; e < 3; e++ {
-			owner[edgeKey{t[e], t[(e+1)%3]}] = i
+			a.owner[hullEdge{t[e], t[(e+1)%3]}] = i
 		}
 	}
-	normal := make([]Vec3, nt)
-	area := make([]float64, nt)
 	for i, t := range tris {
 		n := pts[t[1]].Sub(pts[t[0]]).Cross(pts[t[2]].Sub(pts[t[0]]))
-		area[i] = n.Len()
-		if area[i] > 0 {
-			normal[i] = n.Mul(1 / area[i])
+		a.area[i] = n.Len()
+		if a.area[i] > 0 {
+			a.normal[i] = n.Mul(1 / a.area[i])
 		}
 	}
-	// Grow groups from the largest triangles first: each group keeps the
-	// plane of its seed, so a finely curved surface never merges into one
-	// bent "face".
+	return a
+}
+
+// groupCoplanar groups the triangles that lie within mergeTol of one
+// plane, growing groups from the largest triangles first: each group keeps
+// the plane of its seed, so a finely curved surface never merges into one
+// bent "face". It returns the members of each group.
+func (a *hullTriangles) groupCoplanar(mergeTol float64) [][]int {
+	nt := len(a.tris)
 	order := make([]int, nt)
 	for i := range order {
 		order[i] = i
 	}
-	sort.SliceStable(order, func(i, j int) bool { return area[order[i]] > area[order[j]] })
-	group := make([]int, nt)
-	for i := range group {
-		group[i] = -1
+	sort.SliceStable(order, func(i, j int) bool { return a.area[order[i]] > a.area[order[j]] })
+	a.group = make([]int, nt)
+	for i := range a.group {
+		a.group[i] = -1
 	}
 	var groups [][]int
 	for _, seed := range order {
-		if group[seed] >= 0 {
+		if a.group[seed] >= 0 {
 			continue
 		}
-		g := len(groups)
-		n := normal[seed]
-		off := n.Dot(pts[tris[seed][0]])
-		members := []int{seed}
-		group[seed] = g
-		for k := 0; k < len(members); k++ {
-			t := tris[members[k]]
-			for e := 0; e < 3; e++ {
-				o, ok := owner[edgeKey{t[(e+1)%3], t[e]}]
-				if !ok || group[o] >= 0 || normal[o].Dot(n) < 0.5 {
-					continue
-				}
-				flat := true
-				for _, v := range tris[o] {
-					if math.Abs(n.Dot(pts[v])-off) > mergeTol {
-						flat = false
-						break
-					}
-				}
-				if flat {
-					group[o] = g
-					members = append(members, o)
+		groups = append(groups, a.growGroup(seed, len(groups), mergeTol))
+	}
+	return groups
+}
+
+// growGroup makes group g of the seed triangle and its neighbours, and
+// theirs, that lie within mergeTol of the seed's plane.
+func (a *hullTriangles) growGroup(seed, g int, mergeTol float64) []int {
+	n := a.normal[seed]
+	off := n.Dot(a.pts[a.tris[seed][0]])
+	members := []int{seed}
+	a.group[seed] = g
+	for k := 0; k < len(members); k++ {
+		t := a.tris[members[k]]
+		for e := 0; e < 3; e++ {
+			o, ok := a.owner[hullEdge{t[(e+1)%3], t[e]}]
+			if !ok || a.group[o] >= 0 || a.normal[o].Dot(n) < 0.5 {
+				continue
+			}
+			flat := true
+			for _, v := range a.tris[o] {
+				if math.Abs(n.Dot(a.pts[v])-off) > mergeTol {
+					flat = false
+					break
 				}
 			}
+			if flat {
+				a.group[o] = g
+				members = append(members, o)
+			}
 		}
-		groups = append(groups, members)
 	}
-	// Boundary loop of each group: directed edges whose twin lies in another group.
-	type loop struct {
-		verts  []int
-		normal Vec3
-	}
-	loops := make([]loop, 0, len(groups))
+	return members
+}
+
+// hullLoop is the boundary of a group of coplanar triangles, with its
+// polygon's normal.
+type hullLoop struct {
+	verts  []int
+	normal Vec3
+}
+
+// boundaryLoops returns the boundary loop of each group: the directed
+// edges whose twin lies in another group.
+func (a *hullTriangles) boundaryLoops(groups [][]int) []hullLoop {
+	loops := make([]hullLoop, 0, len(groups))
 	for g, members := range groups {
 		next := make(map[int]int)
 		start := -1
 		for _, m := range members {
-			t := tris[m]
+			t := a.tris[m]
 			for e := 0; e < 3; e++ {
-				a, b := t[e], t[(e+1)%3]
-				if o, ok := owner[edgeKey{b, a}]; ok && group[o] == g {
+				v, w := t[e], t[(e+1)%3]
+				if o, ok := a.owner[hullEdge{w, v}]; ok && a.group[o] == g {
 					continue
 				}
-				next[a] = b
-				if start < 0 || a < start {
-					start = a
+				next[v] = w
+				if start < 0 || v < start {
+					start = v
 				}
 			}
 		}
@@ -433,18 +473,29 @@ func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
 				break
 			}
 		}
-		// Newell's normal of the polygon, area-weighted and robust.
-		var nn Vec3
-		for i := range vs {
-			p, q := pts[vs[i]], pts[vs[(i+1)%len(vs)]]
-			nn[0] += (p[1] - q[1]) * (p[2] + q[2])
-			nn[1] += (p[2] - q[2]) * (p[0] + q[0])
-			nn[2] += (p[0] - q[0]) * (p[1] + q[1])
-		}
-		loops = append(loops, loop{verts: vs, normal: nn.Normalize()})
+		loops = append(loops, hullLoop{verts: vs, normal: newellNormal(a.pts, vs)})
 	}
-	// A corner of a polyhedron touches at least three faces; vertices on two
-	// faces only lie on a straight edge and are dropped.
+	return loops
+}
+
+// newellNormal is Newell's normal of the polygon vs, area-weighted and
+// robust, normalised.
+func newellNormal(pts []Vec3, vs []int) Vec3 {
+	var nn Vec3
+	for i := range vs {
+		p, q := pts[vs[i]], pts[vs[(i+1)%len(vs)]]
+		nn[0] += (p[1] - q[1]) * (p[2] + q[2])
+		nn[1] += (p[2] - q[2]) * (p[0] + q[0])
+		nn[2] += (p[0] - q[0]) * (p[1] + q[1])
+	}
+	return nn.Normalize()
+}
+
+// hullOfLoops makes the hull's vertices and faces from the loops. A corner
+// of a polyhedron touches at least three faces; vertices on two faces only
+// lie on a straight edge and are dropped. It returns the hull and the map
+// from a point to its vertex.
+func hullOfLoops(loops []hullLoop, orig []Vec3) (*Hull, map[int]int32) {
 	faceCount := make(map[int]int)
 	for _, l := range loops {
 		for _, v := range l.verts {
@@ -487,10 +538,7 @@ func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
 		f.Offset = off / float64(len(f.Verts))
 		h.Faces = append(h.Faces, f)
 	}
-	sortFaces(h.Faces)
-	buildAdjacency(h)
-	buildClimbGraph(h, tris, len(pts), remap, 2*mergeTol)
-	return h
+	return h, remap
 }
 
 // sortFaces orders faces by dominant normal axis, then positive before
