@@ -102,6 +102,10 @@ type quickhull struct {
 	tol   float64
 	faces []qhFace
 	stamp int
+	// Scratch of addEye, reused from point to point.
+	visible    []int
+	horizon    [][2]int // directed edges (from, to) seen from the new faces
+	horizonAdj []int    // the surviving face across each horizon edge
 }
 
 func (q *quickhull) dist(f *qhFace, p Vec3) float64 { return f.normal.Dot(p) - f.offset }
@@ -169,9 +173,48 @@ func (q *quickhull) initialSimplex() ([4]int, error) {
 }
 
 func (q *quickhull) run() ([][3]int, error) {
+	if err := q.startTetrahedron(); err != nil {
+		return nil, err
+	}
+	// Outside points only ever go to newly appended faces, so faces before
+	// the cursor never need another look.
+	cursor := 0
+	for iter := 0; ; iter++ {
+		if iter > 4*len(q.pts)+16 {
+			return nil, errors.New("quickhull did not terminate")
+		}
+		fi := -1
+		for ; cursor < len(q.faces); cursor++ {
+			if !q.faces[cursor].dead && len(q.faces[cursor].outside) > 0 {
+				fi = cursor
+				break
+			}
+		}
+		if fi < 0 {
+			break
+		}
+		if err := q.addEye(fi); err != nil {
+			return nil, err
+		}
+		if len(q.faces) > 64*len(q.pts)+64 {
+			return nil, errors.New("quickhull created too many faces")
+		}
+	}
+	var tris [][3]int
+	for _, f := range q.faces {
+		if !f.dead {
+			tris = append(tris, f.v)
+		}
+	}
+	return tris, nil
+}
+
+// startTetrahedron makes the four faces of the initial simplex, oriented
+// outward, and gives them the other points outside them.
+func (q *quickhull) startTetrahedron() error {
 	s, err := q.initialSimplex()
 	if err != nil {
-		return nil, err
+		return err
 	}
 	// Orient the tetrahedron outward: s[3] must lie below face (0,1,2).
 	p0, p1, p2, p3 := q.pts[s[0]], q.pts[s[1]], q.pts[s[2]], q.pts[s[3]]
@@ -197,115 +240,107 @@ func (q *quickhull) run() ([][3]int, error) {
 		}
 	}
 	q.assign(all, []int{f0, f1, f2, f3})
+	return nil
+}
 
-	var horizon [][2]int // directed edges (from, to) seen from the new faces
-	var horizonAdj []int // the surviving face across each horizon edge
-	var visible []int
-	// Outside points only ever go to newly appended faces, so faces before
-	// the cursor never need another look.
-	cursor := 0
-	for iter := 0; ; iter++ {
-		if iter > 4*len(q.pts)+16 {
-			return nil, errors.New("quickhull did not terminate")
-		}
-		fi := -1
-		for ; cursor < len(q.faces); cursor++ {
-			if !q.faces[cursor].dead && len(q.faces[cursor].outside) > 0 {
-				fi = cursor
-				break
-			}
-		}
-		if fi < 0 {
-			break
-		}
-		// The eye point is the outside point farthest from the face.
-		f := &q.faces[fi]
-		eye, bestD := -1, -1.0
-		for _, p := range f.outside {
-			if dd := q.dist(f, q.pts[p]); dd > bestD {
-				eye, bestD = p, dd
-			}
-		}
-		ep := q.pts[eye]
-		// Visible faces by a flood fill from fi.
-		q.stamp++
-		visible = visible[:0]
-		horizon = horizon[:0]
-		horizonAdj = horizonAdj[:0]
-		stack := []int{fi}
-		q.faces[fi].visit = q.stamp
-		for len(stack) > 0 {
-			g := stack[len(stack)-1]
-			stack = stack[:len(stack)-1]
-			visible = append(visible, g)
-			for e := 0; e < 3; e++ {
-				n := q.faces[g].adj[e]
-				if q.faces[n].visit == q.stamp {
-					continue
-				}
-				if q.dist(&q.faces[n], ep) > q.tol {
-					q.faces[n].visit = q.stamp
-					stack = append(stack, n)
-				}
-			}
-		}
-		for _, g := range visible {
-			for e := 0; e < 3; e++ {
-				n := q.faces[g].adj[e]
-				if q.faces[n].visit != q.stamp {
-					horizon = append(horizon, [2]int{q.faces[g].v[e], q.faces[g].v[(e+1)%3]})
-					horizonAdj = append(horizonAdj, n)
-				}
-			}
-		}
-		// The horizon must be one simple loop: each vertex starts exactly one edge.
-		startAt := make(map[int]int, len(horizon))
-		for i, h := range horizon {
-			if _, dup := startAt[h[0]]; dup {
-				return nil, errors.New("horizon is not a simple loop")
-			}
-			startAt[h[0]] = i
-		}
-		newFaces := make([]int, len(horizon))
-		for i, h := range horizon {
-			nf := q.newFace(h[0], h[1], eye)
-			newFaces[i] = nf
-			// Edge 0 (h0 -> h1) borders the surviving face.
-			n := horizonAdj[i]
-			for e := 0; e < 3; e++ {
-				if q.faces[n].v[e] == h[1] && q.faces[n].v[(e+1)%3] == h[0] {
-					q.faces[n].adj[e] = nf
-				}
-			}
-			q.faces[nf].adj[0] = n
-		}
-		for i, h := range horizon {
-			// Edge 1 (h1 -> eye) borders the new face whose horizon edge starts at h1.
-			j, ok := startAt[h[1]]
-			if !ok {
-				return nil, errors.New("horizon is not closed")
-			}
-			q.faces[newFaces[i]].adj[1] = newFaces[j]
-			q.faces[newFaces[j]].adj[2] = newFaces[i]
-		}
-		var orphans []int
-		for _, g := range visible {
-			q.faces[g].dead = true
-			orphans = append(orphans, q.faces[g].outside...)
-			q.faces[g].outside = nil
-		}
-		q.assign(orphans, newFaces)
-		if len(q.faces) > 64*len(q.pts)+64 {
-			return nil, errors.New("quickhull created too many faces")
+// addEye adds to the hull the outside point of face fi farthest from it
+// (the eye): it removes the faces the eye sees, closes the hole with a fan
+// of faces from the eye to the horizon, and gives those the orphaned
+// outside points.
+func (q *quickhull) addEye(fi int) error {
+	f := &q.faces[fi]
+	eye, bestD := -1, -1.0
+	for _, p := range f.outside {
+		if dd := q.dist(f, q.pts[p]); dd > bestD {
+			eye, bestD = p, dd
 		}
 	}
-	var tris [][3]int
-	for _, f := range q.faces {
-		if !f.dead {
-			tris = append(tris, f.v)
+	q.findHorizon(fi, q.pts[eye])
+	newFaces, err := q.fan(eye)
+	if err != nil {
+		return err
+	}
+	var orphans []int
+	for _, g := range q.visible {
+		q.faces[g].dead = true
+		orphans = append(orphans, q.faces[g].outside...)
+		q.faces[g].outside = nil
+	}
+	q.assign(orphans, newFaces)
+	return nil
+}
+
+// findHorizon sets q.visible to the faces the point ep sees, by a flood
+// fill from fi, and q.horizon to the directed edges (from, to) between
+// them and the rest, seen from the new faces, with q.horizonAdj the
+// surviving face across each.
+func (q *quickhull) findHorizon(fi int, ep Vec3) {
+	q.stamp++
+	q.visible = q.visible[:0]
+	q.horizon = q.horizon[:0]
+	q.horizonAdj = q.horizonAdj[:0]
+	stack := []int{fi}
+	q.faces[fi].visit = q.stamp
+	for len(stack) > 0 {
+		g := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
+		q.visible = append(q.visible, g)
+		for e := 0; e < 3; e++ {
+			n := q.faces[g].adj[e]
+			if q.faces[n].visit == q.stamp {
+				continue
+			}
+			if q.dist(&q.faces[n], ep) > q.tol {
+				q.faces[n].visit = q.stamp
+				stack = append(stack, n)
+			}
 		}
 	}
-	return tris, nil
+	for _, g := range q.visible {
+		for e := 0; e < 3; e++ {
+			n := q.faces[g].adj[e]
+			if q.faces[n].visit != q.stamp {
+				q.horizon = append(q.horizon, [2]int{q.faces[g].v[e], q.faces[g].v[(e+1)%3]})
+				q.horizonAdj = append(q.horizonAdj, n)
+			}
+		}
+	}
+}
+
+// fan makes a face from each horizon edge to the eye and links the faces
+// to the surviving ones and to each other. It returns the new faces.
+func (q *quickhull) fan(eye int) ([]int, error) {
+	// The horizon must be one simple loop: each vertex starts exactly one edge.
+	startAt := make(map[int]int, len(q.horizon))
+	for i, h := range q.horizon {
+		if _, dup := startAt[h[0]]; dup {
+			return nil, errors.New("horizon is not a simple loop")
+		}
+		startAt[h[0]] = i
+	}
+	newFaces := make([]int, len(q.horizon))
+	for i, h := range q.horizon {
+		nf := q.newFace(h[0], h[1], eye)
+		newFaces[i] = nf
+		// Edge 0 (h0 -> h1) borders the surviving face.
+		n := q.horizonAdj[i]
+		for e := 0; e < 3; e++ {
+			if q.faces[n].v[e] == h[1] && q.faces[n].v[(e+1)%3] == h[0] {
+				q.faces[n].adj[e] = nf
+			}
+		}
+		q.faces[nf].adj[0] = n
+	}
+	for i, h := range q.horizon {
+		// Edge 1 (h1 -> eye) borders the new face whose horizon edge starts at h1.
+		j, ok := startAt[h[1]]
+		if !ok {
+			return nil, errors.New("horizon is not closed")
+		}
+		q.faces[newFaces[i]].adj[1] = newFaces[j]
+		q.faces[newFaces[j]].adj[2] = newFaces[i]
+	}
+	return newFaces, nil
 }
 
 func (q *quickhull) link(f int, e int, g int) {
