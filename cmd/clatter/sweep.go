@@ -162,27 +162,9 @@ func runSweep(e *env, args []string) int {
 		e.errorf("sweep: -j must be a positive number of workers, got %d", *workers)
 		return exitBad
 	}
-	var shard sweep.Shard
-	var err error
-	if *shardText != "" {
-		shard, err = sweep.ParseShard(*shardText)
-		if err != nil {
-			e.errorf("sweep: --shard: %v", err)
-			return exitBad
-		}
-	} else {
-		var source string
-		shard, source, err = sweep.ShardFromEnv(os.Getenv, *shardCount)
-		if err != nil {
-			e.errorf("sweep: %v", err)
-			return exitBad
-		}
-		if source != "" {
-			e.infof("shard %s, from %s", shard, source)
-		} else if *shardCount > 0 {
-			e.errorf("sweep: --shard-count goes with a Kubernetes Indexed Job (JOB_COMPLETION_INDEX), which is not set; give --shard K/N instead")
-			return exitBad
-		}
+	shard, ok := sweepShard(e, *shardText, *shardCount)
+	if !ok {
+		return exitBad
 	}
 	st, err := sweep.Open(pos[0])
 	if err != nil {
@@ -201,16 +183,59 @@ func runSweep(e *env, args []string) int {
 	p := newTrialProgress(e)
 	info, err := st.Run(e.ctx, sweep.Options{Dir: *dir, Workers: *workers, Shard: shard, Resume: *resume, Version: toolVersion, Progress: p.update, Lock: lock})
 	p.done()
+	tellRun(e, info, err, *dir)
+	if err != nil {
+		return sweepFailed(e, err, *dir)
+	}
+	res, err := sweep.Finish(*dir)
+	if err != nil {
+		return sweepFailed(e, err, *dir)
+	}
+	writeSweepTable(e.stdout, res)
+	return sweepOutcome(e, res)
+}
+
+// sweepShard works out the part of the study this process runs: from
+// --shard K/N, else from a Kubernetes Indexed Job's environment
+// (--shard-count), else all of it. It reports false, having said why, on
+// bad input.
+func sweepShard(e *env, text string, count int) (sweep.Shard, bool) {
+	if text != "" {
+		shard, err := sweep.ParseShard(text)
+		if err != nil {
+			e.errorf("sweep: --shard: %v", err)
+			return shard, false
+		}
+		return shard, true
+	}
+	shard, source, err := sweep.ShardFromEnv(os.Getenv, count)
+	if err != nil {
+		e.errorf("sweep: %v", err)
+		return shard, false
+	}
+	if source != "" {
+		e.infof("shard %s, from %s", shard, source)
+	} else if count > 0 {
+		e.errorf("sweep: --shard-count goes with a Kubernetes Indexed Job (JOB_COMPLETION_INDEX), which is not set; give --shard K/N instead")
+		return shard, false
+	}
+	return shard, true
+}
+
+// tellRun says on stderr what a run of the study's trials into dir did:
+// rows it dropped, trials resumed, and the rate of the trials it ran
+// (these only if it succeeded, err nil).
+func tellRun(e *env, info *sweep.RunInfo, err error, dir string) {
 	if info != nil {
 		if info.Torn {
-			e.infof("dropped the last row of %s, cut off when the sweep stopped; that trial runs again", filepath.Join(*dir, sweep.TrialsFile))
+			e.infof("dropped the last row of %s, cut off when the sweep stopped; that trial runs again", filepath.Join(dir, sweep.TrialsFile))
 		}
 		if info.Dropped > 0 {
-			e.errorf("warning: %d rows of %s were not part of a complete trial and are left out; those trials run again", info.Dropped, filepath.Join(*dir, sweep.TrialsFile))
+			e.errorf("warning: %d rows of %s were not part of a complete trial and are left out; those trials run again", info.Dropped, filepath.Join(dir, sweep.TrialsFile))
 		}
 	}
 	if err != nil {
-		return sweepFailed(e, err, *dir)
+		return
 	}
 	if info.Skipped > 0 {
 		e.infof("resumed: %d of %d trials were done; ran the other %d", info.Skipped, info.Total, info.Ran)
@@ -219,12 +244,6 @@ func runSweep(e *env, args []string) int {
 		rate := float64(info.Ran) / math.Max(info.Elapsed.Seconds(), 1e-9)
 		e.infof("ran %d trials in %s (%.4g trials/s)", info.Ran, info.Elapsed.Round(time.Millisecond), rate)
 	}
-	res, err := sweep.Finish(*dir)
-	if err != nil {
-		return sweepFailed(e, err, *dir)
-	}
-	writeSweepTable(e.stdout, res)
-	return sweepOutcome(e, res)
 }
 
 func runMerge(e *env, args []string) int {
