@@ -166,13 +166,9 @@ func runSweep(e *env, args []string) int {
 	if !ok {
 		return exitBad
 	}
-	st, err := sweep.Open(pos[0])
-	if err != nil {
-		fmt.Fprintln(e.stderr, err)
+	st, ok := openStudy(e, pos[0])
+	if !ok {
 		return exitBad
-	}
-	for _, w := range st.Warnings {
-		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
 	// The folder is held from the first trial to the last plot.
 	lock, err := sweep.LockFolder(*dir)
@@ -193,6 +189,18 @@ func runSweep(e *env, args []string) int {
 	}
 	writeSweepTable(e.stdout, res)
 	return sweepOutcome(e, res)
+}
+
+// openStudy reads the study file at path and prints its warnings; it
+// reports false, having printed the error, if the file is bad.
+func openStudy(e *env, path string) (*sweep.Study, bool) {
+	st, err := sweep.Open(path)
+	if err != nil {
+		fmt.Fprintln(e.stderr, err)
+		return nil, false
+	}
+	e.warn(st.Warnings)
+	return st, true
 }
 
 // sweepShard works out the part of the study this process runs: from
