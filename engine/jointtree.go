@@ -237,20 +237,33 @@ const treeRegularization = 1e-10
 // buildTree picks the forest, orders it and factors H. It reports false
 // if there is nothing to do or a block is not definite.
 func (w *World) buildTree() bool {
-	c := &w.collision
 	t := &w.mech.tree
-	bodies := c.bodies
-	nb := len(bodies)
-	joints := w.mech.joints
 	t.nodes = t.nodes[:0]
-	t.bodyOf = growFill(t.bodyOf, nb, -1)
-	inTree := func(jt *joint) bool { return jt.count > 0 && jt.eqCount > 0 && !jt.loop }
+	t.bodyOf = growFill(t.bodyOf, len(w.collision.bodies), -1)
+	if !w.treeAdjacency() {
+		return false
+	}
+	w.orderTree()
+	w.treeDiagonals()
+	return w.eliminateTree()
+}
+
+// inTree reports whether a joint is a node of the forest: it has rows
+// this step, equality rows among them, and closes no loop.
+func inTree(jt *joint) bool { return jt.count > 0 && jt.eqCount > 0 && !jt.loop }
+
+// treeAdjacency picks the rows of the forest's joints and lists the joints
+// of each moving body (CSR, counting sort by body). It reports false if no
+// joint is in the forest.
+func (w *World) treeAdjacency() bool {
+	t := &w.mech.tree
+	nb := len(w.collision.bodies)
+	joints := w.mech.joints
 	for j := range joints {
 		if jt := &joints[j]; inTree(jt) {
 			w.pickNodeRows(jt)
 		}
 	}
-	// Adjacency of the moving bodies (CSR, counting sort by body).
 	t.adjAt = growFill(t.adjAt, nb+1, 0)
 	any := false
 	for j := range joints {
@@ -281,36 +294,18 @@ func (w *World) buildTree() bool {
 			}
 		}
 	}
-	// Breadth-first, parents before children, from a root in each group:
-	// a joint to a fixed body if the group has one, else its first body. A
-	// joint to a fixed body that is a leaf has a block of nearly zero (its
-	// regularisation) to eliminate, which costs digits; as the root it is
-	// eliminated last, from a block its children have filled.
+	return true
+}
+
+// orderTree lays out the nodes breadth-first, parents before children,
+// from a root in each group: a joint to a fixed body if the group has one,
+// else its first body. A joint to a fixed body that is a leaf has a block
+// of nearly zero (its regularisation) to eliminate, which costs digits; as
+// the root it is eliminated last, from a block its children have filled.
+func (w *World) orderTree() {
+	t := &w.mech.tree
+	joints := w.mech.joints
 	t.seen = growFill(t.seen, len(joints), false)
-	grow := func() {
-		for q := len(t.nodes) - 1; q < len(t.nodes); q++ {
-			if b := t.nodes[q].body; b >= 0 {
-				for _, j := range t.adj[t.adjAt[b]:t.adjAt[b+1]] {
-					if t.seen[j] {
-						continue
-					}
-					t.seen[j] = true
-					jt := &joints[j]
-					nd := t.push(-1, j, nodeSize(jt), int32(q))
-					nd.m = w.jacobianOf(jt, b, &nd.jac)
-				}
-				continue
-			}
-			jt := &joints[t.nodes[q].joint]
-			for _, id := range [2]BodyID{jt.a, jt.b} {
-				if b := int32(id); w.jointFree(id) && t.bodyOf[b] < 0 {
-					t.bodyOf[b] = int32(len(t.nodes))
-					nd := t.push(b, -1, 6, int32(q))
-					nd.m = w.jacobianOf(jt, b, &nd.jac)
-				}
-			}
-		}
-	}
 	for j := range joints {
 		jt := &joints[j]
 		if !inTree(jt) || w.jointFree(jt.a) == w.jointFree(jt.b) {
@@ -325,20 +320,55 @@ func (w *World) buildTree() bool {
 		}
 		t.seen[j] = true
 		t.push(-1, int32(j), nodeSize(jt), -1)
-		grow()
+		w.growTree()
 	}
-	for root := int32(0); root < int32(nb); root++ {
+	for root := int32(0); root < int32(len(w.collision.bodies)); root++ {
 		if t.bodyOf[root] >= 0 || t.adjAt[root] == t.adjAt[root+1] {
 			continue
 		}
 		t.bodyOf[root] = int32(len(t.nodes))
 		t.push(root, -1, 6, -1)
-		grow()
+		w.growTree()
 	}
-	// The diagonal blocks. All blocks are stored 6 x 6 (row-major): a
-	// joint of m < 6 rows is padded with zero rows and columns of H and a
-	// -1 on the diagonal of its block, which keeps the padding out of every
-	// product and lets the loops run to a constant bound.
+}
+
+// growTree adds, breadth-first from the last node pushed, the joints and
+// bodies not yet in the forest that hang below it.
+func (w *World) growTree() {
+	t := &w.mech.tree
+	joints := w.mech.joints
+	for q := len(t.nodes) - 1; q < len(t.nodes); q++ {
+		if b := t.nodes[q].body; b >= 0 {
+			for _, j := range t.adj[t.adjAt[b]:t.adjAt[b+1]] {
+				if t.seen[j] {
+					continue
+				}
+				t.seen[j] = true
+				jt := &joints[j]
+				nd := t.push(-1, j, nodeSize(jt), int32(q))
+				nd.m = w.jacobianOf(jt, b, &nd.jac)
+			}
+			continue
+		}
+		jt := &joints[t.nodes[q].joint]
+		for _, id := range [2]BodyID{jt.a, jt.b} {
+			if b := int32(id); w.jointFree(id) && t.bodyOf[b] < 0 {
+				t.bodyOf[b] = int32(len(t.nodes))
+				nd := t.push(b, -1, 6, int32(q))
+				nd.m = w.jacobianOf(jt, b, &nd.jac)
+			}
+		}
+	}
+}
+
+// treeDiagonals sets the diagonal blocks. All blocks are stored 6 x 6
+// (row-major): a joint of m < 6 rows is padded with zero rows and columns
+// of H and a -1 on the diagonal of its block, which keeps the padding out
+// of every product and lets the loops run to a constant bound.
+func (w *World) treeDiagonals() {
+	c := &w.collision
+	t := &w.mech.tree
+	bodies := c.bodies
 	for i := range t.nodes {
 		nd := &t.nodes[i]
 		nd.d = mat6{}
@@ -352,7 +382,7 @@ func (w *World) buildTree() bool {
 				}
 			}
 		} else {
-			jt := &joints[nd.joint]
+			jt := &w.mech.joints[nd.joint]
 			for k := 0; k < 6; k++ {
 				nd.d[k*6+k] = -1
 				if k < nd.size {
@@ -362,7 +392,12 @@ func (w *World) buildTree() bool {
 			}
 		}
 	}
-	// Eliminate from the leaves up (children come after their parents).
+}
+
+// eliminateTree factors H from the leaves up (children come after their
+// parents). It reports false if a block is not definite.
+func (w *World) eliminateTree() bool {
+	t := &w.mech.tree
 	for q := len(t.nodes) - 1; q >= 0; q-- {
 		nd := &t.nodes[q]
 		sign := 1.0

@@ -125,6 +125,29 @@ func PolyhedronMass(verts []Vec3, tris [][3]int32, density float64) (Mass, error
 		return Mass{}, errors.New("shapes: empty mesh has no mass")
 	}
 	o := verts[tris[0][0]]
+	intg, err := polyhedronIntegrals(verts, tris, o)
+	if err != nil {
+		return Mass{}, err
+	}
+	vol := intg[0]
+	if !(vol > 0) || math.IsInf(vol, 0) {
+		return Mass{}, fmt.Errorf("shapes: mesh encloses no positive volume (%g); is it closed and outward-facing?", vol)
+	}
+	c := Vec3{intg[1] / vol, intg[2] / vol, intg[3] / vol}
+	// Second moments about the shifted origin, then about the centre of mass.
+	xx := intg[5] + intg[6] - vol*(c[1]*c[1]+c[2]*c[2])
+	yy := intg[4] + intg[6] - vol*(c[2]*c[2]+c[0]*c[0])
+	zz := intg[4] + intg[5] - vol*(c[0]*c[0]+c[1]*c[1])
+	xy := -(intg[7] - vol*c[0]*c[1])
+	yz := -(intg[8] - vol*c[1]*c[2])
+	xz := -(intg[9] - vol*c[2]*c[0])
+	in := Mat3{xx, xy, xz, xy, yy, yz, xz, yz, zz}.Mul(density)
+	return Mass{Volume: vol, Mass: density * vol, Center: c.Add(o), Inertia: in}, nil
+}
+
+// polyhedronIntegrals returns the integrals over the solid of 1, x, y, z,
+// x2, y2, z2, xy, yz and zx, about the origin o, summed over the triangles.
+func polyhedronIntegrals(verts []Vec3, tris [][3]int32, o Vec3) ([10]float64, error) {
 	const (
 		m1 = 1.0 / 6
 		m2 = 1.0 / 24
@@ -135,7 +158,7 @@ func PolyhedronMass(verts []Vec3, tris [][3]int32, density float64) (Mass, error
 	nv := len(verts)
 	for _, t := range tris {
 		if int(t[0]) >= nv || int(t[1]) >= nv || int(t[2]) >= nv || t[0] < 0 || t[1] < 0 || t[2] < 0 {
-			return Mass{}, fmt.Errorf("shapes: triangle %v indexes past the %d vertices", t, nv)
+			return intg, fmt.Errorf("shapes: triangle %v indexes past the %d vertices", t, nv)
 		}
 		v0, v1, v2 := &verts[t[0]], &verts[t[1]], &verts[t[2]]
 		x0, y0, z0 := v0[0]-o[0], v0[1]-o[1], v0[2]-o[2]
@@ -145,28 +168,9 @@ func PolyhedronMass(verts []Vec3, tris [][3]int32, density float64) (Mass, error
 		ax, ay, az := x1-x0, y1-y0, z1-z0
 		bx, by, bz := x2-x0, y2-y0, z2-z0
 		dx, dy, dz := ay*bz-az*by, az*bx-ax*bz, ax*by-ay*bx
-		// Eberly's subexpressions, written out per axis.
-		t0 := x0 + x1
-		f1x := t0 + x2
-		t1 := x0 * x0
-		t2 := t1 + x1*t0
-		f2x := t2 + x2*f1x
-		f3x := x0*t1 + x1*t2 + x2*f2x
-		g0x, g1x, g2x := f2x+x0*(f1x+x0), f2x+x1*(f1x+x1), f2x+x2*(f1x+x2)
-		t0 = y0 + y1
-		f1y := t0 + y2
-		t1 = y0 * y0
-		t2 = t1 + y1*t0
-		f2y := t2 + y2*f1y
-		f3y := y0*t1 + y1*t2 + y2*f2y
-		g0y, g1y, g2y := f2y+y0*(f1y+y0), f2y+y1*(f1y+y1), f2y+y2*(f1y+y2)
-		t0 = z0 + z1
-		f1z := t0 + z2
-		t1 = z0 * z0
-		t2 = t1 + z1*t0
-		f2z := t2 + z2*f1z
-		f3z := z0*t1 + z1*t2 + z2*f2z
-		g0z, g1z, g2z := f2z+z0*(f1z+z0), f2z+z1*(f1z+z1), f2z+z2*(f1z+z2)
+		f1x, f2x, f3x, g0x, g1x, g2x := eberlyTerms(x0, x1, x2)
+		_, f2y, f3y, g0y, g1y, g2y := eberlyTerms(y0, y1, y2)
+		_, f2z, f3z, g0z, g1z, g2z := eberlyTerms(z0, z1, z2)
 		intg[0] += dx * f1x
 		intg[1] += dx * f2x
 		intg[2] += dy * f2y
@@ -188,18 +192,18 @@ func PolyhedronMass(verts []Vec3, tris [][3]int32, density float64) (Mass, error
 	intg[7] *= m4
 	intg[8] *= m4
 	intg[9] *= m4
-	vol := intg[0]
-	if !(vol > 0) || math.IsInf(vol, 0) {
-		return Mass{}, fmt.Errorf("shapes: mesh encloses no positive volume (%g); is it closed and outward-facing?", vol)
-	}
-	c := Vec3{intg[1] / vol, intg[2] / vol, intg[3] / vol}
-	// Second moments about the shifted origin, then about the centre of mass.
-	xx := intg[5] + intg[6] - vol*(c[1]*c[1]+c[2]*c[2])
-	yy := intg[4] + intg[6] - vol*(c[2]*c[2]+c[0]*c[0])
-	zz := intg[4] + intg[5] - vol*(c[0]*c[0]+c[1]*c[1])
-	xy := -(intg[7] - vol*c[0]*c[1])
-	yz := -(intg[8] - vol*c[1]*c[2])
-	xz := -(intg[9] - vol*c[2]*c[0])
-	in := Mat3{xx, xy, xz, xy, yy, yz, xz, yz, zz}.Mul(density)
-	return Mass{Volume: vol, Mass: density * vol, Center: c.Add(o), Inertia: in}, nil
+	return intg, nil
+}
+
+// eberlyTerms are Eberly's subexpressions of one coordinate w of a
+// triangle's three vertices.
+func eberlyTerms(w0, w1, w2 float64) (f1, f2, f3, g0, g1, g2 float64) {
+	t0 := w0 + w1
+	f1 = t0 + w2
+	t1 := w0 * w0
+	t2 := t1 + w1*t0
+	f2 = t2 + w2*f1
+	f3 = w0*t1 + w1*t2 + w2*f2
+	g0, g1, g2 = f2+w0*(f1+w0), f2+w1*(f1+w1), f2+w2*(f1+w2)
+	return f1, f2, f3, g0, g1, g2
 }

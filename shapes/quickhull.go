@@ -102,6 +102,10 @@ type quickhull struct {
 	tol   float64
 	faces []qhFace
 	stamp int
+	// Scratch of addEye, reused from point to point.
+	visible    []int
+	horizon    [][2]int // directed edges (from, to) seen from the new faces
+	horizonAdj []int    // the surviving face across each horizon edge
 }
 
 func (q *quickhull) dist(f *qhFace, p Vec3) float64 { return f.normal.Dot(p) - f.offset }
@@ -169,9 +173,48 @@ func (q *quickhull) initialSimplex() ([4]int, error) {
 }
 
 func (q *quickhull) run() ([][3]int, error) {
+	if err := q.startTetrahedron(); err != nil {
+		return nil, err
+	}
+	// Outside points only ever go to newly appended faces, so faces before
+	// the cursor never need another look.
+	cursor := 0
+	for iter := 0; ; iter++ {
+		if iter > 4*len(q.pts)+16 {
+			return nil, errors.New("quickhull did not terminate")
+		}
+		fi := -1
+		for ; cursor < len(q.faces); cursor++ {
+			if !q.faces[cursor].dead && len(q.faces[cursor].outside) > 0 {
+				fi = cursor
+				break
+			}
+		}
+		if fi < 0 {
+			break
+		}
+		if err := q.addEye(fi); err != nil {
+			return nil, err
+		}
+		if len(q.faces) > 64*len(q.pts)+64 {
+			return nil, errors.New("quickhull created too many faces")
+		}
+	}
+	var tris [][3]int
+	for _, f := range q.faces {
+		if !f.dead {
+			tris = append(tris, f.v)
+		}
+	}
+	return tris, nil
+}
+
+// startTetrahedron makes the four faces of the initial simplex, oriented
+// outward, and gives them the other points outside them.
+func (q *quickhull) startTetrahedron() error {
 	s, err := q.initialSimplex()
 	if err != nil {
-		return nil, err
+		return err
 	}
 	// Orient the tetrahedron outward: s[3] must lie below face (0,1,2).
 	p0, p1, p2, p3 := q.pts[s[0]], q.pts[s[1]], q.pts[s[2]], q.pts[s[3]]
@@ -197,115 +240,107 @@ func (q *quickhull) run() ([][3]int, error) {
 		}
 	}
 	q.assign(all, []int{f0, f1, f2, f3})
+	return nil
+}
 
-	var horizon [][2]int // directed edges (from, to) seen from the new faces
-	var horizonAdj []int // the surviving face across each horizon edge
-	var visible []int
-	// Outside points only ever go to newly appended faces, so faces before
-	// the cursor never need another look.
-	cursor := 0
-	for iter := 0; ; iter++ {
-		if iter > 4*len(q.pts)+16 {
-			return nil, errors.New("quickhull did not terminate")
-		}
-		fi := -1
-		for ; cursor < len(q.faces); cursor++ {
-			if !q.faces[cursor].dead && len(q.faces[cursor].outside) > 0 {
-				fi = cursor
-				break
-			}
-		}
-		if fi < 0 {
-			break
-		}
-		// The eye point is the outside point farthest from the face.
-		f := &q.faces[fi]
-		eye, bestD := -1, -1.0
-		for _, p := range f.outside {
-			if dd := q.dist(f, q.pts[p]); dd > bestD {
-				eye, bestD = p, dd
-			}
-		}
-		ep := q.pts[eye]
-		// Visible faces by a flood fill from fi.
-		q.stamp++
-		visible = visible[:0]
-		horizon = horizon[:0]
-		horizonAdj = horizonAdj[:0]
-		stack := []int{fi}
-		q.faces[fi].visit = q.stamp
-		for len(stack) > 0 {
-			g := stack[len(stack)-1]
-			stack = stack[:len(stack)-1]
-			visible = append(visible, g)
-			for e := 0; e < 3; e++ {
-				n := q.faces[g].adj[e]
-				if q.faces[n].visit == q.stamp {
-					continue
-				}
-				if q.dist(&q.faces[n], ep) > q.tol {
-					q.faces[n].visit = q.stamp
-					stack = append(stack, n)
-				}
-			}
-		}
-		for _, g := range visible {
-			for e := 0; e < 3; e++ {
-				n := q.faces[g].adj[e]
-				if q.faces[n].visit != q.stamp {
-					horizon = append(horizon, [2]int{q.faces[g].v[e], q.faces[g].v[(e+1)%3]})
-					horizonAdj = append(horizonAdj, n)
-				}
-			}
-		}
-		// The horizon must be one simple loop: each vertex starts exactly one edge.
-		startAt := make(map[int]int, len(horizon))
-		for i, h := range horizon {
-			if _, dup := startAt[h[0]]; dup {
-				return nil, errors.New("horizon is not a simple loop")
-			}
-			startAt[h[0]] = i
-		}
-		newFaces := make([]int, len(horizon))
-		for i, h := range horizon {
-			nf := q.newFace(h[0], h[1], eye)
-			newFaces[i] = nf
-			// Edge 0 (h0 -> h1) borders the surviving face.
-			n := horizonAdj[i]
-			for e := 0; e < 3; e++ {
-				if q.faces[n].v[e] == h[1] && q.faces[n].v[(e+1)%3] == h[0] {
-					q.faces[n].adj[e] = nf
-				}
-			}
-			q.faces[nf].adj[0] = n
-		}
-		for i, h := range horizon {
-			// Edge 1 (h1 -> eye) borders the new face whose horizon edge starts at h1.
-			j, ok := startAt[h[1]]
-			if !ok {
-				return nil, errors.New("horizon is not closed")
-			}
-			q.faces[newFaces[i]].adj[1] = newFaces[j]
-			q.faces[newFaces[j]].adj[2] = newFaces[i]
-		}
-		var orphans []int
-		for _, g := range visible {
-			q.faces[g].dead = true
-			orphans = append(orphans, q.faces[g].outside...)
-			q.faces[g].outside = nil
-		}
-		q.assign(orphans, newFaces)
-		if len(q.faces) > 64*len(q.pts)+64 {
-			return nil, errors.New("quickhull created too many faces")
+// addEye adds to the hull the outside point of face fi farthest from it
+// (the eye): it removes the faces the eye sees, closes the hole with a fan
+// of faces from the eye to the horizon, and gives those the orphaned
+// outside points.
+func (q *quickhull) addEye(fi int) error {
+	f := &q.faces[fi]
+	eye, bestD := -1, -1.0
+	for _, p := range f.outside {
+		if dd := q.dist(f, q.pts[p]); dd > bestD {
+			eye, bestD = p, dd
 		}
 	}
-	var tris [][3]int
-	for _, f := range q.faces {
-		if !f.dead {
-			tris = append(tris, f.v)
+	q.findHorizon(fi, q.pts[eye])
+	newFaces, err := q.fan(eye)
+	if err != nil {
+		return err
+	}
+	var orphans []int
+	for _, g := range q.visible {
+		q.faces[g].dead = true
+		orphans = append(orphans, q.faces[g].outside...)
+		q.faces[g].outside = nil
+	}
+	q.assign(orphans, newFaces)
+	return nil
+}
+
+// findHorizon sets q.visible to the faces the point ep sees, by a flood
+// fill from fi, and q.horizon to the directed edges (from, to) between
+// them and the rest, seen from the new faces, with q.horizonAdj the
+// surviving face across each.
+func (q *quickhull) findHorizon(fi int, ep Vec3) {
+	q.stamp++
+	q.visible = q.visible[:0]
+	q.horizon = q.horizon[:0]
+	q.horizonAdj = q.horizonAdj[:0]
+	stack := []int{fi}
+	q.faces[fi].visit = q.stamp
+	for len(stack) > 0 {
+		g := stack[len(stack)-1]
+		stack = stack[:len(stack)-1]
+		q.visible = append(q.visible, g)
+		for e := 0; e < 3; e++ {
+			n := q.faces[g].adj[e]
+			if q.faces[n].visit == q.stamp {
+				continue
+			}
+			if q.dist(&q.faces[n], ep) > q.tol {
+				q.faces[n].visit = q.stamp
+				stack = append(stack, n)
+			}
 		}
 	}
-	return tris, nil
+	for _, g := range q.visible {
+		for e := 0; e < 3; e++ {
+			n := q.faces[g].adj[e]
+			if q.faces[n].visit != q.stamp {
+				q.horizon = append(q.horizon, [2]int{q.faces[g].v[e], q.faces[g].v[(e+1)%3]})
+				q.horizonAdj = append(q.horizonAdj, n)
+			}
+		}
+	}
+}
+
+// fan makes a face from each horizon edge to the eye and links the faces
+// to the surviving ones and to each other. It returns the new faces.
+func (q *quickhull) fan(eye int) ([]int, error) {
+	// The horizon must be one simple loop: each vertex starts exactly one edge.
+	startAt := make(map[int]int, len(q.horizon))
+	for i, h := range q.horizon {
+		if _, dup := startAt[h[0]]; dup {
+			return nil, errors.New("horizon is not a simple loop")
+		}
+		startAt[h[0]] = i
+	}
+	newFaces := make([]int, len(q.horizon))
+	for i, h := range q.horizon {
+		nf := q.newFace(h[0], h[1], eye)
+		newFaces[i] = nf
+		// Edge 0 (h0 -> h1) borders the surviving face.
+		n := q.horizonAdj[i]
+		for e := 0; e < 3; e++ {
+			if q.faces[n].v[e] == h[1] && q.faces[n].v[(e+1)%3] == h[0] {
+				q.faces[n].adj[e] = nf
+			}
+		}
+		q.faces[nf].adj[0] = n
+	}
+	for i, h := range q.horizon {
+		// Edge 1 (h1 -> eye) borders the new face whose horizon edge starts at h1.
+		j, ok := startAt[h[1]]
+		if !ok {
+			return nil, errors.New("horizon is not closed")
+		}
+		q.faces[newFaces[i]].adj[1] = newFaces[j]
+		q.faces[newFaces[j]].adj[2] = newFaces[i]
+	}
+	return newFaces, nil
 }
 
 func (q *quickhull) link(f int, e int, g int) {
@@ -341,87 +376,127 @@ func (q *quickhull) assign(points []int, faces []int) {
 // Geometry is computed on the centred points pts; the hull's vertices are
 // the caller's original points orig, exactly.
 func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
+	a := newTriangles(pts, tris)
+	groups := a.groupCoplanar(mergeTol)
+	h, remap := hullOfLoops(a.boundaryLoops(groups), orig)
+	sortFaces(h.Faces)
+	buildAdjacency(h)
+	buildClimbGraph(h, tris, len(pts), remap, 2*mergeTol)
+	return h
+}
+
+// hullEdge is a directed edge between two points.
+type hullEdge struct{ a, b int }
+
+// hullTriangles are the triangles of a hull with their adjacency, unit
+// normals and areas, and the group of coplanar triangles each falls in.
+type hullTriangles struct {
+	pts    []Vec3
+	tris   [][3]int
+	owner  map[hullEdge]int // directed edge -> its triangle
+	normal []Vec3
+	area   []float64
+	group  []int
+}
+
+func newTriangles(pts []Vec3, tris [][3]int) *hullTriangles {
 	nt := len(tris)
-	// Triangle adjacency through a map from directed edge to triangle.
-	type edgeKey struct{ a, b int }
-	owner := make(map[edgeKey]int, 3*nt)
+	a := &hullTriangles{pts: pts, tris: tris, owner: make(map[hullEdge]int, 3*nt),
+		normal: make([]Vec3, nt), area: make([]float64, nt)}
 	for i, t := range tris {
 		for e := 0; e < 3; e++ {
-			owner[edgeKey{t[e], t[(e+1)%3]}] = i
+			a.owner[hullEdge{t[e], t[(e+1)%3]}] = i
 		}
 	}
-	normal := make([]Vec3, nt)
-	area := make([]float64, nt)
 	for i, t := range tris {
 		n := pts[t[1]].Sub(pts[t[0]]).Cross(pts[t[2]].Sub(pts[t[0]]))
-		area[i] = n.Len()
-		if area[i] > 0 {
-			normal[i] = n.Mul(1 / area[i])
+		a.area[i] = n.Len()
+		if a.area[i] > 0 {
+			a.normal[i] = n.Mul(1 / a.area[i])
 		}
 	}
-	// Grow groups from the largest triangles first: each group keeps the
-	// plane of its seed, so a finely curved surface never merges into one
-	// bent "face".
+	return a
+}
+
+// groupCoplanar groups the triangles that lie within mergeTol of one
+// plane, growing groups from the largest triangles first: each group keeps
+// the plane of its seed, so a finely curved surface never merges into one
+// bent "face". It returns the members of each group.
+func (a *hullTriangles) groupCoplanar(mergeTol float64) [][]int {
+	nt := len(a.tris)
 	order := make([]int, nt)
 	for i := range order {
 		order[i] = i
 	}
-	sort.SliceStable(order, func(i, j int) bool { return area[order[i]] > area[order[j]] })
-	group := make([]int, nt)
-	for i := range group {
-		group[i] = -1
+	sort.SliceStable(order, func(i, j int) bool { return a.area[order[i]] > a.area[order[j]] })
+	a.group = make([]int, nt)
+	for i := range a.group {
+		a.group[i] = -1
 	}
 	var groups [][]int
 	for _, seed := range order {
-		if group[seed] >= 0 {
+		if a.group[seed] >= 0 {
 			continue
 		}
-		g := len(groups)
-		n := normal[seed]
-		off := n.Dot(pts[tris[seed][0]])
-		members := []int{seed}
-		group[seed] = g
-		for k := 0; k < len(members); k++ {
-			t := tris[members[k]]
-			for e := 0; e < 3; e++ {
-				o, ok := owner[edgeKey{t[(e+1)%3], t[e]}]
-				if !ok || group[o] >= 0 || normal[o].Dot(n) < 0.5 {
-					continue
-				}
-				flat := true
-				for _, v := range tris[o] {
-					if math.Abs(n.Dot(pts[v])-off) > mergeTol {
-						flat = false
-						break
-					}
-				}
-				if flat {
-					group[o] = g
-					members = append(members, o)
+		groups = append(groups, a.growGroup(seed, len(groups), mergeTol))
+	}
+	return groups
+}
+
+// growGroup makes group g of the seed triangle and its neighbours, and
+// theirs, that lie within mergeTol of the seed's plane.
+func (a *hullTriangles) growGroup(seed, g int, mergeTol float64) []int {
+	n := a.normal[seed]
+	off := n.Dot(a.pts[a.tris[seed][0]])
+	members := []int{seed}
+	a.group[seed] = g
+	for k := 0; k < len(members); k++ {
+		t := a.tris[members[k]]
+		for e := 0; e < 3; e++ {
+			o, ok := a.owner[hullEdge{t[(e+1)%3], t[e]}]
+			if !ok || a.group[o] >= 0 || a.normal[o].Dot(n) < 0.5 {
+				continue
+			}
+			flat := true
+			for _, v := range a.tris[o] {
+				if math.Abs(n.Dot(a.pts[v])-off) > mergeTol {
+					flat = false
+					break
 				}
 			}
+			if flat {
+				a.group[o] = g
+				members = append(members, o)
+			}
 		}
-		groups = append(groups, members)
 	}
-	// Boundary loop of each group: directed edges whose twin lies in another group.
-	type loop struct {
-		verts  []int
-		normal Vec3
-	}
-	loops := make([]loop, 0, len(groups))
+	return members
+}
+
+// hullLoop is the boundary of a group of coplanar triangles, with its
+// polygon's normal.
+type hullLoop struct {
+	verts  []int
+	normal Vec3
+}
+
+// boundaryLoops returns the boundary loop of each group: the directed
+// edges whose twin lies in another group.
+func (a *hullTriangles) boundaryLoops(groups [][]int) []hullLoop {
+	loops := make([]hullLoop, 0, len(groups))
 	for g, members := range groups {
 		next := make(map[int]int)
 		start := -1
 		for _, m := range members {
-			t := tris[m]
+			t := a.tris[m]
 			for e := 0; e < 3; e++ {
-				a, b := t[e], t[(e+1)%3]
-				if o, ok := owner[edgeKey{b, a}]; ok && group[o] == g {
+				v, w := t[e], t[(e+1)%3]
+				if o, ok := a.owner[hullEdge{w, v}]; ok && a.group[o] == g {
 					continue
 				}
-				next[a] = b
-				if start < 0 || a < start {
-					start = a
+				next[v] = w
+				if start < 0 || v < start {
+					start = v
 				}
 			}
 		}
@@ -433,18 +508,29 @@ func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
 				break
 			}
 		}
-		// Newell's normal of the polygon, area-weighted and robust.
-		var nn Vec3
-		for i := range vs {
-			p, q := pts[vs[i]], pts[vs[(i+1)%len(vs)]]
-			nn[0] += (p[1] - q[1]) * (p[2] + q[2])
-			nn[1] += (p[2] - q[2]) * (p[0] + q[0])
-			nn[2] += (p[0] - q[0]) * (p[1] + q[1])
-		}
-		loops = append(loops, loop{verts: vs, normal: nn.Normalize()})
+		loops = append(loops, hullLoop{verts: vs, normal: newellNormal(a.pts, vs)})
 	}
-	// A corner of a polyhedron touches at least three faces; vertices on two
-	// faces only lie on a straight edge and are dropped.
+	return loops
+}
+
+// newellNormal is Newell's normal of the polygon vs, area-weighted and
+// robust, normalised.
+func newellNormal(pts []Vec3, vs []int) Vec3 {
+	var nn Vec3
+	for i := range vs {
+		p, q := pts[vs[i]], pts[vs[(i+1)%len(vs)]]
+		nn[0] += (p[1] - q[1]) * (p[2] + q[2])
+		nn[1] += (p[2] - q[2]) * (p[0] + q[0])
+		nn[2] += (p[0] - q[0]) * (p[1] + q[1])
+	}
+	return nn.Normalize()
+}
+
+// hullOfLoops makes the hull's vertices and faces from the loops. A corner
+// of a polyhedron touches at least three faces; vertices on two faces only
+// lie on a straight edge and are dropped. It returns the hull and the map
+// from a point to its vertex.
+func hullOfLoops(loops []hullLoop, orig []Vec3) (*Hull, map[int]int32) {
 	faceCount := make(map[int]int)
 	for _, l := range loops {
 		for _, v := range l.verts {
@@ -487,10 +573,7 @@ func assembleHull(pts, orig []Vec3, tris [][3]int, mergeTol float64) *Hull {
 		f.Offset = off / float64(len(f.Verts))
 		h.Faces = append(h.Faces, f)
 	}
-	sortFaces(h.Faces)
-	buildAdjacency(h)
-	buildClimbGraph(h, tris, len(pts), remap, 2*mergeTol)
-	return h
+	return h, remap
 }
 
 // sortFaces orders faces by dominant normal axis, then positive before

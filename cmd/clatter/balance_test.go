@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -43,10 +42,6 @@ orientation = ` + c.orientation + "\n"
 		if code != exitOK {
 			t.Fatalf("%s: exit %d\n%s", c.want, code, errs)
 		}
-		b, err := os.ReadFile(filepath.Join(out, "summary.json"))
-		if err != nil {
-			t.Fatal(err)
-		}
 		var s struct {
 			Settled bool
 			Bodies  []struct {
@@ -54,9 +49,7 @@ orientation = ` + c.orientation + "\n"
 				Balanced    *string `json:"balanced"`
 			}
 		}
-		if err := json.Unmarshal(b, &s); err != nil {
-			t.Fatal(err)
-		}
+		readJSON(t, filepath.Join(out, "summary.json"), &s)
 		got := s.Bodies[0]
 		if !s.Settled || got.Balanced == nil || *got.Balanced != c.want || got.RestingFace != nil {
 			t.Errorf("%s: settled %v, balanced %v, resting face %v; want settled, %q, no face", c.want, s.Settled, got.Balanced, got.RestingFace, c.want)

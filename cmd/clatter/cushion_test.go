@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"encoding/json"
 	"math"
 	"os"
@@ -82,14 +81,9 @@ func TestExampleCushionedTenDrops(t *testing.T) {
 	if !strings.Contains(out, "peak (g)") {
 		t.Errorf("the drops table lacks the peak column:\n%s", out)
 	}
-	f, err := os.Open(filepath.Join(dir, "drops.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil || len(rows) != 11 {
-		t.Fatalf("drops.csv: %d rows, %v", len(rows), err)
+	rows := readCSV(t, filepath.Join(dir, "drops.csv"))
+	if len(rows) != 11 {
+		t.Fatalf("drops.csv: %d rows", len(rows))
 	}
 	col := map[string]int{}
 	for i, h := range rows[0] {

@@ -81,6 +81,29 @@ func writeDemoTable(w io.Writer, st *demo.Study) {
 	fmt.Fprintln(w, "steel chute, slides off it and falls about 60 mm onto a tray. Which face does it come to rest")
 	fmt.Fprintln(w, "on, and how long does it rattle, as the tray's friction changes?")
 	fmt.Fprintln(w)
+	used := writeDemoRuns(w, st)
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "by tray friction: resting faces (count) and mean time to settle")
+	for _, mu := range demo.Frictions {
+		fmt.Fprintf(w, "  %-5g %s\n", mu, demoFriction(st, mu))
+	}
+	fmt.Fprintln(w)
+	writeDemoFaces(w, st, used)
+	fmt.Fprintf(w, "files in %s: %s and %s (the scene and its part), results.csv, runs/*/ (each run's results,\n",
+		st.Dir, demo.SceneFile, demo.PartFile)
+	fmt.Fprintln(w, "  with start.png and end.png, pictures of its start and end, and its motion in animation.glb)")
+	fmt.Fprintf(w, "try: clatter run %s -o %s\n", filepath.Join(st.Dir, demo.SceneFile), filepath.Join(st.Dir, "single"))
+	fmt.Fprintln(w, "     clatter inspect "+filepath.Join(st.Dir, demo.PartFile)+" --units mm --density \"1.05 g/cm3\"")
+	if len(st.Rows) > 0 {
+		fmt.Fprintln(w, "     clatter report "+st.Rows[0].Dir+"    (a page with the run's tables, pictures and motion)")
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, safetyNote)
+}
+
+// writeDemoRuns writes the table of the demo's runs and returns the faces
+// the part came to rest on.
+func writeDemoRuns(w io.Writer, st *demo.Study) map[int]bool {
 	tw := tabwriter.NewWriter(w, 2, 4, 2, ' ', 0)
 	fmt.Fprintln(tw, "tray friction\tstart (seed)\tresting face\tsettled after (s)\tlargest impact (mm/s)")
 	used := map[int]bool{}
@@ -99,66 +122,60 @@ func writeDemoTable(w io.Writer, st *demo.Study) {
 		fmt.Fprintf(tw, "%g\t%d\t%s\t%s\t%.0f\n", r.Friction, r.Seed, face, at, r.MaxImpact)
 	}
 	tw.Flush()
-	fmt.Fprintln(w)
+	return used
+}
 
-	fmt.Fprintln(w, "by tray friction: resting faces (count) and mean time to settle")
-	for _, mu := range demo.Frictions {
-		counts := map[int]int{}
-		sum, n := 0.0, 0
-		for _, r := range st.Rows {
-			if r.Friction != mu {
-				continue
-			}
-			counts[r.Face]++
-			if r.SettledAt >= 0 {
-				sum += r.SettledAt
-				n++
-			}
+// demoFriction sums up the demo's runs at tray friction mu: the resting
+// faces with their counts and the mean time to settle.
+func demoFriction(st *demo.Study, mu float64) string {
+	counts := map[int]int{}
+	sum, n := 0.0, 0
+	for _, r := range st.Rows {
+		if r.Friction != mu {
+			continue
 		}
-		var keys []int
-		for k := range counts {
-			keys = append(keys, k)
+		counts[r.Face]++
+		if r.SettledAt >= 0 {
+			sum += r.SettledAt
+			n++
 		}
-		sort.Ints(keys)
-		var parts []string
-		for _, k := range keys {
-			name := fmt.Sprintf("face %d", k)
-			if k < 0 {
-				name = "no face"
-			}
-			parts = append(parts, fmt.Sprintf("%s x%d", name, counts[k]))
-		}
-		mean := "-"
-		if n > 0 {
-			mean = fmt.Sprintf("%.3f s", sum/float64(n))
-		}
-		fmt.Fprintf(w, "  %-5g %s; settles in %s on average\n", mu, strings.Join(parts, ", "), mean)
 	}
-	fmt.Fprintln(w)
+	var keys []int
+	for k := range counts {
+		keys = append(keys, k)
+	}
+	sort.Ints(keys)
+	var parts []string
+	for _, k := range keys {
+		name := fmt.Sprintf("face %d", k)
+		if k < 0 {
+			name = "no face"
+		}
+		parts = append(parts, fmt.Sprintf("%s x%d", name, counts[k]))
+	}
+	mean := "-"
+	if n > 0 {
+		mean = fmt.Sprintf("%.3f s", sum/float64(n))
+	}
+	return fmt.Sprintf("%s; settles in %s on average", strings.Join(parts, ", "), mean)
+}
 
+// writeDemoFaces describes the faces the part landed on, if any.
+func writeDemoFaces(w io.Writer, st *demo.Study, used map[int]bool) {
 	var faces []int
 	for f := range used {
 		faces = append(faces, f)
 	}
 	sort.Ints(faces)
-	if len(faces) > 0 {
-		fmt.Fprintln(w, "faces it landed on (outward normal in the part's axes; quasi-static probability from clatter inspect):")
-		for _, f := range faces {
-			if f < len(st.Faces) {
-				rf := st.Faces[f]
-				fmt.Fprintf(w, "  face %d  normal (%s)  probability %.3f\n", f, fmtNormal([3]float64(rf.Normal)), rf.Probability)
-			}
-		}
-		fmt.Fprintln(w)
+	if len(faces) == 0 {
+		return
 	}
-	fmt.Fprintf(w, "files in %s: %s and %s (the scene and its part), results.csv, runs/*/ (each run's results,\n",
-		st.Dir, demo.SceneFile, demo.PartFile)
-	fmt.Fprintln(w, "  with start.png and end.png, pictures of its start and end, and its motion in animation.glb)")
-	fmt.Fprintf(w, "try: clatter run %s -o %s\n", filepath.Join(st.Dir, demo.SceneFile), filepath.Join(st.Dir, "single"))
-	fmt.Fprintln(w, "     clatter inspect "+filepath.Join(st.Dir, demo.PartFile)+" --units mm --density \"1.05 g/cm3\"")
-	if len(st.Rows) > 0 {
-		fmt.Fprintln(w, "     clatter report "+st.Rows[0].Dir+"    (a page with the run's tables, pictures and motion)")
+	fmt.Fprintln(w, "faces it landed on (outward normal in the part's axes; quasi-static probability from clatter inspect):")
+	for _, f := range faces {
+		if f < len(st.Faces) {
+			rf := st.Faces[f]
+			fmt.Fprintf(w, "  face %d  normal (%s)  probability %.3f\n", f, fmtNormal([3]float64(rf.Normal)), rf.Probability)
+		}
 	}
 	fmt.Fprintln(w)
-	fmt.Fprintln(w, safetyNote)
 }

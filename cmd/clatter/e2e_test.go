@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"math"
 	"os"
@@ -356,15 +355,7 @@ func TestDemo(t *testing.T) {
 			t.Errorf("demo output lacks %q", want)
 		}
 	}
-	f, err := os.Open(filepath.Join(dir, "results.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	recs := readCSV(t, filepath.Join(dir, "results.csv"))
 	if len(recs) != 1+3*8 {
 		t.Fatalf("%d rows in results.csv, want a header and 24 runs", len(recs))
 	}

@@ -142,9 +142,7 @@ func inspectPart(e *env, args []string) int {
 		e.errorf("inspect: %v", err)
 		return exitBad
 	}
-	for _, w := range part.Warnings {
-		fmt.Fprintln(e.stderr, "warning: "+w)
-	}
+	e.warn(part.Warnings)
 	u, _ := scene.NewUnits(*unitName, "kg")
 	out, faces, err := inspection(part, density, u, pos[0])
 	if err != nil {

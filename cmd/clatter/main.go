@@ -43,6 +43,13 @@ func (e *env) infof(format string, args ...any) {
 	}
 }
 
+// warn prints warnings on stderr, one a line; --quiet keeps them.
+func (e *env) warn(ws []string) {
+	for _, w := range ws {
+		fmt.Fprintln(e.stderr, "warning: "+w)
+	}
+}
+
 type command struct {
 	name    string
 	summary string

@@ -69,14 +69,8 @@ type summaryDoc struct {
 
 func readSummary(t *testing.T, dir string) summaryDoc {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(dir, "summary.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
 	var s summaryDoc
-	if err := json.Unmarshal(b, &s); err != nil {
-		t.Fatalf("summary.json: %v", err)
-	}
+	readJSON(t, filepath.Join(dir, "summary.json"), &s)
 	return s
 }
 

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
 	"encoding/json"
 	"math"
 	"os"
@@ -17,14 +16,8 @@ import (
 
 func readPackSummary(t *testing.T, dir string) *report.Summary {
 	t.Helper()
-	b, err := os.ReadFile(filepath.Join(dir, "summary.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
 	var s report.Summary
-	if err := json.Unmarshal(b, &s); err != nil {
-		t.Fatal(err)
-	}
+	readJSON(t, filepath.Join(dir, "summary.json"), &s)
 	return &s
 }
 
@@ -71,15 +64,7 @@ func TestExampleTenDrops(t *testing.T) {
 	if !strings.Contains(out, "does not replace the drop, vibration") || !strings.Contains(out, "drops (drops.csv)") {
 		t.Errorf("stdout lacks the drops table or the caution:\n%s", out)
 	}
-	f, err := os.Open(filepath.Join(dir, "drops.csv"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	rows := readCSV(t, filepath.Join(dir, "drops.csv"))
 	if got := strings.Join(rows[0], ","); got != "case,trial,drop.number,strike,height,impact_speed,second_feature,secondary_impact_speed,peak_spin,final_face,turned_over,peak_acceleration" {
 		t.Fatalf("drops.csv header %q", got)
 	}

@@ -2,7 +2,6 @@ package main
 
 import (
 	"flag"
-	"fmt"
 
 	"clatter/engine/sweep"
 )
@@ -22,13 +21,9 @@ func replayTrial(e *env, pos []string, trial, dir, sampleText string, vis *visua
 	if err != nil {
 		return sweepFailed(e, err, dir)
 	}
-	st, err := sweep.Open(pos[0])
-	if err != nil {
-		fmt.Fprintln(e.stderr, err)
+	st, ok := openStudy(e, pos[0])
+	if !ok {
 		return exitBad
-	}
-	for _, w := range st.Warnings {
-		fmt.Fprintln(e.stderr, "warning: "+w)
 	}
 	s, err := st.TrialScene(c, t)
 	if err != nil {

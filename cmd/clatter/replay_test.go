@@ -1,8 +1,6 @@
 package main
 
 import (
-	"encoding/csv"
-	"encoding/json"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -38,13 +36,7 @@ func TestReplayMatchesTrials(t *testing.T) {
 					MaxImpactSpeed float64    `json:"max_impact_speed"`
 				} `json:"bodies"`
 			}
-			data, err := os.ReadFile(filepath.Join(dir, "summary.json"))
-			if err != nil {
-				t.Fatal(err)
-			}
-			if err := json.Unmarshal(data, &sum); err != nil {
-				t.Fatal(err)
-			}
+			readJSON(t, filepath.Join(dir, "summary.json"), &sum)
 			b := sum.Bodies[0]
 			g := func(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
 			got := map[string]string{"x": g(b.Position[0]), "y": g(b.Position[1]), "z": g(b.Position[2]),
@@ -67,15 +59,7 @@ func TestReplayMatchesTrials(t *testing.T) {
 
 // readTrials reads trials.csv into its rows by "case/trial".
 func readTrials(t *testing.T, path string) map[string]map[string]string {
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	recs, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
+	recs := readCSV(t, path)
 	out := map[string]map[string]string{}
 	for _, r := range recs[1:] {
 		m := map[string]string{}

@@ -99,12 +99,8 @@ func runScene(e *env, args []string) int {
 		fmt.Fprintln(e.stderr, err)
 		return exitBad
 	}
-	for _, w := range s.Warnings {
-		fmt.Fprintln(e.stderr, "warning: "+w)
-	}
-	for _, w := range report.SampleAliases(s, sample) {
-		fmt.Fprintln(e.stderr, "warning: "+w)
-	}
+	e.warn(s.Warnings)
+	e.warn(report.SampleAliases(s, sample))
 	if s.Sweep != nil {
 		e.infof("note: run simulates the scene once and ignores its [sweep] section; clatter sweep runs the study")
 	}

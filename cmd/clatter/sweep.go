@@ -162,35 +162,13 @@ func runSweep(e *env, args []string) int {
 		e.errorf("sweep: -j must be a positive number of workers, got %d", *workers)
 		return exitBad
 	}
-	var shard sweep.Shard
-	var err error
-	if *shardText != "" {
-		shard, err = sweep.ParseShard(*shardText)
-		if err != nil {
-			e.errorf("sweep: --shard: %v", err)
-			return exitBad
-		}
-	} else {
-		var source string
-		shard, source, err = sweep.ShardFromEnv(os.Getenv, *shardCount)
-		if err != nil {
-			e.errorf("sweep: %v", err)
-			return exitBad
-		}
-		if source != "" {
-			e.infof("shard %s, from %s", shard, source)
-		} else if *shardCount > 0 {
-			e.errorf("sweep: --shard-count goes with a Kubernetes Indexed Job (JOB_COMPLETION_INDEX), which is not set; give --shard K/N instead")
-			return exitBad
-		}
-	}
-	st, err := sweep.Open(pos[0])
-	if err != nil {
-		fmt.Fprintln(e.stderr, err)
+	shard, ok := sweepShard(e, *shardText, *shardCount)
+	if !ok {
 		return exitBad
 	}
-	for _, w := range st.Warnings {
-		fmt.Fprintln(e.stderr, "warning: "+w)
+	st, ok := openStudy(e, pos[0])
+	if !ok {
+		return exitBad
 	}
 	// The folder is held from the first trial to the last plot.
 	lock, err := sweep.LockFolder(*dir)
@@ -201,16 +179,71 @@ func runSweep(e *env, args []string) int {
 	p := newTrialProgress(e)
 	info, err := st.Run(e.ctx, sweep.Options{Dir: *dir, Workers: *workers, Shard: shard, Resume: *resume, Version: toolVersion, Progress: p.update, Lock: lock})
 	p.done()
+	tellRun(e, info, err, *dir)
+	if err != nil {
+		return sweepFailed(e, err, *dir)
+	}
+	res, err := sweep.Finish(*dir)
+	if err != nil {
+		return sweepFailed(e, err, *dir)
+	}
+	writeSweepTable(e.stdout, res)
+	return sweepOutcome(e, res)
+}
+
+// openStudy reads the study file at path and prints its warnings; it
+// reports false, having printed the error, if the file is bad.
+func openStudy(e *env, path string) (*sweep.Study, bool) {
+	st, err := sweep.Open(path)
+	if err != nil {
+		fmt.Fprintln(e.stderr, err)
+		return nil, false
+	}
+	e.warn(st.Warnings)
+	return st, true
+}
+
+// sweepShard works out the part of the study this process runs: from
+// --shard K/N, else from a Kubernetes Indexed Job's environment
+// (--shard-count), else all of it. It reports false, having said why, on
+// bad input.
+func sweepShard(e *env, text string, count int) (sweep.Shard, bool) {
+	if text != "" {
+		shard, err := sweep.ParseShard(text)
+		if err != nil {
+			e.errorf("sweep: --shard: %v", err)
+			return shard, false
+		}
+		return shard, true
+	}
+	shard, source, err := sweep.ShardFromEnv(os.Getenv, count)
+	if err != nil {
+		e.errorf("sweep: %v", err)
+		return shard, false
+	}
+	if source != "" {
+		e.infof("shard %s, from %s", shard, source)
+	} else if count > 0 {
+		e.errorf("sweep: --shard-count goes with a Kubernetes Indexed Job (JOB_COMPLETION_INDEX), which is not set; give --shard K/N instead")
+		return shard, false
+	}
+	return shard, true
+}
+
+// tellRun says on stderr what a run of the study's trials into dir did:
+// rows it dropped, trials resumed, and the rate of the trials it ran
+// (these only if it succeeded, err nil).
+func tellRun(e *env, info *sweep.RunInfo, err error, dir string) {
 	if info != nil {
 		if info.Torn {
-			e.infof("dropped the last row of %s, cut off when the sweep stopped; that trial runs again", filepath.Join(*dir, sweep.TrialsFile))
+			e.infof("dropped the last row of %s, cut off when the sweep stopped; that trial runs again", filepath.Join(dir, sweep.TrialsFile))
 		}
 		if info.Dropped > 0 {
-			e.errorf("warning: %d rows of %s were not part of a complete trial and are left out; those trials run again", info.Dropped, filepath.Join(*dir, sweep.TrialsFile))
+			e.errorf("warning: %d rows of %s were not part of a complete trial and are left out; those trials run again", info.Dropped, filepath.Join(dir, sweep.TrialsFile))
 		}
 	}
 	if err != nil {
-		return sweepFailed(e, err, *dir)
+		return
 	}
 	if info.Skipped > 0 {
 		e.infof("resumed: %d of %d trials were done; ran the other %d", info.Skipped, info.Total, info.Ran)
@@ -219,12 +252,6 @@ func runSweep(e *env, args []string) int {
 		rate := float64(info.Ran) / math.Max(info.Elapsed.Seconds(), 1e-9)
 		e.infof("ran %d trials in %s (%.4g trials/s)", info.Ran, info.Elapsed.Round(time.Millisecond), rate)
 	}
-	res, err := sweep.Finish(*dir)
-	if err != nil {
-		return sweepFailed(e, err, *dir)
-	}
-	writeSweepTable(e.stdout, res)
-	return sweepOutcome(e, res)
 }
 
 func runMerge(e *env, args []string) int {

@@ -1,12 +1,8 @@
 package report_test
 
 import (
-	"context"
 	"math"
 	"testing"
-
-	"clatter/engine/report"
-	"clatter/engine/scene"
 )
 
 // restTol is the resting-height check: the solver leaves contacts
@@ -45,10 +41,7 @@ shape = { pieces = [
 ] }
 position = [0, 0, 140]
 `
-	s, err := scene.Parse([]byte(text), "tee.toml", scene.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := parseText(t, text, "tee.toml", "")
 	tee := s.Bodies[s.BodyIndex("tee")]
 	// Centre of mass of the two pieces (volumes 200 x 50 x 20 at z = 50
 	// and 40 x 50 x 80 at z = 0): (200000 x 50) / 360000 = 27.78 mm.
@@ -58,10 +51,7 @@ position = [0, 0, 140]
 	if got := tee.Props.Center[2]; math.Abs(got-comZ) > sumTol {
 		t.Fatalf("centre of mass of the tee at z = %g m, the weighted mean of its pieces gives %g", got, comZ)
 	}
-	sum, err := report.Run(context.Background(), s, report.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	sum := runScene(t, s)
 	b := body(t, sum, "tee")
 	// The crossbar's underside, 40 mm above the tee's origin, on the wall
 	// tops at 100 mm.

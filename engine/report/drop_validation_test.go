@@ -1,7 +1,6 @@
 package report_test
 
 import (
-	"context"
 	"fmt"
 	"math"
 	"testing"
@@ -67,15 +66,9 @@ func TestDropStrikesAtTheFreeFallSpeed(t *testing.T) {
 		{"face 3", `0.76`, 0.76},
 		{"face 2", `0.1`, 0.1},
 	} {
-		s, err := scene.Parse([]byte(dropScene(c.strike, c.height, "0.25 ms")), "drop.toml", scene.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		s := parseText(t, dropScene(c.strike, c.height, "0.25 ms"), "drop.toml", "")
 		checkPlacement(t, s, c.strike, c.h)
-		sum, err := report.Run(context.Background(), s, report.Options{})
-		if err != nil {
-			t.Fatal(err)
-		}
+		sum := runScene(t, s)
 		d := sum.Drop
 		want := math.Sqrt(2 * g0 * c.h)
 		if len(d.Impacts) == 0 {
@@ -157,10 +150,7 @@ position = [0, 0, %.15g]
 orientation = { axis = [0, 1, 0], angle = %.15g }
 material = "grip"
 `, 2*a, 2*c, m, fall-edgeZ, alpha*180/math.Pi)
-	s, err := scene.Parse([]byte(text), "plank.toml", scene.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := parseText(t, text, "plank.toml", "")
 	w, ids, err := s.Build()
 	if err != nil {
 		t.Fatal(err)

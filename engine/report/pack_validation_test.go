@@ -15,10 +15,22 @@ import (
 // runText runs a scene given as text (its files in dir) without writing.
 func runText(t *testing.T, text, dir string) *report.Summary {
 	t.Helper()
-	s, err := scene.Parse([]byte(text), "test.toml", scene.Options{Dir: dir})
+	return runScene(t, parseText(t, text, "test.toml", dir))
+}
+
+// parseText reads a scene given as text, as file name in folder dir.
+func parseText(t *testing.T, text, name, dir string) *scene.Scene {
+	t.Helper()
+	s, err := scene.Parse([]byte(text), name, scene.Options{Dir: dir})
 	if err != nil {
 		t.Fatal(err)
 	}
+	return s
+}
+
+// runScene runs a scene without writing.
+func runScene(t *testing.T, s *scene.Scene) *report.Summary {
+	t.Helper()
 	sum, err := report.Run(context.Background(), s, report.Options{})
 	if err != nil {
 		t.Fatal(err)
@@ -233,10 +245,7 @@ bodies = ["bar"]
 at = [0, 0, 0]
 axis = [0, 1, 0]
 `, m, iG, -d*math.Sin(2*math.Pi/180), -d*math.Cos(2*math.Pi/180))
-	s, err := scene.Parse([]byte(text), "pendulum.toml", scene.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := parseText(t, text, "pendulum.toml", "")
 	w, ids, err := s.Build()
 	if err != nil {
 		t.Fatal(err)

@@ -120,6 +120,39 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	if err != nil {
 		return nil, err
 	}
+	r := newRunner(s, w, ids, opt)
+	r.out = newSink(opt.Dir)
+	defer r.out.close()
+	if err := r.openFiles(); err != nil {
+		return nil, err
+	}
+	r.peak = make([][2]float64, len(s.Joints))
+
+	sum := &Summary{Units: UnitsOf(r.u)}
+	sum.Energy.Initial = w.Energy()
+	sum.Momentum.Linear.Initial = r.u.VecFromSI(w.LinearMomentum(), scene.Impulse)
+	sum.Momentum.Angular.Initial = r.u.VecFromSI(w.AngularMomentum(shapes.Vec3{}), angularMomentum)
+
+	simErr, diverged := r.loop(ctx)
+	if opt.Progress != nil {
+		opt.Progress(1)
+	}
+	end := w.Time()
+	if diverged {
+		end = r.prevT
+	}
+	if end != r.lastRow && r.out.err == nil {
+		r.sample(end)
+	}
+	r.out.commit(end)
+	r.summarise(sum, simErr)
+	return r.finish(sum, simErr)
+}
+
+// newRunner sets up the run of scene s, built into w with body ids ids:
+// which bodies move and are traced, and the packages, drives and gates it
+// watches.
+func newRunner(s *scene.Scene, w *engine.World, ids []engine.BodyID, opt Options) *runner {
 	r := &runner{s: s, w: w, ids: ids, opt: opt, u: s.Units, pairs: map[[2]engine.BodyID]bool{},
 		touching: make([]int, w.NumBodies()), faces: map[int][]resting.Face{}, lastRow: math.NaN()}
 	r.index = make([]int, w.NumBodies())
@@ -137,84 +170,69 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 	if len(s.Gates) > 0 {
 		r.gates = newGateCounter(len(s.Gates))
 	}
-	r.out = newSink(opt.Dir)
-	defer r.out.close()
-	if opt.Dir != "" {
-		if err := os.MkdirAll(opt.Dir, 0o755); err != nil {
-			return nil, fmt.Errorf("cannot make the output folder: %w", err)
-		}
-		outs := []struct {
-			name string
-			bw   **bufio.Writer
-		}{{TrajectoryFile, &r.traj}, {EventsFile, &r.ev}}
-		if len(s.Joints) > 0 {
-			outs = append(outs, struct {
-				name string
-				bw   **bufio.Writer
-			}{JointsFile, &r.jt})
-		}
-		if r.gates != nil {
-			outs = append(outs, struct {
-				name string
-				bw   **bufio.Writer
-			}{GatesFile, &r.gt})
-		}
-		for _, f := range outs {
-			bw, err := r.out.create(f.name)
-			if err != nil {
-				return nil, fmt.Errorf("cannot write results: %w", err)
-			}
-			*f.bw = bw
-		}
-		r.traj.WriteString(TrajectoryHeader + "\n")
-		if r.jt != nil {
-			r.jt.WriteString(JointsHeader + "\n")
-		}
-		if r.gt != nil {
-			r.gt.WriteString(GatesHeader + "\n")
-			r.gates.out = r.gt
-		}
+	return r
+}
+
+// openFiles makes the output folder, if the run has one, and opens the
+// result files the scene needs with their header rows.
+func (r *runner) openFiles() error {
+	if r.opt.Dir == "" {
+		return nil
 	}
-	r.peak = make([][2]float64, len(s.Joints))
+	if err := os.MkdirAll(r.opt.Dir, 0o755); err != nil {
+		return fmt.Errorf("cannot make the output folder: %w", err)
+	}
+	type output struct {
+		name string
+		bw   **bufio.Writer
+	}
+	outs := []output{{TrajectoryFile, &r.traj}, {EventsFile, &r.ev}}
+	if len(r.s.Joints) > 0 {
+		outs = append(outs, output{JointsFile, &r.jt})
+	}
+	if r.gates != nil {
+		outs = append(outs, output{GatesFile, &r.gt})
+	}
+	for _, f := range outs {
+		bw, err := r.out.create(f.name)
+		if err != nil {
+			return fmt.Errorf("cannot write results: %w", err)
+		}
+		*f.bw = bw
+	}
+	r.traj.WriteString(TrajectoryHeader + "\n")
+	if r.jt != nil {
+		r.jt.WriteString(JointsHeader + "\n")
+	}
+	if r.gt != nil {
+		r.gt.WriteString(GatesHeader + "\n")
+		r.gates.out = r.gt
+	}
+	return nil
+}
 
-	sum := &Summary{Units: UnitsOf(r.u)}
-	sum.Energy.Initial = w.Energy()
-	sum.Momentum.Linear.Initial = r.u.VecFromSI(w.LinearMomentum(), scene.Impulse)
-	sum.Momentum.Angular.Initial = r.u.VecFromSI(w.AngularMomentum(shapes.Vec3{}), angularMomentum)
-
+// loop steps the world to the scene's duration (or until it settles, or
+// the context is cancelled, or a file cannot be written), sampling as it
+// goes. It returns the simulation's error, if any, and whether a step
+// failed (the state then is the one before it).
+func (r *runner) loop(ctx context.Context) (simErr error, diverged bool) {
+	s, w, opt := r.s, r.w, r.opt
 	dt := s.World.Step
 	total := int(math.Ceil(s.World.Duration/dt - 1e-9))
 	every := max(1, total/200)
 	r.sample(0)
 	next := opt.Sample
-	var simErr error
-	diverged := false
 	r.prev = make([]bodyState, w.NumBodies())
 	for n := 0; n < total; n++ {
 		if n%64 == 0 && ctx.Err() != nil {
 			simErr = &SimulationError{Time: w.Time(), Err: &interruptedError{time: w.Time(), cause: ctx.Err()}}
 			r.event(eventJSON{Time: w.Time(), Event: "error", Message: simErr.Error()})
-			break
+			return simErr, false
 		}
 		r.keep()
 		r.pack.before(w)
 		if err := w.Step(dt); err != nil {
-			r.events()
-			msg := eventJSON{Time: clean(w.Time()), Event: "error", Message: err.Error()}
-			var de *engine.DivergenceError
-			var je *engine.JamError
-			if errors.As(err, &de) {
-				msg.Body = de.Name
-				msg.Time = clean(de.Time)
-			} else if errors.As(err, &je) {
-				msg.Body = je.Name
-				msg.Time = clean(je.Time)
-			}
-			r.event(msg)
-			r.restore()
-			diverged = true
-			simErr = &SimulationError{Time: r.prevT, Err: err}
-			break
+			return r.stepFailed(err), true
 		}
 		r.events()
 		r.peaks()
@@ -226,33 +244,48 @@ func Run(ctx context.Context, s *scene.Scene, opt Options) (*Summary, error) {
 			r.sample(t)
 			next = (math.Floor(t/opt.Sample+1e-9) + 1) * opt.Sample
 			if !r.out.commit(t) {
-				break
+				return nil, false
 			}
 		}
 		if opt.Progress != nil && n%every == 0 {
 			opt.Progress(t / s.World.Duration)
 		}
 		if settled, _ := w.Settled(); settled && s.World.UntilSettled {
-			break
+			return nil, false
 		}
 	}
-	if opt.Progress != nil {
-		opt.Progress(1)
+	return nil, false
+}
+
+// stepFailed records a failed step as an error event naming the body,
+// puts the last good state back and returns the simulation error.
+func (r *runner) stepFailed(err error) error {
+	w := r.w
+	r.events()
+	msg := eventJSON{Time: clean(w.Time()), Event: "error", Message: err.Error()}
+	var de *engine.DivergenceError
+	var je *engine.JamError
+	if errors.As(err, &de) {
+		msg.Body = de.Name
+		msg.Time = clean(de.Time)
+	} else if errors.As(err, &je) {
+		msg.Body = je.Name
+		msg.Time = clean(je.Time)
 	}
-	end := w.Time()
-	if diverged {
-		end = r.prevT
-	}
-	if end != r.lastRow && r.out.err == nil {
-		r.sample(end)
-	}
-	r.out.commit(end)
-	r.summarise(sum, simErr)
+	r.event(msg)
+	r.restore()
+	return &SimulationError{Time: r.prevT, Err: err}
+}
+
+// finish writes summary.json, if the run has a folder, and returns the
+// summary with the run's first error: a file that could not be written,
+// else the simulation's.
+func (r *runner) finish(sum *Summary, simErr error) (*Summary, error) {
 	if we := r.out.err; we != nil && sum.Error == "" {
 		sum.Error = fmt.Sprintf("stopped: cannot write %s: %v", we.File, we.Err)
 	}
-	if opt.Dir != "" {
-		err := writeAtomic(filepath.Join(opt.Dir, SummaryFile), sum.JSON())
+	if r.opt.Dir != "" {
+		err := writeAtomic(filepath.Join(r.opt.Dir, SummaryFile), sum.JSON())
 		if we := r.out.err; we != nil {
 			we.Stopped, we.Summary = sum.Time, err == nil
 			return sum, we

@@ -1,14 +1,11 @@
 package verify
 
 import (
-	"context"
 	"errors"
 	"fmt"
 	"math"
 
 	"clatter/engine"
-	"clatter/engine/report"
-	"clatter/engine/scene"
 	"clatter/shapes"
 	"clatter/shapes/mesh"
 	"clatter/shapes/resting"
@@ -25,7 +22,17 @@ const dt = 1e-3
 
 // Cases returns the analytic cases in the order `clatter verify` prints them.
 func Cases() []Case {
-	return append([]Case{
+	var cs []Case
+	for _, group := range [][]Case{motionCases(), rigidBodyCases(), mechanismCases(), packagingCases(), feederCases(), twistCases()} {
+		cs = append(cs, group...)
+	}
+	return cs
+}
+
+// motionCases are the cases of one body falling, sliding, bouncing and
+// rolling.
+func motionCases() []Case {
+	return []Case{
 		{
 			Name: "free fall, 1 s from rest", Unit: "m",
 			Reference: "drop d = g t^2 / 2", Source: "uniform acceleration (Galileo; any mechanics text)",
@@ -82,6 +89,14 @@ func Cases() []Case {
 			Why: "one contact line of an exact cylinder: sticking friction resolved by the iterative solver to about a percent",
 			Run: cylinderRolls,
 		},
+	}
+}
+
+// rigidBodyCases are the cases of impacts in a row, tipping and sliding on
+// a tilt table, torque-free rotation, mass properties, resting faces, and
+// a scene file read in other units.
+func rigidBodyCases() []Case {
+	return []Case{
 		{
 			Name: "Newton's cradle, 1 of 5 balls strikes, e = 1", Unit: "m/s",
 			Reference: "the last ball leaves at the striking speed, the rest at rest", Source: "momentum and energy conservation; impacts in sequence (Guendelman, Bridson and Fedkiw 2003)",
@@ -138,7 +153,7 @@ func Cases() []Case {
 			Why: "as the SI case: the stopping step and first contact; unit conversion adds only rounding",
 			Run: sceneSlide,
 		},
-	}, append(append(append(mechanismCases(), packagingCases()...), feederCases()...), twistCases()...)...)
+	}
 }
 
 // floorWorld returns a world with a static floor z = 0 of material m, and
@@ -187,18 +202,22 @@ func freeFall() (float64, float64, float64, error) {
 	return g / 2, z0 - w.Position(id)[2], math.NaN(), err
 }
 
-func box(w *engine.World, mat int, half shapes.Vec3, v shapes.Vec3) (engine.BodyID, error) {
-	return w.AddBody(engine.BodyDef{Name: "block", Shape: shapes.Box{Half: half}, Density: 1000, Material: mat,
+// block returns a world with a 0.1 m cube of water's density resting on
+// the floor of floorWorld(DefaultConfig(), theta, m), moving at v.
+func block(theta float64, m engine.Material, v shapes.Vec3) (*engine.World, engine.BodyID, error) {
+	w, mat, err := floorWorld(engine.DefaultConfig(), theta, m)
+	if err != nil {
+		return nil, 0, err
+	}
+	half := shapes.Vec3{0.05, 0.05, 0.05}
+	id, err := w.AddBody(engine.BodyDef{Name: "block", Shape: shapes.Box{Half: half}, Density: 1000, Material: mat,
 		Position: shapes.Vec3{0, 0, half[2]}, Velocity: v})
+	return w, id, err
 }
 
 func inclineSlide() (float64, float64, float64, error) {
 	th, mu := mgl64.DegToRad(30), 0.2
-	w, mat, err := floorWorld(engine.DefaultConfig(), th, engine.Material{Friction: mu})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{})
+	w, id, err := block(th, engine.Material{Friction: mu}, shapes.Vec3{})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -212,11 +231,7 @@ func inclineSlide() (float64, float64, float64, error) {
 
 func inclineStick() (float64, float64, float64, error) {
 	th := mgl64.DegToRad(20)
-	w, mat, err := floorWorld(engine.DefaultConfig(), th, engine.Material{Friction: 0.3, StaticFriction: 0.45})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{})
+	w, id, err := block(th, engine.Material{Friction: 0.3, StaticFriction: 0.45}, shapes.Vec3{})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -227,11 +242,7 @@ func inclineStick() (float64, float64, float64, error) {
 
 func slideToStop() (float64, float64, float64, error) {
 	v0, mu := 2.0, 0.3
-	w, mat, err := floorWorld(engine.DefaultConfig(), 0, engine.Material{Friction: mu})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{v0, 0, 0})
+	w, id, err := block(0, engine.Material{Friction: mu}, shapes.Vec3{v0, 0, 0})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -241,11 +252,7 @@ func slideToStop() (float64, float64, float64, error) {
 
 func stopTime() (float64, float64, float64, error) {
 	v0, mu := 2.0, 0.3
-	w, mat, err := floorWorld(engine.DefaultConfig(), 0, engine.Material{Friction: mu})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	id, err := box(w, mat, shapes.Vec3{0.05, 0.05, 0.05}, shapes.Vec3{v0, 0, 0})
+	w, id, err := block(0, engine.Material{Friction: mu}, shapes.Vec3{v0, 0, 0})
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -471,6 +478,16 @@ func boxInertia() (float64, float64, float64, error) {
 }
 
 func cubeProbability() (float64, float64, float64, error) {
+	return cubeWorst(1.0/6, func(f resting.Face) float64 { return f.Probability })
+}
+
+func cubeTip() (float64, float64, float64, error) {
+	return cubeWorst(45, func(f resting.Face) float64 { return mgl64.RadToDeg(f.TipAngleRad) })
+}
+
+// cubeWorst returns want and the value of the cube's resting face farthest
+// from it, with its deviation.
+func cubeWorst(want float64, value func(resting.Face) float64) (float64, float64, float64, error) {
 	faces, err := resting.OfShape(shapes.Box{Half: shapes.Vec3{1, 1, 1}}, shapes.Vec3{})
 	if err != nil {
 		return 0, 0, 0, err
@@ -480,26 +497,12 @@ func cubeProbability() (float64, float64, float64, error) {
 	}
 	dev, worst := 0.0, 0.0
 	for _, f := range faces {
-		if d := math.Abs(f.Probability - 1.0/6); d >= dev {
-			dev, worst = d, f.Probability
+		v := value(f)
+		if d := math.Abs(v - want); d >= dev {
+			dev, worst = d, v
 		}
 	}
-	return 1.0 / 6, worst, dev, nil
-}
-
-func cubeTip() (float64, float64, float64, error) {
-	faces, err := resting.OfShape(shapes.Box{Half: shapes.Vec3{1, 1, 1}}, shapes.Vec3{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	dev, worst := 0.0, 0.0
-	for _, f := range faces {
-		a := mgl64.RadToDeg(f.TipAngleRad)
-		if d := math.Abs(a - 45); d >= dev {
-			dev, worst = d, a
-		}
-	}
-	return 45, worst, dev, nil
+	return want, worst, dev, nil
 }
 
 // slideScene is the scene-file case: a steel block of 50 mm sliding on a
@@ -524,11 +527,7 @@ velocity = ["2 m/s", 0, 0]
 `
 
 func sceneSlide() (float64, float64, float64, error) {
-	s, err := scene.Parse([]byte(slideScene), "verify-slide.toml", scene.Options{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	sum, err := report.Run(context.Background(), s, report.Options{})
+	sum, err := runScene(slideScene, "verify-slide.toml")
 	if err != nil {
 		return 0, 0, 0, err
 	}

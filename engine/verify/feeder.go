@@ -1,12 +1,10 @@
 package verify
 
 import (
-	"context"
 	"fmt"
 	"math"
 
 	"clatter/engine"
-	"clatter/engine/report"
 	"clatter/engine/scene"
 )
 
@@ -107,11 +105,7 @@ density = "7.8 g/cm3"
 position = [0, 0, 7]
 orientation = { axis = [0, 1, 0], angle = -3 }
 `, mu, math.Cos(alpha+psi), math.Sin(alpha+psi), amp*1000)
-	s, err := scene.Parse([]byte(src), "verify-track.toml", scene.Options{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	sum, err := report.Run(context.Background(), s, report.Options{})
+	sum, err := runScene(src, "verify-track.toml")
 	if err != nil {
 		return 0, 0, 0, err
 	}

@@ -1,12 +1,10 @@
 package verify
 
 import (
-	"context"
 	"fmt"
 	"math"
 
 	"clatter/engine"
-	"clatter/engine/report"
 	"clatter/engine/scene"
 )
 
@@ -63,11 +61,7 @@ body = "carton"
 strike = "corner 2-3-5"
 height = "by mass"
 `
-	s, err := scene.Parse([]byte(text), "verify-drop.toml", scene.Options{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	sum, err := report.Run(context.Background(), s, report.Options{})
+	sum, err := runScene(text, "verify-drop.toml")
 	if err != nil {
 		return 0, 0, 0, err
 	}
@@ -173,11 +167,7 @@ material = "grip"
 position = [%.15[2]g, 0, %.15[3]g]
 orientation = { axis = [0, 1, 0], angle = %[1]g }
 `, start, x, z, tx, tz)
-	s, err := scene.Parse([]byte(text), "verify-tilt.toml", scene.Options{})
-	if err != nil {
-		return 0, 0, 0, err
-	}
-	sum, err := report.Run(context.Background(), s, report.Options{})
+	sum, err := runScene(text, "verify-tilt.toml")
 	if err != nil {
 		return 0, 0, 0, err
 	}

@@ -2,8 +2,6 @@ package view
 
 import (
 	"context"
-	"image"
-	_ "image/png"
 	"math"
 	"os"
 	"path/filepath"
@@ -199,7 +197,7 @@ func TestPicturesShowTheFall(t *testing.T) {
 	}
 	var rows [2]float64
 	for i, p := range []string{start, end} {
-		img := readPNG(t, p)
+		img := viewtest.ReadPNG(t, p)
 		if b := img.Bounds(); b.Dx() != pictureWidth || b.Dy() != pictureHeight {
 			t.Fatalf("%s is %v, want %dx%d", p, b, pictureWidth, pictureHeight)
 		}
@@ -230,19 +228,6 @@ func mustAbs(t *testing.T, p string) string {
 		t.Fatal(err)
 	}
 	return a
-}
-
-func readPNG(t *testing.T, path string) image.Image {
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	img, _, err := image.Decode(f)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return img
 }
 
 // TestRoundSize checks the floor's tile sizes: the 1-2-5 series of scale

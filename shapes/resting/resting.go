@@ -175,28 +175,16 @@ func OfHull(h *shapes.Hull, com shapes.Vec3) ([]Face, error) {
 }
 
 func newAnalysis(h *shapes.Hull, com shapes.Vec3) (*analysis, error) {
-	if h == nil {
-		return nil, fmt.Errorf("resting: nil hull: %w", ErrDegenerate)
-	}
-	if !finite(com) {
-		return nil, fmt.Errorf("resting: centre of mass %v is not finite: %w", com, ErrOutside)
+	size, err := hullSize(h, com)
+	if err != nil {
+		return nil, err
 	}
 	nv, nf := len(h.Vertices), len(h.Faces)
-	if nv < 4 || nf < 4 {
-		return nil, fmt.Errorf("resting: hull has %d vertices and %d faces, a solid needs at least 4 of each: %w", nv, nf, ErrDegenerate)
-	}
-	b := shapes.EmptyAABB()
-	for i, v := range h.Vertices {
-		if !finite(v) {
-			return nil, fmt.Errorf("resting: hull vertex %d %v is not finite: %w", i, v, ErrDegenerate)
-		}
-		b = b.Extend(v)
-	}
 	a := &analysis{
 		verts:  h.Vertices,
 		faces:  h.Faces,
 		c:      com,
-		size:   b.Size().Len(),
+		size:   size,
 		across: make([][]int, nf),
 		nbrs:   make([][]int32, nv),
 		vfaces: make([][]int, nv),
@@ -204,12 +192,54 @@ func newAnalysis(h *shapes.Hull, com shapes.Vec3) (*analysis, error) {
 		foot:   make([]shapes.Vec3, nf),
 		stable: make([]bool, nf),
 	}
-	if !(a.size > 0) {
-		return nil, fmt.Errorf("resting: hull has no extent: %w", ErrDegenerate)
+	owner, err := edgeOwners(h)
+	if err != nil {
+		return nil, err
 	}
-	// owner maps a directed edge to the face that runs along it; it is only
-	// looked up, never iterated, so results keep a deterministic order.
-	owner := make(map[[2]int32]int, 4*nf)
+	if err := a.linkEdges(owner); err != nil {
+		return nil, err
+	}
+	if err := a.placeFeet(); err != nil {
+		return nil, err
+	}
+	return a, nil
+}
+
+// hullSize checks that h is a hull of finite vertices, enough of them and
+// of its faces for a solid, and com a finite point, and returns the
+// diagonal of h's bounding box.
+func hullSize(h *shapes.Hull, com shapes.Vec3) (float64, error) {
+	if h == nil {
+		return 0, fmt.Errorf("resting: nil hull: %w", ErrDegenerate)
+	}
+	if !finite(com) {
+		return 0, fmt.Errorf("resting: centre of mass %v is not finite: %w", com, ErrOutside)
+	}
+	nv, nf := len(h.Vertices), len(h.Faces)
+	if nv < 4 || nf < 4 {
+		return 0, fmt.Errorf("resting: hull has %d vertices and %d faces, a solid needs at least 4 of each: %w", nv, nf, ErrDegenerate)
+	}
+	b := shapes.EmptyAABB()
+	for i, v := range h.Vertices {
+		if !finite(v) {
+			return 0, fmt.Errorf("resting: hull vertex %d %v is not finite: %w", i, v, ErrDegenerate)
+		}
+		b = b.Extend(v)
+	}
+	size := b.Size().Len()
+	if !(size > 0) {
+		return 0, fmt.Errorf("resting: hull has no extent: %w", ErrDegenerate)
+	}
+	return size, nil
+}
+
+// edgeOwners checks h's faces (polygons of valid vertices, unit normals,
+// consistent winding) and maps each directed edge to the face that runs
+// along it; the map is only looked up, never iterated, so results keep a
+// deterministic order.
+func edgeOwners(h *shapes.Hull) (map[[2]int32]int, error) {
+	nv := len(h.Vertices)
+	owner := make(map[[2]int32]int, 4*len(h.Faces))
 	for fi, f := range h.Faces {
 		n := len(f.Verts)
 		if n < 3 {
@@ -233,14 +263,20 @@ func newAnalysis(h *shapes.Hull, com shapes.Vec3) (*analysis, error) {
 			owner[key] = fi
 		}
 	}
-	for fi, f := range h.Faces {
+	return owner, nil
+}
+
+// linkEdges sets the face across each edge, the faces around each vertex
+// and the neighbours of each vertex, from the edges' owners.
+func (a *analysis) linkEdges(owner map[[2]int32]int) error {
+	for fi, f := range a.faces {
 		n := len(f.Verts)
 		a.across[fi] = make([]int, n)
 		for i, v := range f.Verts {
 			w := f.Verts[(i+1)%n]
 			g, ok := owner[[2]int32{w, v}]
 			if !ok {
-				return nil, fmt.Errorf("resting: edge %d->%d of face %d has no face on its other side (the hull is not closed): %w", v, w, fi, ErrDegenerate)
+				return fmt.Errorf("resting: edge %d->%d of face %d has no face on its other side (the hull is not closed): %w", v, w, fi, ErrDegenerate)
 			}
 			a.across[fi][i] = g
 			a.vfaces[v] = appendUnique(a.vfaces[v], fi)
@@ -253,16 +289,23 @@ func newAnalysis(h *shapes.Hull, com shapes.Vec3) (*analysis, error) {
 	for v := range a.nbrs {
 		sortInt32(a.nbrs[v])
 	}
-	for fi, f := range h.Faces {
+	return nil
+}
+
+// placeFeet sets the height and foot of the centre of mass over every face
+// and whether the face is stable; the centre must lie inside every face.
+func (a *analysis) placeFeet() error {
+	com := a.c
+	for fi, f := range a.faces {
 		d := f.Offset - f.Normal.Dot(com)
 		if !(d > insideTol*a.size) {
-			return nil, fmt.Errorf("resting: centre of mass %v lies %g from the plane of face %d (normal %v), not inside: %w", com, -d, fi, f.Normal, ErrOutside)
+			return fmt.Errorf("resting: centre of mass %v lies %g from the plane of face %d (normal %v), not inside: %w", com, -d, fi, f.Normal, ErrOutside)
 		}
 		a.height[fi] = d
 		a.foot[fi] = com.Add(f.Normal.Mul(d))
 		a.stable[fi] = a.minInward(fi) > stableTol*a.size
 	}
-	return a, nil
+	return nil
 }
 
 // inward is the unit vector in the plane of face f, perpendicular to its edge

@@ -69,157 +69,207 @@ func (a *analysis) roll(start int) (int, error) {
 	return end, nil
 }
 
+// The three places a roll can be: flat on a face, turning about an edge
+// (along its arc), pivoting about a vertex.
+const (
+	rollOnFace = iota
+	rollOnEdge
+	rollOnVertex
+)
+
+// rollState is where a roll is.
+type rollState struct {
+	state int
+	start int         // the face the roll began on
+	f     int         // current face
+	u, t  shapes.Vec3 // current gravity direction; pivot direction
+	v, w  int32       // pivot vertex; edge (v, w)
+	from  int32       // vertex the edge move came from
+}
+
 // descend is roll without the bookkeeping of known ends.
 func (a *analysis) descend(start int) (int, error) {
-	const (
-		onFace = iota
-		onEdge
-		onVertex
-	)
-	state := onFace
-	f := start
-	var (
-		u, t   shapes.Vec3      // current gravity direction; pivot direction
-		v, w   int32            // pivot vertex; edge (v, w)
-		from   int32       = -1 // vertex the edge move came from
-		steps              = 4*(len(a.faces)+len(a.verts)) + 16
-		tolLen             = stableTol * a.size
-	)
+	r := rollState{state: rollOnFace, start: start, f: start, from: -1}
+	steps := 4*(len(a.faces)+len(a.verts)) + 16
+	tolLen := stableTol * a.size
 	for step := 0; step < steps; step++ {
-		switch state {
-		case onFace:
-			if a.stable[f] {
-				return f, nil
-			}
-			if end := a.rollsTo[f]; end >= 0 {
+		switch r.state {
+		case rollOnFace:
+			if end, done := a.faceMove(&r, tolLen); done {
 				return end, nil
 			}
-			a.passed = append(a.passed, f)
-			fc := a.faces[f]
-			p := a.foot[f]
-			// The point of the face's boundary nearest the foot (the foot is
-			// outside, or within tolLen of the boundary).
-			best, bi, bs := math.Inf(1), 0, 0.0
-			for i := range fc.Verts {
-				x, y := a.edge(f, i)
-				s := segParam(x, y, p)
-				if d := p.Sub(x.Add(y.Sub(x).Mul(s))).Len(); d < best {
-					best, bi, bs = d, i, s
-				}
+		case rollOnVertex:
+			if err := a.vertexMove(&r); err != nil {
+				return 0, err
 			}
-			x, y := a.edge(f, bi)
-			el := y.Sub(x).Len()
-			q := x.Add(y.Sub(x).Mul(bs))
-			n := len(fc.Verts)
-			switch {
-			case bs*el > tolLen && (1-bs)*el > tolLen:
-				// Inside an edge: over the edge onto the face across it.
-				f = a.across[f][bi]
-				continue
-			case bs*el <= tolLen:
-				v = fc.Verts[bi]
-				if best > tolLen {
-					t = p.Sub(q)
-				} else {
-					// Balanced on vertex bi: the bisector of the outward
-					// normals of edges bi-1 and bi.
-					t = a.inward(f, (bi+n-1)%n).Add(a.inward(f, bi)).Mul(-1)
-				}
-			default:
-				v = fc.Verts[(bi+1)%n]
-				if best > tolLen {
-					t = p.Sub(q)
-				} else {
-					t = a.inward(f, bi).Add(a.inward(f, (bi+1)%n)).Mul(-1)
-				}
+		case rollOnEdge:
+			if err := a.edgeMove(&r, tolLen); err != nil {
+				return 0, err
 			}
-			u = fc.Normal
-			state = onVertex
-
-		case onVertex:
-			tt := t.Sub(u.Mul(t.Dot(u)))
-			if l := tt.Len(); l > 0 {
-				tt = tt.Mul(1 / l)
-			} else {
-				// Balanced on the vertex itself: take the nearest face around it.
-				f = a.nearestFaceAt(v, u)
-				state = onFace
-				continue
-			}
-			pv := a.verts[v]
-			// Stay in the polygon of v: (v - x).u >= 0 for every neighbour x.
-			// Along u(s) = cos(s) u + sin(s) tt, (v - x).u(s) = A cos s + B sin s
-			// falls to zero at s = atan2(A, -B), in (0, pi] when A >= 0.
-			hitS := math.Inf(1)
-			var hits [4]int32
-			nh := 0
-			blocked, blockedB := int32(-1), math.Inf(1)
-			for _, x := range a.nbrs[v] {
-				g := pv.Sub(a.verts[x])
-				g = g.Mul(1 / g.Len())
-				A, B := g.Dot(u), g.Dot(tt)
-				if A <= angleTol && B <= angleTol {
-					// Already on the arc of edge (v, x) and not moving off it
-					// into the polygon of v: the descent follows that arc.
-					if B < blockedB {
-						blocked, blockedB = x, B
-					}
-					continue
-				}
-				s := math.Atan2(math.Max(A, 0), -B)
-				switch {
-				case s < hitS-angleTol:
-					hitS, nh = s, 0
-					hits[nh], nh = x, 1
-				case s <= hitS+angleTol && nh < len(hits):
-					hits[nh] = x
-					nh++
-				}
-			}
-			if blocked >= 0 {
-				w, from, state = blocked, v, onEdge
-				continue
-			}
-			if nh == 0 {
-				return 0, fmt.Errorf("resting: roll from face %d: vertex %d has no edges: %w", start, v, ErrDegenerate)
-			}
-			u = u.Mul(math.Cos(hitS)).Add(tt.Mul(math.Sin(hitS))).Normalize()
-			if nh > 1 {
-				// Exactly through a corner of the polygon: onto that face.
-				f = a.nearestFaceAt(v, u)
-				state = onFace
-				continue
-			}
-			w, from, state = hits[0], v, onEdge
-
-		case onEdge:
-			pa, pb := a.verts[v], a.verts[w]
-			h := pa.Add(pb).Mul(0.5).Sub(a.c).Dot(u)
-			p := a.c.Add(u.Mul(h))
-			s := segParam(pa, pb, p)
-			el := pb.Sub(pa).Len()
-			q := pa.Add(pb.Sub(pa).Mul(s))
-			switch {
-			case s*el <= tolLen && v != from:
-				t, state = p.Sub(pa), onVertex
-				continue
-			case (1-s)*el <= tolLen && w != from:
-				v, t, state = w, p.Sub(pb), onVertex
-				continue
-			}
-			// Along the arc toward the face on the side of p - q.
-			f1, f2 := a.edgeFaces(v, w)
-			if f1 < 0 || f2 < 0 {
-				return 0, fmt.Errorf("resting: roll from face %d: vertices %d and %d share no edge: %w", start, v, w, ErrDegenerate)
-			}
-			d := p.Sub(q)
-			if a.faces[f2].Normal.Dot(d) > a.faces[f1].Normal.Dot(d) {
-				f1 = f2
-			}
-			f, state = f1, onFace
 		}
 	}
 	return 0, fmt.Errorf("resting: the roll from face %d did not settle within %d moves (numerically degenerate hull?): %w", start, steps, ErrDegenerate)
+}
+
+// faceMove is the move from face r.f: it reports the end of the roll if
+// the face is stable or its end known, else turns over an edge onto the
+// face across it or starts a pivot about a vertex.
+func (a *analysis) faceMove(r *rollState, tolLen float64) (end int, done bool) {
+	f := r.f
+	if a.stable[f] {
+		return f, true
+	}
+	if end := a.rollsTo[f]; end >= 0 {
+		return end, true
+	}
+	a.passed = append(a.passed, f)
+	fc := a.faces[f]
+	p := a.foot[f]
+	best, bi, bs := a.nearestOnBoundary(f, p)
+	x, y := a.edge(f, bi)
+	el := y.Sub(x).Len()
+	q := x.Add(y.Sub(x).Mul(bs))
+	n := len(fc.Verts)
+	switch {
+	case bs*el > tolLen && (1-bs)*el > tolLen:
+		// Inside an edge: over the edge onto the face across it.
+		r.f = a.across[f][bi]
+		return 0, false
+	case bs*el <= tolLen:
+		r.v = fc.Verts[bi]
+		if best > tolLen {
+			r.t = p.Sub(q)
+		} else {
+			// Balanced on vertex bi: the bisector of the outward
+			// normals of edges bi-1 and bi.
+			r.t = a.inward(f, (bi+n-1)%n).Add(a.inward(f, bi)).Mul(-1)
+		}
+	default:
+		r.v = fc.Verts[(bi+1)%n]
+		if best > tolLen {
+			r.t = p.Sub(q)
+		} else {
+			r.t = a.inward(f, bi).Add(a.inward(f, (bi+1)%n)).Mul(-1)
+		}
+	}
+	r.u = fc.Normal
+	r.state = rollOnVertex
+	return 0, false
+}
+
+// nearestOnBoundary returns the point of face f's boundary nearest the
+// foot p (the foot is outside, or within tolLen of the boundary): its
+// distance, its edge and its parameter along the edge.
+func (a *analysis) nearestOnBoundary(f int, p shapes.Vec3) (best float64, bi int, bs float64) {
+	best = math.Inf(1)
+	for i := range a.faces[f].Verts {
+		x, y := a.edge(f, i)
+		s := segParam(x, y, p)
+		if d := p.Sub(x.Add(y.Sub(x).Mul(s))).Len(); d < best {
+			best, bi, bs = d, i, s
+		}
+	}
+	return best, bi, bs
+}
+
+// vertexMove pivots about vertex r.v, turning u along the great circle
+// toward r.t until it leaves the polygon of the vertex: onto the arc of an
+// edge, or exactly through a corner onto a face.
+func (a *analysis) vertexMove(r *rollState) error {
+	u, v := r.u, r.v
+	tt := r.t.Sub(u.Mul(r.t.Dot(u)))
+	if l := tt.Len(); l > 0 {
+		tt = tt.Mul(1 / l)
+	} else {
+		// Balanced on the vertex itself: take the nearest face around it.
+		r.f = a.nearestFaceAt(v, u)
+		r.state = rollOnFace
+		return nil
+	}
+	hitS, hits, nh, blocked := a.leaveVertex(v, u, tt)
+	if blocked >= 0 {
+		r.w, r.from, r.state = blocked, v, rollOnEdge
+		return nil
+	}
+	if nh == 0 {
+		return fmt.Errorf("resting: roll from face %d: vertex %d has no edges: %w", r.start, v, ErrDegenerate)
+	}
+	r.u = u.Mul(math.Cos(hitS)).Add(tt.Mul(math.Sin(hitS))).Normalize()
+	if nh > 1 {
+		// Exactly through a corner of the polygon: onto that face.
+		r.f = a.nearestFaceAt(v, r.u)
+		r.state = rollOnFace
+		return nil
+	}
+	r.w, r.from, r.state = hits[0], v, rollOnEdge
+	return nil
+}
+
+// leaveVertex finds where the pivot about v, from u toward the unit
+// tangent tt, leaves the polygon of v: the angle hitS and the neighbours
+// hits (nh of them) whose edges' arcs it crosses there, or the neighbour
+// blocked (-1 if none) whose arc it already lies on and follows.
+func (a *analysis) leaveVertex(v int32, u, tt shapes.Vec3) (hitS float64, hits [4]int32, nh int, blocked int32) {
+	pv := a.verts[v]
+	// Stay in the polygon of v: (v - x).u >= 0 for every neighbour x.
+	// Along u(s) = cos(s) u + sin(s) tt, (v - x).u(s) = A cos s + B sin s
+	// falls to zero at s = atan2(A, -B), in (0, pi] when A >= 0.
+	hitS = math.Inf(1)
+	blocked, blockedB := int32(-1), math.Inf(1)
+	for _, x := range a.nbrs[v] {
+		g := pv.Sub(a.verts[x])
+		g = g.Mul(1 / g.Len())
+		A, B := g.Dot(u), g.Dot(tt)
+		if A <= angleTol && B <= angleTol {
+			// Already on the arc of edge (v, x) and not moving off it
+			// into the polygon of v: the descent follows that arc.
+			if B < blockedB {
+				blocked, blockedB = x, B
+			}
+			continue
+		}
+		s := math.Atan2(math.Max(A, 0), -B)
+		switch {
+		case s < hitS-angleTol:
+			hitS, nh = s, 0
+			hits[nh], nh = x, 1
+		case s <= hitS+angleTol && nh < len(hits):
+			hits[nh] = x
+			nh++
+		}
+	}
+	return hitS, hits, nh, blocked
+}
+
+// edgeMove turns about edge (r.v, r.w): onto a pivot about an end the foot
+// has reached, or along the arc to the face on the side of the overhang.
+func (a *analysis) edgeMove(r *rollState, tolLen float64) error {
+	v, w := r.v, r.w
+	pa, pb := a.verts[v], a.verts[w]
+	h := pa.Add(pb).Mul(0.5).Sub(a.c).Dot(r.u)
+	p := a.c.Add(r.u.Mul(h))
+	s := segParam(pa, pb, p)
+	el := pb.Sub(pa).Len()
+	q := pa.Add(pb.Sub(pa).Mul(s))
+	switch {
+	case s*el <= tolLen && v != r.from:
+		r.t, r.state = p.Sub(pa), rollOnVertex
+		return nil
+	case (1-s)*el <= tolLen && w != r.from:
+		r.v, r.t, r.state = w, p.Sub(pb), rollOnVertex
+		return nil
+	}
+	// Along the arc toward the face on the side of p - q.
+	f1, f2 := a.edgeFaces(v, w)
+	if f1 < 0 || f2 < 0 {
+		return fmt.Errorf("resting: roll from face %d: vertices %d and %d share no edge: %w", r.start, v, w, ErrDegenerate)
+	}
+	d := p.Sub(q)
+	if a.faces[f2].Normal.Dot(d) > a.faces[f1].Normal.Dot(d) {
+		f1 = f2
+	}
+	r.f, r.state = f1, rollOnFace
+	return nil
 }
 
 // segParam is the parameter in [0, 1] of the point of segment xy nearest p.

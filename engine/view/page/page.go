@@ -75,11 +75,31 @@ type content struct {
 
 // Write writes dir/report.html from the files in dir and returns its path.
 func Write(dir string) (string, error) {
-	entries, err := os.ReadDir(dir)
+	c, err := readFolder(dir)
 	if err != nil {
 		return "", err
 	}
-	c := content{Title: filepath.Base(filepath.Clean(dir)), Caution: Caution, Player: template.JS(player)}
+	c.arrange()
+	out := filepath.Join(dir, File)
+	f, err := os.Create(out)
+	if err != nil {
+		return "", err
+	}
+	if err := pageTemplate.Execute(f, c); err != nil {
+		f.Close()
+		return "", err
+	}
+	return out, f.Close()
+}
+
+// readFolder reads the files of a run's or study's folder, in the order of
+// their names, into the page's content.
+func readFolder(dir string) (*content, error) {
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, err
+	}
+	c := &content{Title: filepath.Base(filepath.Clean(dir)), Caution: Caution, Player: template.JS(player)}
 	var names []string
 	for _, e := range entries {
 		if e.Type().IsRegular() {
@@ -89,47 +109,65 @@ func Write(dir string) (string, error) {
 	sort.Strings(names)
 	found := false
 	for _, n := range names {
-		p := filepath.Join(dir, n)
-		switch {
-		case n == "summary.json" || n == "sweep.json":
-			ts, raw, err := summaryTables(p)
-			if err != nil {
-				return "", fmt.Errorf("%s: %v", p, err)
-			}
-			if n == "sweep.json" {
-				// A study's description is reference: folded, after its results.
-				for i := range ts {
-					ts[i].Open = false
-				}
-				c.Study = append(c.Study, ts...)
-			} else {
-				c.Summaries = append(c.Summaries, ts...)
-			}
-			c.Summary += n + "\n" + raw + "\n"
-			found = true
-		case strings.HasSuffix(n, ".csv"):
-			t, err := readTable(p)
-			if err != nil {
-				return "", fmt.Errorf("%s: %v", p, err)
-			}
-			c.Tables = append(c.Tables, t)
-		case strings.HasSuffix(n, ".png"):
-			b, err := os.ReadFile(p)
-			if err != nil {
-				return "", err
-			}
-			c.Images = append(c.Images, picture{n, template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(b))})
-		case n == "animation.glb":
-			b, err := os.ReadFile(p)
-			if err != nil {
-				return "", err
-			}
-			c.GLB, c.HasMotion = base64.StdEncoding.EncodeToString(b), true
+		isSummary, err := c.add(dir, n)
+		if err != nil {
+			return nil, err
 		}
+		found = found || isSummary
 	}
 	if !found {
-		return "", fmt.Errorf("%s holds neither summary.json (clatter run) nor sweep.json (clatter sweep): give the folder a run or a study wrote", dir)
+		return nil, fmt.Errorf("%s holds neither summary.json (clatter run) nor sweep.json (clatter sweep): give the folder a run or a study wrote", dir)
 	}
+	return c, nil
+}
+
+// add puts file n of folder dir on the page if it is one the page shows,
+// and reports whether it was a summary (summary.json or sweep.json).
+func (c *content) add(dir, n string) (bool, error) {
+	p := filepath.Join(dir, n)
+	switch {
+	case n == "summary.json" || n == "sweep.json":
+		ts, raw, err := summaryTables(p)
+		if err != nil {
+			return false, fmt.Errorf("%s: %v", p, err)
+		}
+		if n == "sweep.json" {
+			// A study's description is reference: folded, after its results.
+			for i := range ts {
+				ts[i].Open = false
+			}
+			c.Study = append(c.Study, ts...)
+		} else {
+			c.Summaries = append(c.Summaries, ts...)
+		}
+		c.Summary += n + "\n" + raw + "\n"
+		return true, nil
+	case strings.HasSuffix(n, ".csv"):
+		t, err := readTable(p)
+		if err != nil {
+			return false, fmt.Errorf("%s: %v", p, err)
+		}
+		c.Tables = append(c.Tables, t)
+	case strings.HasSuffix(n, ".png"):
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return false, err
+		}
+		c.Images = append(c.Images, picture{n, template.URL("data:image/png;base64," + base64.StdEncoding.EncodeToString(b))})
+	case n == "animation.glb":
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return false, err
+		}
+		c.GLB, c.HasMotion = base64.StdEncoding.EncodeToString(b), true
+	}
+	return false, nil
+}
+
+// arrange orders the tables by the notes (the first four of them lead the
+// page, and long tables other than those start folded) and the pictures of
+// the run before the plots.
+func (c *content) arrange() {
 	rank := func(name string) int {
 		for i, n := range notes {
 			if n.file == name {
@@ -162,16 +200,6 @@ func Write(dir string) (string, error) {
 		}
 		return a < b
 	})
-	out := filepath.Join(dir, File)
-	f, err := os.Create(out)
-	if err != nil {
-		return "", err
-	}
-	if err := pageTemplate.Execute(f, c); err != nil {
-		f.Close()
-		return "", err
-	}
-	return out, f.Close()
 }
 
 func readTable(path string) (table, error) {

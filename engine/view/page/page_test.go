@@ -6,8 +6,6 @@ import (
 	"encoding/base64"
 	"encoding/json"
 	stdhtml "html"
-	"image"
-	_ "image/png"
 	"math"
 	"os"
 	"path/filepath"
@@ -152,15 +150,7 @@ func TestPageInBrowser(t *testing.T) {
 func screenshot(t *testing.T, page string) (orange int, row float64, colours int) {
 	shot := filepath.Join(t.TempDir(), "shot.png")
 	viewtest.Headless(t, page, "--screenshot="+shot)
-	f, err := os.Open(shot)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	img, _, err := image.Decode(f)
-	if err != nil {
-		t.Fatal(err)
-	}
+	img := viewtest.ReadPNG(t, shot)
 	seen := map[uint32]bool{}
 	sum := 0
 	b := img.Bounds()
