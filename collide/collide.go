@@ -72,6 +72,7 @@ type Detector struct {
 	sel          [4]int
 
 	tris      []int32
+	meshMem   meshMemory // triangles near recently queried parts (meshmem.go)
 	meshCands []meshCand
 	groups    []meshGroup
 

@@ -379,7 +379,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		return dst
 	}
 	box := worldBounds(s, frame{rot: rot, pos: pos}).Grow(margin)
-	d.tris = m.query(box, d.tris[:0])
+	d.tris = d.meshMem.candidates(m, box, d.tris[:0]) // m.query's result (meshmem.go)
 	if len(d.tris) == 0 {
 		return dst
 	}
