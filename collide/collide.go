@@ -66,6 +66,7 @@ type Detector struct {
 	epaBroken        bool
 
 	polyP, polyQ polytope
+	cylP         cylPolytope // a cylinder's partner (cylpoly.go)
 	clip0, clip1 []clipVert
 	featA, featB feature
 	cand         []candPoint

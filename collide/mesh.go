@@ -583,7 +583,10 @@ func (d *Detector) triContact(v, tv *view, m *Mesh, t int, margin float64) (vec3
 		d.cand = append(d.cand, candPoint{p: ps.Sub(nc.Mul(0.5 * sep)), sep: sep, id: 0})
 		return nc.Mul(-1), true
 	case kBox, kHull:
-		p, q := &d.polyP, &d.polyQ // p was set from v by the caller
+		p, q := &d.polyP, &d.polyQ             // p was set from v by the caller
+		if d.faceOnFlat(p, tv, m, t, margin) { // meshflat.go
+			return n.Mul(-1), len(d.cand) > 0
+		}
 		var r satResult
 		var ok bool
 		if v.kind == kBox {
@@ -615,12 +618,12 @@ func (d *Detector) triContact(v, tv *view, m *Mesh, t int, margin float64) (vec3
 		nPQ := d.polyContact(p, q, r, margin)
 		return nPQ, len(d.cand) > 0
 	}
-	r, ok := d.distance(v, tv, margin)
+	r, ok := d.triNearest(v, tv, margin) // cylpoly.go
 	if !ok {
 		return vec3{}, false
 	}
 	_, snapped := m.correct(t, r.n.Mul(-1))
-	if snapped {
+	if snapped || r.n.Mul(-1) == n { // (exactly the face normal: the same case)
 		// The contact belongs to the face: the deepest point of the shape
 		// toward the triangle, measured from its plane, and only where it
 		// lies over this triangle.
