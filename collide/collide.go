@@ -74,6 +74,7 @@ type Detector struct {
 
 	tris      []int32
 	meshMem   meshMemory // triangles near recently queried parts (meshmem.go)
+	flat      flatMemo   // a part's face lying on a mesh flat (meshflat.go)
 	meshCands []meshCand
 	groups    []meshGroup
 

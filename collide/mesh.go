@@ -389,7 +389,9 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 	if v.kind == kBox || v.kind == kHull {
 		d.polyP.set(&v) // the same for every triangle
 	}
+	d.flat.set = false
 	var tv view
+	var lowN, low vec3 // the shape's lowest point along -lowN (triangles of a flat share it)
 	for _, ti := range d.tris {
 		t := int(ti)
 		n := m.normals[t]
@@ -403,7 +405,10 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 			continue
 		}
 		// Beyond the margin from the triangle's plane: no contact.
-		if n.Dot(v.supportFull(n.Mul(-1)).Sub(a)) > margin {
+		if n != lowN {
+			lowN, low = n, v.supportFull(n.Mul(-1))
+		}
+		if n.Dot(low.Sub(a)) > margin {
 			continue
 		}
 		tv.setTriangle(a, b, c, n)

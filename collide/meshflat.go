@@ -18,7 +18,12 @@ package collide
 // triangle is then the triangle's normal reversed.
 func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin float64) bool {
 	n := tv.triN
-	fi := incidentFace(p, n)
+	fm := &d.flat
+	if !fm.set || fm.n != n {
+		// The triangles of a flat share their normal: one search for all.
+		fm.set, fm.n, fm.fi = true, n, incidentFace(p, n)
+	}
+	fi := fm.fi
 	if -p.planes[fi].n.Dot(n) < featCos {
 		return false
 	}
@@ -35,12 +40,11 @@ func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin floa
 		over[i] = true
 	}
 	for e := 0; e < 3; e++ {
-		a := tv.tri[e]
-		sn, l := unit(tv.tri[(e+1)%3].Sub(a).Cross(n))
-		if l == 0 {
+		sn := ad.side[e] // the side plane's normal, as clipping computes it
+		if sn == (vec3{}) {
 			return false
 		}
-		sd := sn.Dot(a)
+		sd := sn.Dot(tv.tri[e])
 		seam := ad.kind[e] == edgeFlat || ad.smooth[e]
 		for i, vi := range verts {
 			if sn.Dot(p.verts[vi])-sd > tol {
@@ -65,4 +69,12 @@ func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin floa
 		d.cand = append(d.cand, candPoint{p: x.Sub(n.Mul(0.5 * sep)), sep: sep, id: faceID(true, 0, fi, codeV(i), 0)})
 	}
 	return true
+}
+
+// flatMemo remembers, within one mesh query, the part's face most
+// anti-parallel to the last triangle normal seen.
+type flatMemo struct {
+	set bool
+	n   vec3
+	fi  int
 }
