@@ -111,6 +111,10 @@ type cylAxes struct {
 	n      vec3    // its unit axis, from the cylinder toward the polytope
 	margin float64
 	apart  bool // an axis separates by more than the margin
+	// The nearest pair of an edge point and a rim point that edgeRim met
+	// (a bound on the distance from above), and its length.
+	witX, witQ vec3
+	wit        float64
 }
 
 // try tests axis ax (any length) in both orientations; bias favours the
@@ -187,6 +191,24 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 		// below, and a pair of points that far apart bounds it from above.
 		if pc, pp, ok := a.apartWitness(c, tol); ok {
 			r.n, r.sep, r.pa, r.pb = a.n, a.best, pc, pp
+			return r, true, true
+		}
+		// An edge facing a rim: the nearest points of the two are a pair
+		// of points of the shapes, and the direction between them an axis.
+		a.wit = math.Inf(1)
+		for _, e := range cp.edges {
+			for _, sg := range [2]float64{1, -1} {
+				if a.rimBound(e[0], e[1], sg, a.wit) < a.wit {
+					a.edgeRim(e[0], e[1], sg, tol)
+				}
+			}
+		}
+		switch {
+		case a.apart:
+			r.n, r.sep = a.n, a.best
+			return r, false, true
+		case a.wit <= a.best+tol:
+			r.n, r.sep, r.pa, r.pb = a.n, a.best, a.witQ, a.witX
 			return r, true, true
 		}
 		return r, false, false
@@ -444,6 +466,9 @@ func (a *cylAxes) rimAxes(l *edgeLine, p0 vec3, t, bias float64) {
 	q := l.k.Add(rv.Mul(a.r / rl))
 	a.try(l.e.Cross(a.u.Cross(rv)), bias)
 	a.try(x.Sub(q), bias)
+	if dq := x.Sub(q).Len(); dq < a.wit {
+		a.wit, a.witX, a.witQ = dq, x, q
+	}
 }
 
 // overlapWitness looks for a point in both shapes: the centre of the
