@@ -115,6 +115,7 @@ type cylAxes struct {
 	// (a bound on the distance from above), and its length.
 	witX, witQ vec3
 	wit        float64
+	mins       bool // edgeRim looks for nearest approaches only (shapes apart)
 }
 
 // try tests axis ax (any length) in both orientations; bias favours the
@@ -195,7 +196,7 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 		}
 		// An edge facing a rim: the nearest points of the two are a pair
 		// of points of the shapes, and the direction between them an axis.
-		a.wit = math.Inf(1)
+		a.wit, a.mins = math.Inf(1), true
 		for _, e := range cp.edges {
 			for _, sg := range [2]float64{1, -1} {
 				if a.rimBound(e[0], e[1], sg, a.wit) < a.wit {
@@ -319,6 +320,8 @@ type edgeLine struct {
 	e        vec3
 	z0, z1   float64
 	rv0, rv1 vec3
+	// rho^2 = ra + 2 rb t + rc t^2
+	ra, rb, rc float64
 }
 
 func (a *cylAxes) line(i0, i1 int32, sg float64) edgeLine {
@@ -326,6 +329,7 @@ func (a *cylAxes) line(i0, i1 int32, sg float64) edgeLine {
 	l := edgeLine{k: a.c0.Add(a.u.Mul(sg * a.h)), e: cp.verts[i1].Sub(cp.verts[i0])}
 	l.z0, l.z1 = cp.vz[i0]-sg*a.h, cp.vz[i1]-cp.vz[i0]
 	l.rv0, l.rv1 = cp.vr[i0], cp.vr[i1].Sub(cp.vr[i0])
+	l.ra, l.rb, l.rc = l.rv0.Dot(l.rv0), l.rv0.Dot(l.rv1), l.rv1.Dot(l.rv1)
 	return l
 }
 
@@ -333,7 +337,7 @@ func (a *cylAxes) line(i0, i1 int32, sg float64) edgeLine {
 // of radius r.
 func (l *edgeLine) dist2(t, r float64) float64 {
 	z := l.z0 + t*l.z1
-	rho := l.rv0.Add(l.rv1.Mul(t)).Len() - r
+	rho := math.Sqrt(math.Max(0, l.ra+t*(2*l.rb+t*l.rc))) - r
 	return rho*rho + z*z
 }
 
@@ -389,7 +393,8 @@ const (
 // one minimum (the nearest approach of an edge apart); inside it, where an
 // edge is sunk across the rim, the radial and axial gaps pull against each
 // other and minima and maxima alternate. Each interval is sampled and each
-// sampled extremum refined by golden-section search. At each the axes are
+// sampled extremum refined by golden-section search (the maxima only for
+// shapes that overlap). At each the axes are
 // e x t (t the rim's tangent there) and the direction from the rim point
 // to the edge point.
 func (a *cylAxes) edgeRim(i0, i1 int32, sg, bias float64) {
@@ -428,7 +433,7 @@ func (a *cylAxes) edgeRim(i0, i1 int32, sg, bias float64) {
 			if isMin {
 				a.rimAxes(&l, p0, l.golden(b0, b1, a.r, 1), bias)
 			}
-			if isMax {
+			if isMax && !a.mins {
 				a.rimAxes(&l, p0, l.golden(b0, b1, a.r, -1), bias)
 			}
 		}
