@@ -325,22 +325,6 @@ func (m *Mesh) correct(t int, nT vec3) (vec3, bool) {
 	return nT, false
 }
 
-// query appends to out the triangles whose bounds overlap box b, in
-// ascending order.
-func (m *Mesh) query(b shapes.AABB, out []int32) []int32 {
-	if m.tree == nil {
-		return out
-	}
-	start := len(out)
-	out = m.tree.Query(out, b)
-	if m.remap != nil {
-		for i := start; i < len(out); i++ {
-			out[i] = m.remap[out[i]]
-		}
-	}
-	return out
-}
-
 // meshGroup gathers the points of one normal for one convex piece (the
 // triangles of a flat region, or the edge contacts of a ridge); it is named
 // by the smallest region among its triangles.
@@ -379,7 +363,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		return dst
 	}
 	box := worldBounds(s, frame{rot: rot, pos: pos}).Grow(margin)
-	d.tris = d.meshMem.candidates(m, box, d.tris[:0]) // m.query's result (meshmem.go)
+	d.tris = d.meshMem.candidates(m, box, d.tris[:0]) // meshmem.go
 	if len(d.tris) == 0 {
 		return dst
 	}

@@ -46,7 +46,8 @@ type meshMemory struct {
 }
 
 // candidates appends to out the triangles of m whose boxes overlap q, in
-// ascending order: the result of m.query(q, out).
+// ascending order of their index in the mesh: the triangles a walk of the
+// hierarchy (m.tree.Query, indices mapped through m.remap) returns.
 func (mm *meshMemory) candidates(m *Mesh, q shapes.AABB, out []int32) []int32 {
 	if m.tree == nil {
 		return out
