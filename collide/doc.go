@@ -38,15 +38,14 @@
 //     of its frame, so a box against a hull of any size costs one pass over
 //     the hull), then the incident face clipped against the reference face
 //     (Sutherland and Hodgman 1974) for up to four points;
-//   - a cylinder against a box, a mesh triangle or a hull of up to 64
-//     vertices: separating axes (face normals, the cylinder's axis, side
+//   - a cylinder against a box or a mesh triangle: separating axes (face normals, the cylinder's axis, side
 //     and edge, vertex and rim, and the common normals of an edge and a
 //     rim circle, found by a one-dimensional search only for edges that
 //     come within the depth of a rim), accepted when points of both
 //     shapes certify the distance or the overlap, else the general path
 //     below (cylpoly.go); then the manifold as on the general path;
-//   - every other convex pair (two cylinders, a capsule against a box or
-//     hull, any other shapes.Convex): GJK distance with the signed-volumes
+//   - every other convex pair (two cylinders, a cylinder or a capsule
+//     against a hull, a capsule against a box, any other shapes.Convex): GJK distance with the signed-volumes
 //     sub-simplex step (Gilbert, Johnson and Keerthi 1988; Montanari,
 //     Petrinic and Barbieri 2017) and EPA depth (van den Bergen 2001/2003),
 //     then the features of both shapes along the normal clipped into a
