@@ -69,12 +69,15 @@ type Detector struct {
 	epaBroken        bool
 
 	polyP, polyQ polytope
+	cylP         cylPolytope // a cylinder's partner (cylpoly.go)
 	clip0, clip1 []clipVert
 	featA, featB feature
 	cand         []candPoint
 	sel          [4]int
 
 	tris      []int32
+	meshMem   meshMemory // triangles near recently queried parts (meshmem.go)
+	flat      flatMemo   // a part's face lying on a mesh flat (meshflat.go)
 	meshCands []meshCand
 	groups    []meshGroup
 

@@ -41,8 +41,14 @@
 //     of its frame, so a box against a hull of any size costs one pass over
 //     the hull), then the incident face clipped against the reference face
 //     (Sutherland and Hodgman 1974) for up to four points;
-//   - every other convex pair (cylinders, a capsule against a box or hull,
-//     any other shapes.Convex): GJK distance with the signed-volumes
+//   - a cylinder against a box or a mesh triangle: separating axes (face normals, the cylinder's axis, side
+//     and edge, vertex and rim, and the common normals of an edge and a
+//     rim circle, found by a one-dimensional search only for edges that
+//     come within the depth of a rim), accepted when points of both
+//     shapes certify the distance or the overlap, else the general path
+//     below (cylpoly.go); then the manifold as on the general path;
+//   - every other convex pair (two cylinders, a cylinder or a capsule
+//     against a hull, a capsule against a box, any other shapes.Convex): GJK distance with the signed-volumes
 //     sub-simplex step (Gilbert, Johnson and Keerthi 1988; Montanari,
 //     Petrinic and Barbieri 2017) and EPA depth (van den Bergen 2001/2003),
 //     then the features of both shapes along the normal clipped into a
@@ -53,7 +59,11 @@
 //     hierarchy returns as a thin convex, with internal-edge correction from
 //     the mesh's edge adjacency, and the contacts of coplanar triangles
 //     merged into one manifold, so that a part sliding over a tessellated
-//     flat sees the same contact as on a plane;
+//     flat sees the same contact as on a plane; a box or hull face lying
+//     flat on a triangle gives its corners over it directly (meshflat.go);
+//     the triangles near a part are kept for a box a quarter larger than
+//     its own and picked from that list while it stays inside
+//     (meshmem.go), with the same result as a walk of the hierarchy;
 //   - a shapes.Compound: each piece against the other shape, SubA/SubB
 //     naming the piece.
 //

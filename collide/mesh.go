@@ -325,22 +325,6 @@ func (m *Mesh) correct(t int, nT vec3) (vec3, bool) {
 	return nT, false
 }
 
-// query appends to out the triangles whose bounds overlap box b, in
-// ascending order.
-func (m *Mesh) query(b shapes.AABB, out []int32) []int32 {
-	if m.tree == nil {
-		return out
-	}
-	start := len(out)
-	out = m.tree.Query(out, b)
-	if m.remap != nil {
-		for i := start; i < len(out); i++ {
-			out[i] = m.remap[out[i]]
-		}
-	}
-	return out
-}
-
 // meshGroup gathers the points of one normal for one convex piece (the
 // triangles of a flat region, or the edge contacts of a ridge); it is named
 // by the smallest region among its triangles.
@@ -379,7 +363,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		return dst
 	}
 	box := worldBounds(s, frame{rot: rot, pos: pos}).Grow(margin)
-	d.tris = m.query(box, d.tris[:0])
+	d.tris = d.meshMem.candidates(m, box, d.tris[:0]) // meshmem.go
 	if len(d.tris) == 0 {
 		return dst
 	}
@@ -389,7 +373,9 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 	if v.kind == kBox || v.kind == kHull {
 		d.polyP.set(&v) // the same for every triangle
 	}
+	d.flat.set = false
 	var tv view
+	var lowN, low vec3 // the shape's lowest point along -lowN (triangles of a flat share it)
 	for _, ti := range d.tris {
 		t := int(ti)
 		n := m.normals[t]
@@ -403,7 +389,10 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 			continue
 		}
 		// Beyond the margin from the triangle's plane: no contact.
-		if n.Dot(v.supportFull(n.Mul(-1)).Sub(a)) > margin {
+		if n != lowN {
+			lowN, low = n, v.supportFull(n.Mul(-1))
+		}
+		if n.Dot(low.Sub(a)) > margin {
 			continue
 		}
 		tv.setTriangle(a, b, c, n)
@@ -583,7 +572,10 @@ func (d *Detector) triContact(v, tv *view, m *Mesh, t int, margin float64) (vec3
 		d.cand = append(d.cand, candPoint{p: ps.Sub(nc.Mul(0.5 * sep)), sep: sep, id: 0})
 		return nc.Mul(-1), true
 	case kBox, kHull:
-		p, q := &d.polyP, &d.polyQ // p was set from v by the caller
+		p, q := &d.polyP, &d.polyQ             // p was set from v by the caller
+		if d.faceOnFlat(p, tv, m, t, margin) { // meshflat.go
+			return n.Mul(-1), len(d.cand) > 0
+		}
 		var r satResult
 		var ok bool
 		if v.kind == kBox {
@@ -615,12 +607,12 @@ func (d *Detector) triContact(v, tv *view, m *Mesh, t int, margin float64) (vec3
 		nPQ := d.polyContact(p, q, r, margin)
 		return nPQ, len(d.cand) > 0
 	}
-	r, ok := d.distance(v, tv, margin)
+	r, ok := d.triNearest(v, tv, margin) // cylpoly.go
 	if !ok {
 		return vec3{}, false
 	}
 	_, snapped := m.correct(t, r.n.Mul(-1))
-	if snapped {
+	if snapped || r.n.Mul(-1) == n { // (exactly the face normal: the same case)
 		// The contact belongs to the face: the deepest point of the shape
 		// toward the triangle, measured from its plane, and only where it
 		// lies over this triangle.

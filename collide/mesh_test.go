@@ -69,8 +69,15 @@ func TestMeshFlatMatchesPlane(t *testing.T) {
 		// of operations differs.
 		tol = 1e-12
 	)
-	tri := gridMesh(10, 1, flatZero)
-	if len(tri.Triangles) != 200 {
+	for _, cells := range []int{10, 40} {
+		// 0.2 m cells, larger than most parts, and 5 cm cells, smaller.
+		testMeshFlatMatchesPlane(t, cells, tol)
+	}
+}
+
+func testMeshFlatMatchesPlane(t *testing.T, cells int, tol float64) {
+	tri := gridMesh(cells, 1, flatZero)
+	if len(tri.Triangles) != 2*cells*cells {
 		t.Fatalf("%d triangles", len(tri.Triangles))
 	}
 	mesh := NewMesh(tri)

@@ -55,6 +55,9 @@ func (d *Detector) pairOrdered(a, b *view, margin float64) (vec3, bool) {
 			return d.polytopes(a, b, margin)
 		}
 	}
+	if n, ok, done := d.cylinderPair(a, b, margin); done { // cylpoly.go
+		return n, ok
+	}
 	return d.general(a, b, margin)
 }
 

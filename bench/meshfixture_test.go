@@ -1,0 +1,5 @@
+package bench
+
+import "testing"
+
+func BenchmarkBoxOnMeshFixture(b *testing.B) { BoxOnMeshFixture(b) }
