@@ -143,86 +143,26 @@ func (x *boxEdgeFrame) edgeGap(q0, dq *vec3) (s float64, ax vec3, ok bool) {
 // satBoxHull is satHint for box polytope p (view bv, in the hull's frame)
 // against hull h in its own frame; scale is the sum of the shapes' sizes.
 func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult) bool {
-	u0, u1, u2 := col(bv.rot, 0), col(bv.rot, 1), col(bv.rot, 2)
-	c, hb := bv.pos, bv.half
-	var be [12]boxEdgeFrame
-	for k, e := range boxEdges {
-		x := &be[k]
-		x.p0 = p.verts[e.V[0]]
-		x.dp = p.verts[e.V[1]].Sub(x.p0)
-		x.dd = x.dp.Dot(x.dp)
-		x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+	var bh boxHullAxes
+	bh.init(p, h, bv)
+	s := newSatSearch(r, margin, scale)
+	if g, ok := bh.hintGap(hint); ok && s.hinted(hint, g) {
+		return false
 	}
-	boxFace := func(i int) float64 {
-		pl := &p.planes[i]
-		_, m := hullMin(h, pl.n)
-		return m - pl.d
-	}
-	// A hull face's gap from the box's extent along its normal.
-	hullFace := func(j int) (float64, vec3) {
-		f := &h.Faces[j]
-		n := f.Normal
-		cs := vec3{n.Dot(u0), n.Dot(u1), n.Dot(u2)}
-		return n.Dot(c) - (hb[0]*math.Abs(cs[0]) + hb[1]*math.Abs(cs[1]) + hb[2]*math.Abs(cs[2])) - f.Offset, cs
-	}
-	switch hint.kind {
-	case hintFaceP:
-		if int(hint.i) < len(p.planes) && boxFace(int(hint.i)) > margin {
-			r.fail, r.hinted = hint, true
-			return false
-		}
-	case hintFaceQ:
-		if int(hint.i) < len(h.Faces) {
-			if s, _ := hullFace(int(hint.i)); s > margin {
-				r.fail, r.hinted = hint, true
-				return false
-			}
-		}
-	case hintEdge:
-		if int(hint.i) < len(boxEdges) && int(hint.j) < len(h.Edges) {
-			e := h.Edges[hint.j]
-			_, ca := hullFace(int(e.F[0]))
-			_, cb := hullFace(int(e.F[1]))
-			if crossedBoxEdge(&ca, &cb, int(boxEdgeAxis[hint.i])) == int(hint.i) {
-				q0 := h.Vertices[e.V[0]]
-				dq := h.Vertices[e.V[1]].Sub(q0)
-				if s, _, ok := be[hint.i].edgeGap(&q0, &dq); ok && s > margin {
-					r.fail, r.hinted = hint, true
-					return false
-				}
-			}
-		}
-	}
-	bestP, bestPi := math.Inf(-1), -1
 	for i := range p.planes {
-		s := boxFace(i)
-		if s > margin {
-			r.fail = pairHint{kind: hintFaceP, i: int32(i)}
+		if !s.face(hintFaceP, bh.boxFace(i), i) {
 			return false
-		}
-		if s > bestP {
-			bestP, bestPi = s, i
 		}
 	}
 	d.faceCos = d.faceCos[:0]
-	bestQ, bestQi := math.Inf(-1), -1
 	for j := range h.Faces {
-		s, cs := hullFace(j)
-		if s > margin {
-			r.fail = pairHint{kind: hintFaceQ, i: int32(j)}
+		g, cs := bh.hullFace(j)
+		if !s.face(hintFaceQ, g, j) {
 			return false
 		}
 		d.faceCos = append(d.faceCos, cs)
-		if s > bestQ {
-			bestQ, bestQi = s, j
-		}
 	}
-	r.kind, r.sep, r.face = satFaceP, bestP, bestPi
-	if bestQ > bestP+satFaceBias*scale {
-		r.kind, r.sep, r.face = satFaceQ, bestQ, bestQi
-	}
-	bestFace := r.sep
-	bestE := math.Inf(-1)
+	s.pickFace(false)
 	cos := d.faceCos
 	for he := range h.Edges {
 		e := &h.Edges[he]
@@ -234,27 +174,93 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 			}
 			q0 := h.Vertices[e.V[0]]
 			dq := h.Vertices[e.V[1]].Sub(q0)
-			s, ax, ok := be[bi].edgeGap(&q0, &dq)
+			g, ax, ok := bh.be[bi].edgeGap(&q0, &dq)
 			if !ok {
 				continue
 			}
-			if s > margin {
-				r.fail = pairHint{kind: hintEdge, i: int32(bi), j: int32(he)}
+			sep, better := s.edge(g, bi, he)
+			if sep {
 				return false
 			}
-			if s > bestE {
-				bestE = s
-				if bestE > bestFace+satEdgeBias*scale {
-					bed := boxEdges[bi]
-					r.kind, r.sep, r.axis = satEdge, s, ax
-					r.ep, r.eq = bi, he
-					r.p0, r.p1 = p.verts[bed.V[0]], p.verts[bed.V[1]]
-					r.q0, r.q1 = q0, h.Vertices[e.V[1]]
-				}
+			if better {
+				bed := boxEdges[bi]
+				r.setEdge(g, ax, bi, he, p.verts[bed.V[0]], p.verts[bed.V[1]], q0, h.Vertices[e.V[1]])
 			}
 		}
 	}
 	return true
+}
+
+// boxHullAxes is what the axes of a box polytope p (view bv) and a hull h
+// share, in the hull's frame: the box's axes, centre and half sizes, and
+// its twelve edges.
+type boxHullAxes struct {
+	p     *polytope
+	h     *shapes.Hull
+	u     [3]vec3
+	c, hb vec3
+	be    [12]boxEdgeFrame
+}
+
+func (bh *boxHullAxes) init(p *polytope, h *shapes.Hull, bv *view) {
+	bh.p, bh.h = p, h
+	bh.u = [3]vec3{col(bv.rot, 0), col(bv.rot, 1), col(bv.rot, 2)}
+	bh.c, bh.hb = bv.pos, bv.half
+	for k, e := range boxEdges {
+		x := &bh.be[k]
+		x.p0 = p.verts[e.V[0]]
+		x.dp = p.verts[e.V[1]].Sub(x.p0)
+		x.dd = x.dp.Dot(x.dp)
+		x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+	}
+}
+
+// boxFace is the gap of the hull beyond the box's face i.
+func (bh *boxHullAxes) boxFace(i int) float64 {
+	pl := &bh.p.planes[i]
+	_, m := hullMin(bh.h, pl.n)
+	return m - pl.d
+}
+
+// hullFace is the gap of the box beyond the hull's face j, from the box's
+// extent along its normal, and the normal's cosines with the box's axes.
+func (bh *boxHullAxes) hullFace(j int) (float64, vec3) {
+	f := &bh.h.Faces[j]
+	n := f.Normal
+	cs := vec3{n.Dot(bh.u[0]), n.Dot(bh.u[1]), n.Dot(bh.u[2])}
+	hb := bh.hb
+	return n.Dot(bh.c) - (hb[0]*math.Abs(cs[0]) + hb[1]*math.Abs(cs[1]) + hb[2]*math.Abs(cs[2])) - f.Offset, cs
+}
+
+// hintGap is the gap on the remembered axis; ok is false when it names no
+// axis that the test would try (an edge pair whose arcs do not cross).
+func (bh *boxHullAxes) hintGap(hint pairHint) (float64, bool) {
+	h := bh.h
+	switch hint.kind {
+	case hintFaceP:
+		if int(hint.i) < len(bh.p.planes) {
+			return bh.boxFace(int(hint.i)), true
+		}
+	case hintFaceQ:
+		if int(hint.i) < len(h.Faces) {
+			g, _ := bh.hullFace(int(hint.i))
+			return g, true
+		}
+	case hintEdge:
+		if int(hint.i) >= len(boxEdges) || int(hint.j) >= len(h.Edges) {
+			break
+		}
+		e := h.Edges[hint.j]
+		_, ca := bh.hullFace(int(e.F[0]))
+		_, cb := bh.hullFace(int(e.F[1]))
+		if crossedBoxEdge(&ca, &cb, int(boxEdgeAxis[hint.i])) == int(hint.i) {
+			q0 := h.Vertices[e.V[0]]
+			dq := h.Vertices[e.V[1]].Sub(q0)
+			g, _, ok := bh.be[hint.i].edgeGap(&q0, &dq)
+			return g, ok
+		}
+	}
+	return 0, false
 }
 
 // boxEdgeAxis is the axis along which each box edge runs.

@@ -306,65 +306,59 @@ func satEdgeGap(x, y *edgeArc) (s float64, ax vec3, ok bool) {
 // separation beyond margin r.fail names the separating axis (edge pairs by
 // their arc indices).
 func satHint(p, q *polytope, margin float64, h pairHint, r *satResult) bool {
-	nq := len(q.planes)
-	if q.flat {
-		nq = 1
+	s := newSatSearch(r, margin, p.size+q.size)
+	if g, ok := polyHintGap(p, q, h); ok && s.hinted(h, g) {
+		return false
 	}
-	switch h.kind {
-	case hintFaceP:
-		if int(h.i) < len(p.planes) && satFaceGap(p.planes[h.i], q) > margin {
-			r.fail, r.hinted = h, true
+	for i, pl := range p.planes {
+		if !s.face(hintFaceP, satFaceGap(pl, q), i) {
 			return false
 		}
-	case hintFaceQ:
-		if int(h.i) < nq && satFaceGap(q.planes[h.i], p) > margin {
-			r.fail, r.hinted = h, true
+	}
+	for i := 0; i < q.faceAxes(); i++ {
+		if !s.face(hintFaceQ, satFaceGap(q.planes[i], p), i) {
 			return false
+		}
+	}
+	s.pickFace(q.flat) // a triangle's own face is preferred
+	return polyEdgePairs(p, q, &s)
+}
+
+// faceAxes is the number of face axes of p: a flat polytope (a triangle)
+// has only its front face.
+func (p *polytope) faceAxes() int {
+	if p.flat {
+		return 1
+	}
+	return len(p.planes)
+}
+
+// polyHintGap is the gap on the remembered axis h of P and Q; ok is false
+// when h names no axis that the test would try.
+func polyHintGap(p, q *polytope, h pairHint) (g float64, ok bool) {
+	switch h.kind {
+	case hintFaceP:
+		if int(h.i) < len(p.planes) {
+			return satFaceGap(p.planes[h.i], q), true
+		}
+	case hintFaceQ:
+		if int(h.i) < q.faceAxes() {
+			return satFaceGap(q.planes[h.i], p), true
 		}
 	case hintEdge:
 		p.prepareArcs(false)
 		q.prepareArcs(true)
 		if int(h.i) < len(p.arcs) && int(h.j) < len(q.arcs) {
-			if s, _, ok := satEdgeGap(&p.arcs[h.i], &q.arcs[h.j]); ok && s > margin {
-				r.fail, r.hinted = h, true
-				return false
-			}
+			g, _, ok = satEdgeGap(&p.arcs[h.i], &q.arcs[h.j])
+			return g, ok
 		}
 	}
-	bestP, bestPi := math.Inf(-1), -1
-	for i, pl := range p.planes {
-		s := satFaceGap(pl, q)
-		if s > margin {
-			r.fail = pairHint{kind: hintFaceP, i: int32(i)}
-			return false
-		}
-		if s > bestP {
-			bestP, bestPi = s, i
-		}
-	}
-	bestQ, bestQi := math.Inf(-1), -1
-	for i := 0; i < nq; i++ {
-		s := satFaceGap(q.planes[i], p)
-		if s > margin {
-			r.fail = pairHint{kind: hintFaceQ, i: int32(i)}
-			return false
-		}
-		if s > bestQ {
-			bestQ, bestQi = s, i
-		}
-	}
-	scale := p.size + q.size
-	r.kind, r.sep, r.face = satFaceP, bestP, bestPi
-	if q.flat {
-		// The triangle's own face is preferred (mesh contacts keep its normal).
-		if bestQ >= bestP-satFaceBias*scale {
-			r.kind, r.sep, r.face = satFaceQ, bestQ, bestQi
-		}
-	} else if bestQ > bestP+satFaceBias*scale {
-		r.kind, r.sep, r.face = satFaceQ, bestQ, bestQi
-	}
-	bestFace := r.sep
-	bestE := math.Inf(-1)
+	return 0, false
+}
+
+// polyEdgePairs runs the edge pairs of P and Q whose arcs cross on the
+// Gauss map through search s; false when one separates them.
+func polyEdgePairs(p, q *polytope, s *satSearch) bool {
 	p.prepareArcs(false)
 	q.prepareArcs(true)
 	// For a solid Q, the first test of arcsCross (Q's arc crosses the plane
@@ -374,8 +368,7 @@ func satHint(p, q *polytope, margin float64, h pairHint, r *satResult) bool {
 	// are the same numbers up to sign.
 	pre := !q.flat
 	if pre {
-		d := &q.sideCos
-		*d = growF(*d, len(q.planes))
+		q.sideCos = growF(q.sideCos, len(q.planes))
 	}
 	for i := range p.arcs {
 		x := &p.arcs[i]
@@ -386,32 +379,30 @@ func satHint(p, q *polytope, margin float64, h pairHint, r *satResult) bool {
 		}
 		for j := range q.arcs {
 			y := &q.arcs[j]
-			if pre {
-				e := &q.edges[y.edge]
-				if cu, du := -q.sideCos[e.F[0]], -q.sideCos[e.F[1]]; cu*du >= 0 {
-					continue
-				}
+			if pre && q.arcMisses(y) {
+				continue
 			}
-			s, ax, ok := satEdgeGap(x, y)
+			g, ax, ok := satEdgeGap(x, y)
 			if !ok {
 				continue
 			}
-			if s > margin {
-				r.fail = pairHint{kind: hintEdge, i: int32(i), j: int32(j)}
+			sep, better := s.edge(g, i, j)
+			if sep {
 				return false
 			}
-			if s > bestE {
-				bestE = s
-				if bestE > bestFace+satEdgeBias*scale {
-					r.kind, r.sep, r.axis = satEdge, s, ax
-					r.ep, r.eq = int(x.edge), int(y.edge)
-					r.p0, r.p1 = x.p0, x.p0.Add(x.dp)
-					r.q0, r.q1 = y.p0, y.p0.Add(y.dp)
-				}
+			if better {
+				s.r.setEdge(g, ax, int(x.edge), int(y.edge), x.p0, x.p0.Add(x.dp), y.p0, y.p0.Add(y.dp))
 			}
 		}
 	}
 	return true
+}
+
+// arcMisses reports, from the cosines in q.sideCos, that Q's (negated) arc
+// y does not cross the plane of the arc of P they were taken with.
+func (q *polytope) arcMisses(y *edgeArc) bool {
+	e := &q.edges[y.edge]
+	return q.sideCos[e.F[0]]*q.sideCos[e.F[1]] >= 0
 }
 
 // incidentFace returns the face of q most anti-parallel to n.
@@ -447,281 +438,4 @@ func (d *Detector) polyContact(p, q *polytope, r satResult, margin float64) vec3
 		d.clipFaces(q, r.face, p, fi, true, margin)
 		return q.planes[r.face].n.Mul(-1)
 	}
-}
-
-// satBoxes is the separating-axis test of two boxes by their 15 axes (three
-// face normals of each and the nine cross products of their edge
-// directions), with projection radii from the axes' cosines (as in
-// S. Gottschalk, M. C. Lin and D. Manocha, "OBBTree", SIGGRAPH 1996; Ericson
-// 2005, section 4.4.1). It returns the same result as sat on the boxes'
-// polytopes, at a fraction of the cost.
-func satBoxes(a, b *view, margin float64) (satResult, bool) {
-	var r satResult
-	ok := satBoxesHint(a, b, margin, pairHint{}, &r)
-	return r, ok
-}
-
-// boxPair holds what the 15 axes of two boxes share: the offset of the
-// centres, both sets of axes and their cosines.
-type boxPair struct {
-	t      vec3
-	ua, ub [3]vec3
-	ar     [3][3]float64 // |ua_i . ub_j|
-	ha, hb vec3
-}
-
-func (bp *boxPair) init(a, b *view) {
-	bp.t = b.pos.Sub(a.pos)
-	for i := 0; i < 3; i++ {
-		bp.ua[i], bp.ub[i] = col(a.rot, i), col(b.rot, i)
-	}
-	for i := 0; i < 3; i++ {
-		for j := 0; j < 3; j++ {
-			bp.ar[i][j] = math.Abs(bp.ua[i].Dot(bp.ub[j]))
-		}
-	}
-	bp.ha, bp.hb = a.half, b.half
-}
-
-// faceP is the gap on A's axis i and the distance of the centres along it.
-func (bp *boxPair) faceP(i int) (s, dist float64) {
-	dist = bp.t.Dot(bp.ua[i])
-	hb, ar := bp.hb, &bp.ar
-	return math.Abs(dist) - bp.ha[i] - (hb[0]*ar[i][0] + hb[1]*ar[i][1] + hb[2]*ar[i][2]), dist
-}
-
-// faceQ is the gap on B's axis j.
-func (bp *boxPair) faceQ(j int) (s, dist float64) {
-	dist = bp.t.Dot(bp.ub[j])
-	ha, ar := bp.ha, &bp.ar
-	return math.Abs(dist) - bp.hb[j] - (ha[0]*ar[0][j] + ha[1]*ar[1][j] + ha[2]*ar[2][j]), dist
-}
-
-// edge is the gap on ua_i x ub_j (oriented from A toward B), with the
-// axis and its cosines with each box's axes; ok is false for parallel axes.
-func (bp *boxPair) edge(i, j int) (s float64, ax vec3, pa, pb [3]float64, ok bool) {
-	ax = bp.ua[i].Cross(bp.ub[j])
-	l := ax.Len()
-	if l <= satParallel {
-		return 0, ax, pa, pb, false
-	}
-	ax = ax.Mul(1 / l)
-	dist := bp.t.Dot(ax)
-	if dist < 0 {
-		ax, dist = ax.Mul(-1), -dist
-	}
-	ra, rb := 0.0, 0.0
-	for k := 0; k < 3; k++ {
-		pa[k], pb[k] = ax.Dot(bp.ua[k]), ax.Dot(bp.ub[k])
-		ra += bp.ha[k] * math.Abs(pa[k])
-		rb += bp.hb[k] * math.Abs(pb[k])
-	}
-	return dist - ra - rb, ax, pa, pb, true
-}
-
-// satBoxesHint is satBoxes writing into r, trying the remembered axis h
-// first; on a separation beyond margin r.fail names the separating axis.
-func satBoxesHint(a, b *view, margin float64, h pairHint, r *satResult) bool {
-	var bp boxPair
-	bp.init(a, b)
-	// Face hints name a face (0..5: axis i/2), edge hints two axes.
-	if h.i < 0 || h.i > 5 || h.j < 0 || h.j > 2 || (h.kind == hintEdge && h.i > 2) {
-		h.kind = hintNone // not an axis of two boxes
-	}
-	switch h.kind {
-	case hintFaceP:
-		if s, _ := bp.faceP(int(h.i / 2)); s > margin {
-			r.fail, r.hinted = h, true
-			return false
-		}
-	case hintFaceQ:
-		if s, _ := bp.faceQ(int(h.i / 2)); s > margin {
-			r.fail, r.hinted = h, true
-			return false
-		}
-	case hintEdge:
-		if s, _, _, _, ok := bp.edge(int(h.i), int(h.j)); ok && s > margin {
-			r.fail, r.hinted = h, true
-			return false
-		}
-	}
-	ha, hb := a.half, b.half
-	ua, ub := &bp.ua, &bp.ub
-	scale := a.size + b.size
-	bestP, bestPi := math.Inf(-1), 0
-	for i := 0; i < 3; i++ {
-		s, dist := bp.faceP(i)
-		if s > margin {
-			r.fail = pairHint{kind: hintFaceP, i: int32(2*i + b2i(dist < 0))}
-			return false
-		}
-		if s > bestP {
-			bestP, bestPi = s, 2*i+b2i(dist < 0)
-		}
-	}
-	bestQ, bestQi := math.Inf(-1), 0
-	for j := 0; j < 3; j++ {
-		s, dist := bp.faceQ(j)
-		if s > margin {
-			r.fail = pairHint{kind: hintFaceQ, i: int32(2*j + b2i(dist > 0))}
-			return false
-		}
-		// B's face toward A: -ub_j when B lies on the +ub_j side.
-		if s > bestQ {
-			bestQ, bestQi = s, 2*j+b2i(dist > 0)
-		}
-	}
-	r.kind, r.sep, r.face = satFaceP, bestP, bestPi
-	if bestQ > bestP+satFaceBias*scale {
-		r.kind, r.sep, r.face = satFaceQ, bestQ, bestQi
-	}
-	bestFace := r.sep
-	bestE := math.Inf(-1)
-	for i := 0; i < 3; i++ {
-		for j := 0; j < 3; j++ {
-			s, ax, pa, pb, ok := bp.edge(i, j)
-			if !ok {
-				continue
-			}
-			if s > margin {
-				r.fail = pairHint{kind: hintEdge, i: int32(i), j: int32(j)}
-				return false
-			}
-			if s > bestE {
-				bestE = s
-				if bestE > bestFace+satEdgeBias*scale {
-					// A's edge along ua_i extreme toward +ax, B's along ub_j
-					// extreme toward -ax.
-					var ca, cb vec3
-					va, vb := 0, 0
-					for k := 0; k < 3; k++ {
-						if k != i {
-							sa := sgn(pa[k])
-							ca = ca.Add(ua[k].Mul(sa * ha[k]))
-							if sa > 0 {
-								va |= 1 << k
-							}
-						}
-						if k != j {
-							sb := -sgn(pb[k])
-							cb = cb.Add(ub[k].Mul(sb * hb[k]))
-							if sb > 0 {
-								vb |= 1 << k
-							}
-						}
-					}
-					ea, eb := ua[i].Mul(ha[i]), ub[j].Mul(hb[j])
-					r.kind, r.sep, r.axis = satEdge, s, ax
-					r.ep, r.eq = 8*i+va, 8*j+vb
-					r.p0, r.p1 = a.pos.Add(ca).Sub(ea), a.pos.Add(ca).Add(ea)
-					r.q0, r.q1 = b.pos.Add(cb).Sub(eb), b.pos.Add(cb).Add(eb)
-				}
-			}
-		}
-	}
-	return true
-}
-
-// satBoxTriangle is the separating-axis test of a box (P) against a mesh
-// triangle (Q, front face only) on their 13 axes: the box's three face
-// normals (both senses), the triangle's normal and the nine cross products
-// of box axes and triangle edges (both senses), each measured by projection
-// (T. Akenine-Moller, "Fast 3D triangle-box overlap testing", J. Graphics
-// Tools 6(1), 2001). Projection gaps on axes that are not face normals of
-// the Minkowski difference never exceed the true one, so the largest gap is
-// the same as the pruned test's.
-func satBoxTriangle(a, tv *view, margin float64) (satResult, bool) {
-	var r satResult
-	var ua [3]vec3
-	for i := 0; i < 3; i++ {
-		ua[i] = col(a.rot, i)
-	}
-	c, h := a.pos, a.half
-	tri := &tv.tri
-	radius := func(l vec3) float64 {
-		return h[0]*math.Abs(l.Dot(ua[0])) + h[1]*math.Abs(l.Dot(ua[1])) + h[2]*math.Abs(l.Dot(ua[2]))
-	}
-	span := func(l vec3) (lo, hi float64) {
-		lo, hi = tri[0].Dot(l), tri[0].Dot(l)
-		for k := 1; k < 3; k++ {
-			v := tri[k].Dot(l)
-			lo, hi = math.Min(lo, v), math.Max(hi, v)
-		}
-		return
-	}
-	scale := a.size + tv.size
-	// The triangle's face: the box's lowest point against its plane.
-	n := tv.triN
-	bestQ := n.Dot(c) - radius(n) - n.Dot(tri[0])
-	if bestQ > margin {
-		return r, false
-	}
-	bestP, bestPi := math.Inf(-1), 0
-	for i := 0; i < 3; i++ {
-		lo, hi := span(ua[i])
-		m := ua[i].Dot(c)
-		sPlus := lo - (m + h[i])  // the triangle beyond the +ua_i face
-		sMinus := (m - h[i]) - hi // beyond the -ua_i face
-		s, fi := sPlus, 2*i
-		if sMinus > sPlus {
-			s, fi = sMinus, 2*i+1
-		}
-		if s > margin {
-			return r, false
-		}
-		if s > bestP {
-			bestP, bestPi = s, fi
-		}
-	}
-	r.kind, r.sep, r.face = satFaceQ, bestQ, 0
-	if bestP > bestQ+satFaceBias*scale {
-		r.kind, r.sep, r.face = satFaceP, bestP, bestPi
-	}
-	bestFace := r.sep
-	bestE := math.Inf(-1)
-	for k := 0; k < 3; k++ {
-		t0, t1 := tri[k], tri[(k+1)%3]
-		e := t1.Sub(t0)
-		el := e.Len()
-		for i := 0; i < 3; i++ {
-			ax := ua[i].Cross(e)
-			l := ax.Len()
-			if l <= satParallel*el {
-				continue
-			}
-			ax = ax.Mul(1 / l)
-			lo, hi := span(ax)
-			m, rb := ax.Dot(c), radius(ax)
-			s := lo - (m + rb)
-			if sm := (m - rb) - hi; sm > s {
-				s, ax = sm, ax.Mul(-1)
-			}
-			if s > margin {
-				return r, false
-			}
-			if s > bestE {
-				bestE = s
-				if bestE > bestFace+satEdgeBias*scale {
-					// The box edge along ua_i extreme toward +ax.
-					var cb vec3
-					vi := 0
-					for j := 0; j < 3; j++ {
-						if j != i {
-							sj := sgn(ax.Dot(ua[j]))
-							cb = cb.Add(ua[j].Mul(sj * h[j]))
-							if sj > 0 {
-								vi |= 1 << j
-							}
-						}
-					}
-					eb := ua[i].Mul(h[i])
-					r.kind, r.sep, r.axis = satEdge, s, ax
-					r.ep, r.eq = 8*i+vi, k
-					r.p0, r.p1 = c.Add(cb).Sub(eb), c.Add(cb).Add(eb)
-					r.q0, r.q1 = t0, t1
-				}
-			}
-		}
-	}
-	return r, true
 }
