@@ -134,14 +134,3 @@ func (s *Solver) storePairs(points []Point) {
 	s.prevPair, s.curPair = s.curPair, s.prevPair
 	s.prevPairPts, s.curPairPts = s.curPairPts, s.prevPairPts
 }
-
-// addForces adds sign times this step's force velocities DV, DW to V, W.
-func addForces(bodies []Body, sign float64) {
-	for i := range bodies {
-		b := &bodies[i]
-		if b.DV != (vec{}) || b.DW != (vec{}) {
-			addScaled(&b.V, &b.DV, sign)
-			addScaled(&b.W, &b.DW, sign)
-		}
-	}
-}

@@ -322,9 +322,9 @@ position = { cap = [5, 5, 0] }
 }
 
 func TestStepWarnings(t *testing.T) {
-	// A 10 mm part dropped 100 mm reaches 1.4 m/s: a 4 ms step moves it
-	// 5.6 mm, more than half its size (a warning), and 20 ms would move it
-	// 28 mm, more than its size (refused).
+	// A 10 mm part dropped 100 mm reaches 1.4 m/s: a 10 ms step moves it
+	// 14 mm, more than its size (a warning), and 0.1 s would move it 140
+	// mm, more than 10 times its size (refused).
 	src := func(step string) string {
 		return `units = { length = "mm", mass = "g" }
 [world]
@@ -339,15 +339,15 @@ density = 1
 position = [0, 0, 105]
 `
 	}
-	s, err := Parse([]byte(src("0.004")), "s.toml", Options{})
+	s, err := Parse([]byte(src("0.01")), "s.toml", Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(s.Warnings) == 0 || !strings.Contains(s.Warnings[0], "s.toml:3: [world] step 0.004 s is borderline") {
+	if len(s.Warnings) == 0 || !strings.Contains(s.Warnings[0], "s.toml:3: [world] step 0.01 s is coarse") {
 		t.Errorf("warnings %q", s.Warnings)
 	}
-	if msg := parseErr(t, src("0.02")); !strings.Contains(msg, "is too large for body \"cap\"") {
-		t.Errorf("20 ms: %s", msg)
+	if msg := parseErr(t, src("0.1")); !strings.Contains(msg, "is too large for body \"cap\"") {
+		t.Errorf("0.1 s: %s", msg)
 	}
 	if s, err := Parse([]byte(src("0.001")), "s.toml", Options{}); err != nil || len(s.Warnings) != 0 {
 		t.Errorf("1 ms: %v %q", err, s.Warnings)

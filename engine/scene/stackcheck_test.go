@@ -10,9 +10,9 @@ import (
 // TestStackedBodiesNotJudgedByTheirHeight checks the step check's fall
 // estimate: a box resting on top of a tower of equal boxes can fall only
 // onto the box below it, so a 12-box tower of 50 mm boxes at 1/60 s is
-// accepted (with a warning at most), while the same box alone at the
-// tower's top height can reach sqrt(2 g h) = 3.3 m/s (free fall) and would
-// move more than its own size in a step: refused.
+// accepted without a warning, while the same box alone at the tower's top
+// height can reach sqrt(2 g h) = 3.2 m/s (free fall from 550 mm) and would
+// move more than its own size in a step: warned of.
 func TestStackedBodiesNotJudgedByTheirHeight(t *testing.T) {
 	head := `units = { length = "mm", mass = "kg" }
 [world]
@@ -30,11 +30,12 @@ shape = { plane = [0, 0, 1] }
 	for i := 0; i < 12; i++ {
 		tower.WriteString(box(fmt.Sprintf("b%d", i), 25+50*float64(i)))
 	}
-	if _, err := Parse([]byte(tower.String()), "tower.toml", Options{FS: fstest.MapFS{}}); err != nil {
-		t.Errorf("a 12-box tower at 1/60 s was refused: %v", err)
+	s, err := Parse([]byte(tower.String()), "tower.toml", Options{FS: fstest.MapFS{}})
+	if err != nil || len(s.Warnings) != 0 {
+		t.Errorf("a 12-box tower at 1/60 s: %v, warnings %q; want it accepted as it is", err, s.Warnings)
 	}
-	msg := parseErr(t, head+box("alone", 575))
-	if !strings.Contains(msg, `body "alone"`) || !strings.Contains(msg, "more than its own size") {
-		t.Errorf("a lone box 575 mm up at 1/60 s: %s; want it refused for moving more than its size in a step", msg)
+	s, err = Parse([]byte(head+box("alone", 575)), "alone.toml", Options{FS: fstest.MapFS{}})
+	if err != nil || len(s.Warnings) == 0 || !strings.Contains(s.Warnings[0], `is coarse for body "alone"`) {
+		t.Errorf("a lone box 575 mm up at 1/60 s: %v, warnings %q; want a warning that it moves more than its size in a step", err, s.Warnings)
 	}
 }

@@ -71,17 +71,25 @@ velocity = { cap = ["100 mm/s", 0, 50] }
 func TestSweepDrawsCheckTheStep(t *testing.T) {
 	// The step is checked for the fastest trial the draws allow: a 10 mm
 	// box dropped from up to 20 m reaches sqrt(2 g h) = 19.8 m/s, 19.8 mm
-	// per 1 ms step, twice its own size; from its scene height of 5 mm it
-	// would not. Spinning at 5000 rad/s its corners move 43 mm per step.
-	if _, err := Parse([]byte(drawScene("")), "s.toml", Options{}); err != nil {
-		t.Fatal(err)
+	// per 1 ms step, twice its own size (a warning); from its scene height
+	// of 5 mm it would not. Spinning at 5000 rad/s its corners move 43 mm
+	// per step (a warning); at 20000 rad/s 173 mm, 17 times its size
+	// (refused).
+	s, err := Parse([]byte(drawScene("")), "s.toml", Options{})
+	if err != nil || len(s.Warnings) != 0 {
+		t.Fatalf("%v, warnings %q", err, s.Warnings)
 	}
-	_, err := Parse([]byte(drawScene(`height = { cap = [5, 20000] }`)), "s.toml", Options{})
-	if err == nil || !strings.Contains(err.Error(), `is too large for body "cap"`) {
-		t.Errorf("a drop from 20 m with a 1 ms step: %v, want the step refused", err)
+	for _, c := range []struct{ randomize, what string }{
+		{`height = { cap = [5, 20000] }`, "a drop from 20 m"},
+		{`spin = { cap = 5000 }`, "a spin of 5000 rad/s"},
+	} {
+		s, err := Parse([]byte(drawScene(c.randomize)), "s.toml", Options{})
+		if err != nil || len(s.Warnings) == 0 || !strings.Contains(s.Warnings[0], `is coarse for body "cap"`) {
+			t.Errorf("%s with a 1 ms step: %v, warnings %q; want a warning", c.what, err, s.Warnings)
+		}
 	}
-	_, err = Parse([]byte(drawScene(`spin = { cap = 5000 }`)), "s.toml", Options{})
+	_, err = Parse([]byte(drawScene(`spin = { cap = 20000 }`)), "s.toml", Options{})
 	if err == nil || !strings.Contains(err.Error(), `is too large for body "cap"`) {
-		t.Errorf("a spin of 5000 rad/s with a 1 ms step: %v, want the step refused", err)
+		t.Errorf("a spin of 20000 rad/s with a 1 ms step: %v, want the step refused", err)
 	}
 }
