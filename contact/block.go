@@ -59,7 +59,9 @@ type blockState struct {
 	lam    []float64 // the rows' impulses when the solve starts
 	tgt    []float64 // the rows' targets
 	active []bool
-	sub    []int32
+	sub    []int32   // the active rows in the order of the factor b.l (cholesky.go)
+	pos    []int32   // each row's place in b.sub, -1 if inactive
+	col    []float64 // scratch column of a row deletion
 	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
 	kind   []rowKind // what each row of the system is
 	of     []int32   // a tangent row's normal row; a patch row's first normal row
@@ -285,12 +287,16 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		b.active[i] = b.lam[i] > 0
 	}
 	b.follow()
+	b.resetFactor(n)
 	tol := s.Settings.Tolerance + 1e-12
 	done := false
 	for it := 0; it < maxPivots; it++ {
-		if !s.solveActive(n, shift) {
+		// Each pivot changes the active set by a row or a few: update the
+		// factor rather than refactorise (cholesky.go).
+		if !b.refactor(n, shift) {
 			return false // not positive definite: leave the impulses to the sweeps
 		}
+		b.solveFactor(n)
 		worst, wv := -1, 0.0
 		for i := 0; i < nn; i++ {
 			if b.active[i] && b.x[i] < 0 {
@@ -352,64 +358,6 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 		*l += d
 		b.rows[i].apply(vel, d)
-	}
-	return true
-}
-
-// solveActive solves (A + shift I) x = target - v0 on the active rows by
-// Cholesky factorisation, with x = 0 on the others. It reports false if the
-// matrix is not positive definite.
-func (s *Solver) solveActive(n int, shift float64) bool {
-	b := &s.blk
-	b.sub = b.sub[:0]
-	for i := 0; i < n; i++ {
-		b.x[i] = 0
-		if b.active[i] {
-			b.sub = append(b.sub, int32(i))
-		}
-	}
-	m := len(b.sub)
-	b.l = grow(b.l, m*m)
-	L := b.l
-	for i, si := range b.sub {
-		Li, ai := L[i*m:i*m+i+1], b.a[int(si)*n:int(si)*n+n]
-		for j, sj := range b.sub[:i+1] {
-			sum := ai[sj]
-			if i == j {
-				sum += shift
-			}
-			// Row slices, so that the inner product runs without index
-			// arithmetic and bounds checks: the factorisation is most of
-			// the direct solve's time.
-			Lj := L[j*m : j*m+j+1]
-			for k, x := range Lj[:j] {
-				sum -= Li[k] * x
-			}
-			if i == j {
-				if !(sum > 0) {
-					return false
-				}
-				Li[i] = math.Sqrt(sum)
-			} else {
-				Li[j] = sum / Lj[j]
-			}
-		}
-	}
-	// Forward and back substitution into x.
-	for i, si := range b.sub {
-		sum := b.tgt[si] - b.v0[si]
-		for k := 0; k < i; k++ {
-			sum -= L[i*m+k] * b.x[b.sub[k]]
-		}
-		b.x[si] = sum / L[i*m+i]
-	}
-	for i := m - 1; i >= 0; i-- {
-		si := b.sub[i]
-		sum := b.x[si]
-		for k := i + 1; k < m; k++ {
-			sum -= L[k*m+i] * b.x[b.sub[k]]
-		}
-		b.x[si] = sum / L[i*m+i]
 	}
 	return true
 }
