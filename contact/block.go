@@ -283,8 +283,13 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 		b.v0[i] = v
 	}
+	// The active set starts from the points that press: in the velocity
+	// solve those of the warm start (last step's, matched by key), in the
+	// position pass, whose impulses start at zero, those of the velocity
+	// solve just done. A pile's points mostly press in both, so the pass
+	// starts next to its solution instead of adding them one pivot each.
 	for i := 0; i < nn; i++ {
-		b.active[i] = b.lam[i] > 0
+		b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
 	}
 	b.follow()
 	b.resetFactor(n)
