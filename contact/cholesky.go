@@ -23,11 +23,15 @@ import "math"
 //
 // The factor is stored row by row with stride n, the size of the system:
 // row k of L (k-th active row in factor order b.sub) is l[k*n : k*n+k+1].
+// The forward solution y of L y = target - v0 is kept with it (b.y, in
+// factor order): an appended row adds one entry, a deletion turns y by the
+// same rotations as L, so a pivot's solve is one back substitution.
 
 // resetFactor empties the factor of a system of n rows.
 func (b *blockState) resetFactor(n int) {
 	b.sub = b.sub[:0]
 	b.l = grow(b.l, n*n)
+	b.y = grow(b.y, n)
 	b.pos = grow(b.pos, n)
 	for i := range b.pos {
 		b.pos[i] = -1
@@ -59,7 +63,7 @@ func (b *blockState) appendRow(n, p int, shift float64) bool {
 	m := len(b.sub)
 	L, ap := b.l, b.a[p*n:p*n+n]
 	Lm := L[m*n : m*n+m+1]
-	diag := ap[p] + shift
+	diag, rhs := ap[p]+shift, b.tgt[p]-b.v0[p]
 	for j, sj := range b.sub {
 		sum := ap[sj]
 		// Row slices, so that the inner product runs without index
@@ -70,11 +74,13 @@ func (b *blockState) appendRow(n, p int, shift float64) bool {
 		}
 		Lm[j] = sum / Lj[j]
 		diag -= Lm[j] * Lm[j]
+		rhs -= Lm[j] * b.y[j]
 	}
 	if !(diag > 0) {
 		return false
 	}
 	Lm[m] = math.Sqrt(diag)
+	b.y[m] = rhs / Lm[m]
 	b.pos[p] = int32(m)
 	b.sub = append(b.sub, int32(p))
 	return true
@@ -92,6 +98,8 @@ func (b *blockState) deleteRow(n, k int) {
 		x = append(x, L[i*n+k])
 	}
 	b.col = x
+	yk := b.y[k]
+	copy(b.y[k:m-1], b.y[k+1:m])
 	// Shift rows k+1.. up one row and columns k+1.. left one column.
 	for i := k + 1; i < m; i++ {
 		dst, src := L[(i-1)*n:(i-1)*n+i], L[i*n:i*n+i+1]
@@ -101,11 +109,14 @@ func (b *blockState) deleteRow(n, k int) {
 		b.pos[b.sub[i-1]] = int32(i - 1)
 	}
 	b.sub = b.sub[:m-1]
-	// Rank-one update of the trailing block, rows and columns k..m-2.
+	// Rank-one update of the trailing block, rows and columns k..m-2. The
+	// rotation that zeroes x[j] against column j turns (y[j], yk) too.
 	for j := range x {
 		d := &L[(k+j)*n+k+j]
 		r := math.Hypot(*d, x[j])
 		c, s := r / *d, x[j] / *d
+		yj := &b.y[k+j]
+		*yj, yk = (*d**yj+x[j]*yk)/r, (*d*yk-x[j]**yj)/r
 		*d = r
 		for i := j + 1; i < len(x); i++ {
 			e := &L[(k+i)*n+k+j]
@@ -115,21 +126,14 @@ func (b *blockState) deleteRow(n, k int) {
 	}
 }
 
-// solveFactor solves (A + shift I) x = target - v0 on the active rows with
-// the factor, with x = 0 on the others.
+// solveFactor solves (A + shift I) x = target - v0 on the active rows by
+// back substitution from y, with x = 0 on the others.
 func (b *blockState) solveFactor(n int) {
 	L, m := b.l, len(b.sub)
 	clear(b.x[:n])
-	for i, si := range b.sub {
-		sum := b.tgt[si] - b.v0[si]
-		for k, x := range L[i*n : i*n+i] {
-			sum -= x * b.x[b.sub[k]]
-		}
-		b.x[si] = sum / L[i*n+i]
-	}
 	for i := m - 1; i >= 0; i-- {
 		si := b.sub[i]
-		sum := b.x[si]
+		sum := b.y[i]
 		for k := i + 1; k < m; k++ {
 			sum -= L[k*n+i] * b.x[b.sub[k]]
 		}
