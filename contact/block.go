@@ -63,6 +63,7 @@ type blockState struct {
 	pos    []int32   // each row's place in b.sub, -1 if inactive
 	col    []float64 // scratch column of a row deletion
 	y      []float64 // forward solution, in factor order
+	z      []float64 // scratch of the back substitution
 	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
 	kind   []rowKind // what each row of the system is
 	of     []int32   // a tangent row's normal row; a patch row's first normal row

@@ -10,8 +10,8 @@ import "math"
 //   - A row enters at the end of the factor's order by bordering: its row
 //     of L solves L l = a with the factor so far, and its diagonal is
 //     sqrt(a_pp + shift - l.l). This is the last step of the row-oriented
-//     factorisation itself, so a factor built by appends equals one built
-//     from scratch in the same order, to the last bit.
+//     factorisation itself, so the first factor of a solve is built by
+//     appends too.
 //   - A row leaves by deleting its row and column of L: the rows below it
 //     then carry an extra column x, and their trailing block L22 is
 //     replaced by the factor of L22 L22^T + x x^T, a rank-one update by
@@ -127,16 +127,19 @@ func (b *blockState) deleteRow(n, k int) {
 }
 
 // solveFactor solves (A + shift I) x = target - v0 on the active rows by
-// back substitution from y, with x = 0 on the others.
+// back substitution from y, with x = 0 on the others. It runs by rows of L
+// (columns of L^T), which are contiguous, on a copy z of y.
 func (b *blockState) solveFactor(n int) {
 	L, m := b.l, len(b.sub)
 	clear(b.x[:n])
+	b.z = append(b.z[:0], b.y[:m]...)
+	z := b.z
 	for i := m - 1; i >= 0; i-- {
-		si := b.sub[i]
-		sum := b.y[i]
-		for k := i + 1; k < m; k++ {
-			sum -= L[k*n+i] * b.x[b.sub[k]]
+		Li := L[i*n : i*n+i+1]
+		xi := z[i] / Li[i]
+		b.x[b.sub[i]] = xi
+		for k, l := range Li[:i] {
+			z[k] -= l * xi
 		}
-		b.x[si] = sum / L[i*n+i]
 	}
 }
