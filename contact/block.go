@@ -177,6 +177,31 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 	}
 }
 
+// warmSolved reports whether the warm start already solves the normal rows
+// of points idx as well as the direct solve would: every pressing row's
+// velocity within warmExact of the velocity change of its impulse of its
+// target (the shift's own share, blockShift, lets the solve be off by as
+// much), and no free row approaching faster than Tolerance (the solve's
+// own test for a row to enter). A resting island whose load has not
+// changed since last step passes, and its factorisation would change
+// nothing.
+func (s *Solver) warmSolved(idx []int32) bool {
+	vel, tol := s.sl.vel, s.Settings.Tolerance
+	for _, i := range idx {
+		r := &s.rows[3*i]
+		e := r.cdot(vel) - r.target
+		if e < -tol || r.lambda > 0 && math.Abs(e) > warmExact*r.lambda*r.k {
+			return false
+		}
+	}
+	return true
+}
+
+// warmExact is the relative error in a pressing row's velocity that the
+// warm start may keep in place of the direct solve: blockShift, the
+// precision of the solve itself.
+const warmExact = blockShift
+
 // penetrates reports whether the position pass has work on points idx.
 func (s *Solver) penetrates(idx []int32) bool {
 	for _, i := range idx {
@@ -198,12 +223,17 @@ func (s *Solver) penetrates(idx []int32) bool {
 // their place, and its sticking solution is taken only if it lies inside
 // the patch's limit surface, so the direct solve and the sweeps bound the
 // same friction the same way.
-// It reports whether the friction rows were solved too.
+//
+// Before the sweeps, a normal-rows-only solve is skipped where the warm
+// start already solves them (warmSolved). It reports whether the friction
+// rows were solved too.
 func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
 	if !pseudo && len(idx) <= maxFrictionBlock && (final || s.massRatio(idx) > blockFrictionRatio) {
 		if s.solveRows(idx, false, true) {
 			return true
 		}
+	} else if !pseudo && !final && s.warmSolved(idx) {
+		return false
 	}
 	s.solveRows(idx, pseudo, false)
 	return false
