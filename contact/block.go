@@ -59,7 +59,11 @@ type blockState struct {
 	lam    []float64 // the rows' impulses when the solve starts
 	tgt    []float64 // the rows' targets
 	active []bool
-	sub    []int32
+	sub    []int32   // the active rows in the order of the factor b.l (cholesky.go)
+	pos    []int32   // each row's place in b.sub, -1 if inactive
+	col    []float64 // scratch column of a row deletion
+	y      []float64 // forward solution, in factor order
+	z      []float64 // scratch of the back substitution
 	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
 	kind   []rowKind // what each row of the system is
 	of     []int32   // a tangent row's normal row; a patch row's first normal row
@@ -173,6 +177,31 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 	}
 }
 
+// warmSolved reports whether the warm start already solves the normal rows
+// of points idx as well as the direct solve would: every pressing row's
+// velocity within warmExact of the velocity change of its impulse of its
+// target (the shift's own share, blockShift, lets the solve be off by as
+// much), and no free row approaching faster than Tolerance (the solve's
+// own test for a row to enter). A resting island whose load has not
+// changed since last step passes, and its factorisation would change
+// nothing.
+func (s *Solver) warmSolved(idx []int32) bool {
+	vel, tol := s.sl.vel, s.Settings.Tolerance
+	for _, i := range idx {
+		r := &s.rows[3*i]
+		e := r.cdot(vel) - r.target
+		if e < -tol || r.lambda > 0 && math.Abs(e) > warmExact*r.lambda*r.k {
+			return false
+		}
+	}
+	return true
+}
+
+// warmExact is the relative error in a pressing row's velocity that the
+// warm start may keep in place of the direct solve: blockShift, the
+// precision of the solve itself.
+const warmExact = blockShift
+
 // penetrates reports whether the position pass has work on points idx.
 func (s *Solver) penetrates(idx []int32) bool {
 	for _, i := range idx {
@@ -194,12 +223,17 @@ func (s *Solver) penetrates(idx []int32) bool {
 // their place, and its sticking solution is taken only if it lies inside
 // the patch's limit surface, so the direct solve and the sweeps bound the
 // same friction the same way.
-// It reports whether the friction rows were solved too.
+//
+// Before the sweeps, a normal-rows-only solve is skipped where the warm
+// start already solves them (warmSolved). It reports whether the friction
+// rows were solved too.
 func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
 	if !pseudo && len(idx) <= maxFrictionBlock && (final || s.massRatio(idx) > blockFrictionRatio) {
 		if s.solveRows(idx, false, true) {
 			return true
 		}
+	} else if !pseudo && !final && s.warmSolved(idx) {
+		return false
 	}
 	s.solveRows(idx, pseudo, false)
 	return false
@@ -281,16 +315,25 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 		b.v0[i] = v
 	}
+	// The active set starts from the points that press: in the velocity
+	// solve those of the warm start (last step's, matched by key), in the
+	// position pass, whose impulses start at zero, those of the velocity
+	// solve just done. A pile's points mostly press in both, so the pass
+	// starts next to its solution instead of adding them one pivot each.
 	for i := 0; i < nn; i++ {
-		b.active[i] = b.lam[i] > 0
+		b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
 	}
 	b.follow()
+	b.resetFactor(n)
 	tol := s.Settings.Tolerance + 1e-12
 	done := false
 	for it := 0; it < maxPivots; it++ {
-		if !s.solveActive(n, shift) {
+		// Each pivot changes the active set by a row or a few: update the
+		// factor rather than refactorise (cholesky.go).
+		if !b.refactor(n, shift) {
 			return false // not positive definite: leave the impulses to the sweeps
 		}
+		b.solveFactor(n)
 		worst, wv := -1, 0.0
 		for i := 0; i < nn; i++ {
 			if b.active[i] && b.x[i] < 0 {
@@ -352,64 +395,6 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 		*l += d
 		b.rows[i].apply(vel, d)
-	}
-	return true
-}
-
-// solveActive solves (A + shift I) x = target - v0 on the active rows by
-// Cholesky factorisation, with x = 0 on the others. It reports false if the
-// matrix is not positive definite.
-func (s *Solver) solveActive(n int, shift float64) bool {
-	b := &s.blk
-	b.sub = b.sub[:0]
-	for i := 0; i < n; i++ {
-		b.x[i] = 0
-		if b.active[i] {
-			b.sub = append(b.sub, int32(i))
-		}
-	}
-	m := len(b.sub)
-	b.l = grow(b.l, m*m)
-	L := b.l
-	for i, si := range b.sub {
-		Li, ai := L[i*m:i*m+i+1], b.a[int(si)*n:int(si)*n+n]
-		for j, sj := range b.sub[:i+1] {
-			sum := ai[sj]
-			if i == j {
-				sum += shift
-			}
-			// Row slices, so that the inner product runs without index
-			// arithmetic and bounds checks: the factorisation is most of
-			// the direct solve's time.
-			Lj := L[j*m : j*m+j+1]
-			for k, x := range Lj[:j] {
-				sum -= Li[k] * x
-			}
-			if i == j {
-				if !(sum > 0) {
-					return false
-				}
-				Li[i] = math.Sqrt(sum)
-			} else {
-				Li[j] = sum / Lj[j]
-			}
-		}
-	}
-	// Forward and back substitution into x.
-	for i, si := range b.sub {
-		sum := b.tgt[si] - b.v0[si]
-		for k := 0; k < i; k++ {
-			sum -= L[i*m+k] * b.x[b.sub[k]]
-		}
-		b.x[si] = sum / L[i*m+i]
-	}
-	for i := m - 1; i >= 0; i-- {
-		si := b.sub[i]
-		sum := b.x[si]
-		for k := i + 1; k < m; k++ {
-			sum -= L[k*m+i] * b.x[b.sub[k]]
-		}
-		b.x[si] = sum / L[i*m+i]
 	}
 	return true
 }
