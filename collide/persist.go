@@ -163,7 +163,9 @@ func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa sh
 		margin = 0
 	}
 	e := p.lookup(key)
-	if e != nil && e.a == a && e.b == b && finitePose(pa) && finitePose(pb) {
+	// A pose that is not finite makes the motion NaN or infinite, so
+	// refresh leaves it to the full query (which checks the poses).
+	if e != nil && e.a == a && e.b == b {
 		if m, ok := p.refresh(e, pa, pb, margin); ok {
 			e.seen = p.step
 			d.cache.carry(key)
@@ -221,7 +223,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 	// The chord a point at distance rho sweeps by the rotation dq is
 	// 2 sin(angle/2) rho = 2 |dq.V| rho.
 	motion := t.Sub(e.rt).Len() + 2*dq.V.Len()*e.rho
-	if motion > tol || (age >= persistAge && motion > persistStill*tol) {
+	if !(motion <= tol) || (age >= persistAge && motion > persistStill*tol) {
 		return Manifold{}, false
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)

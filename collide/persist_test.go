@@ -181,6 +181,10 @@ func TestPersistentRequeries(t *testing.T) {
 		// 30 um margin, where a fresh query finds nothing.
 		{"kept points beyond the margin", moved(vec3{0, 0, 9e-5}, c.pb.Orientation), 3e-5, c.b, true},
 		{"other shape under the key", still, 1e-3, shapes.Box{Half: vec3{0.05, 0.03, 0.021}}, true},
+		// Poses that are not finite go to the full query, which checks them.
+		{"position not finite", moved(vec3{math.NaN(), 0, 0}, c.pb.Orientation), 1e-3, c.b, true},
+		{"position infinite", moved(vec3{0, math.Inf(1), 0}, c.pb.Orientation), 1e-3, c.b, true},
+		{"orientation not finite", moved(vec3{}, shapes.Quat{W: math.NaN(), V: c.pb.Orientation.V}), 1e-3, c.b, true},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
