@@ -38,7 +38,8 @@ func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
 	if a.rounded() && b.rounded() {
 		return roundNearest(a, b, margin)
 	}
-	g := d.gjk(a, b, false)
+	g := d.gjkFrom(a, b, false, d.warmDirs(a, b)) // warm.go
+	d.keepWarm(a, b)
 	scale := a.size + b.size
 	if !g.overlap && g.dist > coreTouch*scale {
 		r.sep = g.dist - a.rad - b.rad
