@@ -26,10 +26,6 @@ import (
 // The quick test outside the query's frames works in world coordinates, so
 // it asks for a gap beyond the margin by memBand, far above the rounding of
 // either computation and above GJK's touching tolerance.
-//
-// A query that does run on the general path starts GJK from the pair's
-// last simplex (warm.go): the same distance to GJK's tolerance, and a depth
-// that agrees with Collide's to EPA's.
 
 // hint kinds: what a pair's memory holds.
 const (
@@ -97,9 +93,8 @@ func (c *pairCache) lookup(key uint64) pairHint {
 }
 
 // collideHinted is CollidePair's query (persist.go) for a pair with no
-// persistent points: it returns the same manifolds as Collide (on the
-// general path to EPA's tolerance: warm.go), and uses the axis that
-// separated the pair last step to prove it apart sooner.
+// persistent points: it returns the same manifolds as Collide, and uses
+// the axis that separated the pair last step to prove it apart sooner.
 func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
 	c := &d.cache
 	if !plainConvex(a) || !plainConvex(b) {

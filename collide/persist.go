@@ -148,9 +148,7 @@ func (d *Detector) SetPersistence(slop float64) {
 // the same key (for example the two body ids; a key names one pair of
 // shapes): it uses what the pair's last query found to answer sooner. A
 // pair apart is proved apart by the axis that separated it last (cache.go)
-// and returns the same manifolds as Collide; a pair whose query runs gets
-// them to GJK's and EPA's tolerance (GJK starts from the pair's last
-// simplex, warm.go). A touching pair that has
+// and returns the same manifolds as Collide. A touching pair that has
 // barely moved since its last full query, with persistence on
 // (SetPersistence), refreshes that query's points (persist.go): the same
 // features and ids, positions within persistFraction of the slop and
