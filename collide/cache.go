@@ -57,7 +57,6 @@ type pairHint struct {
 	// va, vb: the hull vertices of A and B that were last extreme along
 	// the direction, where the next search starts.
 	va, vb int32
-	warm   warmStart // GJK's last simplex (warm.go)
 }
 
 // pairCache holds last step's hints sorted by key and this step's as they
@@ -68,7 +67,6 @@ type pairCache struct {
 	on        bool
 	swapped   bool     // the current query's pair handler sees B before A
 	in, out   pairHint // the current query's hint from last step, and for the next
-	warmBuf   [4]vec3  // scratch of warmDirs
 }
 
 func (c *pairCache) lookup(key uint64) pairHint {
@@ -117,7 +115,7 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	c.on, c.swapped = true, false
 	dst = d.Collide(dst, a, pa, b, pb, margin)
 	c.on = false
-	if o := &c.out; o.kind != hintNone || o.warm.ndir > 0 {
+	if o := &c.out; o.kind != hintNone {
 		o.swap = c.swapped
 		switch o.kind {
 		case hintDir:

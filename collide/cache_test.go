@@ -129,49 +129,6 @@ func cacheShapes(t *testing.T, rng *rand.Rand) []shapes.Shape {
 	}
 }
 
-// Tolerances of a warm-started query against a cold one. The memory of the
-// separating-axis test only ends a query early when the full test would
-// agree, so those results are equal in every bit; on the general path GJK
-// starts from last step's simplex (warm.go), so EPA starts from another
-// polytope, and the two agree only to EPA's own tolerance.
-const (
-	// warmSepTol, relative to the shapes' sizes: each query's depth is
-	// within epaCurvedTol of the size of the true one (EPA's stopping
-	// rule, from any start), so two queries differ by at most twice that.
-	warmSepTol = 2 * epaCurvedTol
-	// warmNormalTol (radians): a depth within e of the least one on a
-	// surface of curvature radius R leaves the normal off by up to
-	// sqrt(2 e / R) (the depth grows as R theta^2 / 2 away from the
-	// normal); with e = epaCurvedTol times the largest size here (0.2 m)
-	// and R the smallest radius (0.02 m, the capsule) that is 1.4e-3 for
-	// each of the two queries, 2.8e-3 between them.
-	warmNormalTol = 3e-3
-)
-
-// closeManifolds reports whether two results have the same points (count
-// and feature ids) with normals, separations and positions within the
-// warm-start tolerances above, scale being the shapes' size.
-func closeManifolds(a, b []Manifold, scale float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		x, y := &a[i], &b[i]
-		if x.Count != y.Count || x.Normal.Sub(y.Normal).Len() > warmNormalTol {
-			return false
-		}
-		for k := 0; k < x.Count; k++ {
-			p, q := x.Points[k], y.Points[k]
-			// A point moves with the normal over the feature's extent.
-			posTol := warmSepTol*scale + warmNormalTol*scale
-			if p.ID != q.ID || math.Abs(p.Separation-q.Separation) > posTol || p.Position.Sub(q.Position).Len() > posTol {
-				return false
-			}
-		}
-	}
-	return true
-}
-
 // sameManifolds reports whether two results are equal in every bit.
 func sameManifolds(a, b []Manifold) bool {
 	if len(a) != len(b) {
@@ -185,8 +142,8 @@ func sameManifolds(a, b []Manifold) bool {
 	return true
 }
 
-// TestPairMemorySameResults: CollidePair returns what Collide returns
-// (within the warm starts' tolerance), query by query, for every pair of shape kinds moving through
+// TestPairMemorySameResults: CollidePair returns exactly what Collide
+// returns, query by query, for every pair of shape kinds moving through
 // separated, speculative and touching poses over many steps, while its
 // memory answers most of the separated queries. A second detector fed the
 // same queries gives the same results (determinism).
@@ -233,7 +190,7 @@ func TestPairMemorySameResults(t *testing.T) {
 			r1 = cached.CollidePair(r1[:0], tr.key, tr.a, tr.pa, tr.b, tr.pb, tr.margin)
 			r2 = again.CollidePair(r2[:0], tr.key, tr.a, tr.pa, tr.b, tr.pb, tr.margin)
 			r3 = plain.Collide(r3[:0], tr.a, tr.pa, tr.b, tr.pb, tr.margin)
-			if !closeManifolds(r1, r3, radius(tr.a)+radius(tr.b)) {
+			if !sameManifolds(r1, r3) {
 				t.Fatalf("step %d pair %d (%T, %T): with memory %+v, without %+v", s, n, tr.a, tr.b, r1, r3)
 			}
 			if !sameManifolds(r1, r2) {
@@ -264,8 +221,7 @@ func TestPairMemorySameResults(t *testing.T) {
 }
 
 // TestPairMemoryKeysReused: a key queried with other shapes (an index
-// reused for a new body) neither panics nor changes the answer beyond the
-// warm starts' tolerance.
+// reused for a new body) neither panics nor changes the answer.
 func TestPairMemoryKeysReused(t *testing.T) {
 	rng := rand.New(rand.NewSource(37))
 	ss := cacheShapes(t, rng)
@@ -278,7 +234,7 @@ func TestPairMemoryKeysReused(t *testing.T) {
 		pb := shapes.Pose{Position: dir.Mul(0.2 * rng.Float64()), Orientation: randomRotation(rng)}
 		r1 = cached.CollidePair(r1[:0], 1, a, pa, b, pb, 0.01)
 		r2 = plain.Collide(r2[:0], a, pa, b, pb, 0.01)
-		if !closeManifolds(r1, r2, radius(a)+radius(b)) {
+		if !sameManifolds(r1, r2) {
 			t.Fatalf("query %d (%T, %T): with memory %+v, without %+v", s, a, b, r1, r2)
 		}
 		cached.NextStep()

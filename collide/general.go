@@ -38,8 +38,7 @@ func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
 	if a.rounded() && b.rounded() {
 		return roundNearest(a, b, margin)
 	}
-	g := d.gjkFrom(a, b, false, d.warmDirs(a, b)) // warm.go
-	d.keepWarm(a, b)
+	g := d.gjk(a, b, false)
 	scale := a.size + b.size
 	if !g.overlap && g.dist > coreTouch*scale {
 		r.sep = g.dist - a.rad - b.rad

@@ -31,14 +31,12 @@ const (
 )
 
 // simplex holds up to four support points of D with the points of A and B
-// that made them (A's support along dir, B's along -dir), and the
-// barycentric coordinates of the closest point.
+// that made them, and the barycentric coordinates of the closest point.
 type simplex struct {
 	n   int
 	w   [4]vec3
 	a   [4]vec3
 	b   [4]vec3
-	dir [4]vec3
 	lam [4]float64
 }
 
@@ -167,19 +165,6 @@ func sd3(s *[4]vec3, lam *[4]float64) uint8 {
 	return bestMask
 }
 
-// add appends support points pa (of A) and pb (of B) found along dir,
-// unless their difference is already a point of s.
-func (s *simplex) add(pa, pb, dir vec3) {
-	w := pa.Sub(pb)
-	for i := 0; i < s.n; i++ {
-		if s.w[i] == w {
-			return
-		}
-	}
-	s.w[s.n], s.a[s.n], s.b[s.n], s.dir[s.n] = w, pa, pb, dir
-	s.n++
-}
-
 func closestOf(s *[4]vec3, mask uint8, lam *[4]float64) vec3 {
 	var v vec3
 	for i := 0; i < 4; i++ {
@@ -198,7 +183,7 @@ func (s *simplex) reduceInto(out *simplex) vec3 {
 	var mask uint8
 	switch s.n {
 	case 1:
-		out.n, out.w[0], out.a[0], out.b[0], out.dir[0], out.lam[0] = 1, s.w[0], s.a[0], s.b[0], s.dir[0], 1
+		out.n, out.w[0], out.a[0], out.b[0], out.lam[0] = 1, s.w[0], s.a[0], s.b[0], 1
 		return s.w[0]
 	case 2:
 		mask = sd1(&s.w, 0, 1, &lam)
@@ -213,7 +198,7 @@ func (s *simplex) reduceInto(out *simplex) vec3 {
 		if mask&(1<<i) == 0 {
 			continue
 		}
-		out.w[n], out.a[n], out.b[n], out.dir[n], out.lam[n] = s.w[i], s.a[i], s.b[i], s.dir[i], lam[i]
+		out.w[n], out.a[n], out.b[n], out.lam[n] = s.w[i], s.a[i], s.b[i], lam[i]
 		v = v.Add(out.w[n].Mul(lam[i]))
 		n++
 	}
@@ -234,18 +219,6 @@ func (s *simplex) points() (pa, pb vec3) {
 // rounding radii, for EPA on the whole shapes). The final simplex stays in
 // d.smp for EPA.
 func (d *Detector) gjk(a, b *view, full bool) gjkResult {
-	return d.gjkFrom(a, b, full, nil)
-}
-
-// gjkFrom is gjk starting from the support points along the directions
-// warm (in the frame; at most four), when there are any: the directions of
-// the simplex that the pair's last query ended with. Any points of D make a
-// valid start, and last step's simplex is usually this step's too, so the
-// query ends after its first reduction instead of after several
-// iterations (G. van den Bergen, "Collision Detection in Interactive 3D
-// Environments", Morgan Kaufmann 2003: GJK exploiting frame coherence by
-// starting from the previous frame's simplex).
-func (d *Detector) gjkFrom(a, b *view, full bool, warm []vec3) gjkResult {
 	d.stats.GJKCalls++
 	sup := func(v *view, dir vec3) vec3 {
 		if full {
@@ -254,28 +227,19 @@ func (d *Detector) gjkFrom(a, b *view, full bool, warm []vec3) gjkResult {
 		return v.support(dir)
 	}
 	s, next := &d.smp, &d.smp2
-	s.n = 0
-	for _, dir := range warm {
-		s.add(sup(a, dir), sup(b, dir.Mul(-1)), dir)
+	dir := b.center().Sub(a.center())
+	if dir.Dot(dir) == 0 {
+		dir = vec3{1, 0, 0}
 	}
-	if s.n == 0 {
-		dir := b.center().Sub(a.center())
-		if dir.Dot(dir) == 0 {
-			dir = vec3{1, 0, 0}
-		}
-		s.add(sup(a, dir), sup(b, dir.Mul(-1)), dir)
-	}
-	v := s.reduceInto(next)
-	s, next = next, s
+	s.n = 1
+	s.a[0] = sup(a, dir)
+	s.b[0] = sup(b, dir.Mul(-1))
+	s.w[0] = s.a[0].Sub(s.b[0])
+	s.lam[0] = 1
+	v := s.w[0]
 	vv := v.Dot(v)
-	if s.n == 4 {
-		vv = 0 // the warm simplex encloses the origin
-	}
 	var res gjkResult
 	maxww := vv
-	for i := 0; i < s.n; i++ {
-		maxww = math.Max(maxww, s.w[i].Dot(s.w[i]))
-	}
 	for it := 0; ; it++ {
 		if it == gjkMaxIter {
 			res.capped = true
@@ -306,7 +270,7 @@ func (d *Detector) gjkFrom(a, b *view, full bool, warm []vec3) gjkResult {
 		}
 		// The reduced simplex goes to the other buffer, so that s stays
 		// as it was should the step make no progress.
-		s.w[s.n], s.a[s.n], s.b[s.n], s.dir[s.n] = w, pa, pb, v.Mul(-1)
+		s.w[s.n], s.a[s.n], s.b[s.n] = w, pa, pb
 		s.n++
 		maxww = math.Max(maxww, w.Dot(w))
 		nv := s.reduceInto(next)
