@@ -70,10 +70,16 @@ type pairCache struct {
 }
 
 func (c *pairCache) lookup(key uint64) pairHint {
-	p := c.prev
-	if c.cursor < len(p) && p[c.cursor].key == key {
-		c.cursor++
-		return p[c.cursor-1]
+	p, i := c.prev, c.cursor
+	// Queries come in key order: the key is at the cursor, or between it
+	// and the hint before (a pair new this step has none), as in
+	// persistMem.lookup.
+	if (i == 0 || p[i-1].key < key) && (i == len(p) || p[i].key >= key) {
+		if i < len(p) && p[i].key == key {
+			c.cursor++
+			return p[i]
+		}
+		return pairHint{}
 	}
 	i, ok := slices.BinarySearchFunc(p, key, func(h pairHint, k uint64) int { return cmp.Compare(h.key, k) })
 	if !ok {

@@ -38,7 +38,9 @@ import (
 //     by the rotation;
 //   - the margin has grown by more than that: a speculative point could
 //     appear that the old margin excluded;
-//   - the full query is persistAge steps old;
+//   - the full query is persistAge steps old while the shapes have moved
+//     more than persistStill of the motion limit since, or persistAgeStill
+//     steps old while they have not;
 //   - a refreshed point is beyond the margin (a fresh query would drop it)
 //     or its two surface points have drifted apart along the surface by more
 //     than the slop (the same point no longer);
@@ -75,6 +77,21 @@ const persistFraction = 0.1
 // contacts depend on, to a few steps, while a resting pair still skips
 // seven full queries in eight.
 const persistAge = 8
+
+// persistStill and persistAgeStill let a pair at rest keep its points
+// longer. The ties persistAge guards are decided by the relative pose: a
+// query at a pose that differs from the full query's by under persistStill
+// of the motion limit (a fortieth of the slop) decides them as the full
+// query did, unless the tie was closer than that motion, which no age limit
+// rules out either (a later full query at nearly the same pose may decide
+// it either way). So a pair that has stayed that still refreshes up to
+// persistAgeStill steps; the cap keeps the full query's history to a few
+// dozen steps and lets a slow drift that never adds up to the motion limit
+// (a creeping part) meet a fresh query now and then.
+const (
+	persistStill    = 0.25
+	persistAgeStill = 32
+)
 
 // persistEntry is the memory of one pair.
 type persistEntry struct {
@@ -146,7 +163,9 @@ func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa sh
 		margin = 0
 	}
 	e := p.lookup(key)
-	if e != nil && e.a == a && e.b == b && finitePose(pa) && finitePose(pb) {
+	// A pose that is not finite makes the motion NaN or infinite, so
+	// refresh leaves it to the full query (which checks the poses).
+	if e != nil && e.a == a && e.b == b {
 		if m, ok := p.refresh(e, pa, pb, margin); ok {
 			e.seen = p.step
 			d.cache.carry(key)
@@ -195,14 +214,16 @@ func relPose(mOnB bool, pa, pb shapes.Pose) (mgl64.Quat, vec3) {
 // they stand for a fresh query (the conditions of the file comment).
 func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64) (Manifold, bool) {
 	tol := persistFraction * p.slop
-	if p.step-e.full >= persistAge || margin > e.margin+tol {
+	age := p.step - e.full
+	if age >= persistAgeStill || margin > e.margin+tol {
 		return Manifold{}, false
 	}
 	q, t := relPose(e.mOnB, pa, pb)
 	dq := e.rq.Conjugate().Mul(q)
 	// The chord a point at distance rho sweeps by the rotation dq is
 	// 2 sin(angle/2) rho = 2 |dq.V| rho.
-	if t.Sub(e.rt).Len()+2*dq.V.Len()*e.rho > tol {
+	motion := t.Sub(e.rt).Len() + 2*dq.V.Len()*e.rho
+	if !(motion <= tol) || (age >= persistAge && motion > persistStill*tol) {
 		return Manifold{}, false
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)

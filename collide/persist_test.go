@@ -137,9 +137,10 @@ func TestPersistentMatchesFresh(t *testing.T) {
 				}
 			}
 			// Full queries: every few steps while creeping, every
-			// persistAge steps while swaying; the rest refreshed.
+			// persistAge to persistAgeStill steps while swaying; the rest
+			// refreshed.
 			st := kept.Stats()
-			if st.Persisted < steps/2 || st.Persisted > steps-steps/persistAge {
+			if st.Persisted < steps/2 || st.Persisted > steps-steps/persistAgeStill {
 				t.Errorf("%d of %d queries refreshed", st.Persisted, steps)
 			}
 		})
@@ -180,6 +181,10 @@ func TestPersistentRequeries(t *testing.T) {
 		// 30 um margin, where a fresh query finds nothing.
 		{"kept points beyond the margin", moved(vec3{0, 0, 9e-5}, c.pb.Orientation), 3e-5, c.b, true},
 		{"other shape under the key", still, 1e-3, shapes.Box{Half: vec3{0.05, 0.03, 0.021}}, true},
+		// Poses that are not finite go to the full query, which checks them.
+		{"position not finite", moved(vec3{math.NaN(), 0, 0}, c.pb.Orientation), 1e-3, c.b, true},
+		{"position infinite", moved(vec3{0, math.Inf(1), 0}, c.pb.Orientation), 1e-3, c.b, true},
+		{"orientation not finite", moved(vec3{}, shapes.Quat{W: math.NaN(), V: c.pb.Orientation.V}), 1e-3, c.b, true},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -236,12 +241,35 @@ func TestPersistentRequeries(t *testing.T) {
 		d := NewDetector()
 		d.SetPersistence(persistSlop)
 		var r []Manifold
-		const n = 3*persistAge + 1
+		const n = 3*persistAgeStill + 1
 		for s := 0; s < n; s++ {
 			r = d.CollidePair(r[:0], 1, c.a, c.pa, c.b, c.pb, 1e-3)
 			d.NextStep()
 		}
-		// Full queries at steps 0, persistAge, 2 persistAge, 3 persistAge.
+		// At rest: full queries at steps 0, persistAgeStill, 2
+		// persistAgeStill, 3 persistAgeStill.
+		if got := d.Stats().Persisted; got != n-4 {
+			t.Errorf("%d of %d queries refreshed, want %d", got, n, n-4)
+		}
+	})
+	t.Run("age while swaying", func(t *testing.T) {
+		d := NewDetector()
+		d.SetPersistence(persistSlop)
+		var r []Manifold
+		// B sways between two poses twice persistStill of the motion
+		// limit apart: a pose that moved more than persistStill since the
+		// full query runs it again once persistAge old, so the full
+		// queries fall at steps 0, persistAge+1, 2(persistAge+1), ...
+		away := moved(vec3{2 * persistStill * tol, 0, 0}, c.pb.Orientation)
+		const n = 3*(persistAge+1) + 1
+		for s := 0; s < n; s++ {
+			p := c.pb
+			if s%2 == 1 {
+				p = away
+			}
+			r = d.CollidePair(r[:0], 1, c.a, c.pa, c.b, p, 1e-3)
+			d.NextStep()
+		}
 		if got := d.Stats().Persisted; got != n-4 {
 			t.Errorf("%d of %d queries refreshed, want %d", got, n, n-4)
 		}
