@@ -37,40 +37,13 @@ func randomPart(rng *rand.Rand, vertices int) *shapes.Hull {
 // pileWorld drops n mixed convex bodies into a bin and lets them come to
 // rest with sleeping off, so every step does the full work of a pile.
 func pileWorld(b *testing.B, n int) *engine.World {
-	cfg := engine.DefaultConfig()
-	cfg.NoSleep = true
-	cfg.NoEvents = true
-	cfg.VelocityIterations = 8
-	w, err := engine.NewWorld(cfg)
-	if err != nil {
-		b.Fatal(err)
-	}
-	mat, _ := w.AddMaterial(engine.Material{Name: "abs", Friction: 0.4, Restitution: 0.3})
-	add := func(d engine.BodyDef) {
-		if _, err := w.AddBody(d); err != nil {
-			b.Fatal(err)
-		}
-	}
-	add(engine.BodyDef{Name: "floor", Kind: engine.Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
-	const half = 0.25
-	for _, n := range []shapes.Vec3{{1, 0, 0}, {-1, 0, 0}, {0, 1, 0}, {0, -1, 0}} {
-		add(engine.BodyDef{Name: "wall", Kind: engine.Static, Shape: shapes.Plane{Normal: n}, Material: mat, Position: n.Mul(-half)})
-	}
+	w, mat, add := binWorld(b, 0.25, 0.25)
 	rng := rand.New(rand.NewPCG(1000, 1))
 	parts := []*shapes.Hull{randomPart(rng, 40), randomPart(rng, 40), randomPart(rng, 40)}
 	for i := 0; i < n; i++ {
 		pos := shapes.Vec3{-0.2 + 0.04*float64(i%11), -0.2 + 0.04*float64((i/11)%11), 0.03 + 0.04*float64(i/121)}
 		q := mgl64.QuatRotate(rng.Float64()*math.Pi, shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize())
-		var s shapes.Shape
-		switch i % 3 {
-		case 0:
-			s = shapes.Box{Half: shapes.Vec3{0.015, 0.01, 0.008}}
-		case 1:
-			s = shapes.Cylinder{Radius: 0.01, HalfLength: 0.012}
-		default:
-			s = parts[i%len(parts)]
-		}
-		add(engine.BodyDef{Name: "part", Shape: s, Density: 1050, Material: mat, Position: pos, Orientation: q})
+		add(engine.BodyDef{Name: "part", Shape: mixedPart(i, parts), Density: 1050, Material: mat, Position: pos, Orientation: q})
 	}
 	for i := 0; i < 1500; i++ {
 		if err := w.Step(1e-3); err != nil {

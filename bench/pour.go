@@ -102,29 +102,8 @@ func pourGrid(n int) (kx, ky int) {
 // touching), at seeded random orientations, above a floor between four
 // walls whose spacing grows with the grid (0.5 m for 11 columns).
 func pourWorld(b *testing.B, n int) *engine.World {
-	cfg := engine.DefaultConfig()
-	cfg.NoSleep = true
-	cfg.NoEvents = true
-	cfg.VelocityIterations = 8
-	w, err := engine.NewWorld(cfg)
-	if err != nil {
-		b.Fatal(err)
-	}
-	mat, _ := w.AddMaterial(engine.Material{Name: "abs", Friction: 0.4, Restitution: 0.3})
-	add := func(d engine.BodyDef) {
-		if _, err := w.AddBody(d); err != nil {
-			b.Fatal(err)
-		}
-	}
 	kx, ky := pourGrid(n)
-	hx, hy := 0.25*float64(kx)/11, 0.25*float64(ky)/11
-	add(engine.BodyDef{Name: "floor", Kind: engine.Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
-	for _, wall := range []struct {
-		n shapes.Vec3
-		h float64
-	}{{shapes.Vec3{1, 0, 0}, hx}, {shapes.Vec3{-1, 0, 0}, hx}, {shapes.Vec3{0, 1, 0}, hy}, {shapes.Vec3{0, -1, 0}, hy}} {
-		add(engine.BodyDef{Name: "wall", Kind: engine.Static, Shape: shapes.Plane{Normal: wall.n}, Material: mat, Position: wall.n.Mul(-wall.h)})
-	}
+	w, mat, add := binWorld(b, 0.25*float64(kx)/11, 0.25*float64(ky)/11)
 	rng := rand.New(rand.NewPCG(1000, 2))
 	parts := []*shapes.Hull{randomPart(rng, 40), randomPart(rng, 40), randomPart(rng, 40)}
 	x0, y0 := -0.02*float64(kx-1), -0.02*float64(ky-1)
@@ -132,16 +111,7 @@ func pourWorld(b *testing.B, n int) *engine.World {
 		col, layer := i%(kx*ky), i/(kx*ky)
 		pos := shapes.Vec3{x0 + 0.04*float64(col%kx), y0 + 0.04*float64(col/kx), 0.03 + 0.04*float64(layer)}
 		q := mgl64.QuatRotate(rng.Float64()*math.Pi, shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize())
-		var s shapes.Shape
-		switch i % 3 {
-		case 0:
-			s = shapes.Box{Half: shapes.Vec3{0.015, 0.01, 0.008}}
-		case 1:
-			s = shapes.Cylinder{Radius: 0.01, HalfLength: 0.012}
-		default:
-			s = parts[i%len(parts)]
-		}
-		add(engine.BodyDef{Name: "part", Shape: s, Density: 1050, Material: mat, Position: pos, Orientation: q})
+		add(engine.BodyDef{Name: "part", Shape: mixedPart(i, parts), Density: 1050, Material: mat, Position: pos, Orientation: q})
 	}
 	return w
 }
