@@ -39,24 +39,30 @@ type collisionState struct {
 // inside the slop this step, and where its largest impulse acted.
 type touchPair struct{ a, b BodyID }
 
+// initCollision sets up the broad and narrow phase and the solver, new or
+// emptied (a world's Reset keeps them).
 func (w *World) initCollision() {
 	c := &w.collision
-	c.bp = broad.New()
-	c.det = collide.NewDetector()
+	if c.bp == nil {
+		c.bp, c.det, c.solver = broad.New(), collide.NewDetector(), &contact.Solver{}
+	} else {
+		c.bp.Reset()
+		c.det.Reset()
+	}
 	c.det.SetPersistence(w.cfg.Slop) // resting pairs refresh their points (collide/persist.go)
 	s := contact.DefaultSettings()
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations
 	s.Slop = w.cfg.Slop
 	s.BounceThreshold = w.cfg.BounceThreshold
-	c.solver = contact.NewSolver(s)
+	c.solver.Clear(s)
 }
 
 // prepareShape turns a static triangle mesh into the narrow phase's mesh
 // with its bounding volume hierarchy, built once.
 func (w *World) prepareShape(s shapes.Shape) shapes.Shape {
 	if m, ok := s.(*shapes.TriMesh); ok {
-		return collide.NewMesh(m)
+		return w.meshes.mesh(m) // made once (reuse.go)
 	}
 	return s
 }

@@ -107,6 +107,7 @@ type World struct {
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
 	gates     gateState  // counting gates (gate.go)
 	soft      softState  // compliant contacts (compliant.go)
+	meshes    meshCache  // the narrow phase's meshes, kept by Reset (reuse.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -120,13 +121,10 @@ type kick struct {
 
 // NewWorld returns an empty world with the default material at index 0.
 func NewWorld(cfg Config) (*World, error) {
-	if err := cfg.fill(); err != nil {
-		return nil, fmt.Errorf("world: %w", err)
+	w := &World{}
+	if err := w.Reset(cfg); err != nil { // reuse.go
+		return nil, err
 	}
-	w := &World{cfg: cfg, settledAt: math.NaN()}
-	w.materials = []Material{{Name: "default", Friction: 0.5, StaticFriction: 0.5}}
-	w.buildPairTable()
-	w.initCollision()
 	return w, nil
 }
 

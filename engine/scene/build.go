@@ -26,20 +26,26 @@ func (s *Scene) Build() (*engine.World, []engine.BodyID, error) {
 // BuildWith makes a world of the scene with the given engine settings (for
 // example Config with NoEvents set, for headless trials).
 func (s *Scene) BuildWith(cfg engine.Config) (*engine.World, []engine.BodyID, error) {
-	w, err := engine.NewWorld(cfg)
+	w := &engine.World{}
+	ids, err := s.BuildIn(w, cfg) // reuse.go
 	if err != nil {
-		return nil, nil, s.fail(s.lineOf("world"), "[world]: %v", err)
+		return nil, nil, err
 	}
+	return w, ids, nil
+}
+
+// build puts the scene into the empty world w.
+func (s *Scene) build(w *engine.World) ([]engine.BodyID, error) {
 	bd := &builder{s: s, w: w, mats: map[string]int{}}
 	for _, step := range []func() error{bd.materials, bd.pairs, bd.bodies, s.stiffnessError, bd.joints, bd.drives, bd.kicks, bd.gates} {
 		if err := step(); err != nil {
-			return nil, nil, err
+			return nil, err
 		}
 	}
 	if err := s.checkOverlaps(w, bd.ids); err != nil {
-		return nil, nil, err
+		return nil, err
 	}
-	return w, bd.ids, nil
+	return bd.ids, nil
 }
 
 // builder puts a scene's parts into a world, in order.

@@ -16,9 +16,12 @@ import (
 )
 
 // worker runs trials one after another, keeping the scene of its current
-// case and the scratch space of a trial.
+// case and the scratch space of a trial. It builds every trial in its one
+// world (scene.BuildIn), which keeps its buffers and meshes from trial to
+// trial and runs each trial exactly as a new world would.
 type worker struct {
 	st     *Study
+	world  *engine.World
 	c      int64 // case of cs, -1 before the first
 	cs     *scene.Scene
 	values []byte   // the case's value columns, "0.2,1,"
@@ -34,7 +37,7 @@ type worker struct {
 	cross []byte
 }
 
-func newWorker(st *Study) *worker { return &worker{st: st, c: -1} }
+func newWorker(st *Study) *worker { return &worker{st: st, c: -1, world: &engine.World{}} }
 
 // result is a finished trial: its rows of trials.csv, and a row of
 // failures.csv if the simulation failed.
@@ -104,7 +107,8 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	st.drawStart(trialRand(seed), &sc)
 	cfg := sc.Config()
 	cfg.NoEvents = sc.Drop == nil // a drop's report reads the impacts
-	w, ids, err := sc.BuildWith(cfg)
+	w := wk.world
+	ids, err := sc.BuildIn(w, cfg)
 	if err != nil {
 		if oe := (*engine.OverlapError)(nil); errors.As(err, &oe) {
 			return wk.startFailure(g, c, t, seed, &sc, oe), nil // startfail.go

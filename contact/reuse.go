@@ -1,0 +1,37 @@
+package contact
+
+import "clatter/internal/scratch"
+
+// Clear makes s what NewSolver(set) returns, with no memory of earlier
+// solves, except that it keeps the memory of its buffers (zeroed), so
+// that a world reused for another trial makes no new ones. Every field not
+// handed on here starts as in a new Solver.
+func (s *Solver) Clear(set Settings) {
+	n := *NewSolver(set)
+	n.sl = slots{gid: scratch.Reuse(s.sl.gid), fixed: scratch.Reuse(s.sl.fixed), vel: scratch.Reuse(s.sl.vel),
+		ps: scratch.Reuse(s.sl.ps), fv: scratch.Reuse(s.sl.fv), im: scratch.Reuse(s.sl.im)}
+	n.rows, n.jrows, n.pts, n.jp = scratch.Reuse(s.rows), scratch.Reuse(s.jrows), scratch.Reuse(s.pts), scratch.Reuse(s.jp)
+	n.groups = scratch.Reuse(s.groups)
+	n.prevPts, n.curPts = scratch.Reuse(s.prevPts), scratch.Reuse(s.curPts)
+	n.prevRows, n.curRows = scratch.Reuse(s.prevRows), scratch.Reuse(s.curRows)
+	n.byKey, n.keyTmp = scratch.Reuse(s.byKey), scratch.Reuse(s.keyTmp)
+	n.rank, n.match = scratch.Reuse(s.rank), scratch.Reuse(s.match)
+	n.prevPair, n.curPair = scratch.Reuse(s.prevPair), scratch.Reuse(s.curPair)
+	n.prevPairPts, n.curPairPts = scratch.Reuse(s.prevPairPts), scratch.Reuse(s.curPairPts)
+	n.claimed = scratch.Reuse(s.claimed)
+	n.blk = s.blk.reused()
+	n.patches = patchState{list: scratch.Reuse(s.patches.list), ofGroup: scratch.Reuse(s.patches.ofGroup), mem: scratch.Reuse(s.patches.mem)}
+	*s = n
+}
+
+// reused is an empty block state with b's buffers.
+func (b *blockState) reused() blockState {
+	return blockState{
+		parent: scratch.Reuse(b.parent), size: scratch.Reuse(b.size), start: scratch.Reuse(b.start), order: scratch.Reuse(b.order),
+		a: scratch.Reuse(b.a), l: scratch.Reuse(b.l), v0: scratch.Reuse(b.v0), x: scratch.Reuse(b.x),
+		lam: scratch.Reuse(b.lam), tgt: scratch.Reuse(b.tgt), active: scratch.Reuse(b.active),
+		sub: scratch.Reuse(b.sub), pos: scratch.Reuse(b.pos), col: scratch.Reuse(b.col), y: scratch.Reuse(b.y), z: scratch.Reuse(b.z),
+		rows: scratch.Reuse(b.rows), kind: scratch.Reuse(b.kind), of: scratch.Reuse(b.of), cnt: scratch.Reuse(b.cnt),
+		root: scratch.Reuse(b.root), excess: scratch.Reuse(b.excess),
+	}
+}
