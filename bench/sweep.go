@@ -26,8 +26,12 @@ func init() {
 // workers: a 40-vertex part (an STL mesh of a seeded point cloud, 3 cm
 // across) dropped 0.2 m at uniformly random orientations onto a floor,
 // stepped at 1 ms until settled, its rows appended to trials.csv. One op
-// is one trial; trials/s is reported, and the process's CPU time per trial
-// (user and system, all threads, GC included) as cpu-ns/trial. On a shared
+// is one trial, run as the study runs it: each worker builds its trials
+// in its one world (scene.BuildIn: World.Reset keeps the world's buffers,
+// broad and narrow phase and solver), and the part's hull is built once
+// when the study is read. trials/s is reported, and the process's CPU
+// time per trial (user and system, all threads, GC included) as
+// cpu-ns/trial. On a shared
 // machine the wall-time ratio of the two says more about the load than
 // about the pool; the CPU per trial says what the pool costs: with a core
 // for each worker, 2 workers run 2 x cpu1/cpu2 times as fast as one.

@@ -20,8 +20,10 @@ import (
 // what lets its workers run side by side without contending for the
 // collector.
 //
-// Slices that the world returned before (Events, Crossings) must not be
-// used after Reset. On an error (a bad cfg) the world is left as it was.
+// The zero World is ready for use once Reset (NewWorld is a Reset of a
+// zero World). Slices that the world returned before (Events, Crossings)
+// must not be used after Reset. On an error (a bad cfg) the world is left
+// as it was.
 func (w *World) Reset(cfg Config) error {
 	if err := cfg.fill(); err != nil {
 		return fmt.Errorf("world: %w", err)
