@@ -78,14 +78,15 @@ func pile(b *testing.B, n int) {
 // DropTrial is one trial of a drop study, run as a study's worker runs it:
 // a 40-vertex part dropped 0.2 m onto a floor at a random orientation and
 // stepped at 1 ms until settled. What is reused from trial to trial, as in
-// a study: the part's hull (built once, as a study reads a scene's shapes
-// once) and the world, emptied by World.Reset before each trial and built
+// a study: the part's hull and its mass properties (worked out once, as a
+// study reads a scene's shapes once) and the world, emptied by World.Reset before each trial and built
 // again (its body arrays, broad and narrow phase, pair memory buffers and
 // solver keep their memory). Each trial still adds its material and
 // bodies and starts from a world that behaves as a new one.
 func DropTrial(b *testing.B) {
 	rng := rand.New(rand.NewPCG(7, 7))
 	part := randomPart(rng, 40)
+	props := part.Mass(1050)
 	b.ReportAllocs()
 	b.ResetTimer()
 	var cpu cpuClock // cputime.go
@@ -102,7 +103,7 @@ func DropTrial(b *testing.B) {
 		mat, _ := w.AddMaterial(engine.Material{Name: "abs", Friction: 0.4, Restitution: 0.3})
 		w.AddBody(engine.BodyDef{Name: "floor", Kind: engine.Static, Shape: shapes.Plane{Normal: shapes.Vec3{0, 0, 1}}, Material: mat})
 		q := mgl64.QuatRotate(rng.Float64()*2*math.Pi, shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize())
-		w.AddBody(engine.BodyDef{Name: "part", Shape: part, Density: 1050, Material: mat, Position: shapes.Vec3{0, 0, 0.2}, Orientation: q})
+		w.AddBody(engine.BodyDef{Name: "part", Shape: part, Props: &props, Material: mat, Position: shapes.Vec3{0, 0, 0.2}, Orientation: q})
 		for n := 0; n < 5000; n++ {
 			if err := w.Step(1e-3); err != nil {
 				b.Fatal(err)

@@ -172,7 +172,7 @@ func (w *World) AddBody(def BodyDef) (BodyID, error) {
 	b.restFor = append(b.restFor, 0)
 	b.maxHit = append(b.maxHit, 0)
 	if def.Kind == Dynamic {
-		moments, axes, err := shapes.Principal(props.Inertia)
+		moments, axes, err := w.principal(props.Inertia) // worked out once (reuse.go)
 		if err != nil {
 			return -1, w.bodyErr(&def, "%v", err)
 		}

@@ -62,7 +62,7 @@ func (w *World) initCollision() {
 // with its bounding volume hierarchy, built once.
 func (w *World) prepareShape(s shapes.Shape) shapes.Shape {
 	if m, ok := s.(*shapes.TriMesh); ok {
-		return w.meshes.mesh(m) // made once (reuse.go)
+		return w.mesh(m) // made once (reuse.go)
 	}
 	return s
 }

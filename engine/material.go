@@ -3,6 +3,7 @@ package engine
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // Material holds the surface coefficients of one material.
@@ -92,7 +93,7 @@ func mix(a, b Material) PairCoefficients {
 // buildPairTable fills the dense n x n table read in the step loop.
 func (w *World) buildPairTable() {
 	n := len(w.materials)
-	w.pairs = make([]PairCoefficients, n*n)
+	w.pairs = slices.Grow(w.pairs[:0], n*n)[:n*n] // every entry is written below
 	for i := 0; i < n; i++ {
 		for j := 0; j < n; j++ {
 			c := mix(w.materials[i], w.materials[j])

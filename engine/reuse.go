@@ -13,9 +13,10 @@ import (
 // materials, joints, drives, gates, kicks or events, time zero, and no
 // memory of contacts, sleep or energy. Afterwards the world behaves
 // exactly as NewWorld(cfg) would, bit for bit, but it keeps the memory of
-// its buffers, the broad and narrow phase and the solver (zeroed), and the
+// its buffers, the broad and narrow phase and the solver (zeroed), the
 // narrow phase's form of the triangle meshes it used since the last Reset
-// (their hierarchies are built once, not once a run). A study that runs
+// (their hierarchies are built once, not once a run) and the principal
+// axes of its bodies' inertia. A study that runs
 // trial after trial in one world so makes next to no garbage, which is
 // what lets its workers run side by side without contending for the
 // collector.
@@ -30,7 +31,8 @@ func (w *World) Reset(cfg Config) error {
 	}
 	old := *w
 	*w = World{cfg: cfg, settledAt: math.NaN()}
-	w.materials = []Material{{Name: "default", Friction: 0.5, StaticFriction: 0.5}}
+	w.materials = append(scratch.Reuse(old.materials), Material{Name: "default", Friction: 0.5, StaticFriction: 0.5})
+	w.pairs, w.soft.laws = scratch.Reuse(old.pairs), scratch.Reuse(old.soft.laws)
 	w.buildPairTable()
 	w.b = old.b.reused()
 	w.kicks = scratch.Reuse(old.kicks)
@@ -39,7 +41,7 @@ func (w *World) Reset(cfg Config) error {
 	w.active = activeSet{ids: scratch.Reuse(old.active.ids), slept: scratch.Reuse(old.active.slept), dozed: scratch.Reuse(old.active.dozed)}
 	w.collision = old.collision.reused()
 	w.initCollision()
-	w.meshes = old.meshes.next()
+	w.kept = old.kept.next()
 	return nil
 }
 
@@ -75,35 +77,69 @@ func (c *collisionState) reused() collisionState {
 	}
 }
 
-// meshCache holds the narrow phase's form of the static triangle meshes
-// (collide.NewMesh: adjacency and bounding volume hierarchy) that the
-// world has used since its last Reset and those of the run before, so that
-// a world reset for trial after trial of one scene builds each once. A
-// collide.Mesh is not changed after it is made, and a TriMesh given to a
-// world must not be changed either, so the two runs see the same mesh.
-type meshCache struct {
-	cur, prev map[*shapes.TriMesh]*collide.Mesh
+// kept is what a world works out from a shape or a body's mass
+// properties once and keeps through Reset: the values used since the last
+// Reset and those of the run before, so that a world reset for trial after
+// trial of one scene works each out once, while values no longer used are
+// let go. Each value is a function of its key alone, so a kept value is
+// the one a new world would work out.
+type kept[K comparable, V any] struct {
+	cur, prev map[K]V
 }
 
-// mesh returns the narrow phase's form of m, made once.
-func (mc *meshCache) mesh(m *shapes.TriMesh) *collide.Mesh {
-	if me, ok := mc.cur[m]; ok {
-		return me
+// get returns the value of k, worked out by make once.
+func (c *kept[K, V]) get(k K, make func(K) V) V {
+	if v, ok := c.cur[k]; ok {
+		return v
 	}
-	me, ok := mc.prev[m]
+	v, ok := c.prev[k]
 	if !ok {
-		me = collide.NewMesh(m)
+		v = make(k)
 	}
-	if mc.cur == nil {
-		mc.cur = make(map[*shapes.TriMesh]*collide.Mesh)
+	if c.cur == nil {
+		c.cur = map[K]V{}
 	}
-	mc.cur[m] = me
-	return me
+	c.cur[k] = v
+	return v
 }
 
-// next is the cache for the next run: the meshes of this run, kept while
-// the next uses them; older ones are let go.
-func (mc meshCache) next() meshCache {
-	clear(mc.prev)
-	return meshCache{cur: mc.prev, prev: mc.cur}
+// next is the cache for the next run.
+func (c kept[K, V]) next() kept[K, V] {
+	clear(c.prev)
+	return kept[K, V]{cur: c.prev, prev: c.cur}
+}
+
+// keptState is what Reset keeps: the narrow phase's form of static
+// triangle meshes (collide.NewMesh: adjacency and bounding volume
+// hierarchy; neither a collide.Mesh nor a TriMesh given to a world is
+// changed afterwards), and the principal axes of inertia tensors.
+type keptState struct {
+	meshes     kept[*shapes.TriMesh, *collide.Mesh]
+	principals kept[shapes.Mat3, principal]
+}
+
+func (k *keptState) next() keptState {
+	return keptState{meshes: k.meshes.next(), principals: k.principals.next()}
+}
+
+// principal is what shapes.Principal returns.
+type principal struct {
+	moments shapes.Vec3
+	axes    shapes.Mat3
+	err     error
+}
+
+// principal is shapes.Principal of a body's inertia tensor, worked out
+// once.
+func (w *World) principal(inertia shapes.Mat3) (shapes.Vec3, shapes.Mat3, error) {
+	p := w.kept.principals.get(inertia, func(in shapes.Mat3) principal {
+		m, a, err := shapes.Principal(in)
+		return principal{m, a, err}
+	})
+	return p.moments, p.axes, p.err
+}
+
+// mesh is collide.NewMesh of m, made once.
+func (w *World) mesh(m *shapes.TriMesh) *collide.Mesh {
+	return w.kept.meshes.get(m, collide.NewMesh)
 }

@@ -3,6 +3,7 @@ package engine
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // Stiffness makes a material compliant: a contact against it is a spring
@@ -86,7 +87,7 @@ func pairLaw(s Stiffness) springLaw {
 // rigid world never looks at it).
 func (w *World) buildSpringTable() {
 	n := len(w.materials)
-	w.soft.laws = make([]springLaw, n*n)
+	w.soft.laws = slices.Grow(w.soft.laws[:0], n*n)[:n*n] // every entry is written below
 	w.soft.on = false
 	for i := 0; i < n; i++ {
 		for j := 0; j < n; j++ {

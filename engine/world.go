@@ -107,7 +107,7 @@ type World struct {
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
 	gates     gateState  // counting gates (gate.go)
 	soft      softState  // compliant contacts (compliant.go)
-	meshes    meshCache  // the narrow phase's meshes, kept by Reset (reuse.go)
+	kept      keptState  // meshes and principal axes, kept by Reset (reuse.go)
 }
 
 // kick is an impulse applied at a moment.

@@ -178,8 +178,9 @@ func stateDiff(a, b *engine.World) string {
 // diff describes the first difference between a and b, or returns "".
 // Floats compare by their bits; slices by length and elements (nil and
 // empty alike: a new buffer and an emptied one); maps by their entries;
-// pointers by what they point to, each pair of pointers once. The world's
-// cache of prepared meshes (kept by Reset on purpose) is left out.
+// pointers by what they point to, each pair of pointers once. What the
+// world keeps through Reset on purpose (prepared meshes, principal axes)
+// is left out.
 func diff(a, b reflect.Value, path string, seen map[[2]uintptr]bool) string {
 	if a.IsValid() != b.IsValid() {
 		return path + ": one is missing"
@@ -258,7 +259,7 @@ func diff(a, b reflect.Value, path string, seen map[[2]uintptr]bool) string {
 	case reflect.Struct:
 		for i := range a.NumField() {
 			f := a.Type().Field(i)
-			if f.Name == "meshes" && f.Type.Name() == "meshCache" {
+			if f.Name == "kept" && f.Type.Name() == "keptState" {
 				continue
 			}
 			if d := diff(a.Field(i), b.Field(i), path+"."+f.Name, seen); d != "" {
