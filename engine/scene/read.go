@@ -1035,23 +1035,30 @@ func (r *reader) meshShape(sec section, k shapeKeys, b *Body, staticGiven bool) 
 		}
 		return
 	}
-	m, err := mesh.ReadSTL(bytes.NewReader(data), file, unit)
-	if err != nil {
-		r.errAt(k.Mesh.path, "%s%v", pre, err)
-		return
-	}
 	b.MeshFile = p
-	if as == "triangles" {
+	key := meshKey{path: p, file: file, unit: unit, triangles: as == "triangles"}
+	made, ok := r.s.madeMesh(key) // meshcache.go
+	if !ok {
+		m, err := mesh.ReadSTL(bytes.NewReader(data), file, unit)
+		if err != nil {
+			r.errAt(k.Mesh.path, "%s%v", pre, err)
+			return
+		}
+		if key.triangles {
+			made.tri = m.TriMesh()
+		} else if made.part, err = mesh.NewPart(m); err != nil {
+			r.errAt(k.Mesh.path, "%s%v", pre, err)
+			return
+		}
+		r.s.keepMesh(key, made)
+	}
+	if key.triangles {
 		r.mustBeStatic(b, staticGiven, k.As.path, "a mesh kept as triangles")
 		b.Triangles = true
-		b.Shape = m.TriMesh()
+		b.Shape = made.tri
 		return
 	}
-	part, err := mesh.NewPart(m)
-	if err != nil {
-		r.errAt(k.Mesh.path, "%s%v", pre, err)
-		return
-	}
+	part := made.part
 	for _, w := range part.Warnings {
 		r.warnAt(k.Mesh.path, "%s%s", pre, w)
 	}

@@ -47,6 +47,9 @@ type Scene struct {
 	lines lineIndex
 	opt   Options
 	cache map[string][]byte // mesh files read, by resolved path
+	// meshes holds the shapes made from mesh files, shared by the scenes
+	// of With (meshcache.go).
+	meshes map[meshKey]madeMesh
 }
 
 // Settings are the [world] section in SI: gravity, step, duration, rest
@@ -229,7 +232,7 @@ func Parse(data []byte, name string, opt Options) (*Scene, error) {
 	}
 	doc := locate(data)
 	arraysOfTables(raw, doc.tables)
-	s := &Scene{File: name, raw: raw, lines: doc.lines, opt: opt, cache: map[string][]byte{}}
+	s := &Scene{File: name, raw: raw, lines: doc.lines, opt: opt, cache: map[string][]byte{}, meshes: map[meshKey]madeMesh{}}
 	return s.read()
 }
 
@@ -250,7 +253,7 @@ func (s *Scene) With(key string, v float64) (*Scene, error) {
 		return nil, Errors{{File: s.File, Line: 1, Msg: err.Error()}}
 	}
 	p.set(v)
-	n := &Scene{File: s.File, raw: raw, lines: s.lines, opt: s.opt, cache: s.cache}
+	n := &Scene{File: s.File, raw: raw, lines: s.lines, opt: s.opt, cache: s.cache, meshes: s.meshes}
 	return n.read()
 }
 
