@@ -7,11 +7,13 @@ import (
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"reflect"
 	"slices"
 	"testing"
 
 	"clatter/engine"
 	"clatter/engine/scene"
+	"clatter/shapes/resting"
 )
 
 // reuseStudies are studies whose trials a worker runs in its one world:
@@ -93,4 +95,44 @@ func trialPrint(t *testing.T, wk *worker, ctx context.Context, g int64) string {
 		out += "\n"
 	}
 	return out
+}
+
+// TestCaseFacesSameForEveryTrial checks that a worker's resting faces of a
+// case do not depend on which trial of the case it runs first (each
+// trial's pose gives the centre of mass back with roundings of its own),
+// and that the cases of a study, which share the part's hull, share them:
+// the faces are those of the hull about the scene's centre of mass
+// (resting.OfShape, whose own tests check them against closed forms).
+func TestCaseFacesSameForEveryTrial(t *testing.T) {
+	const file = "../../testdata/sweeps/bracket.toml"
+	src, err := os.ReadFile(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := New(src, file, scene.Options{Dir: filepath.Dir(file)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	var got [][]resting.Face
+	for _, first := range []int64{0, 7, 200 + 3} { // trials of case 0, and of case 1 first
+		wk := newWorker(st)
+		if _, err := wk.run(ctx, first); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := wk.run(ctx, 1); err != nil {
+			t.Fatal(err)
+		}
+		got = append(got, wk.faces[0])
+	}
+	b := st.Scene.Bodies[st.dyn[0]]
+	want, err := resting.OfShape(b.Shape, b.Props.Center)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, f := range got {
+		if !reflect.DeepEqual(f, want) {
+			t.Errorf("worker %d: the faces differ from the hull's about the scene's centre of mass", k)
+		}
+	}
 }

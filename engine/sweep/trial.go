@@ -35,6 +35,8 @@ type worker struct {
 	// cross holds the trial's rows of crossings.csv (gates.go).
 	slot  []int
 	cross []byte
+	// hullFaces holds the resting faces of hulls (casefaces.go).
+	hullFaces map[faceKey][]resting.Face
 }
 
 func newWorker(st *Study) *worker { return &worker{st: st, c: -1, world: &engine.World{}} }
@@ -118,7 +120,7 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	if wk.faces == nil {
 		wk.faces = make([][]resting.Face, len(st.dyn))
 		for k, i := range st.dyn {
-			wk.faces[k] = report.Faces(w, ids[i])
+			wk.faces[k] = wk.facesOf(&sc.Bodies[i], w, ids[i]) // casefaces.go
 		}
 	}
 	n := len(st.dyn)
