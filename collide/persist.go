@@ -206,8 +206,7 @@ func relPose(mOnB bool, pa, pb shapes.Pose) (mgl64.Quat, vec3) {
 	if !mOnB {
 		f, m = pb, pa
 	}
-	fc := f.Orientation.Conjugate()
-	return fc.Mul(m.Orientation), fc.Rotate(m.Position.Sub(f.Position))
+	return qmulConjA(&f.Orientation, &m.Orientation), qrotateConj(&f.Orientation, m.Position.Sub(f.Position))
 }
 
 // refresh moves e's points with the shapes at pa and pb and reports whether
@@ -219,7 +218,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 		return Manifold{}, false
 	}
 	q, t := relPose(e.mOnB, pa, pb)
-	dq := e.rq.Conjugate().Mul(q)
+	dq := qmulConjA(&e.rq, &q)
 	// The chord a point at distance rho sweeps by the rotation dq is
 	// 2 sin(angle/2) rho = 2 |dq.V| rho.
 	motion := t.Sub(e.rt).Len() + 2*dq.V.Len()*e.rho

@@ -167,6 +167,7 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 		return // a compliant pair: springs, not rows (compliant.go)
 	}
 	touch := false
+	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
 	for _, mf := range c.manifolds {
 		for k := 0; k < mf.Count; k++ {
 			pt := mf.Points[k]
@@ -175,17 +176,17 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 			}
 			c.points = append(c.points, contact.Point{
 				A: int32(a), B: int32(b),
-				Position:       pt.Position,
-				Normal:         mf.Normal,
-				Separation:     pt.Separation,
-				Friction:       coef.Friction,
-				StaticFriction: coef.StaticFriction,
-				Restitution:    coef.Restitution,
-				Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
-				PatchCenter:    mf.PatchCenter, // patch friction (contact/twist.go)
-				PatchRadius:    mf.PatchRadius,
+				Position:        pt.Position,
+				Normal:          mf.Normal,
+				Separation:      pt.Separation,
+				Friction:        coef.Friction,
+				StaticFriction:  coef.StaticFriction,
+				Restitution:     coef.Restitution,
+				Key:             contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
+				PatchCenter:     mf.PatchCenter, // patch friction (contact/twist.go)
+				PatchRadius:     mf.PatchRadius,
+				SurfaceVelocity: sv,
 			})
-			c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
 		}
 	}
 	if touch {
@@ -258,12 +259,17 @@ func (w *World) solve(dt float64) error {
 		c.inertia = append(c.inertia, make([]shapes.Mat3, n-len(c.inertia))...)
 	}
 	gdt := w.cfg.Gravity.Mul(dt)
+	trees := len(w.mech.joints) > 0 // the joint trees read the inertia itself (jointtree.go)
 	for i := 0; i < n; i++ {
 		sb := &c.bodies[i]
 		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			sb.InvMass = w.b.invM[i]
-			c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
+			if trees {
+				c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
+			} else {
+				sb.InvInertia = w.invInertiaWorld(BodyID(i))
+			}
 			sb.DV = gdt // this step's gravity, already in V (World.step)
 		}
 	}
