@@ -16,6 +16,7 @@ type collisionState struct {
 	det    *collide.Detector
 	solver *contact.Solver
 	margin []float64     // speculative margin of each body this step
+	local  []localBounds // each body's shape bounds in its own frame, taken once
 	pose   []shapes.Pose // each body's shape pose this step, computed once
 
 	planes    planeSet // planes, kept out of the sweep (planes.go)
@@ -76,6 +77,7 @@ func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) error {
 		return err
 	}
 	c.margin = append(c.margin, 0)
+	c.local = append(c.local, shapeBounds(w.b.shape[id]))
 	c.planes.filter = append(c.planes.filter, [2]uint32{cat, mask})
 	return nil
 }
@@ -113,6 +115,20 @@ func (w *World) collide(dt float64) {
 	w.contactEvents()
 }
 
+// localBounds is a shape's bounds in its own frame and whether they are
+// finite (not a plane's). A body's shape does not change once added, and
+// its bounds were a tenth of a flying part's step behind an interface call
+// and the finiteness tests.
+type localBounds struct {
+	box    shapes.AABB
+	finite bool
+}
+
+func shapeBounds(s shapes.Shape) localBounds {
+	b := s.Bounds()
+	return localBounds{box: b, finite: finiteVec(b.Min) && finiteVec(b.Max)}
+}
+
 // moveBounds grows an awake body's bounds by its speculative margin: how
 // far its surface can travel this step, plus the slop (the step, stage 2).
 func (w *World) moveBounds(id BodyID, dt float64) {
@@ -122,10 +138,10 @@ func (w *World) moveBounds(id BodyID, dt float64) {
 		m += w.softLookAhead(int(id)) // compliant.go
 	}
 	c.margin[id] = m
-	if b := w.b.shape[id].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
-		w.b.bounds[id] = b.Transform(c.pose[id]).Grow(m)
+	if lb := &c.local[id]; lb.finite {
+		w.b.bounds[id] = lb.box.Transform(c.pose[id]).Grow(m)
 	} else {
-		w.b.bounds[id] = b // a plane: unbounded, outside the broad phase
+		w.b.bounds[id] = lb.box // a plane: unbounded, outside the broad phase
 		return
 	}
 	_ = c.bp.Move(int32(id), w.b.bounds[id])
