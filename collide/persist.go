@@ -278,16 +278,23 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	if len(res) != 1 || res[0].Count == 0 || !finitePose(pa) || !finitePose(pb) || !persistable(a) || !persistable(b) {
 		return
 	}
-	sa, sb := boundRadius(a), boundRadius(b)
-	if math.IsInf(sa, 0) && math.IsInf(sb, 0) {
-		return
+	var mOnB bool
+	var rho float64
+	if e != nil && e.a == a && e.b == b {
+		mOnB, rho = e.mOnB, e.rho // the same shapes: their bounds as measured before
+	} else {
+		sa, sb := boundRadius(a), boundRadius(b)
+		if math.IsInf(sa, 0) && math.IsInf(sb, 0) {
+			return
+		}
+		mOnB, rho = sb <= sa, min(sa, sb)
 	}
 	if e == nil {
 		p.add = append(p.add, persistEntry{})
 		e = &p.add[len(p.add)-1]
 	}
-	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: sb <= sa, margin: margin}
-	e.rho = min(sa, sb)
+	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin}
+	e.rho = rho
 	e.rq, e.rt = relPose(e.mOnB, pa, pb)
 	m := &res[0]
 	e.flat = flatPoints(m)
