@@ -201,7 +201,7 @@ func (p *persistMem) lookup(key uint64) *persistEntry {
 }
 
 // relPose returns the pose of M in F's frame.
-func relPose(mOnB bool, pa, pb shapes.Pose) (mgl64.Quat, vec3) {
+func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 	f, m := pa, pb
 	if !mOnB {
 		f, m = pb, pa
@@ -217,7 +217,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 	if age >= persistAgeStill || margin > e.margin+tol {
 		return Manifold{}, false
 	}
-	q, t := relPose(e.mOnB, pa, pb)
+	q, t := relPose(e.mOnB, &pa, &pb)
 	dq := qmulConjA(&e.rq, &q)
 	// The chord a point at distance rho sweeps by the rotation dq is
 	// 2 sin(angle/2) rho = 2 |dq.V| rho.
@@ -295,7 +295,7 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	}
 	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin}
 	e.rho = rho
-	e.rq, e.rt = relPose(e.mOnB, pa, pb)
+	e.rq, e.rt = relPose(e.mOnB, &pa, &pb)
 	m := &res[0]
 	e.flat = flatPoints(m)
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)

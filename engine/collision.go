@@ -184,9 +184,10 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	}
 	touch := false
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
-	for _, mf := range c.manifolds {
+	for m := range c.manifolds {
+		mf := &c.manifolds[m]
 		for k := 0; k < mf.Count; k++ {
-			pt := mf.Points[k]
+			pt := &mf.Points[k]
 			if pt.Separation <= slop {
 				touch = true
 			}
