@@ -275,7 +275,9 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	if e != nil {
 		e.seen = 0
 	}
-	if len(res) != 1 || res[0].Count == 0 || !finitePose(pa) || !finitePose(pb) || !persistable(a) || !persistable(b) {
+	// A result with points comes from a query that found both poses finite
+	// (Collide tests them first).
+	if len(res) != 1 || res[0].Count == 0 || !persistable(a) || !persistable(b) {
 		return
 	}
 	var mOnB bool
