@@ -86,6 +86,7 @@ type Detector struct {
 	capMark  []uint32
 	capStamp uint32
 	capWalk  []int32
+	capTop   hullTop     // where planeConvex's last climb to a hull's lowest vertex ended
 	restFace []candPoint // keepRestingPatch's points of the resting face
 
 	// The contact patch (patch.go): a cylinder cap hint and scratch points.

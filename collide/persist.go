@@ -201,13 +201,12 @@ func (p *persistMem) lookup(key uint64) *persistEntry {
 }
 
 // relPose returns the pose of M in F's frame.
-func relPose(mOnB bool, pa, pb shapes.Pose) (mgl64.Quat, vec3) {
+func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 	f, m := pa, pb
 	if !mOnB {
 		f, m = pb, pa
 	}
-	fc := f.Orientation.Conjugate()
-	return fc.Mul(m.Orientation), fc.Rotate(m.Position.Sub(f.Position))
+	return qmulConjA(&f.Orientation, &m.Orientation), qrotateConj(&f.Orientation, m.Position.Sub(f.Position))
 }
 
 // refresh moves e's points with the shapes at pa and pb and reports whether
@@ -218,8 +217,8 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 	if age >= persistAgeStill || margin > e.margin+tol {
 		return Manifold{}, false
 	}
-	q, t := relPose(e.mOnB, pa, pb)
-	dq := e.rq.Conjugate().Mul(q)
+	q, t := relPose(e.mOnB, &pa, &pb)
+	dq := qmulConjA(&e.rq, &q)
 	// The chord a point at distance rho sweeps by the rotation dq is
 	// 2 sin(angle/2) rho = 2 |dq.V| rho.
 	motion := t.Sub(e.rt).Len() + 2*dq.V.Len()*e.rho
@@ -276,20 +275,29 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	if e != nil {
 		e.seen = 0
 	}
-	if len(res) != 1 || res[0].Count == 0 || !finitePose(pa) || !finitePose(pb) || !persistable(a) || !persistable(b) {
+	// A result with points comes from a query that found both poses finite
+	// (Collide tests them first).
+	if len(res) != 1 || res[0].Count == 0 || !persistable(a) || !persistable(b) {
 		return
 	}
-	sa, sb := boundRadius(a), boundRadius(b)
-	if math.IsInf(sa, 0) && math.IsInf(sb, 0) {
-		return
+	var mOnB bool
+	var rho float64
+	if e != nil && e.a == a && e.b == b {
+		mOnB, rho = e.mOnB, e.rho // the same shapes: their bounds as measured before
+	} else {
+		sa, sb := boundRadius(a), boundRadius(b)
+		if math.IsInf(sa, 0) && math.IsInf(sb, 0) {
+			return
+		}
+		mOnB, rho = sb <= sa, min(sa, sb)
 	}
 	if e == nil {
 		p.add = append(p.add, persistEntry{})
 		e = &p.add[len(p.add)-1]
 	}
-	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: sb <= sa, margin: margin}
-	e.rho = min(sa, sb)
-	e.rq, e.rt = relPose(e.mOnB, pa, pb)
+	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin}
+	e.rho = rho
+	e.rq, e.rt = relPose(e.mOnB, &pa, &pb)
 	m := &res[0]
 	e.flat = flatPoints(m)
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)

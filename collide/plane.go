@@ -58,7 +58,7 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		}
 	case kHull:
 		l := mulT(v.rot, down)
-		si := v.hull.SupportIndex(l)
+		si := d.capTop.lowest(v.hull, l)
 		lo := v.pos.Add(mul(v.rot, v.hull.Vertices[si]))
 		if nw.Dot(lo)-dw > margin {
 			return dst
@@ -110,6 +110,31 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		n = n.Mul(-1)
 	}
 	return d.emit(dst, worldFrame, n, subA, subB)
+}
+
+// hullTop remembers the hull vertex that the last climb ended on. A part
+// on a plane turns little between steps, so its lowest vertex is the same or
+// a neighbour of the last one: the climb starting there (Hull.SupportFrom)
+// looks at one or two vertices' neighbours instead of walking across the
+// hull from vertex 0, the temporal coherence of Lin and Canny, "A fast
+// algorithm for incremental distance calculation", IEEE ICRA 1991. Any start
+// finds the same height along l; only within a tie to rounding may the
+// vertex differ; the cap walked from it is then the same, and the cull
+// could differ only for a part whose tied lowest vertices lie exactly at
+// the margin's edge, to rounding.
+type hullTop struct {
+	h *shapes.Hull
+	i int
+}
+
+// lowest returns the index of h's vertex farthest along l.
+func (t *hullTop) lowest(h *shapes.Hull, l vec3) int {
+	start := 0
+	if t.h == h && t.i < len(h.Vertices) {
+		start = t.i
+	}
+	t.h, t.i = h, h.SupportFrom(l, start)
+	return t.i
 }
 
 // hullCap returns, in increasing order, the indices of the vertices p of h

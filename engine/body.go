@@ -293,3 +293,14 @@ func (w *World) inertiaWorld(id BodyID) (in, inv shapes.Mat3) {
 	rt := r.Transpose()
 	return r.Mul3(d).Mul3(rt), r.Mul3(di).Mul3(rt)
 }
+
+// invInertiaWorld is inertiaWorld's inverse alone, computed the same way
+// (mat3Mul is Mat3.Mul3's arithmetic).
+func (w *World) invInertiaWorld(id BodyID) shapes.Mat3 {
+	r := shapes.RotationMatrix(qmul(&w.b.rot[id], &w.b.axes[id]))
+	m := w.b.moments[id]
+	di := shapes.Mat3{1 / m[0], 0, 0, 0, 1 / m[1], 0, 0, 0, 1 / m[2]}
+	rt := r.Transpose()
+	rd := mat3Mul(&r, &di)
+	return mat3Mul(&rd, &rt)
+}

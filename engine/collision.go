@@ -16,6 +16,7 @@ type collisionState struct {
 	det    *collide.Detector
 	solver *contact.Solver
 	margin []float64     // speculative margin of each body this step
+	local  []localBounds // each body's shape bounds in its own frame, taken once
 	pose   []shapes.Pose // each body's shape pose this step, computed once
 
 	planes    planeSet // planes, kept out of the sweep (planes.go)
@@ -82,6 +83,7 @@ func (w *World) addToBroadPhase(id BodyID, cat, mask uint32) error {
 		return err
 	}
 	c.margin = append(c.margin, 0)
+	c.local = append(c.local, shapeBounds(w.b.shape[id]))
 	c.planes.filter = append(c.planes.filter, [2]uint32{cat, mask})
 	return nil
 }
@@ -119,6 +121,20 @@ func (w *World) collide(dt float64) {
 	w.contactEvents()
 }
 
+// localBounds is a shape's bounds in its own frame and whether they are
+// finite (not a plane's). A body's shape does not change once added, and
+// its bounds were a tenth of a flying part's step behind an interface call
+// and the finiteness tests.
+type localBounds struct {
+	box    shapes.AABB
+	finite bool
+}
+
+func shapeBounds(s shapes.Shape) localBounds {
+	b := s.Bounds()
+	return localBounds{box: b, finite: finiteVec(b.Min) && finiteVec(b.Max)}
+}
+
 // moveBounds grows an awake body's bounds by its speculative margin: how
 // far its surface can travel this step, plus the slop (the step, stage 2).
 func (w *World) moveBounds(id BodyID, dt float64) {
@@ -128,10 +144,10 @@ func (w *World) moveBounds(id BodyID, dt float64) {
 		m += w.softLookAhead(int(id)) // compliant.go
 	}
 	c.margin[id] = m
-	if b := w.b.shape[id].Bounds(); finiteVec(b.Min) && finiteVec(b.Max) {
-		w.b.bounds[id] = b.Transform(c.pose[id]).Grow(m)
+	if lb := &c.local[id]; lb.finite {
+		w.b.bounds[id] = lb.box.Transform(c.pose[id]).Grow(m)
 	} else {
-		w.b.bounds[id] = b // a plane: unbounded, outside the broad phase
+		w.b.bounds[id] = lb.box // a plane: unbounded, outside the broad phase
 		return
 	}
 	_ = c.bp.Move(int32(id), w.b.bounds[id])
@@ -173,25 +189,27 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 		return // a compliant pair: springs, not rows (compliant.go)
 	}
 	touch := false
-	for _, mf := range c.manifolds {
+	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
+	for m := range c.manifolds {
+		mf := &c.manifolds[m]
 		for k := 0; k < mf.Count; k++ {
-			pt := mf.Points[k]
+			pt := &mf.Points[k]
 			if pt.Separation <= slop {
 				touch = true
 			}
 			c.points = append(c.points, contact.Point{
 				A: int32(a), B: int32(b),
-				Position:       pt.Position,
-				Normal:         mf.Normal,
-				Separation:     pt.Separation,
-				Friction:       coef.Friction,
-				StaticFriction: coef.StaticFriction,
-				Restitution:    coef.Restitution,
-				Key:            contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
-				PatchCenter:    mf.PatchCenter, // patch friction (contact/twist.go)
-				PatchRadius:    mf.PatchRadius,
+				Position:        pt.Position,
+				Normal:          mf.Normal,
+				Separation:      pt.Separation,
+				Friction:        coef.Friction,
+				StaticFriction:  coef.StaticFriction,
+				Restitution:     coef.Restitution,
+				Key:             contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
+				PatchCenter:     mf.PatchCenter, // patch friction (contact/twist.go)
+				PatchRadius:     mf.PatchRadius,
+				SurfaceVelocity: sv,
 			})
-			c.points[len(c.points)-1].SurfaceVelocity = w.surfaceVelocity(a, b) // conveyors (driver.go)
 		}
 	}
 	if touch {
@@ -264,12 +282,17 @@ func (w *World) solve(dt float64) error {
 		c.inertia = append(c.inertia, make([]shapes.Mat3, n-len(c.inertia))...)
 	}
 	gdt := w.cfg.Gravity.Mul(dt)
+	trees := len(w.mech.joints) > 0 // the joint trees read the inertia itself (jointtree.go)
 	for i := 0; i < n; i++ {
 		sb := &c.bodies[i]
 		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			sb.InvMass = w.b.invM[i]
-			c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
+			if trees {
+				c.inertia[i], sb.InvInertia = w.inertiaWorld(BodyID(i))
+			} else {
+				sb.InvInertia = w.invInertiaWorld(BodyID(i))
+			}
 			sb.DV = gdt // this step's gravity, already in V (World.step)
 		}
 	}

@@ -90,11 +90,12 @@ func (l *preSolveLog) add(e float64) {
 	l.n++
 }
 
-// max is the largest energy logged, or -Inf when none is.
+// max is the largest energy logged, or -Inf when none is. (The built-in
+// max treats NaN and signed zeros as math.Max does, inline.)
 func (l *preSolveLog) max() float64 {
 	m := math.Inf(-1)
 	for i := 0; i < min(l.n, preSolveSteps); i++ {
-		m = math.Max(m, l.e[i])
+		m = max(m, l.e[i])
 	}
 	return m
 }

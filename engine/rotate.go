@@ -1,10 +1,6 @@
 package engine
 
-import (
-	"math"
-
-	"clatter/shapes"
-)
+import "clatter/shapes"
 
 // freeRotation advances the orientation of a torque-free rigid body by dt
 // and returns its new world angular velocity, by the symplectic splitting
@@ -42,13 +38,13 @@ func principalRotate(q *shapes.Quat, pi, moments *shapes.Vec3, k int, t float64)
 	if theta == 0 {
 		return
 	}
-	s, c := math.Sincos(theta / 2)
+	s, c := sincos(theta / 2)
 	var r shapes.Quat
 	r.W = c
 	r.V[k] = s
 	// pi <- Rot_k(-theta) pi
 	i, j := (k+1)%3, (k+2)%3
-	sn, cs := math.Sincos(theta)
+	sn, cs := sincos(theta)
 	pi[i], pi[j] = cs*pi[i]+sn*pi[j], -sn*pi[i]+cs*pi[j]
 	*q = qmul(q, &r)
 }
@@ -61,16 +57,16 @@ func integrateQuat(q shapes.Quat, w shapes.Vec3, dt float64) shapes.Quat {
 	if a == 0 {
 		return q
 	}
-	s, c := math.Sincos(a / 2)
+	s, c := sincos(a / 2)
 	inv := 1 / l // w.Normalize() without a second square root
 	r := shapes.Quat{W: c, V: shapes.Vec3{w[0] * inv * s, w[1] * inv * s, w[2] * inv * s}}
 	return qmul(&r, &q).Normalize()
 }
 
-// The quaternion products of the step loop, with the arithmetic of the
-// shapes.Quat methods (the same roundings) but taking pointers: the
-// methods pass and return their operands by value and are not inlined,
-// which made them a tenth of a hundred-link chain's step.
+// The quaternion and matrix products of the step loop, with the arithmetic
+// of the shapes.Quat and shapes.Mat3 methods (the same roundings) but
+// taking pointers: the methods pass and return their operands by value and
+// are not inlined, which made them a tenth of a hundred-link chain's step.
 
 // qmul is a.Mul(b).
 func qmul(a, b *shapes.Quat) shapes.Quat {
@@ -109,5 +105,20 @@ func qrotateBy(w float64, u, v *shapes.Vec3) shapes.Vec3 {
 		v[0] + c[0]*w2 + (t[1]*c[2] - t[2]*c[1]),
 		v[1] + c[1]*w2 + (t[2]*c[0] - t[0]*c[2]),
 		v[2] + c[2]*w2 + (t[0]*c[1] - t[1]*c[0]),
+	}
+}
+
+// mat3Mul is a.Mul3(b), column-major, with the same sums in the same order.
+func mat3Mul(a, b *shapes.Mat3) shapes.Mat3 {
+	return shapes.Mat3{
+		a[0]*b[0] + a[3]*b[1] + a[6]*b[2],
+		a[1]*b[0] + a[4]*b[1] + a[7]*b[2],
+		a[2]*b[0] + a[5]*b[1] + a[8]*b[2],
+		a[0]*b[3] + a[3]*b[4] + a[6]*b[5],
+		a[1]*b[3] + a[4]*b[4] + a[7]*b[5],
+		a[2]*b[3] + a[5]*b[4] + a[8]*b[5],
+		a[0]*b[6] + a[3]*b[7] + a[6]*b[8],
+		a[1]*b[6] + a[4]*b[7] + a[7]*b[8],
+		a[2]*b[6] + a[5]*b[7] + a[8]*b[8],
 	}
 }

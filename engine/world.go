@@ -279,7 +279,7 @@ func (w *World) step(dt float64) error {
 		return err
 	}
 	if guard && !kicked {
-		if err := w.checkEnergy(math.Max(e0, w.preSolve.max())+work, k0); err != nil {
+		if err := w.checkEnergy(max(e0, w.preSolve.max())+work, k0); err != nil {
 			return err
 		}
 	}
