@@ -99,7 +99,7 @@ func (s *Solver) islands(points []Point, rows []Row) {
 		}
 	}
 	for i := range points {
-		join(s.rows[3*i].a, s.rows[3*i].b)
+		join(s.nrows[i].a, s.nrows[i].b)
 	}
 	for j := range rows {
 		join(s.jrows[j].a, s.jrows[j].b)
@@ -138,7 +138,7 @@ func (s *Solver) islands(points []Point, rows []Row) {
 
 // pointRoot is the island root of point i: that of its dynamic body.
 func (s *Solver) pointRoot(i int) int32 {
-	r := &s.rows[3*i]
+	r := &s.nrows[i]
 	if s.sl.im[r.a] > 0 {
 		return s.blk.find(r.a)
 	}
@@ -188,7 +188,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 func (s *Solver) warmSolved(idx []int32) bool {
 	vel, tol := s.sl.vel, s.Settings.Tolerance
 	for _, i := range idx {
-		r := &s.rows[3*i]
+		r := &s.nrows[i]
 		e := r.cdot(vel) - r.target
 		if e < -tol || r.lambda > 0 && math.Abs(e) > warmExact*r.lambda*r.k {
 			return false
@@ -244,7 +244,7 @@ func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
 func (s *Solver) massRatio(idx []int32) float64 {
 	lo, hi := math.Inf(1), 0.0
 	for _, i := range idx {
-		r := &s.rows[3*i]
+		r := &s.nrows[i]
 		for _, m := range [2]float64{s.sl.im[r.a], s.sl.im[r.b]} {
 			if m > 0 {
 				lo, hi = min(lo, m), max(hi, m)

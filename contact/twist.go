@@ -208,7 +208,7 @@ func maxEigSym3(k [6]float64) float64 {
 func (s *Solver) normalSum(pa *patch) float64 {
 	n := 0.0
 	for i := pa.lo; i < pa.hi; i++ {
-		n += s.rows[3*i].lambda
+		n += s.nrows[i].lambda
 	}
 	return n
 }
@@ -305,8 +305,20 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	}
 	ps := &s.patches
 	for g := 0; g+1 < len(s.groups); g++ {
+		// The points of the group's patches (consecutive, in the order of
+		// the patches) have no friction rows of their own: their normal
+		// rows alone, without the point's state (solvePoint).
+		k, kEnd := ps.ofGroup[g], ps.ofGroup[g+1]
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
-			d := s.solvePoint(vel, i)
+			var d float64
+			if k < kEnd && int32(i) >= ps.list[k].lo {
+				d = solveNormal(vel, &s.nrows[i])
+				if int32(i)+1 == ps.list[k].hi {
+					k++
+				}
+			} else {
+				d = s.solvePoint(vel, i)
+			}
 			res = max(res, d)
 			if !(d <= tol) {
 				note(d, s.pointScale(i), s.pointRootOf(i, block))
@@ -502,7 +514,7 @@ func (s *Solver) storePatches(points []Point) {
 			p := &points[i]
 			share := 1 / cnt
 			if nSum > 0 {
-				share = s.rows[3*i].lambda / nSum
+				share = s.nrows[i].lambda / nSum
 			}
 			p.FrictionImpulse = fr.Mul(share)
 			if iSum > 0 {
