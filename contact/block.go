@@ -60,6 +60,7 @@ type blockState struct {
 	tgt    []float64 // the rows' targets
 	active []bool
 	sub    []int32   // the active rows in the order of the factor b.l (cholesky.go)
+	first  []int32   // where each row of the factor may start to be nonzero (cholesky.go)
 	pos    []int32   // each row's place in b.sub, -1 if inactive
 	col    []float64 // scratch column of a row deletion
 	y      []float64 // forward solution, in factor order

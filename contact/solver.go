@@ -23,13 +23,18 @@ const impactRelTol = 1e-12
 const loadFraction = 1e-3
 
 // pstate is the solver's per-point state beside the point's three rows.
+//
+// The fields a velocity sweep reads and writes (solvePoint) come first, so
+// that they mostly share one cache line.
 type pstate struct {
-	muS, muK, mu, e     float64
-	sep                 float64
+	mu                  float64 // this step's friction coefficient
 	inv11, inv12, inv22 float64 // inverse of the 2x2 friction block, zero if singular
 	miso                float64 // 1 / largest eigenvalue of the friction block
-	found, sat          bool
-	patch               int32   // 1 + index of the patch that carries its friction, 0 if none (twist.go)
+	sat                 bool
+	found               bool
+	patch               int32 // 1 + index of the patch that carries its friction, 0 if none (twist.go)
+	muS, muK, e         float64
+	sep                 float64
 	prevSliding         bool    // last step used the kinetic coefficient
 	prevSlips           uint8   // consecutive steps that ended at the cone's limit and slipping
 	active              bool    // takes part in the current impact processing
