@@ -59,18 +59,19 @@ type blockState struct {
 	lam    []float64 // the rows' impulses when the solve starts
 	tgt    []float64 // the rows' targets
 	active []bool
-	sub    []int32   // the active rows in the order of the factor b.l (cholesky.go)
-	first  []int32   // where each row of the factor may start to be nonzero (cholesky.go)
-	pos    []int32   // each row's place in b.sub, -1 if inactive
-	col    []float64 // scratch column of a row deletion
-	y      []float64 // forward solution, in factor order
-	z      []float64 // scratch of the back substitution
-	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
-	kind   []rowKind // what each row of the system is
-	of     []int32   // a tangent row's normal row; a patch row's first normal row
-	cnt    []int32   // a patch row's number of normal rows
-	root   []int32   // island root of each point
-	excess []float64 // per island root: the last sweep's largest excess (velocities)
+	sub    []int32    // the active rows in the order of the factor b.l (cholesky.go)
+	first  []int32    // where each row of the factor may start to be nonzero (cholesky.go)
+	pos    []int32    // each row's place in b.sub, -1 if inactive
+	col    []float64  // scratch column of a row deletion
+	y      []float64  // forward solution, in factor order
+	z      []float64  // scratch of the back substitution
+	rows   []*crow    // the rows of the system: normal rows (in idx order), then friction rows
+	ab     [][2]int32 // the body slots of each row of the system
+	kind   []rowKind  // what each row of the system is
+	of     []int32    // a tangent row's normal row; a patch row's first normal row
+	cnt    []int32    // a patch row's number of normal rows
+	root   []int32    // island root of each point
+	excess []float64  // per island root: the last sweep's largest excess (velocities)
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -284,10 +285,19 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
 	shift := 0.0
+	// Rows couple only through a shared body slot: the others' entries are
+	// the zero coupling returns for them, without reading the rows.
+	b.ab = grow(b.ab, n)
+	for i, r := range b.rows {
+		b.ab[i] = [2]int32{r.a, r.b}
+	}
 	for i := 0; i < n; i++ {
-		ri := b.rows[i]
-		for j := 0; j <= i; j++ {
-			c := coupling(b.rows[j], ri)
+		ri, ai, bi := b.rows[i], b.ab[i][0], b.ab[i][1]
+		for j, abj := range b.ab[:i+1] {
+			c := 0.0
+			if abj[0] == ai || abj[0] == bi || abj[1] == ai || abj[1] == bi {
+				c = coupling(b.rows[j], ri)
+			}
 			b.a[i*n+j], b.a[j*n+i] = c, c
 		}
 		shift = max(shift, b.a[i*n+i])

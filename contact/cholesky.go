@@ -87,11 +87,13 @@ func (b *blockState) appendRow(n, p int, shift float64) bool {
 				sum -= lm[k] * x
 			}
 		}
-		Lm[j] = sum / Lj[j]
-		if f == m && Lm[j] != 0 {
-			f = j
+		if sum != 0 {
+			Lm[j] = sum / Lj[j]
+			f = min(f, j)
+			diag -= Lm[j] * Lm[j]
+		} else {
+			Lm[j] = 0 // as 0 / Lj[j], which is > 0; diag loses 0
 		}
-		diag -= Lm[j] * Lm[j]
 		rhs -= Lm[j] * b.y[j]
 	}
 	if !(diag > 0) {
