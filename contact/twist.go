@@ -222,10 +222,22 @@ func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, 
 	if !pa.live {
 		return 0, false
 	}
+	// The three rows join the same two bodies: rowVel and applyPair
+	// written out as in solveNormal, with the fixed slot tested once.
 	A, B := &vel[r[0].a], &vel[r[0].b]
+	onA, onB := r[0].a != fixedSlot, r[0].b != fixedSlot
 	var e [3]float64
 	for k := range r {
-		e[k] = r[k].target - rowVel(A, B, &r[k])
+		rk := &r[k]
+		v := 0.0
+		if onA {
+			v = -dot3(&rk.d, &A.v) - dot3(&rk.cA, &A.w)
+		}
+		if onB {
+			v += dot3(&rk.d, &B.v)
+			v += dot3(&rk.cB, &B.w)
+		}
+		e[k] = rk.target - v
 	}
 	var nl [3]float64
 	in := pa.inv
@@ -258,8 +270,16 @@ func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, 
 			continue
 		}
 		l[k] = nl[k]
-		applyPair(A, B, &r[k], d)
-		res = max(res, math.Abs(d)*r[k].k)
+		rk := &r[k]
+		if onA {
+			addM(&A.v, &rk.d, rk.mA, -d)
+			addScaled(&A.w, &rk.wA, -d)
+		}
+		if onB {
+			addM(&B.v, &rk.d, rk.mB, d)
+			addScaled(&B.w, &rk.wB, d)
+		}
+		res = max(res, math.Abs(d)*rk.k)
 	}
 	return res, clamped
 }
