@@ -217,39 +217,82 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 	if age >= persistAgeStill || margin > e.margin+tol {
 		return Manifold{}, false
 	}
-	q, t := relPose(e.mOnB, &pa, &pb)
-	dq := qmulConjA(&e.rq, &q)
-	// The chord a point at distance rho sweeps by the rotation dq is
-	// 2 sin(angle/2) rho = 2 |dq.V| rho.
-	motion := t.Sub(e.rt).Len() + 2*dq.V.Len()*e.rho
+	motion := e.motion(&pa, &pb)
 	if !(motion <= tol) || (age >= persistAge && motion > persistStill*tol) {
 		return Manifold{}, false
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
-	rf := ra
+	rf := &ra
 	if !e.mOnB {
-		rf = rb
+		rf = &rb
 	}
 	k := &e.m
-	n := mul(rf, k.n)
+	n := mul(*rf, k.n)
 	out := Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
+	// By component, as in motion; the same operations as the vector
+	// methods, so the same roundings.
+	var a, b vec3
 	for i := 0; i < k.count; i++ {
-		a := pa.Position.Add(mul(ra, k.pa[i]))
-		b := pb.Position.Add(mul(rb, k.pb[i]))
-		gap := b.Sub(a)
-		sep := gap.Dot(n)
-		if sep > margin || gap.Sub(n.Mul(sep)).Len() > p.slop {
+		placeTo(&a, &ra, &pa.Position, &k.pa[i])
+		placeTo(&b, &rb, &pb.Position, &k.pb[i])
+		g0, g1, g2 := b[0]-a[0], b[1]-a[1], b[2]-a[2]
+		sep := g0*n[0] + g1*n[1] + g2*n[2]
+		d0, d1, d2 := g0-n[0]*sep, g1-n[1]*sep, g2-n[2]*sep
+		if sep > margin || math.Sqrt(d0*d0+d1*d1+d2*d2) > p.slop {
 			return Manifold{}, false
 		}
-		out.Points[i] = Point{Position: a.Add(b).Mul(0.5), Separation: sep, ID: k.id[i]}
+		pt := &out.Points[i]
+		pt.Position = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
+		pt.Separation, pt.ID = sep, k.id[i]
 	}
 	if flatPoints(&out) != e.flat {
 		return Manifold{}, false
 	}
-	ca := pa.Position.Add(mul(ra, k.ca))
-	cb := pb.Position.Add(mul(rb, k.cb))
-	out.PatchCenter = ca.Add(cb).Mul(0.5)
+	placeTo(&a, &ra, &pa.Position, &k.ca)
+	placeTo(&b, &rb, &pb.Position, &k.cb)
+	out.PatchCenter = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
 	return out, true
+}
+
+// placeTo sets dst to o + m v, rounded as o.Add(mul(m, v)).
+func placeTo(dst *vec3, m *mat3, o, v *vec3) {
+	dst[0] = o[0] + (m[0]*v[0] + m[3]*v[1] + m[6]*v[2])
+	dst[1] = o[1] + (m[1]*v[0] + m[4]*v[1] + m[7]*v[2])
+	dst[2] = o[2] + (m[2]*v[0] + m[5]*v[1] + m[8]*v[2])
+}
+
+// motion is the relative motion of the shapes at pa, pb since e's full
+// query: with q, t the pose of M in F's frame (relPose) and dq the rotation
+// from e.rq to q, the translation |t - e.rt| plus the chord a point at
+// distance rho sweeps by dq, 2 sin(angle/2) rho = 2 |dq.V| rho. It is the
+// quaternion algebra of relPose written out by component (a quaternion or
+// vector passed by value costs a stalled store forward per field here),
+// with the same operations in the same order, so the same roundings.
+func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
+	f, m := pa, pb
+	if !e.mOnB {
+		f, m = pb, pa
+	}
+	// fc, the conjugate of F's orientation; q = fc m.Orientation.
+	fw, fx, fy, fz := f.Orientation.W, -f.Orientation.V[0], -f.Orientation.V[1], -f.Orientation.V[2]
+	mw, mx, my, mz := m.Orientation.W, m.Orientation.V[0], m.Orientation.V[1], m.Orientation.V[2]
+	qw := fw*mw - (fx*mx + fy*my + fz*mz)
+	qx := fy*mz - fz*my + mx*fw + fx*mw
+	qy := fz*mx - fx*mz + my*fw + fy*mw
+	qz := fx*my - fy*mx + mz*fw + fz*mw
+	// t = fc rotating d = m.Position - f.Position: d + 2w (v x d) + 2v x (v x d).
+	dx, dy, dz := m.Position[0]-f.Position[0], m.Position[1]-f.Position[1], m.Position[2]-f.Position[2]
+	cx, cy, cz := fy*dz-fz*dy, fz*dx-fx*dz, fx*dy-fy*dx
+	w2, ux, uy, uz := 2*fw, fx*2, fy*2, fz*2
+	tx := dx + cx*w2 + (uy*cz - uz*cy) - e.rt[0]
+	ty := dy + cy*w2 + (uz*cx - ux*cz) - e.rt[1]
+	tz := dz + cz*w2 + (ux*cy - uy*cx) - e.rt[2]
+	// The vector part of dq = conj(e.rq) q.
+	rw, rx, ry, rz := e.rq.W, -e.rq.V[0], -e.rq.V[1], -e.rq.V[2]
+	vx := ry*qz - rz*qy + qx*rw + rx*qw
+	vy := rz*qx - rx*qz + qy*rw + ry*qw
+	vz := rx*qy - ry*qx + qz*rw + rz*qw
+	return math.Sqrt(tx*tx+ty*ty+tz*tz) + 2*math.Sqrt(vx*vx+vy*vy+vz*vz)*e.rho
 }
 
 // flatPoints reports whether m's points lie flat in the sense of
@@ -260,10 +303,12 @@ func flatPoints(m *Manifold) bool {
 		return false
 	}
 	lo, hi, w := math.Inf(1), math.Inf(-1), 0.0
-	p0 := m.Points[0].Position
-	for _, pt := range m.Points[:m.Count] {
+	p0 := &m.Points[0].Position
+	for i := range m.Points[:m.Count] {
+		pt := &m.Points[i]
 		lo, hi = min(lo, pt.Separation), max(hi, pt.Separation)
-		w = max(w, pt.Position.Sub(p0).Len())
+		d0, d1, d2 := pt.Position[0]-p0[0], pt.Position[1]-p0[1], pt.Position[2]-p0[2]
+		w = max(w, math.Sqrt(d0*d0+d1*d1+d2*d2))
 	}
 	return hi-lo <= restBand*w
 }

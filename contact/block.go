@@ -59,17 +59,19 @@ type blockState struct {
 	lam    []float64 // the rows' impulses when the solve starts
 	tgt    []float64 // the rows' targets
 	active []bool
-	sub    []int32   // the active rows in the order of the factor b.l (cholesky.go)
-	pos    []int32   // each row's place in b.sub, -1 if inactive
-	col    []float64 // scratch column of a row deletion
-	y      []float64 // forward solution, in factor order
-	z      []float64 // scratch of the back substitution
-	rows   []*crow   // the rows of the system: normal rows (in idx order), then friction rows
-	kind   []rowKind // what each row of the system is
-	of     []int32   // a tangent row's normal row; a patch row's first normal row
-	cnt    []int32   // a patch row's number of normal rows
-	root   []int32   // island root of each point
-	excess []float64 // per island root: the last sweep's largest excess (velocities)
+	sub    []int32    // the active rows in the order of the factor b.l (cholesky.go)
+	first  []int32    // where each row of the factor may start to be nonzero (cholesky.go)
+	pos    []int32    // each row's place in b.sub, -1 if inactive
+	col    []float64  // scratch column of a row deletion
+	y      []float64  // forward solution, in factor order
+	z      []float64  // scratch of the back substitution
+	rows   []*crow    // the rows of the system: normal rows (in idx order), then friction rows
+	ab     [][2]int32 // the body slots of each row of the system
+	kind   []rowKind  // what each row of the system is
+	of     []int32    // a tangent row's normal row; a patch row's first normal row
+	cnt    []int32    // a patch row's number of normal rows
+	root   []int32    // island root of each point
+	excess []float64  // per island root: the last sweep's largest excess (velocities)
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -99,7 +101,7 @@ func (s *Solver) islands(points []Point, rows []Row) {
 		}
 	}
 	for i := range points {
-		join(s.rows[3*i].a, s.rows[3*i].b)
+		join(s.nrows[i].a, s.nrows[i].b)
 	}
 	for j := range rows {
 		join(s.jrows[j].a, s.jrows[j].b)
@@ -138,7 +140,7 @@ func (s *Solver) islands(points []Point, rows []Row) {
 
 // pointRoot is the island root of point i: that of its dynamic body.
 func (s *Solver) pointRoot(i int) int32 {
-	r := &s.rows[3*i]
+	r := &s.nrows[i]
 	if s.sl.im[r.a] > 0 {
 		return s.blk.find(r.a)
 	}
@@ -188,7 +190,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 func (s *Solver) warmSolved(idx []int32) bool {
 	vel, tol := s.sl.vel, s.Settings.Tolerance
 	for _, i := range idx {
-		r := &s.rows[3*i]
+		r := &s.nrows[i]
 		e := r.cdot(vel) - r.target
 		if e < -tol || r.lambda > 0 && math.Abs(e) > warmExact*r.lambda*r.k {
 			return false
@@ -244,7 +246,7 @@ func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
 func (s *Solver) massRatio(idx []int32) float64 {
 	lo, hi := math.Inf(1), 0.0
 	for _, i := range idx {
-		r := &s.rows[3*i]
+		r := &s.nrows[i]
 		for _, m := range [2]float64{s.sl.im[r.a], s.sl.im[r.b]} {
 			if m > 0 {
 				lo, hi = min(lo, m), max(hi, m)
@@ -283,10 +285,19 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
 	shift := 0.0
+	// Rows couple only through a shared body slot: the others' entries are
+	// the zero coupling returns for them, without reading the rows.
+	b.ab = grow(b.ab, n)
+	for i, r := range b.rows {
+		b.ab[i] = [2]int32{r.a, r.b}
+	}
 	for i := 0; i < n; i++ {
-		ri := b.rows[i]
-		for j := 0; j <= i; j++ {
-			c := coupling(b.rows[j], ri)
+		ri, ai, bi := b.rows[i], b.ab[i][0], b.ab[i][1]
+		for j, abj := range b.ab[:i+1] {
+			c := 0.0
+			if abj[0] == ai || abj[0] == bi || abj[1] == ai || abj[1] == bi {
+				c = coupling(b.rows[j], ri)
+			}
 			b.a[i*n+j], b.a[j*n+i] = c, c
 		}
 		shift = max(shift, b.a[i*n+i])

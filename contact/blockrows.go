@@ -25,7 +25,7 @@ func (s *Solver) systemRows(idx []int32, fric bool) {
 		b.of, b.cnt = append(b.of, int32(of)), append(b.cnt, int32(cnt))
 	}
 	for k, pi := range idx {
-		add(&s.rows[3*pi], normalRow, k, 0)
+		add(&s.nrows[pi], normalRow, k, 0)
 	}
 	if !fric {
 		return
@@ -34,8 +34,8 @@ func (s *Solver) systemRows(idx []int32, fric bool) {
 		q := s.pts[pi].patch
 		switch {
 		case q == 0:
-			add(&s.rows[3*pi+1], tangentRow, k, 0)
-			add(&s.rows[3*pi+2], tangentRow, k, 0)
+			add(&s.trows[2*pi], tangentRow, k, 0)
+			add(&s.trows[2*pi+1], tangentRow, k, 0)
 		case s.patches.list[q-1].lo == pi && s.patches.list[q-1].live:
 			// A patch's points are consecutive, in idx too (islands keeps
 			// the points' order), so they are idx[k:k+cnt].

@@ -26,11 +26,22 @@ import "math"
 // The forward solution y of L y = target - v0 is kept with it (b.y, in
 // factor order): an appended row adds one entry, a deletion turns y by the
 // same rotations as L, so a pivot's solve is one back substitution.
+//
+// Points couple only through a shared body, so the system is sparse and a
+// row of L starts with zeros up to its first point coupled to an earlier
+// one. b.first[k] bounds where row k's nonzero entries start, and the inner
+// products of an append run over the overlap of the two rows' nonzero parts
+// only (the envelope or profile method: A. George and J. W. H. Liu,
+// "Computer Solution of Large Sparse Positive Definite Systems",
+// Prentice-Hall 1981, chapter 4). The terms left out are products with a
+// zero, and a partial sum that starts from an entry of A (never -0) is
+// never -0, so leaving them out changes no bit.
 
 // resetFactor empties the factor of a system of n rows.
 func (b *blockState) resetFactor(n int) {
 	b.sub = b.sub[:0]
 	b.l = grow(b.l, n*n)
+	b.first = grow(b.first, n)
 	b.y = grow(b.y, n)
 	b.pos = grow(b.pos, n)
 	for i := range b.pos {
@@ -64,21 +75,31 @@ func (b *blockState) appendRow(n, p int, shift float64) bool {
 	L, ap := b.l, b.a[p*n:p*n+n]
 	Lm := L[m*n : m*n+m+1]
 	diag, rhs := ap[p]+shift, b.tgt[p]-b.v0[p]
+	f := m // Lm's first nonzero entry so far
 	for j, sj := range b.sub {
 		sum := ap[sj]
 		// Row slices, so that the inner product runs without index
 		// arithmetic and bounds checks.
 		Lj := L[j*n : j*n+j+1]
-		for k, x := range Lj[:j] {
-			sum -= Lm[k] * x
+		if lo := max(f, int(b.first[j])); lo < j {
+			lm := Lm[lo:j]
+			for k, x := range Lj[lo:j] {
+				sum -= lm[k] * x
+			}
 		}
-		Lm[j] = sum / Lj[j]
-		diag -= Lm[j] * Lm[j]
+		if sum != 0 {
+			Lm[j] = sum / Lj[j]
+			f = min(f, j)
+			diag -= Lm[j] * Lm[j]
+		} else {
+			Lm[j] = 0 // as 0 / Lj[j], which is > 0; diag loses 0
+		}
 		rhs -= Lm[j] * b.y[j]
 	}
 	if !(diag > 0) {
 		return false
 	}
+	b.first[m] = int32(f)
 	Lm[m] = math.Sqrt(diag)
 	b.y[m] = rhs / Lm[m]
 	b.pos[p] = int32(m)
@@ -107,6 +128,9 @@ func (b *blockState) deleteRow(n, k int) {
 		copy(dst[k:], src[k+1:])
 		b.sub[i-1] = b.sub[i]
 		b.pos[b.sub[i-1]] = int32(i - 1)
+		// Its columns before k stay; the rotations below fill it in from
+		// column k on.
+		b.first[i-1] = min(b.first[i], int32(k))
 	}
 	b.sub = b.sub[:m-1]
 	// Rank-one update of the trailing block, rows and columns k..m-2. The

@@ -10,7 +10,7 @@ func (s *Solver) Clear(set Settings) {
 	n := *NewSolver(set)
 	n.sl = slots{gid: scratch.Reuse(s.sl.gid), fixed: scratch.Reuse(s.sl.fixed), vel: scratch.Reuse(s.sl.vel),
 		ps: scratch.Reuse(s.sl.ps), fv: scratch.Reuse(s.sl.fv), im: scratch.Reuse(s.sl.im)}
-	n.rows, n.jrows, n.pts, n.jp = scratch.Reuse(s.rows), scratch.Reuse(s.jrows), scratch.Reuse(s.pts), scratch.Reuse(s.jp)
+	n.nrows, n.trows, n.jrows, n.pts, n.jp = scratch.Reuse(s.nrows), scratch.Reuse(s.trows), scratch.Reuse(s.jrows), scratch.Reuse(s.pts), scratch.Reuse(s.jp)
 	n.groups = scratch.Reuse(s.groups)
 	n.prevPts, n.curPts = scratch.Reuse(s.prevPts), scratch.Reuse(s.curPts)
 	n.prevRows, n.curRows = scratch.Reuse(s.prevRows), scratch.Reuse(s.curRows)

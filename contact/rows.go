@@ -13,9 +13,11 @@ import (
 // slices in sweep order, velocities in the solver's compact body array
 // (bodies.go), indexed by slot. A contact row (normal, tangent, a patch's
 // tangent or twist) needs no general Jacobian: its linear parts are -d and
-// d, so it stores d once beside the lever-arm terms and the products of
-// both with the inverse masses and inertias, 208 bytes where the general
-// form takes 248. Joint rows keep the general form (jrow).
+// d, so it stores d once beside the lever-arm terms, the bodies' inverse
+// masses and the products of the lever-arm terms with the inverse inertias,
+// 176 bytes where the general form takes 248: the linear products d InvMass
+// are formed where they are used, rounded as stored ones would be. Joint
+// rows keep the general form (jrow).
 
 // crow is one scalar contact row between slots a and b: the Jacobian
 // (-d, -cA, d, cB) on (V_A, W_A, V_B, W_B), so Cdot is the velocity of B
@@ -33,11 +35,12 @@ type crow struct {
 	mass   float64 // 1/k, 0 if the row cannot move anything
 	target float64
 	lambda float64
-	d      vec // linear direction, on B (-d on A)
-	cB     vec // angular part on B
-	vB, wB vec // M^-1 parts on B: d InvMass_B, InvInertia_B cB
-	cA     vec // angular part on A (-cA)
-	vA, wA vec // M^-1 parts on A: d InvMass_A, InvInertia_A cA
+	mA, mB float64 // InvMass of A and B: the linear M^-1 parts are d mA, d mB
+	d      vec     // linear direction, on B (-d on A)
+	cB     vec     // angular part on B
+	wB     vec     // M^-1 part on B: InvInertia_B cB
+	cA     vec     // angular part on A (-cA)
+	wA     vec     // M^-1 part on A: InvInertia_A cA
 }
 
 // setup fills r for slots a, b of bodies A, B from its direction and lever
@@ -63,17 +66,29 @@ func (r *crow) setupContact(A, B *Body, a, b int32, n, rA, rB *vec) {
 func (r *crow) finish(A, B *Body) {
 	// Component by component: a vec built on the stack and copied costs
 	// a stalled store forward per field here.
-	mA, mB := A.InvMass, B.InvMass
-	r.vA[0], r.vA[1], r.vA[2] = r.d[0]*mA, r.d[1]*mA, r.d[2]*mA
-	r.vB[0], r.vB[1], r.vB[2] = r.d[0]*mB, r.d[1]*mB, r.d[2]*mB
+	r.mA, r.mB = A.InvMass, B.InvMass
 	mulMatTo(&r.wA, &A.InvInertia, &r.cA)
 	mulMatTo(&r.wB, &B.InvInertia, &r.cB)
-	r.k = dot3(&r.d, &r.vA) + dot3(&r.cA, &r.wA) + dot3(&r.d, &r.vB) + dot3(&r.cB, &r.wB)
+	r.k = dotM(&r.d, &r.d, r.mA) + dot3(&r.cA, &r.wA) + dotM(&r.d, &r.d, r.mB) + dot3(&r.cB, &r.wB)
 	r.mass = 0
 	if r.k > 0 && !math.IsInf(r.k, 1) {
 		r.mass = 1 / r.k
 	}
 	r.lambda = 0
+}
+
+// dotM is a . (b m), the dot product with a row's linear M^-1 part b m,
+// rounded as if b m were stored.
+func dotM(a, b *vec, m float64) float64 {
+	return a[0]*(b[0]*m) + a[1]*(b[1]*m) + a[2]*(b[2]*m)
+}
+
+// addM adds (a m) x to v, the linear velocity change of a row's impulse x
+// (a m its linear M^-1 part), rounded as addScaled(v, a m, x) would.
+func addM(v *vec, a *vec, m, x float64) {
+	v[0] += a[0] * m * x
+	v[1] += a[1] * m * x
+	v[2] += a[2] * m * x
 }
 
 // mulMatTo sets dst to m.Mul3x1(v), with its roundings.
@@ -119,17 +134,17 @@ func (r *crow) apply(vel []sbody, x float64) {
 // does not move.
 func applyPair(A, B *sbody, r *crow, x float64) {
 	if r.a != fixedSlot {
-		A.v[0] -= r.vA[0] * x
-		A.v[1] -= r.vA[1] * x
-		A.v[2] -= r.vA[2] * x
+		A.v[0] -= r.d[0] * r.mA * x
+		A.v[1] -= r.d[1] * r.mA * x
+		A.v[2] -= r.d[2] * r.mA * x
 		A.w[0] -= r.wA[0] * x
 		A.w[1] -= r.wA[1] * x
 		A.w[2] -= r.wA[2] * x
 	}
 	if r.b != fixedSlot {
-		B.v[0] += r.vB[0] * x
-		B.v[1] += r.vB[1] * x
-		B.v[2] += r.vB[2] * x
+		B.v[0] += r.d[0] * r.mB * x
+		B.v[1] += r.d[1] * r.mB * x
+		B.v[2] += r.d[2] * r.mB * x
 		B.w[0] += r.wB[0] * x
 		B.w[1] += r.wB[1] * x
 		B.w[2] += r.wB[2] * x
@@ -140,14 +155,14 @@ func applyPair(A, B *sbody, r *crow, x float64) {
 func coupling(q, p *crow) float64 {
 	c := 0.0
 	if q.a == p.a {
-		c += dot3(&q.d, &p.vA) + dot3(&q.cA, &p.wA)
+		c += dotM(&q.d, &p.d, p.mA) + dot3(&q.cA, &p.wA)
 	} else if q.a == p.b {
-		c += -dot3(&q.d, &p.vB) - dot3(&q.cA, &p.wB)
+		c += -dotM(&q.d, &p.d, p.mB) - dot3(&q.cA, &p.wB)
 	}
 	if q.b == p.a {
-		c += -dot3(&q.d, &p.vA) - dot3(&q.cB, &p.wA)
+		c += -dotM(&q.d, &p.d, p.mA) - dot3(&q.cB, &p.wA)
 	} else if q.b == p.b {
-		c += dot3(&q.d, &p.vB) + dot3(&q.cB, &p.wB)
+		c += dotM(&q.d, &p.d, p.mB) + dot3(&q.cB, &p.wB)
 	}
 	return c
 }
@@ -199,11 +214,11 @@ func solveNormal(vel []sbody, r *crow) float64 {
 	}
 	r.lambda = nl
 	if onA {
-		addScaled(&A.v, &r.vA, -x)
+		addM(&A.v, &r.d, r.mA, -x)
 		addScaled(&A.w, &r.wA, -x)
 	}
 	if onB {
-		addScaled(&B.v, &r.vB, x)
+		addM(&B.v, &r.d, r.mB, x)
 		addScaled(&B.w, &r.wB, x)
 	}
 	return math.Abs(x) * r.k
@@ -270,5 +285,5 @@ func (r *jrow) solve(vel []sbody, target, lo, hi float64, lambda *float64) float
 // kWith is r's velocity change per unit impulse of q, a row on the same
 // two bodies (an entry of the block J M^-1 J^T).
 func (r *crow) kWith(q *crow) float64 {
-	return dot3(&r.d, &q.vA) + dot3(&r.cA, &q.wA) + dot3(&r.d, &q.vB) + dot3(&r.cB, &q.wB)
+	return dotM(&r.d, &q.d, q.mA) + dot3(&r.cA, &q.wA) + dotM(&r.d, &q.d, q.mB) + dot3(&r.cB, &q.wB)
 }

@@ -23,13 +23,18 @@ const impactRelTol = 1e-12
 const loadFraction = 1e-3
 
 // pstate is the solver's per-point state beside the point's three rows.
+//
+// The fields a velocity sweep reads and writes (solvePoint) come first, so
+// that they mostly share one cache line.
 type pstate struct {
-	muS, muK, mu, e     float64
-	sep                 float64
+	mu                  float64 // this step's friction coefficient
 	inv11, inv12, inv22 float64 // inverse of the 2x2 friction block, zero if singular
 	miso                float64 // 1 / largest eigenvalue of the friction block
-	found, sat          bool
-	patch               int32   // 1 + index of the patch that carries its friction, 0 if none (twist.go)
+	sat                 bool
+	found               bool
+	patch               int32 // 1 + index of the patch that carries its friction, 0 if none (twist.go)
+	muS, muK, e         float64
+	sep                 float64
 	prevSliding         bool    // last step used the kinetic coefficient
 	prevSlips           uint8   // consecutive steps that ended at the cone's limit and slipping
 	active              bool    // takes part in the current impact processing
@@ -70,8 +75,14 @@ type warmRow struct {
 type Solver struct {
 	Settings Settings
 
-	sl     slots  // the compact body arrays (bodies.go)
-	rows   []crow // 3 per point: normal, tangent 1, tangent 2 (zero for a point of a patch)
+	sl slots // the compact body arrays (bodies.go)
+	// The rows of point i: its normal row nrows[i] and its tangent rows
+	// trows[2i], trows[2i+1] (zero for a point of a patch). The sweeps read
+	// the normal rows of every point but the tangent rows of the points
+	// without a patch only: kept apart, a patch's points leave the zero rows
+	// out of the stream of memory the sweeps read.
+	nrows  []crow
+	trows  []crow
 	jrows  []jrow // the extra rows
 	pts    []pstate
 	jp     []jpos
@@ -257,7 +268,7 @@ func (s *Solver) solveFriction(vel []sbody, i int, bound float64, l1, l2 *float6
 	if p.inv11 == 0 && p.inv22 == 0 {
 		return 0, false
 	}
-	r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
+	r1, r2 := &s.trows[2*i], &s.trows[2*i+1]
 	// Both rows join the point's bodies; rowVel and applyPair written out
 	// as in solveNormal.
 	A, B := &vel[r1.a], &vel[r1.b]
@@ -298,21 +309,21 @@ func (s *Solver) solveFriction(vel []sbody, i int, bound float64, l1, l2 *float6
 	*l1, *l2 = n1, n2
 	if onA {
 		if d1 != 0 {
-			addScaled(&A.v, &r1.vA, -d1)
+			addM(&A.v, &r1.d, r1.mA, -d1)
 			addScaled(&A.w, &r1.wA, -d1)
 		}
 		if d2 != 0 {
-			addScaled(&A.v, &r2.vA, -d2)
+			addM(&A.v, &r2.d, r2.mA, -d2)
 			addScaled(&A.w, &r2.wA, -d2)
 		}
 	}
 	if onB {
 		if d1 != 0 {
-			addScaled(&B.v, &r1.vB, d1)
+			addM(&B.v, &r1.d, r1.mB, d1)
 			addScaled(&B.w, &r1.wB, d1)
 		}
 		if d2 != 0 {
-			addScaled(&B.v, &r2.vB, d2)
+			addM(&B.v, &r2.d, r2.mB, d2)
 			addScaled(&B.w, &r2.wB, d2)
 		}
 	}
@@ -325,7 +336,7 @@ func samePair(p, q *Point) bool {
 
 func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) {
 	n := len(points)
-	s.rows = grow(s.rows, 3*n)
+	s.nrows, s.trows = grow(s.nrows, n), grow(s.trows, 2*n)
 	s.pts = grow(s.pts, n)
 	s.jp = grow(s.jp, len(rows))
 	s.groups = s.groups[:0]
@@ -343,7 +354,7 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		rA := vec{p.Position[0] - A.Position[0], p.Position[1] - A.Position[1], p.Position[2] - A.Position[2]}
 		rB := vec{p.Position[0] - B.Position[0], p.Position[1] - B.Position[1], p.Position[2] - B.Position[2]}
 
-		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+		rn, r1, r2 := &s.nrows[i], &s.trows[2*i], &s.trows[2*i+1]
 		rn.setupContact(A, B, a, b, &p.Normal, &rA, &rB)
 		// A speculative point may approach by its gap within the step.
 		rn.target = -max(p.Separation, 0) / dt
@@ -402,7 +413,7 @@ func (s *Solver) warmStart(dt float64, points []Point, rows []Row) {
 		}
 		w := &s.prevPts[k]
 		ps := &s.pts[i]
-		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+		rn, r1, r2 := &s.nrows[i], &s.trows[2*i], &s.trows[2*i+1]
 		ln := f * w.normal
 		if rn.mass > 0 {
 			rn.lambda = ln
@@ -465,7 +476,7 @@ func (s *Solver) classify(points []Point) {
 			continue // its patch decides (classifyPatches)
 		}
 		ps := &s.pts[i]
-		r1, r2 := &s.rows[3*i+1], &s.rows[3*i+2]
+		r1, r2 := &s.trows[2*i], &s.trows[2*i+1]
 		slip := math.Hypot(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target)
 		sliding := slip > s.Settings.SlipSpeed
 		if !sliding && ps.found {
@@ -510,7 +521,7 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 			lo, hi := int(s.groups[g]), int(s.groups[g+1])
 			vmax := 0.0
 			for i := lo; i < hi; i++ {
-				ps, rn := &s.pts[i], &s.rows[3*i]
+				ps, rn := &s.pts[i], &s.nrows[i]
 				ps.active = false
 				if rn.mass == 0 {
 					continue
@@ -577,7 +588,7 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 					if !ps.active {
 						continue
 					}
-					res = max(res, solveScalar(vel, &s.rows[3*i], ps.iTarget, 0, inf, &ps.iN))
+					res = max(res, solveScalar(vel, &s.nrows[i], ps.iTarget, 0, inf, &ps.iN))
 					d, _ := s.solveFriction(vel, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
 					res = max(res, d)
 				}
@@ -593,7 +604,7 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 				}
 				p.ImpactImpulse += ps.iN
 				if p.PatchRadius == 0 {
-					p.ImpactFriction = p.ImpactFriction.Add(s.rows[3*i+1].d.Mul(ps.iT1)).Add(s.rows[3*i+2].d.Mul(ps.iT2))
+					p.ImpactFriction = p.ImpactFriction.Add(s.trows[2*i].d.Mul(ps.iT1)).Add(s.trows[2*i+1].d.Mul(ps.iT2))
 				}
 			}
 		}
@@ -615,10 +626,10 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 // the normal impulse the update ends with and the impulses always lie in the
 // cone.
 func (s *Solver) solvePoint(vel []sbody, i int) float64 {
-	ps, rn := &s.pts[i], &s.rows[3*i]
+	ps, rn := &s.pts[i], &s.nrows[i]
 	res := solveNormal(vel, rn)
 	bound := ps.mu * rn.lambda
-	d, clamped := s.solveFriction(vel, i, bound, &s.rows[3*i+1].lambda, &s.rows[3*i+2].lambda)
+	d, clamped := s.solveFriction(vel, i, bound, &s.trows[2*i].lambda, &s.trows[2*i+1].lambda)
 	ps.sat = clamped && bound > 0
 	return max(res, d)
 }
@@ -704,7 +715,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 // pointScale is the largest velocity change that one of point i's rows
 // makes with its accumulated impulse.
 func (s *Solver) pointScale(i int) float64 {
-	rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+	rn, r1, r2 := &s.nrows[i], &s.trows[2*i], &s.trows[2*i+1]
 	return max(rn.lambda*rn.k, math.Abs(r1.lambda)*r1.k, math.Abs(r2.lambda)*r2.k)
 }
 
@@ -714,9 +725,12 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 	s.curPts = grow(s.curPts, len(points))
 	for i := range points {
 		p := &points[i]
-		rn, r1, r2 := &s.rows[3*i], &s.rows[3*i+1], &s.rows[3*i+2]
+		rn, r1, r2 := &s.nrows[i], &s.trows[2*i], &s.trows[2*i+1]
 		p.NormalImpulse = rn.lambda
-		p.FrictionImpulse = r1.d.Mul(r1.lambda).Add(r2.d.Mul(r2.lambda))
+		p.FrictionImpulse = vec{} // a patch's point: storePatches shares it out
+		if p.PatchRadius == 0 {
+			p.FrictionImpulse = r1.d.Mul(r1.lambda).Add(r2.d.Mul(r2.lambda))
+		}
 		rep.NormalImpulse += p.NormalImpulse + p.ImpactImpulse
 		// At the cone's limit and still slipping: count the steps in a row.
 		ps := &s.pts[i]
@@ -778,7 +792,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 	n := len(points)
 	inf := math.Inf(1)
 	for i := 0; i < n; i++ {
-		ps, rn := &s.pts[i], &s.rows[3*i]
+		ps, rn := &s.pts[i], &s.nrows[i]
 		ps.pN, ps.pTarget, ps.pLo = 0, 0, 0
 		if rn.mass == 0 {
 			continue
@@ -815,7 +829,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 		}
 		for i := 0; i < n; i++ {
 			ps := &s.pts[i]
-			res = max(res, solveScalar(pv, &s.rows[3*i], ps.pTarget, ps.pLo, inf, &ps.pN))
+			res = max(res, solveScalar(pv, &s.nrows[i], ps.pTarget, ps.pLo, inf, &ps.pN))
 		}
 		if res <= set.Tolerance {
 			break

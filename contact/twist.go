@@ -208,7 +208,7 @@ func maxEigSym3(k [6]float64) float64 {
 func (s *Solver) normalSum(pa *patch) float64 {
 	n := 0.0
 	for i := pa.lo; i < pa.hi; i++ {
-		n += s.rows[3*i].lambda
+		n += s.nrows[i].lambda
 	}
 	return n
 }
@@ -222,10 +222,22 @@ func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, 
 	if !pa.live {
 		return 0, false
 	}
+	// The three rows join the same two bodies: rowVel and applyPair
+	// written out as in solveNormal, with the fixed slot tested once.
 	A, B := &vel[r[0].a], &vel[r[0].b]
+	onA, onB := r[0].a != fixedSlot, r[0].b != fixedSlot
 	var e [3]float64
 	for k := range r {
-		e[k] = r[k].target - rowVel(A, B, &r[k])
+		rk := &r[k]
+		v := 0.0
+		if onA {
+			v = -dot3(&rk.d, &A.v) - dot3(&rk.cA, &A.w)
+		}
+		if onB {
+			v += dot3(&rk.d, &B.v)
+			v += dot3(&rk.cB, &B.w)
+		}
+		e[k] = rk.target - v
 	}
 	var nl [3]float64
 	in := pa.inv
@@ -258,8 +270,16 @@ func solvePatch(vel []sbody, pa *patch, bound float64, l *[3]float64) (float64, 
 			continue
 		}
 		l[k] = nl[k]
-		applyPair(A, B, &r[k], d)
-		res = max(res, math.Abs(d)*r[k].k)
+		rk := &r[k]
+		if onA {
+			addM(&A.v, &rk.d, rk.mA, -d)
+			addScaled(&A.w, &rk.wA, -d)
+		}
+		if onB {
+			addM(&B.v, &rk.d, rk.mB, d)
+			addScaled(&B.w, &rk.wB, d)
+		}
+		res = max(res, math.Abs(d)*rk.k)
 	}
 	return res, clamped
 }
@@ -305,8 +325,20 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	}
 	ps := &s.patches
 	for g := 0; g+1 < len(s.groups); g++ {
+		// The points of the group's patches (consecutive, in the order of
+		// the patches) have no friction rows of their own: their normal
+		// rows alone, without the point's state (solvePoint).
+		k, kEnd := ps.ofGroup[g], ps.ofGroup[g+1]
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
-			d := s.solvePoint(vel, i)
+			var d float64
+			if k < kEnd && int32(i) >= ps.list[k].lo {
+				d = solveNormal(vel, &s.nrows[i])
+				if int32(i)+1 == ps.list[k].hi {
+					k++
+				}
+			} else {
+				d = s.solvePoint(vel, i)
+			}
 			res = max(res, d)
 			if !(d <= tol) {
 				note(d, s.pointScale(i), s.pointRootOf(i, block))
@@ -502,7 +534,7 @@ func (s *Solver) storePatches(points []Point) {
 			p := &points[i]
 			share := 1 / cnt
 			if nSum > 0 {
-				share = s.rows[3*i].lambda / nSum
+				share = s.nrows[i].lambda / nSum
 			}
 			p.FrictionImpulse = fr.Mul(share)
 			if iSum > 0 {
