@@ -118,6 +118,9 @@ func TestBoxHullTreeMatchesLoops(t *testing.T) {
 		for i := 0; i < 1500; i++ {
 			half := boxes[i%len(boxes)]
 			a, b := placeBoxNearHull(rng, half, hc.h, size)
+			if i%2 == 1 {
+				a, b = placeEdgeOnEdge(rng, half, hc.h, size)
+			}
 			margin := 0.0
 			if i%3 == 0 {
 				margin = 0.02 * size * rng.Float64()
@@ -198,6 +201,31 @@ func placeBoxNearHull(rng *rand.Rand, half vec3, h *shapes.Hull, size float64) (
 		gap = 0
 	}
 	a.setConvex(shapes.Box{Half: half}, rot, top.Add(dir.Mul(ext+gap)))
+	return a, b
+}
+
+// placeEdgeOnEdge poses a box of half sizes half with an edge across a
+// random edge of hull h (at a random pose), both extreme along the bisector
+// m of the hull edge's face normals: the box's axis u_0 is square to m, so
+// its extreme along -m is its edge along u_0, and the pair's axis u_0 x dq
+// is m. The gap along m runs from 2% of size deep to 1% apart: edge pairs
+// then tie closely with the faces beside them, the cases that test where
+// the search stops.
+func placeEdgeOnEdge(rng *rand.Rand, half vec3, h *shapes.Hull, size float64) (a, b view) {
+	pb := shapes.Pose{Position: vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Mul(size), Orientation: randomRotation(rng)}
+	fb := poseFrame(pb)
+	b.setConvex(h, fb.rot, fb.pos)
+	e := h.Edges[rng.Intn(len(h.Edges))]
+	m, _ := unit(mul(fb.rot, h.Faces[e.F[0]].Normal.Add(h.Faces[e.F[1]].Normal)))
+	mid := fb.pos.Add(mul(fb.rot, h.Vertices[e.V[0]].Add(h.Vertices[e.V[1]]).Mul(0.5)))
+	u0, _ := unit(m.Cross(vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}))
+	w := vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}
+	u1, _ := unit(w.Sub(u0.Mul(w.Dot(u0))))
+	u2 := u0.Cross(u1)
+	rot := mat3{u0[0], u0[1], u0[2], u1[0], u1[1], u1[2], u2[0], u2[1], u2[2]}
+	ext := half[0]*math.Abs(u0.Dot(m)) + half[1]*math.Abs(u1.Dot(m)) + half[2]*math.Abs(u2.Dot(m))
+	gap := size * (0.03*rng.Float64() - 0.02)
+	a.setConvex(shapes.Box{Half: half}, rot, mid.Add(m.Mul(ext+gap)))
 	return a, b
 }
 
