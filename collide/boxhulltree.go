@@ -7,18 +7,22 @@ import "math"
 // plain loops of satBoxHull, found without measuring the faces and edges
 // that provably cannot be the answer.
 //
-// The bound. A face of the hull with normal n (|n - a| <= eps) and offset
-// f has the gap n.c - f - r(n), where c is the box's centre and r(n) =
-// sum_k h_k |n.u_k| its extent along n (half sizes h_k, axes u_k). With o
-// the node's centre, n.c - f = n.(c - o) + (n.o - f) <= a.(c - o) + eps
-// |c - o| + fMax, and r(n) >= sum_k h_k max(0, |a.u_k| - eps), since
-// |n.u_k - a.u_k| <= eps. An edge pair's gap is ax.(q0 - p0) on an axis
-// ax whose negation m lies on the edge's arc (within epsE of a, see
-// edgeWidth); p0 is the box's edge extreme along ax, so ax.p0 = ax.c +
-// r(ax) up to the signs that edgeWidth allows, and the gap is m.(c - q0) -
-// r(m) <= a.(c - o) + epsE |c - o| + eMax - sum_k h_k max(0, |a.u_k| -
-// epsE). Neither bound assumes the hull convex: they hold for the numbers
-// the plain loops compute, up to rounding (treeRound).
+// The bound. Every gap the test measures is min over the box of m.x
+// minus the hull feature's extent along m, for a unit vector m: a hull
+// face's normal (the gap n.c - r(n) - f, with r(n) = sum_k h_k |n.u_k| the
+// box's extent along n for half sizes h_k and axes u_k, f the offset), or
+// for an edge pair the negated axis (ax.(q0 - p0) with p0 on the box edge
+// extreme along ax = -m, q0 on the hull edge). So a gap is at most m.(p -
+// q) for any point p of the box and q of the feature: for m within eps of
+// a node's axis a and o the node's centre, at most a.(p - o) + eps |p - o|
+// + top, where top bounds m.(o - q) over the node (see coneNode). The
+// search tries two points p (nodeBound). Edge pairs have their axis square
+// to a box axis, which lets a node miss the box's great circles entirely
+// and narrows the cone on each (edgeNodeBound); the axis the test computes
+// lies within edgeWidth of the edge's arc, and edgeWidth also bounds how
+// far the box edge chosen from the crossing can fall short of the box's
+// extreme along it. The bounds hold for the numbers the plain loops
+// compute, up to rounding (treeRound), without assuming the hull convex.
 //
 // The answer of the plain loops is the largest gap of each kind with ties
 // to the first in their order; the search keeps the same tie rule, so the
