@@ -39,7 +39,7 @@
 //     normals and edge cross products (edge pairs pruned on the Gauss map;
 //     15 axes for two boxes; a box's arcs found from the coordinate planes
 //     of its frame, so a box against a hull costs one pass over the hull;
-//     a hull of 64 faces or more is searched by branch and bound over cone
+//     a hull of 256 faces or more is searched by branch and bound over cone
 //     trees of its face and edge normals instead, with the same answer,
 //     hullindex.go), then the incident face clipped against the reference face
 //     (Sutherland and Hodgman 1974) for up to four points;
