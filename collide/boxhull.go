@@ -50,8 +50,9 @@ func (d *Detector) boxHull(a, b *view, margin float64, h pairHint) (vec3, bool) 
 	bv.pos = mulT(b.rot, a.pos.Sub(b.pos))
 	p := &d.polyP
 	p.set(&bv)
+	x := d.hullIndexFor(b.hull) // nil for a small hull
 	var r satResult
-	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r) {
+	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r, x) {
 		d.remember(r)
 		return vec3{}, false
 	}
@@ -59,8 +60,14 @@ func (d *Detector) boxHull(a, b *view, margin float64, h pairHint) (vec3, bool) 
 	hv := *b
 	hv.rot, hv.pos = identity3, vec3{}
 	q := &d.polyQ
-	q.set(&hv)
-	n := d.polyContact(p, q, r, margin)
+	var n vec3
+	if x != nil {
+		q.setIndexed(&hv, x)
+		n = d.indexedContact(p, q, r, margin, x)
+	} else {
+		q.set(&hv)
+		n = d.polyContact(p, q, r, margin)
+	}
 	if b.rot != identity3 || b.pos != (vec3{}) {
 		for i := range d.cand {
 			d.cand[i].p = b.pos.Add(mul(b.rot, d.cand[i].p))
@@ -142,12 +149,21 @@ func (x *boxEdgeFrame) edgeGap(q0, dq *vec3) (s float64, ax vec3, ok bool) {
 
 // satBoxHull is satHint for box polytope p (view bv, in the hull's frame)
 // against hull h in its own frame; scale is the sum of the shapes' sizes.
-func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult) bool {
+// With x, h's index, the hull's faces and edges are searched through its
+// tree (boxhulltree.go), with the same result as the loops below.
+func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult, x *hullIndex) bool {
 	var bh boxHullAxes
 	bh.init(p, h, bv)
 	s := newSatSearch(r, margin, scale)
 	if g, ok := bh.hintGap(hint); ok && s.hinted(hint, g) {
 		return false
+	}
+	if x != nil {
+		if !bh.boxFacesBounded(x, &s) || !bh.treeFaces(x, &s) {
+			return false
+		}
+		s.pickFace(false)
+		return bh.treeEdges(x, &s, r)
 	}
 	for i := range p.planes {
 		if !s.face(hintFaceP, bh.boxFace(i), i) {
@@ -227,9 +243,15 @@ func (bh *boxHullAxes) boxFace(i int) float64 {
 func (bh *boxHullAxes) hullFace(j int) (float64, vec3) {
 	f := &bh.h.Faces[j]
 	n := f.Normal
-	cs := vec3{n.Dot(bh.u[0]), n.Dot(bh.u[1]), n.Dot(bh.u[2])}
+	cs := bh.cosines(j)
 	hb := bh.hb
 	return n.Dot(bh.c) - (hb[0]*math.Abs(cs[0]) + hb[1]*math.Abs(cs[1]) + hb[2]*math.Abs(cs[2])) - f.Offset, cs
+}
+
+// cosines is the cosines of the hull's face j's normal with the box's axes.
+func (bh *boxHullAxes) cosines(j int) vec3 {
+	n := bh.h.Faces[j].Normal
+	return vec3{n.Dot(bh.u[0]), n.Dot(bh.u[1]), n.Dot(bh.u[2])}
 }
 
 // hintGap is the gap on the remembered axis; ok is false when it names no

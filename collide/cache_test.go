@@ -84,7 +84,7 @@ func TestBoxHullMatchesReference(t *testing.T) {
 		d.polyP.set(&bv)
 		d.polyQ.set(&hv)
 		var r satResult
-		ok := d.satBoxHull(&d.polyP, hull, &bv, a.size+b.size, 0, pairHint{}, &r)
+		ok := d.satBoxHull(&d.polyP, hull, &bv, a.size+b.size, 0, pairHint{}, &r, nil)
 		generic, gok := sat(&d.polyP, &d.polyQ, 0)
 		if ok != gok {
 			t.Errorf("pair %d: fast test overlap %v, generic %v (brute-force gap %.3g)", i, ok, gok, ref)

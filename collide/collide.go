@@ -93,6 +93,7 @@ type Detector struct {
 	disc                discHint
 	patchPts, patchHull []pt2
 
+	hullIdx hullIndexes // indexes of large hulls (hullindex.go)
 	cache   pairCache
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
 

@@ -38,8 +38,10 @@
 //   - boxes and hulls against each other: the separating-axis test on face
 //     normals and edge cross products (edge pairs pruned on the Gauss map;
 //     15 axes for two boxes; a box's arcs found from the coordinate planes
-//     of its frame, so a box against a hull of any size costs one pass over
-//     the hull), then the incident face clipped against the reference face
+//     of its frame, so a box against a hull costs one pass over the hull;
+//     a hull of 256 faces or more is searched by branch and bound over cone
+//     trees of its face and edge normals instead, with the same answer,
+//     hullindex.go), then the incident face clipped against the reference face
 //     (Sutherland and Hodgman 1974) for up to four points;
 //   - a cylinder against a box or a mesh triangle: separating axes (face normals, the cylinder's axis, side
 //     and edge, vertex and rim, and the common normals of an edge and a
