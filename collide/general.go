@@ -38,8 +38,15 @@ func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
 	if a.rounded() && b.rounded() {
 		return roundNearest(a, b, margin)
 	}
-	g := d.gjk(a, b, false)
+	// Shapes farther apart than the margin need no exact distance (nor
+	// than coreTouch, below which cores count as overlapping).
 	scale := a.size + b.size
+	g := d.gjkUntil(a, b, false, math.Max(margin+a.rad+b.rad, coreTouch*scale))
+	if g.apart {
+		r.sep = g.dist - a.rad - b.rad
+		r.n = g.v.Mul(-1 / math.Sqrt(g.v.Dot(g.v)))
+		return r, false
+	}
 	if !g.overlap && g.dist > coreTouch*scale {
 		r.sep = g.dist - a.rad - b.rad
 		r.n = g.v.Mul(-1 / g.dist) // v = pa - pb
