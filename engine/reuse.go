@@ -61,7 +61,7 @@ func (b *bodyData) reused() bodyData {
 func (c *collisionState) reused() collisionState {
 	return collisionState{
 		bp: c.bp, det: c.det, solver: c.solver,
-		margin: scratch.Reuse(c.margin), pose: scratch.Reuse(c.pose),
+		margin: scratch.Reuse(c.margin), pose: scratch.Reuse(c.pose), local: scratch.Reuse(c.local),
 		planes: planeSet{ids: scratch.Reuse(c.planes.ids), filter: scratch.Reuse(c.planes.filter),
 			sap: scratch.Reuse(c.planes.sap), found: scratch.Reuse(c.planes.found), nd: scratch.Reuse(c.planes.nd)},
 		pairs: scratch.Reuse(c.pairs), manifolds: scratch.Reuse(c.manifolds), points: scratch.Reuse(c.points),
