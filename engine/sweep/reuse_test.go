@@ -29,11 +29,11 @@ var reuseStudies = []struct {
 	{"../../testdata/packaging/cushioned-ten-drops.toml", "", []int64{0, 3, 7, 9}},
 	{"../../testdata/mechanisms/flap-kicker.toml", `
 [sweep]
-trials = 5
+trials = 3
 seed = 11
 [sweep.randomize]
 velocity = { first = [40, 40, 0] }
-`, []int64{0, 1, 2, 3, 4}},
+`, []int64{0, 1, 2}},
 }
 
 // TestWorkerReuseSameAsNew runs trials of each study with a new worker for
