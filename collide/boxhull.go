@@ -243,7 +243,7 @@ func (bh *boxHullAxes) boxFace(i int) float64 {
 func (bh *boxHullAxes) hullFace(j int) (float64, vec3) {
 	f := &bh.h.Faces[j]
 	n := f.Normal
-	cs := bh.cosines(j)
+	cs := vec3{n.Dot(bh.u[0]), n.Dot(bh.u[1]), n.Dot(bh.u[2])} // as cosines(j)
 	hb := bh.hb
 	return n.Dot(bh.c) - (hb[0]*math.Abs(cs[0]) + hb[1]*math.Abs(cs[1]) + hb[2]*math.Abs(cs[2])) - f.Offset, cs
 }

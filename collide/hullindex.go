@@ -165,8 +165,12 @@ func newHullIndex(h *shapes.Hull) *hullIndex {
 	for k := range x.faces.nodes {
 		x.measureFaces(h, &x.faces.nodes[k])
 	}
+	width := make([]float64, len(h.Edges))
+	for i := range h.Edges {
+		width[i] = edgeWidth(h, &h.Edges[i])
+	}
 	for k := range x.edges.nodes {
-		x.measureEdges(h, &x.edges.nodes[k])
+		x.measureEdges(h, width, &x.edges.nodes[k])
 	}
 	return x
 }
@@ -219,10 +223,10 @@ func (t *coneTree) split(i0, i1 int32, dir []vec3) int32 {
 		}
 	}
 	ax := argmaxAbs(hi.Sub(lo))
-	slices.SortFunc(its, func(p, q int32) int {
-		return cmp.Or(cmp.Compare(dir[p][ax], dir[q][ax]), cmp.Compare(p, q))
-	})
 	mid := i0 + (i1-i0)/2
+	selectNth(its, int(mid-i0), func(p, q int32) bool {
+		return dir[p][ax] < dir[q][ax] || (dir[p][ax] == dir[q][ax] && p < q)
+	})
 	a := t.split(i0, mid, dir)
 	b := t.split(mid, i1, dir)
 	t.nodes[k].kid = [2]int32{a, b}
@@ -253,8 +257,9 @@ func (x *hullIndex) measureFaces(h *shapes.Hull, n *coneNode) {
 	}
 }
 
-// measureEdges fills edge node n's cone, centre, top and width.
-func (x *hullIndex) measureEdges(h *shapes.Hull, n *coneNode) {
+// measureEdges fills edge node n's cone, centre, top and width (from the
+// edges' widths).
+func (x *hullIndex) measureEdges(h *shapes.Hull, width []float64, n *coneNode) {
 	var sum, cen vec3
 	for _, e := range x.edges.items[n.i0:n.i1] {
 		ed := &h.Edges[e]
@@ -268,7 +273,7 @@ func (x *hullIndex) measureEdges(h *shapes.Hull, n *coneNode) {
 		ed := &h.Edges[e]
 		arc = math.Max(arc, h.Faces[ed.F[0]].Normal.Sub(n.a).Len())
 		arc = math.Max(arc, h.Faces[ed.F[1]].Normal.Sub(n.a).Len())
-		n.w = math.Max(n.w, edgeWidth(h, ed))
+		n.w = math.Max(n.w, width[e])
 	}
 	n.eps = arc + n.w
 	if n.a == (vec3{}) || arc >= math.Sqrt2 || n.eps > 2 {
@@ -309,3 +314,48 @@ func edgeWidth(h *shapes.Hull, e *shapes.Edge) float64 {
 // small as satParallel of its factors' lengths: about 1e-16 / 1e-6, with a
 // wide margin.
 const edgeRound = 1e-8
+
+// selectNth reorders s so that s[k] is the element a sort by less would put
+// there, with none after it less and none before it greater (C. A. R.
+// Hoare, "Algorithm 65: FIND", CACM 4(7), 1961), in linear time on
+// average: the tree's median splits need no full sort. The pivot is the
+// median of the first, middle and last elements, so the result is a pure
+// function of the input.
+func selectNth(s []int32, k int, less func(p, q int32) bool) {
+	lo, hi := 0, len(s)-1
+	for lo < hi {
+		m := lo + (hi-lo)/2
+		if less(s[m], s[lo]) {
+			s[m], s[lo] = s[lo], s[m]
+		}
+		if less(s[hi], s[lo]) {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if less(s[hi], s[m]) {
+			s[hi], s[m] = s[m], s[hi]
+		}
+		p := s[m]
+		i, j := lo, hi
+		for i <= j {
+			for less(s[i], p) {
+				i++
+			}
+			for less(p, s[j]) {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return
+		}
+	}
+}
