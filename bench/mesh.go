@@ -1,7 +1,6 @@
 package bench
 
 import (
-	"math"
 	"math/rand/v2"
 	"testing"
 
@@ -37,35 +36,15 @@ func capPart(b *testing.B) *mesh.Part {
 
 // DropTrialMesh is one trial of a drop study of a real part: the moulded
 // cap of about 5000 triangles dropped 0.1 m onto a tray (a static box) at a
-// seeded random orientation and stepped at 1 ms until settled (at most 5 s).
-// It reports the steps per trial beside the time.
+// seeded random orientation and stepped at 1 ms until settled (at most 5 s),
+// run as DropTrial runs its trials (one world, reset between them).
 func DropTrialMesh(b *testing.B) {
 	part := capPart(b)
 	props := part.Mass(900)
 	rng := rand.New(rand.NewPCG(7, 7))
-	b.ReportAllocs()
-	b.ResetTimer()
-	var cpu cpuClock // cputime.go
-	cpu.start()
-	defer func() { cpu.stop(); cpu.report(b) }()
-	steps := 0
-	for i := 0; i < b.N; i++ {
-		cfg := engine.DefaultConfig()
-		cfg.NoEvents = true
-		w, _ := engine.NewWorld(cfg)
+	dropTrials(b, rng, func(w *engine.World, q mgl64.Quat) {
 		mat, _ := w.AddMaterial(engine.Material{Name: "polypropylene", Friction: 0.4, Restitution: 0.3})
 		w.AddBody(engine.BodyDef{Name: "tray", Kind: engine.Static, Shape: shapes.Box{Half: shapes.Vec3{0.15, 0.15, 0.005}}, Material: mat, Position: shapes.Vec3{0, 0, -0.005}})
-		q := mgl64.QuatRotate(rng.Float64()*2*math.Pi, shapes.Vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize())
 		w.AddBody(engine.BodyDef{Name: "cap", Shape: part.Hull, Props: &props, Material: mat, Position: shapes.Vec3{0, 0, 0.1}, Orientation: q})
-		for n := 0; n < 5000; n++ {
-			if err := w.Step(1e-3); err != nil {
-				b.Fatal(err)
-			}
-			if ok, _ := w.Settled(); ok {
-				break
-			}
-		}
-		steps += w.Steps()
-	}
-	b.ReportMetric(float64(steps)/float64(b.N), "steps/trial")
+	})
 }
