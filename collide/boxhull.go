@@ -122,6 +122,19 @@ func crossedBoxEdge(ca, cb *vec3, i int) int {
 	return int(boxEdgeAt[i][bits])
 }
 
+// edgePair is the gap and axis of the hull's edge e (faces with box-axis
+// cosines ca and cb) against the box edge that crossedBoxEdge pairs with
+// box axis i; ok is false when there is no such box edge or no axis.
+func (bh *boxHullAxes) edgePair(e *shapes.Edge, ca, cb *vec3, i int) (g float64, ax vec3, bi int, ok bool) {
+	if bi = crossedBoxEdge(ca, cb, i); bi < 0 {
+		return 0, vec3{}, bi, false
+	}
+	q0 := bh.h.Vertices[e.V[0]]
+	dq := bh.h.Vertices[e.V[1]].Sub(q0)
+	g, ax, ok = bh.be[bi].edgeGap(&q0, &dq)
+	return g, ax, bi, ok
+}
+
 // boxEdgeFrame is a box edge in the computation frame: its start, its
 // direction (and that squared), and the sum of its two faces' normals,
 // which points out of the box across the edge.
@@ -184,13 +197,7 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		e := &h.Edges[he]
 		ca, cb := &cos[e.F[0]], &cos[e.F[1]]
 		for i := 0; i < 3; i++ {
-			bi := crossedBoxEdge(ca, cb, i)
-			if bi < 0 {
-				continue
-			}
-			q0 := h.Vertices[e.V[0]]
-			dq := h.Vertices[e.V[1]].Sub(q0)
-			g, ax, ok := bh.be[bi].edgeGap(&q0, &dq)
+			g, ax, bi, ok := bh.edgePair(e, ca, cb, i)
 			if !ok {
 				continue
 			}
@@ -200,7 +207,7 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 			}
 			if better {
 				bed := boxEdges[bi]
-				r.setEdge(g, ax, bi, he, p.verts[bed.V[0]], p.verts[bed.V[1]], q0, h.Vertices[e.V[1]])
+				r.setEdge(g, ax, bi, he, p.verts[bed.V[0]], p.verts[bed.V[1]], h.Vertices[e.V[0]], h.Vertices[e.V[1]])
 			}
 		}
 	}

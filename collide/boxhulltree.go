@@ -255,13 +255,7 @@ func (bh *boxHullAxes) treeEdges(x *hullIndex, s *satSearch, r *satResult) bool 
 			e := &h.Edges[he]
 			ca, cb := bh.cosines(int(e.F[0])), bh.cosines(int(e.F[1]))
 			for i := 0; i < 3; i++ {
-				bi := crossedBoxEdge(&ca, &cb, i)
-				if bi < 0 {
-					continue
-				}
-				q0 := h.Vertices[e.V[0]]
-				dq := h.Vertices[e.V[1]].Sub(q0)
-				g, ax, ok := bh.be[bi].edgeGap(&q0, &dq)
+				g, ax, bi, ok := bh.edgePair(e, &ca, &cb, i)
 				if !ok {
 					continue
 				}
