@@ -33,9 +33,33 @@ func (s *Solver) sortKeys(points []Point) {
 			}
 			src[j] = e
 		}
+	} else {
+		src, dst = radixKeys(src, dst)
 	}
+	s.byKey, s.keyTmp = src, dst
+	prev := s.prevPts
+	k := 0
+	for r, e := range s.byKey {
+		s.rank[e.i] = int32(r)
+		for k < len(prev) && prev[k].key < e.key {
+			k++
+		}
+		if k < len(prev) && prev[k].key == e.key {
+			s.match[e.i] = int32(k)
+		} else {
+			s.match[e.i] = -1
+		}
+	}
+}
+
+// radixKeys sorts src by key, 8 bits a pass and stable, using dst as
+// scratch, and returns the sorted slice and the other one. It is a
+// function of its own so that its 256 counters are cleared only when it
+// runs: a small step's insertion sort would otherwise pay for them too.
+func radixKeys(src, dst []keyIndex) (sorted, scratch []keyIndex) {
+	n := len(src)
 	var count [256]int
-	for shift := 0; shift < 64 && n > smallSort; shift += 8 {
+	for shift := 0; shift < 64; shift += 8 {
 		count = [256]int{}
 		for _, e := range src {
 			count[byte(e.key>>shift)]++
@@ -55,18 +79,5 @@ func (s *Solver) sortKeys(points []Point) {
 		}
 		src, dst = dst, src
 	}
-	s.byKey, s.keyTmp = src, dst
-	prev := s.prevPts
-	k := 0
-	for r, e := range s.byKey {
-		s.rank[e.i] = int32(r)
-		for k < len(prev) && prev[k].key < e.key {
-			k++
-		}
-		if k < len(prev) && prev[k].key == e.key {
-			s.match[e.i] = int32(k)
-		} else {
-			s.match[e.i] = -1
-		}
-	}
+	return src, dst
 }
