@@ -74,6 +74,7 @@ type warmRow struct {
 // slices grow. A Solver is not safe for concurrent use.
 type Solver struct {
 	Settings Settings
+	passed   Settings // the last Settings that passed Validate (valid.go); the zero value does
 
 	sl slots // the compact body arrays (bodies.go)
 	// The rows of point i: its normal row nrows[i] and its tangent rows
@@ -141,7 +142,7 @@ func (s *Solver) Reset() {
 // nothing is changed.
 func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (Report, error) {
 	var rep Report
-	if err := s.Settings.Validate(); err != nil {
+	if err := s.validSettings(); err != nil {
 		return rep, err
 	}
 	if !(dt > 0) || math.IsInf(dt, 1) {
