@@ -373,9 +373,9 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 	if v.kind == kBox || v.kind == kHull {
 		d.polyP.set(&v) // the same for every triangle
 	}
-	d.flat.set = false
+	d.flat.reset()
+	d.low.reset()
 	var tv view
-	var lowN, low vec3 // the shape's lowest point along -lowN (triangles of a flat share it)
 	for _, ti := range d.tris {
 		t := int(ti)
 		n := m.normals[t]
@@ -389,8 +389,11 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 			continue
 		}
 		// Beyond the margin from the triangle's plane: no contact.
-		if n != lowN {
-			lowN, low = n, v.supportFull(n.Mul(-1))
+		// The shape's lowest point along -n (triangles of a flat share it).
+		low, ok := d.low.get(n) // meshnormal.go
+		if !ok {
+			low = v.supportFull(n.Mul(-1))
+			d.low.put(n, low)
 		}
 		if n.Dot(low.Sub(a)) > margin {
 			continue
