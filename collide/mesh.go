@@ -385,7 +385,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		a, b, c := m.tri.Triangle(t)
 		// One-sided: shapes behind the triangle's plane belong to the other
 		// side of the fixture.
-		if n.Dot(center.Sub(a)) < 0 {
+		if dotSub(&n, &center, &a) < 0 { // n.Dot(center.Sub(a))
 			continue
 		}
 		// Beyond the margin from the triangle's plane: no contact.
@@ -395,7 +395,7 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 			low = v.supportFull(n.Mul(-1))
 			d.low.put(n, low)
 		}
-		if n.Dot(low.Sub(a)) > margin {
+		if dotSub(&n, &low, &a) > margin { // n.Dot(low.Sub(a))
 			continue
 		}
 		tv.setTriangle(a, b, c, n)

@@ -59,3 +59,10 @@ func sameBits(a, b vec3) bool {
 		math.Float64bits(a[1]) == math.Float64bits(b[1]) &&
 		math.Float64bits(a[2]) == math.Float64bits(b[2])
 }
+
+// dotSub is n.Dot(p.Sub(a)) for vectors passed by pointer: the same
+// operations in the same order, without the copies of whole vectors the
+// compiler makes for the method calls in the loop over a mesh's triangles.
+func dotSub(n, p, a *vec3) float64 {
+	return n[0]*(p[0]-a[0]) + n[1]*(p[1]-a[1]) + n[2]*(p[2]-a[2])
+}
