@@ -390,12 +390,11 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		}
 		// Beyond the margin from the triangle's plane: no contact.
 		// The shape's lowest point along -n (triangles of a flat share it).
-		low, ok := d.low.get(n) // meshnormal.go
-		if !ok {
-			low = v.supportFull(n.Mul(-1))
-			d.low.put(n, low)
+		k := d.low.find(&n) // meshnormal.go
+		if k < 0 {
+			k = d.low.put(&n, v.supportFull(n.Mul(-1)))
 		}
-		if dotSub(&n, &low, &a) > margin { // n.Dot(low.Sub(a))
+		if dotSub(&n, &d.low.val[k], &a) > margin { // n.Dot(low.Sub(a))
 			continue
 		}
 		tv.setTriangle(a, b, c, n)

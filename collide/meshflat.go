@@ -19,11 +19,11 @@ package collide
 func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin float64) bool {
 	n := tv.triN
 	// The triangles of a flat share their normal: one search for all.
-	fi, ok := d.flat.get(n) // meshnormal.go
-	if !ok {
-		fi = incidentFace(p, n)
-		d.flat.put(n, fi)
+	k := d.flat.find(&n) // meshnormal.go
+	if k < 0 {
+		k = d.flat.put(&n, incidentFace(p, n))
 	}
+	fi := d.flat.val[k]
 	if -p.planes[fi].n.Dot(n) < featCos {
 		return false
 	}

@@ -26,35 +26,35 @@ type normalMemo[T any] struct {
 // reset forgets all normals.
 func (c *normalMemo[T]) reset() { c.k, c.last = 0, 0 }
 
-// get returns the value remembered for n, if any.
-func (c *normalMemo[T]) get(n vec3) (T, bool) {
-	if c.k > 0 && c.n[c.last] == n {
-		return c.val[c.last], true
+// find returns the entry remembered for n (its value is val[i]), or -1.
+func (c *normalMemo[T]) find(n *vec3) int {
+	if c.k > 0 && c.n[c.last] == *n {
+		return c.last
 	}
 	for i := 0; i < c.k; i++ {
-		if sameBits(c.n[i], n) {
+		if sameBits(&c.n[i], n) {
 			c.last = i
-			return c.val[i], true
+			return i
 		}
 	}
-	var zero T
-	return zero, false
+	return -1
 }
 
-// put remembers x for n, replacing the entry after the last one used once
-// the memo is full.
-func (c *normalMemo[T]) put(n vec3, x T) {
+// put remembers x for n and returns its entry, replacing the entry after
+// the last one used once the memo is full.
+func (c *normalMemo[T]) put(n *vec3, x T) int {
 	i := c.k
 	if i < normalMemoLen {
 		c.k++
 	} else {
 		i = (c.last + 1) % normalMemoLen
 	}
-	c.n[i], c.val[i], c.last = n, x, i
+	c.n[i], c.val[i], c.last = *n, x, i
+	return i
 }
 
 // sameBits reports whether a and b are equal bit for bit.
-func sameBits(a, b vec3) bool {
+func sameBits(a, b *vec3) bool {
 	return math.Float64bits(a[0]) == math.Float64bits(b[0]) &&
 		math.Float64bits(a[1]) == math.Float64bits(b[1]) &&
 		math.Float64bits(a[2]) == math.Float64bits(b[2])
