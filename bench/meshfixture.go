@@ -125,12 +125,16 @@ func BoxOnMeshFixture(b *testing.B) {
 	points := 0
 	b.ReportAllocs()
 	b.ResetTimer()
+	var cpu cpuClock // cputime.go
+	cpu.start()
 	for i := 0; i < b.N; i++ {
 		step(i)
 		for _, m := range dst {
 			points += m.Count
 		}
 	}
+	cpu.stop()
+	cpu.report(b)
 	b.ReportMetric(float64(points)/float64(b.N), "points/op")
 	b.ReportMetric(float64(len(tray.TriMesh().Triangles)), "triangles")
 }

@@ -76,8 +76,9 @@ type Detector struct {
 	sel          [4]int
 
 	tris      []int32
-	meshMem   meshMemory // triangles near recently queried parts (meshmem.go)
-	flat      flatMemo   // a part's face lying on a mesh flat (meshflat.go)
+	meshMem   meshMemory       // triangles near recently queried parts (meshmem.go)
+	flat      normalMemo[int]  // a part's face lying on a mesh flat (meshflat.go)
+	low       normalMemo[vec3] // a part's lowest point along a mesh normal (mesh.go)
 	meshCands []meshCand
 	groups    []meshGroup
 

@@ -373,9 +373,9 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 	if v.kind == kBox || v.kind == kHull {
 		d.polyP.set(&v) // the same for every triangle
 	}
-	d.flat.set = false
+	d.flat.reset()
+	d.low.reset()
 	var tv view
-	var lowN, low vec3 // the shape's lowest point along -lowN (triangles of a flat share it)
 	for _, ti := range d.tris {
 		t := int(ti)
 		n := m.normals[t]
@@ -385,14 +385,16 @@ func (d *Detector) meshConvex(dst []Manifold, m *Mesh, fm frame, s shapes.Shape,
 		a, b, c := m.tri.Triangle(t)
 		// One-sided: shapes behind the triangle's plane belong to the other
 		// side of the fixture.
-		if n.Dot(center.Sub(a)) < 0 {
+		if dotSub(&n, &center, &a) < 0 { // n.Dot(center.Sub(a))
 			continue
 		}
 		// Beyond the margin from the triangle's plane: no contact.
-		if n != lowN {
-			lowN, low = n, v.supportFull(n.Mul(-1))
+		// The shape's lowest point along -n (triangles of a flat share it).
+		k := d.low.find(&n) // meshnormal.go
+		if k < 0 {
+			k = d.low.put(&n, v.supportFull(n.Mul(-1)))
 		}
-		if n.Dot(low.Sub(a)) > margin {
+		if dotSub(&n, &d.low.val[k], &a) > margin { // n.Dot(low.Sub(a))
 			continue
 		}
 		tv.setTriangle(a, b, c, n)

@@ -18,12 +18,12 @@ package collide
 // triangle is then the triangle's normal reversed.
 func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin float64) bool {
 	n := tv.triN
-	fm := &d.flat
-	if !fm.set || fm.n != n {
-		// The triangles of a flat share their normal: one search for all.
-		fm.set, fm.n, fm.fi = true, n, incidentFace(p, n)
+	// The triangles of a flat share their normal: one search for all.
+	k := d.flat.find(&n) // meshnormal.go
+	if k < 0 {
+		k = d.flat.put(&n, incidentFace(p, n))
 	}
-	fi := fm.fi
+	fi := d.flat.val[k]
 	if -p.planes[fi].n.Dot(n) < featCos {
 		return false
 	}
@@ -44,10 +44,10 @@ func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin floa
 		if sn == (vec3{}) {
 			return false
 		}
-		sd := sn.Dot(tv.tri[e])
+		sd := dot(&sn, &tv.tri[e])
 		seam := ad.kind[e] == edgeFlat || ad.smooth[e]
 		for i, vi := range verts {
-			if sn.Dot(p.verts[vi])-sd > tol {
+			if dot(&sn, &p.verts[vi])-sd > tol {
 				if !seam {
 					return false
 				}
@@ -71,10 +71,7 @@ func (d *Detector) faceOnFlat(p *polytope, tv *view, m *Mesh, t int, margin floa
 	return true
 }
 
-// flatMemo remembers, within one mesh query, the part's face most
-// anti-parallel to the last triangle normal seen.
-type flatMemo struct {
-	set bool
-	n   vec3
-	fi  int
-}
+// dot is a.Dot(b) for vectors passed by pointer: the same sum in the same
+// order, without the copies of both vectors the compiler makes for Dot in
+// this loop.
+func dot(a, b *vec3) float64 { return a[0]*b[0] + a[1]*b[1] + a[2]*b[2] }

@@ -106,8 +106,18 @@ func (v *view) setConvex(s shapes.Shape, rot mat3, pos vec3) bool {
 // setTriangle fills v with triangle abc (already in the frame) of unit normal n.
 func (v *view) setTriangle(a, b, c, n vec3) {
 	*v = view{kind: kTriangle, rot: identity3, tri: [3]vec3{a, b, c}, triN: n}
-	v.pos = a.Add(b).Add(c).Mul(1.0 / 3)
-	v.size = math.Max(b.Sub(a).Len(), math.Max(c.Sub(b).Len(), a.Sub(c).Len()))
+	// Written out per component, as a.Add(b).Add(c).Mul(1.0/3) and
+	// b.Sub(a).Len() compute them: the same operations in the same order,
+	// without the copies of whole vectors the compiler makes for those.
+	const third = 1.0 / 3
+	v.pos = vec3{(a[0] + b[0] + c[0]) * third, (a[1] + b[1] + c[1]) * third, (a[2] + b[2] + c[2]) * third}
+	v.size = max(distance(&b, &a), distance(&c, &b), distance(&a, &c)) // max as math.Max: NaN wins
+}
+
+// distance is p.Sub(q).Len() for vectors passed by pointer.
+func distance(p, q *vec3) float64 {
+	x, y, z := p[0]-q[0], p[1]-q[1], p[2]-q[2]
+	return math.Sqrt(x*x + y*y + z*z)
 }
 
 var identity3 = mat3{1, 0, 0, 0, 1, 0, 0, 0, 1}
