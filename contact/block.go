@@ -85,13 +85,6 @@ func (b *blockState) find(i int32) int32 {
 // islands groups the points by island into b.order and reports the number
 // of points in each island root in b.size (-1 where joint rows take part).
 func (s *Solver) islands(points []Point, rows []Row) {
-	if !s.loneIsland(points, rows) { // lone.go
-		s.joinIslands(points, rows)
-	}
-}
-
-// joinIslands is islands for any scene, by union-find over the bodies.
-func (s *Solver) joinIslands(points []Point, rows []Row) {
 	b := &s.blk
 	im := s.sl.im
 	nb := len(im)

@@ -1,6 +1,10 @@
 package engine
 
-import "clatter/shapes"
+import (
+	"math"
+
+	"clatter/shapes"
+)
 
 // freeRotation advances the orientation of a torque-free rigid body by dt
 // and returns its new world angular velocity, by the symplectic splitting
@@ -38,13 +42,13 @@ func principalRotate(q *shapes.Quat, pi, moments *shapes.Vec3, k int, t float64)
 	if theta == 0 {
 		return
 	}
-	s, c := sincos(theta / 2)
+	s, c := math.Sincos(theta / 2)
 	var r shapes.Quat
 	r.W = c
 	r.V[k] = s
 	// pi <- Rot_k(-theta) pi
 	i, j := (k+1)%3, (k+2)%3
-	sn, cs := sincos(theta)
+	sn, cs := math.Sincos(theta)
 	pi[i], pi[j] = cs*pi[i]+sn*pi[j], -sn*pi[i]+cs*pi[j]
 	*q = qmul(q, &r)
 }
@@ -57,7 +61,7 @@ func integrateQuat(q shapes.Quat, w shapes.Vec3, dt float64) shapes.Quat {
 	if a == 0 {
 		return q
 	}
-	s, c := sincos(a / 2)
+	s, c := math.Sincos(a / 2)
 	inv := 1 / l // w.Normalize() without a second square root
 	r := shapes.Quat{W: c, V: shapes.Vec3{w[0] * inv * s, w[1] * inv * s, w[2] * inv * s}}
 	return qmul(&r, &q).Normalize()
