@@ -90,6 +90,8 @@ type Detector struct {
 	capTop   hullTop     // where planeConvex's last climb to a hull's lowest vertex ended
 	restFace []candPoint // keepRestingPatch's points of the resting face
 
+	planeSide planeMemo // the last plane's half-space in the world (planememo.go)
+
 	// The contact patch (patch.go): a cylinder cap hint and scratch points.
 	disc                discHint
 	patchPts, patchHull []pt2

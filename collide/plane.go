@@ -20,16 +20,13 @@ var worldFrame = frame{rot: identity3}
 // the plane), otherwise B.
 func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shapes.Shape, fs frame, margin float64, planeIsA bool, subA, subB int32) []Manifold {
 	var v view
-	if !v.setConvex(s, fs.rot, fs.pos) {
+	if !d.capTop.view(&v, s, fs) {
 		return dst
 	}
-	nw := mul(fp.rot, pl.Normal)
-	if l := nw.Len(); l > 0 && math.Abs(l-1) > 1e-12 {
-		nw = nw.Mul(1 / l)
-	} else if l == 0 {
+	nw, dw, ok := d.planeSide.get(pl, fp)
+	if !ok {
 		return dst
 	}
-	dw := nw.Dot(fp.pos.Add(mul(fp.rot, pl.Normal.Mul(pl.Offset))))
 	d.cand = d.cand[:0]
 	d.disc = discHint{}
 	add := func(p vec3, id uint32) {
@@ -125,6 +122,9 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 type hullTop struct {
 	h *shapes.Hull
 	i int
+	// sized is the hull whose view size (setConvex) is size (planememo.go).
+	sized *shapes.Hull
+	size  float64
 }
 
 // lowest returns the index of h's vertex farthest along l.
