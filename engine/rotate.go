@@ -42,15 +42,32 @@ func principalRotate(q *shapes.Quat, pi, moments *shapes.Vec3, k int, t float64)
 	if theta == 0 {
 		return
 	}
-	s, c := math.Sincos(theta / 2)
+	s, c := sincos(theta / 2)
 	var r shapes.Quat
 	r.W = c
 	r.V[k] = s
 	// pi <- Rot_k(-theta) pi
 	i, j := (k+1)%3, (k+2)%3
-	sn, cs := math.Sincos(theta)
+	sn, cs := sincos(theta)
 	pi[i], pi[j] = cs*pi[i]+sn*pi[j], -sn*pi[i]+cs*pi[j]
 	*q = qmul(q, &r)
+}
+
+// tinyTurn bounds the angles whose sine and cosine math.Sincos rounds to
+// the angle itself and to 1: below 2^-27 its polynomials add to x a term
+// of relative size x^2/6 < 2^-56, and take from 1 a term of 0.5 x^2 <
+// 2^-55, both under half a unit in the last place. 2^-28 leaves a factor
+// of two to spare.
+const tinyTurn = 0x1p-28
+
+// sincos is math.Sincos, bit for bit. A part resting on a floor turns by
+// nanoradians a step, so the free rotation's ten calls mostly ask for
+// angles below tinyTurn, whose answer is known.
+func sincos(x float64) (sin, cos float64) {
+	if math.Abs(x) < tinyTurn {
+		return x, 1
+	}
+	return math.Sincos(x)
 }
 
 // integrateQuat turns q by the small rotation w*dt (world frame), for the
@@ -61,7 +78,7 @@ func integrateQuat(q shapes.Quat, w shapes.Vec3, dt float64) shapes.Quat {
 	if a == 0 {
 		return q
 	}
-	s, c := math.Sincos(a / 2)
+	s, c := sincos(a / 2)
 	inv := 1 / l // w.Normalize() without a second square root
 	r := shapes.Quat{W: c, V: shapes.Vec3{w[0] * inv * s, w[1] * inv * s, w[2] * inv * s}}
 	return qmul(&r, &q).Normalize()
