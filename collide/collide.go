@@ -95,6 +95,7 @@ type Detector struct {
 	// The contact patch (patch.go): a cylinder cap hint and scratch points.
 	disc                discHint
 	patchPts, patchHull []pt2
+	tangents            basisMemo // the axes of the last contact normal (basismemo.go)
 
 	hullIdx hullIndexes // indexes of large hulls (hullindex.go)
 	cache   pairCache
@@ -301,8 +302,7 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 		}
 		return sel
 	}
-	u := perpendicular(n)
-	v := n.Cross(u)
+	u, v := d.tangents.basis(n)
 	proj := func(i int) (float64, float64) { return pts[i].p.Dot(u), pts[i].p.Dot(v) }
 	var cx, cy float64
 	minSep := math.Inf(1)

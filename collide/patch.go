@@ -56,8 +56,7 @@ func (d *Detector) patch(n vec3) (vec3, float64) {
 	case 1:
 		return d.cand[0].p, 0
 	}
-	u := perpendicular(n)
-	v := n.Cross(u)
+	u, v := d.tangents.basis(n)
 	minSep := math.Inf(1)
 	x0, x1, y0, y1 := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
 	for _, c := range d.cand {
