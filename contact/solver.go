@@ -108,6 +108,8 @@ type Solver struct {
 	blk blockState // block.go
 
 	patches patchState // patch friction (twist.go)
+
+	live liveState // the rows still moving (live.go)
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -681,6 +683,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
+	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list)) // live.go
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the
