@@ -11,7 +11,7 @@ func TestHypotAbove(t *testing.T) {
 	// standard library, the reference), near the boundary too, where its
 	// shortcut must not decide.
 	rng := rand.New(rand.NewPCG(1, 2))
-	edge := []float64{0, -0.0, 1e-320, 1e-160, 1e-145, 1, 3, 4, 5, 1e145, 1e160, math.MaxFloat64, math.Inf(1)}
+	edge := []float64{0, math.Copysign(0, -1), 1e-320, 1e-160, 1e-145, 1, 3, 4, 5, 1e145, 1e160, math.MaxFloat64, math.Inf(1)}
 	check := func(x, y, b float64) {
 		if got, want := hypotAbove(x, y, b), math.Hypot(x, y) > b; got != want {
 			t.Fatalf("hypotAbove(%g, %g, %g) = %v, math.Hypot says %v", x, y, b, got, want)
