@@ -42,7 +42,10 @@ func (b *blockState) resetFactor(n int) {
 	b.sub = b.sub[:0]
 	b.l = grow(b.l, n*n)
 	b.first = grow(b.first, n)
+	// Entries of y past the factor's rows are never read; zeroed, they
+	// do not carry what an earlier, larger system left.
 	b.y = grow(b.y, n)
+	clear(b.y)
 	b.pos = grow(b.pos, n)
 	for i := range b.pos {
 		b.pos[i] = -1

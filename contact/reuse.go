@@ -20,6 +20,7 @@ func (s *Solver) Clear(set Settings) {
 	n.prevPairPts, n.curPairPts = scratch.Reuse(s.prevPairPts), scratch.Reuse(s.curPairPts)
 	n.claimed = scratch.Reuse(s.claimed)
 	n.blk = s.blk.reused()
+	n.live = liveState{moved: scratch.Reuse(s.live.moved), drift: scratch.Reuse(s.live.drift), seen: scratch.Reuse(s.live.seen)}
 	n.patches = patchState{list: scratch.Reuse(s.patches.list), ofGroup: scratch.Reuse(s.patches.ofGroup), mem: scratch.Reuse(s.patches.mem)}
 	*s = n
 }

@@ -108,6 +108,8 @@ type Solver struct {
 	blk blockState // block.go
 
 	patches patchState // patch friction (twist.go)
+
+	live liveState // the rows still moving (live.go)
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -242,6 +244,25 @@ func addScaled(v *vec, a *vec, d float64) {
 	v[0] += a[0] * d
 	v[1] += a[1] * d
 	v[2] += a[2] * d
+}
+
+// hypotAbove reports whether math.Hypot(x, y) > b, with the same answer,
+// without the square root where the squares decide: away from underflow
+// and overflow x*x+y*y and b*b are within a few roundings (1e-15) of the
+// squares of the exact values, so a relative margin of 1e-12 between them
+// cannot be a rounding's doing; only closer cases take math.Hypot.
+func hypotAbove(x, y, b float64) bool {
+	const margin = 1e-12
+	const tiny, huge = 1e-290, 1e290 // squares in the normal range
+	if s2, b2 := x*x+y*y, b*b; b > 0 && s2 > tiny && b2 > tiny && s2 < huge && b2 < huge {
+		if s2 < b2*(1-margin) {
+			return false
+		}
+		if s2 > b2*(1+margin) {
+			return true
+		}
+	}
+	return math.Hypot(x, y) > b
 }
 
 // arrivalSpeed is the approach speed with which a contact closing a gap sep
@@ -422,7 +443,8 @@ func (s *Solver) warmStart(dt float64, points []Point, rows []Row) {
 		}
 		if ps.inv11 != 0 || ps.inv22 != 0 {
 			l1, l2 := f*w.friction.Dot(r1.d), f*w.friction.Dot(r2.d)
-			if m, b := math.Hypot(l1, l2), ps.muS*ln; m > b {
+			if b := ps.muS * ln; hypotAbove(l1, l2, b) {
+				m := math.Hypot(l1, l2)
 				l1, l2 = l1*b/m, l2*b/m
 			}
 			r1.lambda, r2.lambda = l1, l2
@@ -478,8 +500,7 @@ func (s *Solver) classify(points []Point) {
 		}
 		ps := &s.pts[i]
 		r1, r2 := &s.trows[2*i], &s.trows[2*i+1]
-		slip := math.Hypot(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target)
-		sliding := slip > s.Settings.SlipSpeed
+		sliding := hypotAbove(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target, s.Settings.SlipSpeed)
 		if !sliding && ps.found {
 			if ps.prevSliding {
 				sliding = ps.prevSlips >= 1 // kinetic friction has not stopped it
@@ -681,6 +702,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
+	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list)) // live.go
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the
@@ -730,13 +752,14 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		p.NormalImpulse = rn.lambda
 		p.FrictionImpulse = vec{} // a patch's point: storePatches shares it out
 		if p.PatchRadius == 0 {
-			p.FrictionImpulse = r1.d.Mul(r1.lambda).Add(r2.d.Mul(r2.lambda))
+			d1, d2, l1, l2 := &r1.d, &r2.d, r1.lambda, r2.lambda
+			p.FrictionImpulse = vec{d1[0]*l1 + d2[0]*l2, d1[1]*l1 + d2[1]*l2, d1[2]*l1 + d2[2]*l2}
 		}
 		rep.NormalImpulse += p.NormalImpulse + p.ImpactImpulse
 		// At the cone's limit and still slipping: count the steps in a row.
 		ps := &s.pts[i]
 		slips := uint8(0)
-		if ps.sat && math.Hypot(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target) > s.Settings.CreepSpeed {
+		if ps.sat && hypotAbove(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target, s.Settings.CreepSpeed) {
 			slips = min(ps.prevSlips, 254) + 1
 		}
 		pending := ps.deferred
@@ -748,14 +771,17 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 			// never had, adding energy (seen with tumbling boxes, e = 1).
 			pending = 0
 		}
-		w := warmPoint{key: p.Key, normal: rn.lambda, friction: p.FrictionImpulse, sliding: p.Sliding, slips: slips, pending: pending,
-			a: p.A, b: p.B, pos: p.Position}
+		// Written in place, in key order (sortKeys): a warmPoint built
+		// and then copied costs a second pass over its bytes.
+		w := &s.curPts[s.rank[i]]
+		w.key, w.normal, w.friction = p.Key, rn.lambda, p.FrictionImpulse
+		w.sliding, w.slips, w.pending = p.Sliding, slips, pending
+		w.a, w.b, w.pos = p.A, p.B, p.Position
 		if ps.deferred > 0 {
 			// The impulse that stopped a deferred impact at the gap is no
 			// steady load: the impact itself replaces it next step.
 			w.normal, w.friction = 0, vec{}
 		}
-		s.curPts[s.rank[i]] = w // in key order (sortKeys)
 	}
 	s.prevPts, s.curPts = s.curPts, s.prevPts
 	s.storePairs(points)

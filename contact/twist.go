@@ -324,20 +324,31 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 		}
 	}
 	ps := &s.patches
+	lv, live := &s.live, block && tol > 0 // live.go
+	np := len(s.pts)
 	for g := 0; g+1 < len(s.groups); g++ {
 		// The points of the group's patches (consecutive, in the order of
 		// the patches) have no friction rows of their own: their normal
 		// rows alone, without the point's state (solvePoint).
 		k, kEnd := ps.ofGroup[g], ps.ofGroup[g+1]
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
+			rn := &s.nrows[i]
+			inPatch := k < kEnd && int32(i) >= ps.list[k].lo
+			if inPatch && int32(i)+1 == ps.list[k].hi {
+				k++
+			}
+			track := live && s.large(i)
+			if track && !lv.due(i, rn.a, rn.b) {
+				continue
+			}
 			var d float64
-			if k < kEnd && int32(i) >= ps.list[k].lo {
-				d = solveNormal(vel, &s.nrows[i])
-				if int32(i)+1 == ps.list[k].hi {
-					k++
-				}
+			if inPatch {
+				d = solveNormal(vel, rn)
 			} else {
 				d = s.solvePoint(vel, i)
+			}
+			if track {
+				lv.note(rn.a, rn.b, d, tol, lv.tick(i))
 			}
 			res = max(res, d)
 			if !(d <= tol) {
@@ -346,7 +357,15 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 		}
 		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
 			pa := &ps.list[k]
+			r0 := &pa.rows[0]
+			track := live && s.large(int(pa.lo))
+			if track && !lv.due(np+int(k), r0.a, r0.b) {
+				continue
+			}
 			d := s.solvePatchVel(pa)
+			if track {
+				lv.note(r0.a, r0.b, d, tol, lv.tick(np+int(k)))
+			}
 			res = max(res, d)
 			if !(d <= tol) {
 				note(d, pa.scale(), s.pointRootOf(int(pa.lo), block))
