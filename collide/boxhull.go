@@ -172,10 +172,19 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		return false
 	}
 	if x != nil {
-		if !bh.boxFacesBounded(x, &s) || !bh.treeFaces(x, &s) {
+		if !bh.boxFacesBounded(x, &s) {
+			return false
+		}
+		// A part over a larger box: the searches cannot change the
+		// answer (boxhullrest.go).
+		faces, edges := bh.restBound(x, bh.deep, s.scale)
+		if !(faces <= s.margin && faces <= s.best[0]+satFaceBias*s.scale) && !bh.treeFaces(x, &s) {
 			return false
 		}
 		s.pickFace(false)
+		if edges <= s.margin && edges <= s.bestFace+satEdgeBias*s.scale {
+			return true
+		}
 		return bh.treeEdges(x, &s, r)
 	}
 	for i := range p.planes {
@@ -223,6 +232,7 @@ type boxHullAxes struct {
 	u     [3]vec3
 	c, hb vec3
 	be    [12]boxEdgeFrame
+	deep  int // the hull's vertex deepest beyond the box face of largest gap (boxFacesBounded)
 }
 
 func (bh *boxHullAxes) init(p *polytope, h *shapes.Hull, bv *view) {
@@ -240,9 +250,15 @@ func (bh *boxHullAxes) init(p *polytope, h *shapes.Hull, bv *view) {
 
 // boxFace is the gap of the hull beyond the box's face i.
 func (bh *boxHullAxes) boxFace(i int) float64 {
+	_, g := bh.boxFaceAt(i)
+	return g
+}
+
+// boxFaceAt is boxFace and the hull's vertex that gives the gap.
+func (bh *boxHullAxes) boxFaceAt(i int) (int, float64) {
 	pl := &bh.p.planes[i]
-	_, m := hullMin(bh.h, pl.n)
-	return m - pl.d
+	v, m := hullMin(bh.h, pl.n)
+	return v, m - pl.d
 }
 
 // hullFace is the gap of the box beyond the hull's face j, from the box's

@@ -179,13 +179,13 @@ func (bh *boxHullAxes) boxFacesBounded(x *hullIndex, s *satSearch) bool {
 		if ub[i] <= s.margin && ub[i] < best {
 			continue
 		}
-		g := bh.boxFace(i)
+		v, g := bh.boxFaceAt(i)
 		if g > s.margin {
 			s.r.fail = pairHint{kind: hintFaceP, i: int32(i)}
 			return false
 		}
 		if g > best || (g == best && i < bi) {
-			best, bi = g, i
+			best, bi, bh.deep = g, i, v
 		}
 	}
 	s.best[0], s.bestI[0] = best, bi
