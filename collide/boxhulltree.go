@@ -279,10 +279,15 @@ func (bh *boxHullAxes) treeEdges(x *hullIndex, s *satSearch, r *satResult) bool 
 
 // incident is the face of the hull most anti-parallel to the unit vector
 // n, the first in index order on a tie: incidentFace on the hull's planes.
-// A node's normals have n_j.n >= a.n - epsF.
-func (x *hullIndex) incident(n vec3) int {
+// A node's normals have n_j.n >= a.n - epsF. The search starts with face
+// from as the best so far (a resting pair's last incident face prunes
+// most of the tree at once); the answer does not depend on it.
+func (x *hullIndex) incident(n vec3, from int) int {
 	const slack = 1e-12 // rounding of the dot products of unit vectors
-	best, bj := math.Inf(1), 0
+	if from < 0 || from >= len(x.planes) {
+		from = 0
+	}
+	best, bj := x.planes[from].n.Dot(n), from
 	t := &x.faces
 	var st treeStack
 	st.push(0, math.Inf(-1))
@@ -326,6 +331,12 @@ func (d *Detector) indexedContact(p, q *polytope, r satResult, margin float64, x
 	}
 	d.cand = d.cand[:0]
 	n := p.planes[r.face].n
-	d.clipFaces(p, r.face, q, x.incident(n), false, margin)
+	from := 0
+	if d.lastIncident.x == x {
+		from = d.lastIncident.face
+	}
+	f := x.incident(n, from)
+	d.lastIncident.x, d.lastIncident.face = x, f
+	d.clipFaces(p, r.face, q, f, false, margin)
 	return n
 }

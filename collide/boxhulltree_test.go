@@ -255,8 +255,12 @@ func TestHullIncidentMatchesLoop(t *testing.T) {
 			if i%2 == 1 {
 				n = h.Faces[rng.Intn(len(h.Faces))].Normal.Mul(-1)
 			}
-			if want, got := incidentFace(&q, n), x.incident(n); want != got {
-				t.Fatalf("direction %v: tree face %d, loop face %d", n, got, want)
+			// The search starts from face 0, the answer, or any face.
+			want := incidentFace(&q, n)
+			for _, from := range []int{0, want, rng.Intn(len(h.Faces))} {
+				if got := x.incident(n, from); want != got {
+					t.Fatalf("direction %v from face %d: tree face %d, loop face %d", n, from, got, want)
+				}
 			}
 		}
 	}

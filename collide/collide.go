@@ -95,6 +95,12 @@ type Detector struct {
 	patchPts, patchHull []pt2
 
 	hullIdx hullIndexes // indexes of large hulls (hullindex.go)
+	// lastIncident is the incident face a query last found on an indexed
+	// hull, where the next search starts (boxhulltree.go).
+	lastIncident struct {
+		x    *hullIndex
+		face int
+	}
 	cache   pairCache
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
 
