@@ -298,8 +298,8 @@ func (x *hullIndex) incident(n vec3, from int) int {
 		}
 		nd := &t.nodes[k]
 		if a, b := nd.kid[0], nd.kid[1]; a >= 0 {
-			la := t.nodes[a].a.Dot(n) - t.nodes[a].eps - slack
-			lb := t.nodes[b].a.Dot(n) - t.nodes[b].eps - slack
+			la := capLow(&t.nodes[a], n) - slack
+			lb := capLow(&t.nodes[b], n) - slack
 			// The smaller bound comes off first: negate for pushPair.
 			st.pushPair(a, b, -la, -lb)
 			st.ub[st.k-1], st.ub[st.k-2] = -st.ub[st.k-1], -st.ub[st.k-2]
@@ -312,6 +312,21 @@ func (x *hullIndex) incident(n vec3, from int) int {
 		}
 	}
 	return bj
+}
+
+// capLow is the least m.n over the unit vectors m of node c's cone (|m -
+// a| <= eps) for a unit n: cos(theta + alpha) for theta the angle between a
+// and n and alpha the cone's half angle (cos alpha = 1 - eps^2/2), or -1
+// when the cone reaches -n. It is never below a.n - eps, the bound
+// |m.n - a.n| <= |m - a|.
+func capLow(c *coneNode, n vec3) float64 {
+	cn, e := c.a.Dot(n), c.eps
+	ca := 1 - 0.5*e*e
+	if ca <= -cn { // theta + alpha >= pi
+		return -1
+	}
+	sa := e * math.Sqrt(math.Max(0, 1-0.25*e*e))
+	return cn*ca - math.Sqrt(math.Max(0, 1-cn*cn))*sa
 }
 
 // setIndexed fills p with hull v.hull in its own frame, taking the planes
