@@ -131,7 +131,7 @@ func (bh *boxHullAxes) edgePair(e *shapes.Edge, ca, cb *vec3, i int) (g float64,
 	}
 	q0 := bh.h.Vertices[e.V[0]]
 	dq := bh.h.Vertices[e.V[1]].Sub(q0)
-	g, ax, ok = bh.be[bi].edgeGap(&q0, &dq)
+	g, ax, ok = bh.edge(bi).edgeGap(&q0, &dq)
 	return g, ax, bi, ok
 }
 
@@ -231,7 +231,8 @@ type boxHullAxes struct {
 	h     *shapes.Hull
 	u     [3]vec3
 	c, hb vec3
-	be    [12]boxEdgeFrame
+	be    [12]boxEdgeFrame // filled by edge on first use (the early-out of boxhullrest.go needs none)
+	beSet bool
 	deep  int // the hull's vertex deepest beyond the box face of largest gap (boxFacesBounded)
 }
 
@@ -239,13 +240,23 @@ func (bh *boxHullAxes) init(p *polytope, h *shapes.Hull, bv *view) {
 	bh.p, bh.h = p, h
 	bh.u = [3]vec3{col(bv.rot, 0), col(bv.rot, 1), col(bv.rot, 2)}
 	bh.c, bh.hb = bv.pos, bv.half
-	for k, e := range boxEdges {
-		x := &bh.be[k]
-		x.p0 = p.verts[e.V[0]]
-		x.dp = p.verts[e.V[1]].Sub(x.p0)
-		x.dd = x.dp.Dot(x.dp)
-		x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+	bh.beSet = false
+}
+
+// edge is the box's edge k in the computation frame.
+func (bh *boxHullAxes) edge(k int) *boxEdgeFrame {
+	if !bh.beSet {
+		p := bh.p
+		for k, e := range boxEdges {
+			x := &bh.be[k]
+			x.p0 = p.verts[e.V[0]]
+			x.dp = p.verts[e.V[1]].Sub(x.p0)
+			x.dd = x.dp.Dot(x.dp)
+			x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+		}
+		bh.beSet = true
 	}
+	return &bh.be[k]
 }
 
 // boxFace is the gap of the hull beyond the box's face i.
@@ -301,7 +312,7 @@ func (bh *boxHullAxes) hintGap(hint pairHint) (float64, bool) {
 		if crossedBoxEdge(&ca, &cb, int(boxEdgeAxis[hint.i])) == int(hint.i) {
 			q0 := h.Vertices[e.V[0]]
 			dq := h.Vertices[e.V[1]].Sub(q0)
-			g, _, ok := bh.be[hint.i].edgeGap(&q0, &dq)
+			g, _, ok := bh.edge(int(hint.i)).edgeGap(&q0, &dq)
 			return g, ok
 		}
 	}
