@@ -178,6 +178,9 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		// A part over a larger box: the searches cannot change the
 		// answer (boxhullrest.go).
 		faces, edges := bh.restBound(x, bh.deep, s.scale)
+		if d.allAxes {
+			faces, edges = math.Inf(1), math.Inf(1)
+		}
 		if !(faces <= s.margin && faces <= s.best[0]+satFaceBias*s.scale) && !bh.treeFaces(x, &s) {
 			return false
 		}
@@ -188,9 +191,17 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		return bh.treeEdges(x, &s, r)
 	}
 	for i := range p.planes {
-		if !s.face(hintFaceP, bh.boxFace(i), i) {
+		v, g := bh.boxFaceAt(i)
+		if g > s.best[0] && g <= s.margin {
+			bh.deep = v
+		}
+		if !s.face(hintFaceP, g, i) {
 			return false
 		}
+	}
+	if !d.allAxes && bh.restSkips(d.hullSlack(h), &s) { // boxhullrest.go
+		s.pickFace(false)
+		return true
 	}
 	d.faceCos = d.faceCos[:0]
 	for j := range h.Faces {

@@ -105,3 +105,35 @@ func (bh *boxHullAxes) restBound(x *hullIndex, v int, scale float64) (faces, edg
 	box := 2 * x.edges.nodes[0].w * (bh.hb[0] + bh.hb[1] + bh.hb[2]) // the box edge's share (edgeNodeBound)
 	return d + x.slack.faceOut, d + x.slack.edgeOut + box
 }
+
+// restSkips reports whether the early-out decides a test whose box faces
+// are in (s.best[0], with its deepest vertex bh.deep): no hull face nor
+// edge pair can separate the pair or outrank the box's face. x holds the
+// hull's slack; nil decides nothing.
+func (bh *boxHullAxes) restSkips(x *hullIndex, s *satSearch) bool {
+	if x == nil {
+		return false
+	}
+	faces, edges := bh.restBound(x, bh.deep, s.scale)
+	return faces <= s.margin && faces <= s.best[0]+satFaceBias*s.scale &&
+		edges <= s.margin && edges <= s.best[0]+satEdgeBias*s.scale
+}
+
+// hullSlack returns the index of hull h, of any size, for its slack (the
+// plain loops of a small hull use nothing else of it); nil for a hull
+// without edges.
+func (d *Detector) hullSlack(h *shapes.Hull) *hullIndex {
+	if h == nil || len(h.Edges) == 0 || len(h.Faces) == 0 {
+		return nil
+	}
+	c := &d.hullIdx
+	if x := c.m[h]; x.fits(h) {
+		return x
+	}
+	if c.m == nil || len(c.m) >= hullIndexCap {
+		c.m = make(map[*shapes.Hull]*hullIndex)
+	}
+	x := sharedIndex(h)
+	c.m[h] = x
+	return x
+}

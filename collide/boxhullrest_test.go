@@ -11,8 +11,9 @@ import (
 
 // The early-out of boxhullrest.go must leave the box-hull test's answer
 // exactly as the plain loops over every face and edge give it (themselves
-// checked against brute-force facets by TestBoxHullMatchesReference): a
-// large hull lying on a tray, on one of its faces, on an edge or on a
+// checked against brute-force facets by TestBoxHullMatchesReference), both
+// through a hull's index and in the plain loops: a large or small hull
+// lying on a tray, on one of its faces, on an edge or on a
 // vertex, tilted from flat by nothing up to a tenth of a radian, from
 // penetrating to apart within the margin, over the tray or hanging over
 // its edge. A hull face lying exactly flat ties with the tray's face (the
@@ -86,6 +87,8 @@ func TestBoxHullRestMatchesLoops(t *testing.T) {
 		{"uv sphere", meshHull(t, partgen.UVSphere(48, 24, 20), 1e-3)},
 		{"fillet cylinder", meshHull(t, partgen.FilletCylinder(64, 10, 30, 2, 6), 1e-3)},
 		{"ellipsoid", ellipsoidHull(t, rng, 300, vec3{0.05, 0.03, 0.02})},
+		{"part", ellipsoidHull(t, rng, 40, vec3{0.015, 0.012, 0.008})},
+		{"small cloud", meshHullPts(t, randomCloud(rng, 20, vec3{0.02, 0.03, 0.01}))},
 	}
 	tilts := []float64{0, 1e-9, 1e-6, 1e-4, 1e-2, 0.1}
 	d := NewDetector()
@@ -116,9 +119,11 @@ func TestBoxHullRestMatchesLoops(t *testing.T) {
 			margin := size * 0.01 * rng.Float64()
 			a, b := restPose(rng, h, half, down, tilts[i%len(tilts)], gap, cx, cy)
 			ref := runBoxHull(d, &a, &b, margin, pairHint{}, nil)
-			got := runBoxHull(d, &a, &b, margin, pairHint{}, x)
-			if !sameRun(ref, got) {
+			if got := runBoxHull(d, &a, &b, margin, pairHint{}, x); !sameRun(ref, got) {
 				t.Fatalf("%s, pose %d: indexed %+v, loops %+v", hc.name, i, got, ref)
+			}
+			if got := runBoxHullWith(d, &a, &b, margin, pairHint{}, nil, false); !sameRun(ref, got) {
+				t.Fatalf("%s, pose %d: loops with the early-out %+v, without %+v", hc.name, i, got, ref)
 			}
 			if _, e := restSkips(d, &a, &b, margin, x); e {
 				skipped++
@@ -127,8 +132,7 @@ func TestBoxHullRestMatchesLoops(t *testing.T) {
 		}
 	}
 	// The early-out must have decided most of these cases, or they test
-	// the tree search instead (a fifth hang over the edge; the share is
-	// what this seed gives, rounded down).
+	// the searches instead (a fifth hang over the edge).
 	if skipped < total/2 {
 		t.Errorf("the early-out decided only %d of %d cases", skipped, total)
 	}

@@ -106,6 +106,10 @@ type Detector struct {
 
 	stats Stats
 
+	// allAxes turns the box-hull early-out off (boxhullrest.go): tests
+	// compare it with every axis tried.
+	allAxes bool
+
 	persist persistMem // persistent manifolds (persist.go)
 }
 
