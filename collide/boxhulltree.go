@@ -298,8 +298,8 @@ func (x *hullIndex) incident(n vec3, from int) int {
 		}
 		nd := &t.nodes[k]
 		if a, b := nd.kid[0], nd.kid[1]; a >= 0 {
-			la := capLow(&t.nodes[a], n) - slack
-			lb := capLow(&t.nodes[b], n) - slack
+			la := capLow(&t.nodes[a], n, best+slack) - slack
+			lb := capLow(&t.nodes[b], n, best+slack) - slack
 			// The smaller bound comes off first: negate for pushPair.
 			st.pushPair(a, b, -la, -lb)
 			st.ub[st.k-1], st.ub[st.k-2] = -st.ub[st.k-1], -st.ub[st.k-2]
@@ -318,9 +318,13 @@ func (x *hullIndex) incident(n vec3, from int) int {
 // a| <= eps) for a unit n: cos(theta + alpha) for theta the angle between a
 // and n and alpha the cone's half angle (cos alpha = 1 - eps^2/2), or -1
 // when the cone reaches -n. It is never below a.n - eps, the bound
-// |m.n - a.n| <= |m - a|.
-func capLow(c *coneNode, n vec3) float64 {
+// |m.n - a.n| <= |m - a|, which it returns when that is above limit (the
+// node is skipped either way).
+func capLow(c *coneNode, n vec3, limit float64) float64 {
 	cn, e := c.a.Dot(n), c.eps
+	if cn-e > limit {
+		return cn - e
+	}
 	ca := 1 - 0.5*e*e
 	if ca <= -cn { // theta + alpha >= pi
 		return -1
