@@ -131,7 +131,7 @@ func (bh *boxHullAxes) edgePair(e *shapes.Edge, ca, cb *vec3, i int) (g float64,
 	}
 	q0 := bh.h.Vertices[e.V[0]]
 	dq := bh.h.Vertices[e.V[1]].Sub(q0)
-	g, ax, ok = bh.be[bi].edgeGap(&q0, &dq)
+	g, ax, ok = bh.edge(bi).edgeGap(&q0, &dq)
 	return g, ax, bi, ok
 }
 
@@ -172,16 +172,36 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		return false
 	}
 	if x != nil {
-		if !bh.boxFacesBounded(x, &s) || !bh.treeFaces(x, &s) {
+		if !bh.boxFacesBounded(x, &s) {
+			return false
+		}
+		// A part over a larger box: the searches cannot change the
+		// answer (boxhullrest.go).
+		faces, edges := bh.restBound(x, bh.deep, s.scale)
+		if d.allAxes {
+			faces, edges = math.Inf(1), math.Inf(1)
+		}
+		if !(faces <= s.margin && faces <= s.best[0]+satFaceBias*s.scale) && !bh.treeFaces(x, &s) {
 			return false
 		}
 		s.pickFace(false)
+		if edges <= s.margin && edges <= s.bestFace+satEdgeBias*s.scale {
+			return true
+		}
 		return bh.treeEdges(x, &s, r)
 	}
 	for i := range p.planes {
-		if !s.face(hintFaceP, bh.boxFace(i), i) {
+		v, g := bh.boxFaceAt(i)
+		if g > s.best[0] && g <= s.margin {
+			bh.deep = v
+		}
+		if !s.face(hintFaceP, g, i) {
 			return false
 		}
+	}
+	if !d.allAxes && bh.restSkips(d.hullSlack(h), &s) { // boxhullrest.go
+		s.pickFace(false)
+		return true
 	}
 	d.faceCos = d.faceCos[:0]
 	for j := range h.Faces {
@@ -222,27 +242,45 @@ type boxHullAxes struct {
 	h     *shapes.Hull
 	u     [3]vec3
 	c, hb vec3
-	be    [12]boxEdgeFrame
+	be    [12]boxEdgeFrame // filled by edge on first use (the early-out of boxhullrest.go needs none)
+	beSet bool
+	deep  int // the hull's vertex deepest beyond the box face of largest gap (boxFacesBounded)
 }
 
 func (bh *boxHullAxes) init(p *polytope, h *shapes.Hull, bv *view) {
 	bh.p, bh.h = p, h
 	bh.u = [3]vec3{col(bv.rot, 0), col(bv.rot, 1), col(bv.rot, 2)}
 	bh.c, bh.hb = bv.pos, bv.half
-	for k, e := range boxEdges {
-		x := &bh.be[k]
-		x.p0 = p.verts[e.V[0]]
-		x.dp = p.verts[e.V[1]].Sub(x.p0)
-		x.dd = x.dp.Dot(x.dp)
-		x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+	bh.beSet = false
+}
+
+// edge is the box's edge k in the computation frame.
+func (bh *boxHullAxes) edge(k int) *boxEdgeFrame {
+	if !bh.beSet {
+		p := bh.p
+		for k, e := range boxEdges {
+			x := &bh.be[k]
+			x.p0 = p.verts[e.V[0]]
+			x.dp = p.verts[e.V[1]].Sub(x.p0)
+			x.dd = x.dp.Dot(x.dp)
+			x.out = p.planes[e.F[0]].n.Add(p.planes[e.F[1]].n)
+		}
+		bh.beSet = true
 	}
+	return &bh.be[k]
 }
 
 // boxFace is the gap of the hull beyond the box's face i.
 func (bh *boxHullAxes) boxFace(i int) float64 {
+	_, g := bh.boxFaceAt(i)
+	return g
+}
+
+// boxFaceAt is boxFace and the hull's vertex that gives the gap.
+func (bh *boxHullAxes) boxFaceAt(i int) (int, float64) {
 	pl := &bh.p.planes[i]
-	_, m := hullMin(bh.h, pl.n)
-	return m - pl.d
+	v, m := hullMin(bh.h, pl.n)
+	return v, m - pl.d
 }
 
 // hullFace is the gap of the box beyond the hull's face j, from the box's
@@ -285,7 +323,7 @@ func (bh *boxHullAxes) hintGap(hint pairHint) (float64, bool) {
 		if crossedBoxEdge(&ca, &cb, int(boxEdgeAxis[hint.i])) == int(hint.i) {
 			q0 := h.Vertices[e.V[0]]
 			dq := h.Vertices[e.V[1]].Sub(q0)
-			g, _, ok := bh.be[hint.i].edgeGap(&q0, &dq)
+			g, _, ok := bh.edge(int(hint.i)).edgeGap(&q0, &dq)
 			return g, ok
 		}
 	}

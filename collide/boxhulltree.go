@@ -179,13 +179,13 @@ func (bh *boxHullAxes) boxFacesBounded(x *hullIndex, s *satSearch) bool {
 		if ub[i] <= s.margin && ub[i] < best {
 			continue
 		}
-		g := bh.boxFace(i)
+		v, g := bh.boxFaceAt(i)
 		if g > s.margin {
 			s.r.fail = pairHint{kind: hintFaceP, i: int32(i)}
 			return false
 		}
 		if g > best || (g == best && i < bi) {
-			best, bi = g, i
+			best, bi, bh.deep = g, i, v
 		}
 	}
 	s.best[0], s.bestI[0] = best, bi
@@ -279,10 +279,15 @@ func (bh *boxHullAxes) treeEdges(x *hullIndex, s *satSearch, r *satResult) bool 
 
 // incident is the face of the hull most anti-parallel to the unit vector
 // n, the first in index order on a tie: incidentFace on the hull's planes.
-// A node's normals have n_j.n >= a.n - epsF.
-func (x *hullIndex) incident(n vec3) int {
+// A node's normals have n_j.n >= a.n - epsF. The search starts with face
+// from as the best so far (a resting pair's last incident face prunes
+// most of the tree at once); the answer does not depend on it.
+func (x *hullIndex) incident(n vec3, from int) int {
 	const slack = 1e-12 // rounding of the dot products of unit vectors
-	best, bj := math.Inf(1), 0
+	if from < 0 || from >= len(x.planes) {
+		from = 0
+	}
+	best, bj := x.planes[from].n.Dot(n), from
 	t := &x.faces
 	var st treeStack
 	st.push(0, math.Inf(-1))
@@ -293,8 +298,8 @@ func (x *hullIndex) incident(n vec3) int {
 		}
 		nd := &t.nodes[k]
 		if a, b := nd.kid[0], nd.kid[1]; a >= 0 {
-			la := t.nodes[a].a.Dot(n) - t.nodes[a].eps - slack
-			lb := t.nodes[b].a.Dot(n) - t.nodes[b].eps - slack
+			la := capLow(&t.nodes[a], n, best+slack) - slack
+			lb := capLow(&t.nodes[b], n, best+slack) - slack
 			// The smaller bound comes off first: negate for pushPair.
 			st.pushPair(a, b, -la, -lb)
 			st.ub[st.k-1], st.ub[st.k-2] = -st.ub[st.k-1], -st.ub[st.k-2]
@@ -307,6 +312,25 @@ func (x *hullIndex) incident(n vec3) int {
 		}
 	}
 	return bj
+}
+
+// capLow is the least m.n over the unit vectors m of node c's cone (|m -
+// a| <= eps) for a unit n: cos(theta + alpha) for theta the angle between a
+// and n and alpha the cone's half angle (cos alpha = 1 - eps^2/2), or -1
+// when the cone reaches -n. It is never below a.n - eps, the bound
+// |m.n - a.n| <= |m - a|, which it returns when that is above limit (the
+// node is skipped either way).
+func capLow(c *coneNode, n vec3, limit float64) float64 {
+	cn, e := c.a.Dot(n), c.eps
+	if cn-e > limit {
+		return cn - e
+	}
+	ca := 1 - 0.5*e*e
+	if ca <= -cn { // theta + alpha >= pi
+		return -1
+	}
+	sa := e * math.Sqrt(math.Max(0, 1-0.25*e*e))
+	return cn*ca - math.Sqrt(math.Max(0, 1-cn*cn))*sa
 }
 
 // setIndexed fills p with hull v.hull in its own frame, taking the planes
@@ -326,6 +350,12 @@ func (d *Detector) indexedContact(p, q *polytope, r satResult, margin float64, x
 	}
 	d.cand = d.cand[:0]
 	n := p.planes[r.face].n
-	d.clipFaces(p, r.face, q, x.incident(n), false, margin)
+	from := 0
+	if d.lastIncident.x == x {
+		from = d.lastIncident.face
+	}
+	f := x.incident(n, from)
+	d.lastIncident.x, d.lastIncident.face = x, f
+	d.clipFaces(p, r.face, q, f, false, margin)
 	return n
 }

@@ -36,7 +36,8 @@ func meshHull(t testing.TB, g *partgen.Mesh, scale float64) *shapes.Hull {
 }
 
 // boxHullRun is one box-hull query, as boxHull runs it, by the plain loops
-// (x nil) or through index x: the verdict, the axis and the points.
+// over every axis (x nil) or through index x: the verdict, the axis and the
+// points.
 type boxHullRun struct {
 	ok   bool
 	r    satResult
@@ -45,6 +46,14 @@ type boxHullRun struct {
 }
 
 func runBoxHull(d *Detector, a, b *view, margin float64, hint pairHint, x *hullIndex) boxHullRun {
+	return runBoxHullWith(d, a, b, margin, hint, x, x == nil)
+}
+
+// runBoxHullWith is runBoxHull with the early-out of boxhullrest.go on or
+// off (all).
+func runBoxHullWith(d *Detector, a, b *view, margin float64, hint pairHint, x *hullIndex, all bool) boxHullRun {
+	d.allAxes = all
+	defer func() { d.allAxes = false }()
 	bv := *a
 	bv.rot = mulTM(b.rot, a.rot)
 	bv.pos = mulT(b.rot, a.pos.Sub(b.pos))
@@ -255,8 +264,12 @@ func TestHullIncidentMatchesLoop(t *testing.T) {
 			if i%2 == 1 {
 				n = h.Faces[rng.Intn(len(h.Faces))].Normal.Mul(-1)
 			}
-			if want, got := incidentFace(&q, n), x.incident(n); want != got {
-				t.Fatalf("direction %v: tree face %d, loop face %d", n, got, want)
+			// The search starts from face 0, the answer, or any face.
+			want := incidentFace(&q, n)
+			for _, from := range []int{0, want, rng.Intn(len(h.Faces))} {
+				if got := x.incident(n, from); want != got {
+					t.Fatalf("direction %v from face %d: tree face %d, loop face %d", n, from, got, want)
+				}
 			}
 		}
 	}

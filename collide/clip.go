@@ -97,7 +97,13 @@ func (d *Detector) clipFaces(ref *polytope, rf int, inc *polytope, nf int, flip 
 		if l == 0 {
 			continue
 		}
-		out = clipPolygon(poly, out[:0], sn, sn.Dot(a), codeP(k), tol)
+		sd := sn.Dot(a)
+		if !inc.flat && sn.Dot(inc.pos)+inc.size <= sd {
+			// All of inc lies inside the plane (its points are within
+			// size of pos): the clip would copy the polygon unchanged.
+			continue
+		}
+		out = clipPolygon(poly, out[:0], sn, sd, codeP(k), tol)
 		poly, out = out, poly
 		if len(poly) == 0 {
 			break

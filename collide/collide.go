@@ -98,10 +98,20 @@ type Detector struct {
 	tangents            basisMemo // the axes of the last contact normal (basismemo.go)
 
 	hullIdx hullIndexes // indexes of large hulls (hullindex.go)
+	// lastIncident is the incident face a query last found on an indexed
+	// hull, where the next search starts (boxhulltree.go).
+	lastIncident struct {
+		x    *hullIndex
+		face int
+	}
 	cache   pairCache
 	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
 
 	stats Stats
+
+	// allAxes turns the box-hull early-out off (boxhullrest.go): tests
+	// compare it with every axis tried.
+	allAxes bool
 
 	persist persistMem // persistent manifolds (persist.go)
 }

@@ -41,7 +41,9 @@
 //     of its frame, so a box against a hull costs one pass over the hull;
 //     a hull of 256 faces or more is searched by branch and bound over cone
 //     trees of its face and edge normals instead, with the same answer,
-//     hullindex.go), then the incident face clipped against the reference face
+//     hullindex.go; a hull lying over a box's face skips the hull's faces
+//     and edges when its deepest vertex proves they cannot change the
+//     answer, boxhullrest.go), then the incident face clipped against the reference face
 //     (Sutherland and Hodgman 1974) for up to four points;
 //   - a cylinder against a box or a mesh triangle: separating axes (face normals, the cylinder's axis, side
 //     and edge, vertex and rim, and the common normals of an edge and a

@@ -68,9 +68,10 @@ type coneTree struct {
 type hullIndex struct {
 	nv, nf, ne   int
 	faces, edges coneTree
-	planes       []plane // the hull's faces as planes, in its own frame
-	reach        float64 // the largest |v| of the vertices
-	centre       vec3    // the mean of the vertices, a point inside the hull
+	planes       []plane   // the hull's faces as planes, in its own frame
+	reach        float64   // the largest |v| of the vertices
+	centre       vec3      // the mean of the vertices, a point inside the hull
+	slack        hullSlack // the hull's tolerances in the test's gaps (boxhullrest.go)
 }
 
 // hullIndexes is a Detector's cache of hull indexes, in front of the
@@ -172,6 +173,7 @@ func newHullIndex(h *shapes.Hull) *hullIndex {
 	for k := range x.edges.nodes {
 		x.measureEdges(h, width, &x.edges.nodes[k])
 	}
+	x.measureSlack(h, width)
 	return x
 }
 
