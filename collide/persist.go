@@ -262,15 +262,22 @@ func placeTo(dst *vec3, m *mat3, o, v *vec3) {
 }
 
 // motion is the relative motion of the shapes at pa, pb since e's full
-// query: with q, t the pose of M in F's frame (relPose) and dq the rotation
-// from e.rq to q, the translation |t - e.rt| plus the chord a point at
-// distance rho sweeps by dq, 2 sin(angle/2) rho = 2 |dq.V| rho. It is the
+// query (relMotion).
+func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
+	return relMotion(e.mOnB, &e.rq, &e.rt, e.rho, pa, pb)
+}
+
+// relMotion bounds how far any point of the moving shape M has moved in
+// the frame of the other shape F since M's pose there was rq, rt (relPose):
+// with q, t the pose of M in F's frame now and dq the rotation from rq to
+// q, the translation |t - rt| plus the chord a point at distance rho from
+// M's origin sweeps by dq, 2 sin(angle/2) rho = 2 |dq.V| rho. It is the
 // quaternion algebra of relPose written out by component (a quaternion or
 // vector passed by value costs a stalled store forward per field here),
 // with the same operations in the same order, so the same roundings.
-func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
+func relMotion(mOnB bool, rq *mgl64.Quat, rt *vec3, rho float64, pa, pb *shapes.Pose) float64 {
 	f, m := pa, pb
-	if !e.mOnB {
+	if !mOnB {
 		f, m = pb, pa
 	}
 	// fc, the conjugate of F's orientation; q = fc m.Orientation.
@@ -284,15 +291,15 @@ func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
 	dx, dy, dz := m.Position[0]-f.Position[0], m.Position[1]-f.Position[1], m.Position[2]-f.Position[2]
 	cx, cy, cz := fy*dz-fz*dy, fz*dx-fx*dz, fx*dy-fy*dx
 	w2, ux, uy, uz := 2*fw, fx*2, fy*2, fz*2
-	tx := dx + cx*w2 + (uy*cz - uz*cy) - e.rt[0]
-	ty := dy + cy*w2 + (uz*cx - ux*cz) - e.rt[1]
-	tz := dz + cz*w2 + (ux*cy - uy*cx) - e.rt[2]
-	// The vector part of dq = conj(e.rq) q.
-	rw, rx, ry, rz := e.rq.W, -e.rq.V[0], -e.rq.V[1], -e.rq.V[2]
+	tx := dx + cx*w2 + (uy*cz - uz*cy) - rt[0]
+	ty := dy + cy*w2 + (uz*cx - ux*cz) - rt[1]
+	tz := dz + cz*w2 + (ux*cy - uy*cx) - rt[2]
+	// The vector part of dq = conj(rq) q.
+	rw, rx, ry, rz := rq.W, -rq.V[0], -rq.V[1], -rq.V[2]
 	vx := ry*qz - rz*qy + qx*rw + rx*qw
 	vy := rz*qx - rx*qz + qy*rw + ry*qw
 	vz := rx*qy - ry*qx + qz*rw + rz*qw
-	return math.Sqrt(tx*tx+ty*ty+tz*tz) + 2*math.Sqrt(vx*vx+vy*vy+vz*vz)*e.rho
+	return math.Sqrt(tx*tx+ty*ty+tz*tz) + 2*math.Sqrt(vx*vx+vy*vy+vz*vz)*rho
 }
 
 // flatPoints reports whether m's points lie flat in the sense of
