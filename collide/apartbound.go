@@ -47,19 +47,25 @@ type apartRef struct {
 	gap  float64      // the gap along the axis at that pose
 }
 
-// provedApart reports whether the pair's remembered axis h proves shape a
-// at pa and b at pb apart by more than margin plus memBand: by the bound
-// of h's reference when it suffices, else by measuring the axis at the
-// current poses, which then becomes the reference.
-func (d *Detector) provedApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) bool {
+// boundedApart reports whether the bound of the pair's reference (h.ref)
+// proves shape a at pa and b at pb apart by more than margin plus memBand.
+func (d *Detector) boundedApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) bool {
 	r := &h.ref
-	if r.on && r.a == a && r.b == b {
-		band := memBand * (r.rsum + pa.Position.Len() + pb.Position.Len())
-		if r.gap-relMotion(r.mOnB, &r.rq, &r.rt, r.rho, &pa, &pb) > margin+band {
-			d.stats.Bounded++
-			return true
-		}
+	if !r.on || r.a != a || r.b != b {
+		return false
 	}
+	band := memBand * (r.rsum + pa.Position.Len() + pb.Position.Len())
+	if r.gap-relMotion(r.mOnB, &r.rq, &r.rt, r.rho, &pa, &pb) > margin+band {
+		d.stats.Bounded++
+		return true
+	}
+	return false
+}
+
+// measuredApart reports whether the pair's remembered axis h, measured at
+// the current poses, proves shape a at pa and b at pb apart by more than
+// margin plus memBand; the gap it measures becomes h's reference.
+func (d *Detector) measuredApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) bool {
 	gap, ok := hintGap(h, a, pa, b, pb)
 	ra, rb := radius(a), radius(b)
 	band := memBand * (ra + rb + pa.Position.Len() + pb.Position.Len())

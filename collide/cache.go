@@ -107,13 +107,16 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	if !(margin >= 0) || math.IsInf(margin, 0) {
 		margin = 0
 	}
-	if !finitePose(pa) || !finitePose(pb) {
-		return dst
-	}
 	h := c.lookup(key)
-	if h.kind != hintNone && d.provedApart(&h, a, pa, b, pb, margin) { // apartbound.go
+	// The bound first: a pose that is not finite makes it NaN or infinite,
+	// and it proves nothing (apartbound.go).
+	if h.kind != hintNone && (d.boundedApart(&h, a, pa, b, pb, margin) ||
+		finitePose(pa) && finitePose(pb) && d.measuredApart(&h, a, pa, b, pb, margin)) {
 		c.cur = append(c.cur, h)
 		d.stats.Remembered++
+		return dst
+	}
+	if !finitePose(pa) || !finitePose(pb) {
 		return dst
 	}
 	c.in = h
