@@ -75,7 +75,8 @@ type pairCache struct {
 	in, out   pairHint // the current query's hint from last step, and for the next
 }
 
-func (c *pairCache) lookup(key uint64) pairHint {
+// lookup returns the pair's hint from last step, in place, or nil.
+func (c *pairCache) lookup(key uint64) *pairHint {
 	p, i := c.prev, c.cursor
 	// Queries come in key order: the key is at the cursor, or between it
 	// and the hint before (a pair new this step has none), as in
@@ -83,17 +84,17 @@ func (c *pairCache) lookup(key uint64) pairHint {
 	if (i == 0 || p[i-1].key < key) && (i == len(p) || p[i].key >= key) {
 		if i < len(p) && p[i].key == key {
 			c.cursor++
-			return p[i]
+			return &p[i]
 		}
-		return pairHint{}
+		return nil
 	}
 	i, ok := slices.BinarySearchFunc(p, key, func(h pairHint, k uint64) int { return cmp.Compare(h.key, k) })
 	if !ok {
 		c.cursor = i
-		return pairHint{}
+		return nil
 	}
 	c.cursor = i + 1
-	return p[i]
+	return &p[i]
 }
 
 // collideHinted is CollidePair's query (persist.go) for a pair with no
@@ -107,19 +108,24 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	if !(margin >= 0) || math.IsInf(margin, 0) {
 		margin = 0
 	}
+	// The hint is read and updated in place: last step's list is not read
+	// again once this step's is made.
 	h := c.lookup(key)
 	// The bound first: a pose that is not finite makes it NaN or infinite,
 	// and it proves nothing (apartbound.go).
-	if h.kind != hintNone && (d.boundedApart(&h, a, pa, b, pb, margin) ||
-		finitePose(pa) && finitePose(pb) && d.measuredApart(&h, a, pa, b, pb, margin)) {
-		c.cur = append(c.cur, h)
+	if h != nil && h.kind != hintNone && (d.boundedApart(h, a, pa, b, pb, margin) ||
+		finitePose(pa) && finitePose(pb) && d.measuredApart(h, a, pa, b, pb, margin)) {
+		c.cur = append(c.cur, *h)
 		d.stats.Remembered++
 		return dst
 	}
 	if !finitePose(pa) || !finitePose(pb) {
 		return dst
 	}
-	c.in = h
+	c.in = pairHint{}
+	if h != nil {
+		c.in = *h
+	}
 	c.out = pairHint{key: key}
 	c.on, c.swapped = true, false
 	dst = d.Collide(dst, a, pa, b, pb, margin)
@@ -160,7 +166,9 @@ func (d *Detector) NextStep() {
 			c.cur[n-1] = c.cur[i]
 			continue
 		}
-		c.cur[n] = c.cur[i]
+		if n != i {
+			c.cur[n] = c.cur[i]
+		}
 		n++
 	}
 	c.prev, c.cur = c.cur[:n], c.prev[:0]

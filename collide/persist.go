@@ -445,7 +445,7 @@ func (p *persistMem) nextStep() {
 // carry keeps the pair's separating-axis memory for the next step when its
 // persistent points answered the query instead.
 func (c *pairCache) carry(key uint64) {
-	if h := c.lookup(key); h.kind != hintNone {
-		c.cur = append(c.cur, h)
+	if h := c.lookup(key); h != nil && h.kind != hintNone {
+		c.cur = append(c.cur, *h)
 	}
 }
