@@ -172,12 +172,17 @@ func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa sh
 	// A pose that is not finite makes the motion NaN or infinite, so
 	// refresh leaves it to the full query (which checks the poses).
 	if e != nil && e.a == a && e.b == b {
-		if m, ok := p.refresh(e, pa, pb, margin); ok {
+		// Refreshed in place at the end of dst (a manifold is some two
+		// hundred bytes), and dropped again if the refresh fails.
+		n := len(dst)
+		dst = append(dst, Manifold{})
+		if p.refresh(e, &pa, &pb, margin, &dst[n]) {
 			e.seen = p.step
 			d.cache.carry(key)
 			d.stats.Persisted++
-			return append(dst, m)
+			return dst
 		}
+		dst = dst[:n]
 	}
 	n := len(dst)
 	dst = d.collideHinted(dst, key, a, pa, b, pb, margin)
@@ -215,17 +220,18 @@ func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 	return qmulConjA(&f.Orientation, &m.Orientation), qrotateConj(&f.Orientation, m.Position.Sub(f.Position))
 }
 
-// refresh moves e's points with the shapes at pa and pb and reports whether
-// they stand for a fresh query (the conditions of the file comment).
-func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64) (Manifold, bool) {
+// refresh moves e's points with the shapes at pa and pb into out and
+// reports whether they stand for a fresh query (the conditions of the file
+// comment); out is left partly written when they do not.
+func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float64, out *Manifold) bool {
 	tol := persistFraction * p.slop
 	age := p.step - e.full
 	if age >= persistAgeStill || margin > e.margin+tol {
-		return Manifold{}, false
+		return false
 	}
-	motion := e.motion(&pa, &pb)
+	motion := e.motion(pa, pb)
 	if !(motion <= tol) || (age >= persistAge && motion > persistStill*tol) {
-		return Manifold{}, false
+		return false
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 	rf := &ra
@@ -234,7 +240,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 	}
 	k := &e.m
 	n := mul(*rf, k.n)
-	out := Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
+	*out = Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
 	// By component, as in motion; the same operations as the vector
 	// methods, so the same roundings.
 	var a, b vec3
@@ -245,19 +251,19 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 		sep := g0*n[0] + g1*n[1] + g2*n[2]
 		d0, d1, d2 := g0-n[0]*sep, g1-n[1]*sep, g2-n[2]*sep
 		if sep > margin || math.Sqrt(d0*d0+d1*d1+d2*d2) > p.slop {
-			return Manifold{}, false
+			return false
 		}
 		pt := &out.Points[i]
 		pt.Position = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
 		pt.Separation, pt.ID = sep, k.id[i]
 	}
-	if flatPoints(&out) != e.flat {
-		return Manifold{}, false
+	if flatPoints(out) != e.flat {
+		return false
 	}
 	placeTo(&a, &ra, &pa.Position, &k.ca)
 	placeTo(&b, &rb, &pb.Position, &k.cb)
 	out.PatchCenter = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
-	return out, true
+	return true
 }
 
 // placeTo sets dst to o + m v, rounded as o.Add(mul(m, v)).
