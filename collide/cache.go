@@ -23,6 +23,10 @@ import (
 //     edge pair is tried (hulls), the test's own loop checks the
 //     remembered pair first, on its own arithmetic.
 //
+// A pair the axis proved apart keeps the gap it measured, and later steps
+// prove it apart again by how far that gap can have closed since, without
+// measuring the axis (apartbound.go).
+//
 // The quick test outside the query's frames works in world coordinates, so
 // it asks for a gap beyond the margin by memBand, far above the rounding of
 // either computation and above GJK's touching tolerance.
@@ -57,6 +61,8 @@ type pairHint struct {
 	// va, vb: the hull vertices of A and B that were last extreme along
 	// the direction, where the next search starts.
 	va, vb int32
+	// ref: the gap the axis last measured and the pose then (apartbound.go).
+	ref apartRef
 }
 
 // pairCache holds last step's hints sorted by key and this step's as they
@@ -69,7 +75,8 @@ type pairCache struct {
 	in, out   pairHint // the current query's hint from last step, and for the next
 }
 
-func (c *pairCache) lookup(key uint64) pairHint {
+// lookup returns the pair's hint from last step, in place, or nil.
+func (c *pairCache) lookup(key uint64) *pairHint {
 	p, i := c.prev, c.cursor
 	// Queries come in key order: the key is at the cursor, or between it
 	// and the hint before (a pair new this step has none), as in
@@ -77,17 +84,17 @@ func (c *pairCache) lookup(key uint64) pairHint {
 	if (i == 0 || p[i-1].key < key) && (i == len(p) || p[i].key >= key) {
 		if i < len(p) && p[i].key == key {
 			c.cursor++
-			return p[i]
+			return &p[i]
 		}
-		return pairHint{}
+		return nil
 	}
 	i, ok := slices.BinarySearchFunc(p, key, func(h pairHint, k uint64) int { return cmp.Compare(h.key, k) })
 	if !ok {
 		c.cursor = i
-		return pairHint{}
+		return nil
 	}
 	c.cursor = i + 1
-	return p[i]
+	return &p[i]
 }
 
 // collideHinted is CollidePair's query (persist.go) for a pair with no
@@ -101,16 +108,24 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	if !(margin >= 0) || math.IsInf(margin, 0) {
 		margin = 0
 	}
-	if !finitePose(pa) || !finitePose(pb) {
-		return dst
-	}
+	// The hint is read and updated in place: last step's list is not read
+	// again once this step's is made.
 	h := c.lookup(key)
-	if h.kind != hintNone && d.stillApart(&h, a, pa, b, pb, margin) {
-		c.cur = append(c.cur, h)
+	// The bound first: a pose that is not finite makes it NaN or infinite,
+	// and it proves nothing (apartbound.go).
+	if h != nil && h.kind != hintNone && (d.boundedApart(h, a, pa, b, pb, margin) ||
+		finitePose(pa) && finitePose(pb) && d.measuredApart(h, a, pa, b, pb, margin)) {
+		c.cur = append(c.cur, *h)
 		d.stats.Remembered++
 		return dst
 	}
-	c.in = h
+	if !finitePose(pa) || !finitePose(pb) {
+		return dst
+	}
+	c.in = pairHint{}
+	if h != nil {
+		c.in = *h
+	}
 	c.out = pairHint{key: key}
 	c.on, c.swapped = true, false
 	dst = d.Collide(dst, a, pa, b, pb, margin)
@@ -151,7 +166,9 @@ func (d *Detector) NextStep() {
 			c.cur[n-1] = c.cur[i]
 			continue
 		}
-		c.cur[n] = c.cur[i]
+		if n != i {
+			c.cur[n] = c.cur[i]
+		}
 		n++
 	}
 	c.prev, c.cur = c.cur[:n], c.prev[:0]
@@ -242,11 +259,10 @@ func radius(s shapes.Shape) float64 {
 	return 0
 }
 
-// stillApart reports whether the remembered axis h still separates shape a
-// at pa from b at pb by more than margin (plus the band), computed on the
-// axis at the current poses.
-func (d *Detector) stillApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) bool {
-	band := memBand * (radius(a) + radius(b) + pa.Position.Len() + pb.Position.Len())
+// hintGap returns the gap between shape a at pa and b at pb along the
+// remembered axis h at the current poses, or reports that h cannot measure
+// it (an edge pair of hulls, a degenerate axis).
+func hintGap(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose) (float64, bool) {
 	var gap float64
 	switch h.kind {
 	case hintDir:
@@ -260,14 +276,14 @@ func (d *Detector) stillApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b sha
 		}
 		n := po.Orientation.Rotate(h.dir)
 		if n == (vec3{}) {
-			return false
+			return 0, false
 		}
 		gap = -extent(sx, px, n.Mul(-1), vx) - (n.Dot(po.Position) + h.off)
 	case hintEdge:
 		ba, okA := a.(shapes.Box)
 		bb, okB := b.(shapes.Box)
 		if !okA || !okB || h.i < 0 || h.i > 2 || h.j < 0 || h.j > 2 {
-			return false // edges of hulls: the test's own loop checks them
+			return 0, false // edges of hulls: the test's own loop checks them
 		}
 		ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 		pi, qj := int(h.i), int(h.j)
@@ -277,7 +293,7 @@ func (d *Detector) stillApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b sha
 		ax := col(ra, pi).Cross(col(rb, qj))
 		l := ax.Len()
 		if l <= 2*satParallel {
-			return false
+			return 0, false
 		}
 		ax = ax.Mul(1 / l)
 		gap = math.Abs(ax.Dot(pb.Position.Sub(pa.Position)))
@@ -285,7 +301,7 @@ func (d *Detector) stillApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b sha
 			gap -= ba.Half[k]*math.Abs(ax.Dot(col(ra, k))) + bb.Half[k]*math.Abs(ax.Dot(col(rb, k)))
 		}
 	default:
-		return false
+		return 0, false
 	}
-	return gap > margin+band
+	return gap, true
 }

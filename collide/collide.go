@@ -51,6 +51,10 @@ type Stats struct {
 	// Remembered counts the CollidePair queries that the axis remembered
 	// from the pair's last query proved apart.
 	Remembered int
+	// Bounded counts those of them proved by the bound on how far the gap
+	// the axis measured at an earlier step can have closed since
+	// (apartbound.go), without measuring the axis again.
+	Bounded int
 	// Persisted counts the CollidePair queries answered by refreshing the
 	// pair's persistent points (persist.go).
 	Persisted int

@@ -85,12 +85,18 @@ const persistAge = 8
 // query did, unless the tie was closer than that motion, which no age limit
 // rules out either (a later full query at nearly the same pose may decide
 // it either way). So a pair that has stayed that still refreshes up to
-// persistAgeStill steps; the cap keeps the full query's history to a few
-// dozen steps and lets a slow drift that never adds up to the motion limit
-// (a creeping part) meet a fresh query now and then.
+// persistAgeStill steps. Its points meanwhile are as good as a fresh
+// query's: the same features, separations exact for them, positions within
+// the motion, which stays under persistStill of the limit (5 um at the
+// default slop) however long the pair rests; the cap only bounds the
+// history a step's contacts depend on to some hundred steps and lets a
+// slow drift that never adds up to that motion (a creeping part) meet a
+// fresh query now and then. At 32 steps the full queries of a resting pile
+// of a thousand parts, one pair in 32 each step, cost as much as all its
+// refreshes together.
 const (
 	persistStill    = 0.25
-	persistAgeStill = 32
+	persistAgeStill = 128
 )
 
 // persistEntry is the memory of one pair.
@@ -166,12 +172,17 @@ func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa sh
 	// A pose that is not finite makes the motion NaN or infinite, so
 	// refresh leaves it to the full query (which checks the poses).
 	if e != nil && e.a == a && e.b == b {
-		if m, ok := p.refresh(e, pa, pb, margin); ok {
+		// Refreshed in place at the end of dst (a manifold is some two
+		// hundred bytes), and dropped again if the refresh fails.
+		n := len(dst)
+		dst = append(dst, Manifold{})
+		if p.refresh(e, &pa, &pb, margin, &dst[n]) {
 			e.seen = p.step
 			d.cache.carry(key)
 			d.stats.Persisted++
-			return append(dst, m)
+			return dst
 		}
+		dst = dst[:n]
 	}
 	n := len(dst)
 	dst = d.collideHinted(dst, key, a, pa, b, pb, margin)
@@ -209,17 +220,18 @@ func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 	return qmulConjA(&f.Orientation, &m.Orientation), qrotateConj(&f.Orientation, m.Position.Sub(f.Position))
 }
 
-// refresh moves e's points with the shapes at pa and pb and reports whether
-// they stand for a fresh query (the conditions of the file comment).
-func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64) (Manifold, bool) {
+// refresh moves e's points with the shapes at pa and pb into out and
+// reports whether they stand for a fresh query (the conditions of the file
+// comment); out is left partly written when they do not.
+func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float64, out *Manifold) bool {
 	tol := persistFraction * p.slop
 	age := p.step - e.full
 	if age >= persistAgeStill || margin > e.margin+tol {
-		return Manifold{}, false
+		return false
 	}
-	motion := e.motion(&pa, &pb)
+	motion := e.motion(pa, pb)
 	if !(motion <= tol) || (age >= persistAge && motion > persistStill*tol) {
-		return Manifold{}, false
+		return false
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 	rf := &ra
@@ -228,7 +240,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 	}
 	k := &e.m
 	n := mul(*rf, k.n)
-	out := Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
+	*out = Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
 	// By component, as in motion; the same operations as the vector
 	// methods, so the same roundings.
 	var a, b vec3
@@ -239,19 +251,19 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb shapes.Pose, margin float64
 		sep := g0*n[0] + g1*n[1] + g2*n[2]
 		d0, d1, d2 := g0-n[0]*sep, g1-n[1]*sep, g2-n[2]*sep
 		if sep > margin || math.Sqrt(d0*d0+d1*d1+d2*d2) > p.slop {
-			return Manifold{}, false
+			return false
 		}
 		pt := &out.Points[i]
 		pt.Position = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
 		pt.Separation, pt.ID = sep, k.id[i]
 	}
-	if flatPoints(&out) != e.flat {
-		return Manifold{}, false
+	if flatPoints(out) != e.flat {
+		return false
 	}
 	placeTo(&a, &ra, &pa.Position, &k.ca)
 	placeTo(&b, &rb, &pb.Position, &k.cb)
 	out.PatchCenter = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
-	return out, true
+	return true
 }
 
 // placeTo sets dst to o + m v, rounded as o.Add(mul(m, v)).
@@ -262,15 +274,22 @@ func placeTo(dst *vec3, m *mat3, o, v *vec3) {
 }
 
 // motion is the relative motion of the shapes at pa, pb since e's full
-// query: with q, t the pose of M in F's frame (relPose) and dq the rotation
-// from e.rq to q, the translation |t - e.rt| plus the chord a point at
-// distance rho sweeps by dq, 2 sin(angle/2) rho = 2 |dq.V| rho. It is the
+// query (relMotion).
+func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
+	return relMotion(e.mOnB, &e.rq, &e.rt, e.rho, pa, pb)
+}
+
+// relMotion bounds how far any point of the moving shape M has moved in
+// the frame of the other shape F since M's pose there was rq, rt (relPose):
+// with q, t the pose of M in F's frame now and dq the rotation from rq to
+// q, the translation |t - rt| plus the chord a point at distance rho from
+// M's origin sweeps by dq, 2 sin(angle/2) rho = 2 |dq.V| rho. It is the
 // quaternion algebra of relPose written out by component (a quaternion or
 // vector passed by value costs a stalled store forward per field here),
 // with the same operations in the same order, so the same roundings.
-func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
+func relMotion(mOnB bool, rq *mgl64.Quat, rt *vec3, rho float64, pa, pb *shapes.Pose) float64 {
 	f, m := pa, pb
-	if !e.mOnB {
+	if !mOnB {
 		f, m = pb, pa
 	}
 	// fc, the conjugate of F's orientation; q = fc m.Orientation.
@@ -284,15 +303,15 @@ func (e *persistEntry) motion(pa, pb *shapes.Pose) float64 {
 	dx, dy, dz := m.Position[0]-f.Position[0], m.Position[1]-f.Position[1], m.Position[2]-f.Position[2]
 	cx, cy, cz := fy*dz-fz*dy, fz*dx-fx*dz, fx*dy-fy*dx
 	w2, ux, uy, uz := 2*fw, fx*2, fy*2, fz*2
-	tx := dx + cx*w2 + (uy*cz - uz*cy) - e.rt[0]
-	ty := dy + cy*w2 + (uz*cx - ux*cz) - e.rt[1]
-	tz := dz + cz*w2 + (ux*cy - uy*cx) - e.rt[2]
-	// The vector part of dq = conj(e.rq) q.
-	rw, rx, ry, rz := e.rq.W, -e.rq.V[0], -e.rq.V[1], -e.rq.V[2]
+	tx := dx + cx*w2 + (uy*cz - uz*cy) - rt[0]
+	ty := dy + cy*w2 + (uz*cx - ux*cz) - rt[1]
+	tz := dz + cz*w2 + (ux*cy - uy*cx) - rt[2]
+	// The vector part of dq = conj(rq) q.
+	rw, rx, ry, rz := rq.W, -rq.V[0], -rq.V[1], -rq.V[2]
 	vx := ry*qz - rz*qy + qx*rw + rx*qw
 	vy := rz*qx - rx*qz + qy*rw + ry*qw
 	vz := rx*qy - ry*qx + qz*rw + rz*qw
-	return math.Sqrt(tx*tx+ty*ty+tz*tz) + 2*math.Sqrt(vx*vx+vy*vy+vz*vz)*e.rho
+	return math.Sqrt(tx*tx+ty*ty+tz*tz) + 2*math.Sqrt(vx*vx+vy*vy+vz*vz)*rho
 }
 
 // flatPoints reports whether m's points lie flat in the sense of
@@ -432,7 +451,7 @@ func (p *persistMem) nextStep() {
 // carry keeps the pair's separating-axis memory for the next step when its
 // persistent points answered the query instead.
 func (c *pairCache) carry(key uint64) {
-	if h := c.lookup(key); h.kind != hintNone {
-		c.cur = append(c.cur, h)
+	if h := c.lookup(key); h != nil && h.kind != hintNone {
+		c.cur = append(c.cur, *h)
 	}
 }

@@ -88,58 +88,55 @@ func (w *World) planePairs(dst [][2]int32) [][2]int32 {
 		pl.nd, pl.ndOK = append(pl.nd[:0], make([]planeWorld, len(pl.ids))...), false
 	}
 	// A static plane moves only when placed by hand (SetPose clears ndOK).
-	moving := false
 	for j, p := range pl.ids {
 		if !pl.ndOK || w.b.kind[p] != Static {
 			pl.nd[j] = w.planeInWorld(p)
 		}
-		moving = moving || w.b.kind[p] != Static
 	}
 	pl.ndOK = true
-	for _, id := range w.awakeBodies() {
-		if w.b.kind[id] == Dynamic {
-			dst = w.meetPlanes(dst, id)
+	// Plane by plane, so that the pairs come out sorted (a plane's id is
+	// usually below those of the bodies it meets): visiting body by body
+	// interleaved the planes and left a sort of a thousand pairs a step.
+	for j, p := range pl.ids {
+		if w.b.kind[p] == Static {
+			for _, id := range w.awakeBodies() {
+				if w.b.kind[id] == Dynamic {
+					dst = w.meetPlane(dst, id, j)
+				}
+			}
+			continue
 		}
-	}
-	if moving {
-		for i, k := range w.b.kind {
-			if k == Dynamic && !w.b.awake[i] {
-				dst = w.meetPlanes(dst, BodyID(i))
+		for i, k := range w.b.kind { // a moving plane meets sleeping bodies too
+			if k == Dynamic {
+				dst = w.meetPlane(dst, BodyID(i), j)
 			}
 		}
 	}
-	// Bodies were visited in id order: the pairs are sorted unless a plane
-	// was added after a body it pairs with or sleeping bodies met a moving
-	// plane.
+	// The pairs are sorted unless a plane was added after a body it pairs
+	// with.
 	if !slices.IsSortedFunc(dst, cmpPair) {
 		slices.SortFunc(dst, cmpPair)
 	}
 	return dst
 }
 
-// meetPlanes appends the pairs of dynamic body i with the planes its
-// bounds reach (pl.nd holds the planes in the world).
-func (w *World) meetPlanes(dst [][2]int32, i BodyID) [][2]int32 {
+// meetPlane appends the pair of dynamic body i and plane j of pl.ids if
+// their filters admit it and i's bounds reach the plane (pl.nd holds the
+// planes in the world).
+func (w *World) meetPlane(dst [][2]int32, i BodyID, j int) [][2]int32 {
 	c := &w.collision
 	pl := &c.planes
-	awake := w.b.awake[i]
-	box := &w.b.bounds[i]
-	f := pl.filter[i]
-	for j, p := range pl.ids {
-		if !awake && w.b.kind[p] == Static {
-			continue
+	p := pl.ids[j]
+	f, g := pl.filter[i], pl.filter[p]
+	if f[0]&g[1] == 0 || g[0]&f[1] == 0 {
+		return dst
+	}
+	if boxReaches(&w.b.bounds[i], pl.nd[j], c.margin[p]) {
+		a, b := int32(p), int32(i)
+		if a > b {
+			a, b = b, a
 		}
-		g := pl.filter[p]
-		if f[0]&g[1] == 0 || g[0]&f[1] == 0 {
-			continue
-		}
-		if boxReaches(box, pl.nd[j], c.margin[p]) {
-			a, b := int32(p), int32(i)
-			if a > b {
-				a, b = b, a
-			}
-			dst = append(dst, [2]int32{a, b})
-		}
+		dst = append(dst, [2]int32{a, b})
 	}
 	return dst
 }
