@@ -107,14 +107,18 @@ next:
 			}
 		}
 	}
-	if !(dist > coreTouch*(a.size+b.size)) {
-		return gjkResult{}, false
-	}
-	r := gjkResult{dist: dist, pa: q, pb: x}
+	r := gjkResult{pa: q, pb: x}
 	if c == b {
 		r.pa, r.pb = x, q
 	}
+	// The distance is that of the two points as the caller sees them, so
+	// that v/dist is a unit vector (dist itself is rounded in the
+	// cylinder's frame).
 	r.v = r.pa.Sub(r.pb)
+	r.dist = math.Sqrt(r.v.Dot(r.v))
+	if !(dist > coreTouch*(a.size+b.size)) || !(r.dist > coreTouch*(a.size+b.size)) {
+		return gjkResult{}, false
+	}
 	if !certified(a, b, r.v) {
 		return gjkResult{}, false
 	}

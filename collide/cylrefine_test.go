@@ -42,6 +42,9 @@ func TestCylinderRefinedDistance(t *testing.T) {
 		// (radians): the refined points are exact to rounding, which
 		// over 0.1 um tilts the normal by about 1e-10.
 		normalTol = 1e-9
+		// unitTol: v/dist is the caller's normal; |v| and dist must be
+		// one number up to the rounding of a square root (a few ulps).
+		unitTol = 1e-14
 		// minRefined of the 32 queries of each case (4 gaps, 8 turns)
 		// must be answered by the refinement: measured 27 to 32 of 32 at
 		// the rim and side (near touch, 0.1 um, rounding leaves some to
@@ -121,6 +124,9 @@ func TestCylinderRefinedDistance(t *testing.T) {
 				refined[c.name]++
 				if e := math.Abs(got.dist - g); e > distTol {
 					t.Errorf("%s g=%g order %d: distance %.17g, want %g (error %.3g m)", c.name, g, k%2, got.dist, g, e)
+				}
+				if e := math.Abs(got.v.Len()/got.dist - 1); e > unitTol {
+					t.Errorf("%s g=%g order %d: |v|/dist - 1 = %.3g: the normal v/dist is not a unit vector", c.name, g, k%2, e)
 				}
 				// v = pa - pb points from B to A.
 				gn := got.v.Mul(-sg / got.dist)
