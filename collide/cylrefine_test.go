@@ -11,7 +11,7 @@ import (
 )
 
 // TestCylinderRefinedDistance checks the distance and normal of a
-// cylinder and a box hull near its rim and side against elementary
+// cylinder and a box hull (or a second cylinder) near its rim and side against elementary
 // geometry, with the whole scene turned to random orientations and the
 // shapes in both orders. In each case the box's nearest feature sits in
 // the normal cone of the cylinder's nearest point, so the distance is
@@ -27,7 +27,9 @@ import (
 //   - edge along the side: an edge skew to the axis at distance r + g from
 //     it, crossing the axis's perpendicular at mid-height;
 //   - face under the rim: a face tilted by 30 degrees touching the rim's
-//     lowest point along its normal, distance g.
+//     lowest point along its normal, distance g;
+//   - rim over rim: a second cylinder, turned over, with its rim point
+//     at (r, 0, h) + g n, n = (1, 0, 1)/sqrt 2, whose normal cone holds -n.
 //
 // Only the queries that the refinement answered are checked here (the
 // others are GJK's, checked in gjk_test.go), and it must answer most.
@@ -62,6 +64,8 @@ func TestCylinderRefinedDistance(t *testing.T) {
 	}
 	tilt := shapes.RotationMatrix(mgl64.QuatRotate(math.Pi/6, vec3{1, 0, 0}))
 	tn := mul(tilt, vec3{0, 0, -1}) // the tilted box's bottom face normal, pointing down
+	flip := shapes.RotationMatrix(mgl64.QuatRotate(math.Pi, vec3{0, 1, 0}))
+	const r2, h2 = 0.008, 0.006 // the second cylinder of rim-rim, m
 	cases := []setup{
 		{"vertex-rim", vec3{0.5, 0.5, 1 / s2}, vec3{0.004, 0.005, 0.006}, identity3, func(g float64) vec3 {
 			p := vec3{r / s2, r / s2, h}.Add(vec3{0.5, 0.5, 1 / s2}.Mul(g))
@@ -84,6 +88,12 @@ func TestCylinderRefinedDistance(t *testing.T) {
 			// off the face's centre, so that the foot is off its diagonals
 			return rim.Add(tn.Mul(g + 0.004)).Add(mul(tilt, vec3{0.007, -0.004, 0}))
 		}, 3},
+		{"rim-rim", vec3{1 / s2, 0, 1 / s2}, vec3{}, flip, func(g float64) vec3 {
+			// A second cylinder (box zero: radius r2, half length h2)
+			// turned over about y: its rim point (r2, 0, h2) comes to
+			// (-r2, 0, -h2) from its centre, with -n in its normal cone.
+			return vec3{r, 0, h}.Add(vec3{1, 0, 1}.Mul(g / s2)).Add(vec3{r2, 0, h2})
+		}, 1},
 	}
 	rng := rand.New(rand.NewSource(3))
 	d := NewDetector()
@@ -99,16 +109,20 @@ func TestCylinderRefinedDistance(t *testing.T) {
 			}
 			verts = append(verts, v)
 		}
-		hull, err := shapes.NewHull(verts)
-		if err != nil {
-			t.Fatal(err)
+		var other shapes.Shape = shapes.Cylinder{Radius: r2, HalfLength: h2}
+		if c.box != (vec3{}) {
+			hull, err := shapes.NewHull(verts)
+			if err != nil {
+				t.Fatal(err)
+			}
+			other = hull
 		}
 		for _, g := range []float64{1e-7, 1e-5, 3e-4, 2e-3} {
 			for k := 0; k < 8; k++ {
 				turn := shapes.RotationMatrix(randomRotation(rng))
 				var cyl, box view
 				cyl.setConvex(shapes.Cylinder{Radius: r, HalfLength: h}, turn, vec3{})
-				box.setConvex(hull, turn.Mul3(c.rot), mul(turn, c.at(g)))
+				box.setConvex(other, turn.Mul3(c.rot), mul(turn, c.at(g)))
 				n := mul(turn, c.n)
 				a, b, sg := &cyl, &box, 1.0
 				if k%2 == 1 {
