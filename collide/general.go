@@ -41,7 +41,8 @@ func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
 	// Shapes farther apart than the margin need no exact distance (nor
 	// than coreTouch, below which cores count as overlapping).
 	scale := a.size + b.size
-	g := d.gjkUntil(a, b, false, math.Max(margin+a.rad+b.rad, coreTouch*scale))
+	stop := math.Max(margin+a.rad+b.rad, coreTouch*scale)
+	g := d.gjkRefined(a, b, false, stop, refinable(a, b)) // (cylrefine.go)
 	if g.apart {
 		r.sep = g.dist - a.rad - b.rad
 		r.n = g.v.Mul(-1 / math.Sqrt(g.v.Dot(g.v)))

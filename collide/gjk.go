@@ -53,6 +53,7 @@ type gjkResult struct {
 	iters   int
 	capped  bool // stopped on gjkMaxIter, result is the best found
 	apart   bool // gjkUntil proved the distance above its stop (dist is a lower bound)
+	refined bool // cylRefine found the nearest points (cylrefine.go)
 }
 
 func sameSign(a, b float64) bool { return (a > 0 && b > 0) || (a < 0 && b < 0) }
@@ -235,6 +236,13 @@ func (d *Detector) gjk(a, b *view, full bool) gjkResult {
 // Environments", 2003, chapter 4, cited from memory) is above it. The result then has apart set, dist is that lower bound and v the
 // direction that proved it; the closest points are not found.
 func (d *Detector) gjkUntil(a, b *view, full bool, stop float64) gjkResult {
+	return d.gjkRefined(a, b, full, stop, false)
+}
+
+// gjkRefined is gjkUntil that, when refine is set, hands the simplex to
+// cylRefine once its bounds are within cylLooseTol, and returns what that
+// finds if it passes the stopping test (cylrefine.go).
+func (d *Detector) gjkRefined(a, b *view, full bool, stop float64, refine bool) gjkResult {
 	d.stats.GJKCalls++
 	sup := func(v *view, dir vec3) vec3 {
 		if full {
@@ -275,6 +283,13 @@ func (d *Detector) gjkUntil(a, b *view, full bool, stop float64) gjkResult {
 		if lim := stop * (1 + gjkStopBand); vw > 0 && vw*vw > lim*lim*vv {
 			res.apart, res.dist, res.v = true, vw/math.Sqrt(vv), v
 			return res
+		}
+		if refine && vv-vw <= cylLooseTol*vv {
+			refine = false // once
+			if r, ok := d.cylRefine(a, b, s); ok {
+				r.iters, r.refined = it+1, true
+				return r
+			}
 		}
 		// Converged: the lower bound v.w/|v| is within the relative tolerance
 		// of |v| (this also catches a repeated support point).
