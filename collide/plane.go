@@ -10,8 +10,10 @@ import (
 // Convex shapes against a static half-space, by support points: every vertex
 // of a box or hull within the margin of the plane is a contact point (the
 // reduction then keeps four), a sphere gives its lowest point, a capsule the
-// lowest points of its two end spheres, and a cylinder rim points of both
-// caps, laid out from the exact deepest point of each rim.
+// lowest points of its two end spheres, and a cylinder the points of its
+// supporting feature (rolllines.go): rim points of both caps, laid out from
+// the exact deepest point of each rim, all four where a cap faces the plane,
+// only the deepest where the cylinder lies on its side.
 
 var worldFrame = frame{rot: identity3}
 
@@ -94,7 +96,7 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		d.disc = discHint{r: v.cylR, n: 4} // a cap lying flat is a disc (patch.go)
 		for cp := 0; cp < 2; cp++ {
 			center := v.pos.Add(ax.Mul(v.half[2] * float64(1-2*cp)))
-			for k := 0; k < 4; k++ {
+			for k := 0; k < rimPoints(rl, math.Abs(c)); k++ {
 				cu, cw := [4]float64{1, 0, -1, 0}[k], [4]float64{0, 1, 0, -1}[k]
 				add(center.Add(u.Mul(v.cylR*cu)).Add(w.Mul(v.cylR*cw)), mode+uint32(4*cp+k))
 			}

@@ -19,6 +19,9 @@ import (
 // q is the rotation from the principal frame to the world, moments the
 // principal moments of inertia and spin the world angular velocity.
 func freeRotation(q shapes.Quat, moments, spin shapes.Vec3, dt float64) (shapes.Quat, shapes.Vec3) {
+	if k, ok := topAxis(moments); ok {
+		return topRotation(q, moments, spin, k, dt) // symtop.go
+	}
 	// Angular momentum in the principal frame.
 	wb := qrotateInv(&q, &spin)
 	pi := shapes.Vec3{moments[0] * wb[0], moments[1] * wb[1], moments[2] * wb[2]}
