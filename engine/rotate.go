@@ -15,6 +15,9 @@ import (
 // R2(h/2) R1(h/2). The world angular momentum is conserved to rounding and
 // the energy error stays bounded, so spinning parts neither gain energy nor
 // drift off their axis, and the intermediate-axis flip appears as it should.
+// That holds while each composition turns the body little (its energy
+// error is then bounded, not growing); freeSubSteps splits a step that
+// would turn it far into equal sub-steps that do not.
 //
 // q is the rotation from the principal frame to the world, moments the
 // principal moments of inertia and spin the world angular velocity.
@@ -25,12 +28,18 @@ func freeRotation(q shapes.Quat, moments, spin shapes.Vec3, dt float64) (shapes.
 	// Angular momentum in the principal frame.
 	wb := qrotateInv(&q, &spin)
 	pi := shapes.Vec3{moments[0] * wb[0], moments[1] * wb[1], moments[2] * wb[2]}
+	n := freeSubSteps(&pi, &moments, dt) // (substep.go)
+	if n > 1 {
+		dt /= float64(n)
+	}
 	h := dt / 2
-	principalRotate(&q, &pi, &moments, 0, h)
-	principalRotate(&q, &pi, &moments, 1, h)
-	principalRotate(&q, &pi, &moments, 2, dt)
-	principalRotate(&q, &pi, &moments, 1, h)
-	principalRotate(&q, &pi, &moments, 0, h)
+	for ; n > 0; n-- {
+		principalRotate(&q, &pi, &moments, 0, h)
+		principalRotate(&q, &pi, &moments, 1, h)
+		principalRotate(&q, &pi, &moments, 2, dt)
+		principalRotate(&q, &pi, &moments, 1, h)
+		principalRotate(&q, &pi, &moments, 0, h)
+	}
 	q = q.Normalize()
 	wb = shapes.Vec3{pi[0] / moments[0], pi[1] / moments[1], pi[2] / moments[2]}
 	return q, qrotate(&q, &wb)
