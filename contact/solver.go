@@ -41,6 +41,8 @@ type pstate struct {
 	iTarget             float64 // normal target velocity of the current impact processing
 	iN, iT1, iT2        float64 // impulses of the current impact processing
 	pending             float64 // approach speed of an impact deferred from the last step, 0 if none
+	held, left          float64 // what its stops removed and left of its approach (held.go)
+	aStart              float64 // a deferred point's approach at its stop (held.go)
 	prevN               float64 // last step's normal impulse of the velocity solve (the load it carried)
 	deferred            float64 // approach speed of an impact deferred to the next step, 0 if none
 	pN, pTarget, pLo    float64 // position pass
@@ -60,6 +62,8 @@ type warmPoint struct {
 	sliding  bool
 	slips    uint8
 	pending  float64 // approach speed of a deferred impact
+	held     float64 // what its stops removed of its approach (held.go)
+	left     float64 // and what the last one left
 	a, b     int32   // bodies, for matching by position (match.go)
 	pos      vec     // world contact point
 }
@@ -164,6 +168,7 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 	s.classifyPatches(points) // twist.go
 	s.impacts(dt, points, &rep)
 	s.sl.addForces(1)
+	s.noteStops() // held.go
 	s.warmStart(dt, points, rows)
 	s.warmPatches(dt) // twist.go
 	s.velocities(points, rows, &rep)
@@ -544,7 +549,10 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 			vmax := 0.0
 			for i := lo; i < hi; i++ {
 				ps, rn := &s.pts[i], &s.nrows[i]
-				ps.active = false
+				// Whether and how fast it arrives is judged anew in every
+				// pass, on the velocities the impacts so far have left:
+				// those of other points may have turned the bodies.
+				ps.active, ps.deferred = false, 0
 				if rn.mass == 0 {
 					continue
 				}
@@ -559,7 +567,7 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 					// It carried load last step: a resting contact, whatever
 					// an unconverged solve or a sway left of approach. It
 					// takes part as a touching point, inelastic.
-					ps.pending = 0
+					ps.pending, ps.held, ps.left = 0, 0, 0
 					ps.active = ps.sep <= set.Slop
 					ps.iTarget = rn.target
 					continue
@@ -571,17 +579,24 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 					// approach speed. Bouncing now would reverse the bodies a
 					// gap short of each other; moving them to make up for it
 					// would change angular momentum.
-					if approach > set.BounceThreshold || ps.pending > 0 {
+					//
+					// A point still apart after last step's stop waits on
+					// only while it approaches as an impact: one that no
+					// longer does was turned away, and an impact held for
+					// it would arrive, steps later, at a speed it has long
+					// lost (held.go).
+					if approach > set.BounceThreshold {
 						ac := arrivalSpeed(approach, -rn.cdot(fv), ps.sep, dt)
-						ps.deferred = max(ps.deferred, ac, ps.pending)
+						ps.deferred, ps.aStart = max(ac, ps.pending), ac
 					}
 					continue
 				}
 				if ps.pending > approach && approach > -set.BounceThreshold {
-					// The impact deferred from the last step arrives now.
-					approach = ps.pending
+					// The impact deferred from the last step arrives now,
+					// giving back no more than its stops took (held.go).
+					approach = max(approach, heldArrival(ps.pending, ps.left, ps.held))
 				}
-				ps.pending = 0
+				ps.pending, ps.held, ps.left = 0, 0, 0
 				ps.active = true
 				ps.iTarget = rn.target
 				if approach > set.BounceThreshold {
@@ -775,7 +790,11 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		// and then copied costs a second pass over its bytes.
 		w := &s.curPts[s.rank[i]]
 		w.key, w.normal, w.friction = p.Key, rn.lambda, p.FrictionImpulse
-		w.sliding, w.slips, w.pending = p.Sliding, slips, pending
+		w.sliding, w.slips, w.pending, w.held, w.left = p.Sliding, slips, pending, 0, 0
+		if pending > 0 {
+			a1 := -rn.cdot(vel)
+			w.held, w.left = ps.held+stopHeld(rn.lambda, ps.aStart, a1), max(a1, 0) // held.go
+		}
 		w.a, w.b, w.pos = p.A, p.B, p.Position
 		if ps.deferred > 0 {
 			// The impulse that stopped a deferred impact at the gap is no
