@@ -1,47 +1,47 @@
 package contact
 
-import "math"
-
-// What a deferred impact holds back.
+// The energy held by a deferred impact.
 //
 // A point that closes its gap within the step, but is not yet touching, is
 // stopped at the gap by the velocity solve and bounces the next step with e
-// times its arrival speed (impacts). The stop takes approach, and so
-// energy, out of the motion; the bounce gives it back. Where the bodies'
-// motion carries on as it was between the steps, the two match. Where it
-// does not, Newton's target e times the first arrival speed gives back more
-// than the stops took, and the impact gains energy, which an impact with
-// e <= 1 never does (Stronge, "Impact Mechanics", Cambridge University
-// Press, 2000: the work of the normal impulse in restitution is at most e^2
-// times the energy absorbed in compression). Seen in a bin of parts with
-// e = 1: a box turning about its landing corner reached the gap more slowly
-// than it left it, was stopped a second time, and bounced with its first
-// speed; a third of the bin's energy appeared in one step.
+// times its arrival speed (impacts). The stop takes energy out of the
+// motion, the bounce gives it back. Where the bodies' motion carries on as
+// it was between the steps, the two match. Where it does not, Newton's
+// target e times the arrival speed can give back more than the stops took,
+// and the impact gains energy, which an impact with e <= 1 never does:
+// the work of the normal impulse in restitution is at most e^2 times the
+// energy absorbed in compression (the energetic coefficient of restitution:
+// Stronge, "Impact Mechanics", Cambridge University Press, 2000). Seen in a
+// bin of parts with e = 1: a box turning about its landing corner reached
+// the gap more slowly than it left, or came down on an edge whose second
+// point doubled the corner's effective mass, and a third of the bin's
+// energy appeared in one step.
 //
-// So a deferred bounce reverses no more approach than its stops removed:
-// a stop that took the point's approach from a0 to a1 removed a0^2 - a1^2
-// (its work, lambda (a0 + a1) / 2, on the effective mass it showed,
-// lambda / (a0 - a1), times two), and the approach that the bounce
-// reverses is at most sqrt(a1^2 + the sum over the stops of a0^2 - a1^2),
-// a1 of the last stop. The approach a0 at a stop is the larger of the
-// arrival speed, with which the bodies reach the gap in the world's exact
-// free flight, and the approach before the velocity solve with the step's
-// forces. With one stop the bound is a0, so it is never below Newton's
-// arrival speed: a clean deferred impact is left as it was. With two stops
-// the approach lost between them to the bodies' own turning is not given
-// back.
+// So the stops' energy is kept with the point, and the pair's impact in
+// the step it arrives may add at most e^2 times it to the kinetic energy of
+// the two bodies: the stops and the bounce together then never gain
+// energy. Where Newton's targets would add more, the arriving points'
+// approach is scaled back, from the arrival speed toward their approach
+// now, until the impact adds that much.
 
-// heldRelTol is how far Newton's arrival speed may exceed the bound before
-// the bound takes over. In a clean deferred impact (one stop, from the
-// arrival speed) the bound is that speed computed another way,
-// sqrt(a1^2 + (a0 - a1)(a0 + a1)), equal up to a few roundings (1e-15
-// relative); at 1e-9 such impacts keep Newton's speed bit for bit, and at
-// most 2e-9 of an impact's energy can pass the bound.
-const heldRelTol = 1e-9
+const (
+	// heldRelTol: in a clean deferred impact (one stop, the bodies' motion
+	// unchanged between the steps, e = 1) the impact adds exactly what the
+	// stop took, the same energy computed two ways; 1e-9 of it is far above
+	// their roundings and far below a measurable bounce.
+	heldRelTol = 1e-9
+	// heldRoundTol: the impact's gain is a difference of the pair's kinetic
+	// energies; 1e-12 of them covers its rounding.
+	heldRoundTol = 1e-12
+	// heldHalvings: the scale of the arriving approach is found by
+	// bisection to 2^-30, 1e-9 of the arrival speed.
+	heldHalvings = 30
+)
 
-// noteStops completes a0 of stopHeld for the points whose impact is
-// deferred: impacts left their arrival speed in aStart, and the approach
-// before the velocity solve, this step's forces included, may be larger.
+// noteStops completes, for the points whose impact is deferred, the
+// approach a0 at which the velocity solve starts to stop them: impacts left
+// their arrival speed in aStart, and the approach before the velocity
+// solve, this step's forces included, may be larger.
 func (s *Solver) noteStops() {
 	for i := range s.pts {
 		if ps := &s.pts[i]; ps.deferred > 0 {
@@ -50,23 +50,86 @@ func (s *Solver) noteStops() {
 	}
 }
 
-// stopHeld is the approach that the velocity solve's stop of a deferred
-// point removed, a0^2 - a1^2, when its normal impulse lambda took the
-// point's approach from a0 to a1. Never negative.
-func stopHeld(lambda, a0, a1 float64) float64 {
+// stopEnergy is the energy that the velocity solve's normal impulse lambda
+// at a point took from the motion while the point's approach went from a0
+// to a1: its work along the straight path from the velocities before the
+// solve to those after, on which every relative velocity changes linearly,
+// lambda (a0 + a1) / 2 (the trapezoid rule, exact for a linear integrand).
+// Never negative.
+func stopEnergy(lambda, a0, a1 float64) float64 {
 	if !(lambda > 0) {
 		return 0
 	}
-	return max((a0-a1)*(a0+a1), 0)
+	return max(0.5*lambda*(a0+a1), 0)
 }
 
-// heldArrival is the approach speed that a deferred impact with Newton
-// arrival speed arrival reverses: at most sqrt(left^2 + held), held the sum
-// of stopHeld over its stops and left the approach the last one left.
-func heldArrival(arrival, left, held float64) float64 {
-	bound := math.Sqrt(left*left + held)
-	if arrival > bound*(1+heldRelTol) {
-		return bound
+// boundHeld runs the impact of pair group g when a deferred impact arrives
+// at one of its points, bounded by the energy its stops held (see above),
+// and reports whether it did; tol ends the pair's sweeps (pairImpact).
+func (s *Solver) boundHeld(bodies []Body, g int, points []Point, tol float64) bool {
+	lo, hi := int(s.groups[g]), int(s.groups[g+1])
+	budget, arrived := 0.0, false
+	for i := lo; i < hi; i++ {
+		if ps := &s.pts[i]; ps.arrived && ps.active {
+			arrived = true
+			budget += ps.e * ps.e * ps.held
+		}
 	}
-	return arrival
+	if !arrived {
+		return false
+	}
+	vel := s.sl.vel
+	a, b := s.nrows[lo].a, s.nrows[lo].b
+	va, vb := vel[a], vel[b]
+	p0, p1 := s.patches.ofGroup[g], s.patches.ofGroup[g+1]
+	s.heldSums = s.heldSums[:0]
+	for k := p0; k < p1; k++ {
+		s.heldSums = append(s.heldSums, s.patches.list[k].impSum)
+	}
+	e0 := s.slotEnergy(bodies, a) + s.slotEnergy(bodies, b)
+	limit := budget*(1+heldRelTol) + heldRoundTol*e0
+	// gain runs the impact with the arriving points' approach at the
+	// fraction f of the way from their approach now to the arrival speed.
+	gain := func(f float64) float64 {
+		vel[a], vel[b] = va, vb
+		for k := p0; k < p1; k++ {
+			s.patches.list[k].impSum = s.heldSums[k-p0]
+		}
+		for i := lo; i < hi; i++ {
+			if ps := &s.pts[i]; ps.arrived && ps.active {
+				v := ps.aNow + f*(ps.aArr-ps.aNow)
+				ps.iTarget = ps.e * v
+				points[i].ImpactSpeed = v
+			}
+		}
+		s.pairImpact(g, tol)
+		return s.slotEnergy(bodies, a) + s.slotEnergy(bodies, b) - e0
+	}
+	if gain(1) <= limit {
+		return true
+	}
+	fLo, fHi := 0.0, 1.0
+	for k := 0; k < heldHalvings; k++ {
+		if f := 0.5 * (fLo + fHi); gain(f) <= limit {
+			fLo = f
+		} else {
+			fHi = f
+		}
+	}
+	gain(fLo)
+	return true
+}
+
+// slotEnergy is the kinetic energy of the body in slot k; zero for the
+// fixed slot and for bodies that impulses cannot move.
+func (s *Solver) slotEnergy(bodies []Body, k int32) float64 {
+	im := s.sl.im[k]
+	if k == fixedSlot || im == 0 {
+		return 0
+	}
+	bd := &bodies[s.sl.gid[k]]
+	v, w := &s.sl.vel[k].v, &s.sl.vel[k].w
+	in := bd.InvInertia.Inv() // the world inertia
+	iw := in.Mul3x1(*w)
+	return 0.5*dot3(v, v)/im + 0.5*dot3(w, &iw)
 }
