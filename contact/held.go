@@ -97,7 +97,10 @@ func (s *Solver) boundHeld(bodies []Body, g int, points []Point, tol float64) bo
 		}
 		for i := lo; i < hi; i++ {
 			if ps := &s.pts[i]; ps.arrived && ps.active {
-				v := ps.aNow + f*(ps.aArr-ps.aNow)
+				v := ps.aArr // Newton's target as it is, bit for bit
+				if f < 1 {
+					v = ps.aNow + f*(ps.aArr-ps.aNow)
+				}
 				ps.iTarget = ps.e * v
 				points[i].ImpactSpeed = v
 			}

@@ -616,10 +616,6 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				continue
 			}
 			hitAny = true
-			for i := lo; i < hi; i++ {
-				ps := &s.pts[i]
-				ps.iN, ps.iT1, ps.iT2 = 0, 0, 0
-			}
 			if !s.boundHeld(bodies, g, points, impactRelTol*vmax) { // held.go
 				s.pairImpact(g, impactRelTol*vmax)
 			}
