@@ -56,7 +56,7 @@ func (s *Solver) matchPoints(points []Point) {
 		}
 		w := &prev[k]
 		ps := &s.pts[i]
-		ps.found, ps.prevSliding, ps.prevSlips, ps.pending = true, w.sliding, w.slips, w.pending
+		ps.found, ps.prevSliding, ps.prevSlips, ps.pending, ps.held = true, w.sliding, w.slips, w.pending, w.held
 		ps.prevN = w.normal
 	}
 }

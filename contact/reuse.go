@@ -22,6 +22,7 @@ func (s *Solver) Clear(set Settings) {
 	n.blk = s.blk.reused()
 	n.live = liveState{moved: scratch.Reuse(s.live.moved), drift: scratch.Reuse(s.live.drift), seen: scratch.Reuse(s.live.seen)}
 	n.patches = patchState{list: scratch.Reuse(s.patches.list), ofGroup: scratch.Reuse(s.patches.ofGroup), mem: scratch.Reuse(s.patches.mem)}
+	n.heldSums = scratch.Reuse(s.heldSums)
 	*s = n
 }
 

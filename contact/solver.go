@@ -41,6 +41,10 @@ type pstate struct {
 	iTarget             float64 // normal target velocity of the current impact processing
 	iN, iT1, iT2        float64 // impulses of the current impact processing
 	pending             float64 // approach speed of an impact deferred from the last step, 0 if none
+	held                float64 // energy its stops have taken so far, J (held.go)
+	aStart              float64 // a deferred point's approach at its stop (held.go)
+	aNow, aArr          float64 // an arriving deferred impact's approach now and on arrival (held.go)
+	arrived             bool    // a deferred impact arrives at it in this pass
 	prevN               float64 // last step's normal impulse of the velocity solve (the load it carried)
 	deferred            float64 // approach speed of an impact deferred to the next step, 0 if none
 	pN, pTarget, pLo    float64 // position pass
@@ -60,6 +64,7 @@ type warmPoint struct {
 	sliding  bool
 	slips    uint8
 	pending  float64 // approach speed of a deferred impact
+	held     float64 // energy its stops have taken, J (held.go)
 	a, b     int32   // bodies, for matching by position (match.go)
 	pos      vec     // world contact point
 }
@@ -110,6 +115,8 @@ type Solver struct {
 	patches patchState // patch friction (twist.go)
 
 	live liveState // the rows still moving (live.go)
+
+	heldSums [][3]float64 // the patches' impact impulses before a bounded pair impact (held.go)
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -162,8 +169,9 @@ func (s *Solver) Solve(dt float64, bodies []Body, points []Point, rows []Row) (R
 	s.sl.addForces(-1)
 	s.classify(points)
 	s.classifyPatches(points) // twist.go
-	s.impacts(dt, points, &rep)
+	s.impacts(dt, bodies, points, &rep)
 	s.sl.addForces(1)
+	s.noteStops() // held.go
 	s.warmStart(dt, points, rows)
 	s.warmPatches(dt) // twist.go
 	s.velocities(points, rows, &rep)
@@ -530,13 +538,12 @@ func (s *Solver) classify(points []Point) {
 // not give. Touching points of the pair that do not impact keep the velocity
 // solve's target (no approach; a speculative point its gap per step).
 // A speculative point counts only if it would close its gap within the step.
-func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
+func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
 	vel, fv := s.sl.vel, s.sl.fv
 	set := &s.Settings
 	if set.PairIterations == 0 {
 		return
 	}
-	inf := math.Inf(1)
 	for pass := 0; pass < set.ImpactPasses; pass++ {
 		hitAny := false
 		for g := 0; g+1 < len(s.groups); g++ {
@@ -544,7 +551,10 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 			vmax := 0.0
 			for i := lo; i < hi; i++ {
 				ps, rn := &s.pts[i], &s.nrows[i]
-				ps.active = false
+				// Whether and how fast it arrives is judged anew in every
+				// pass, on the velocities the impacts so far have left:
+				// those of other points may have turned the bodies.
+				ps.active, ps.deferred, ps.arrived = false, 0, false
 				if rn.mass == 0 {
 					continue
 				}
@@ -559,7 +569,7 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 					// It carried load last step: a resting contact, whatever
 					// an unconverged solve or a sway left of approach. It
 					// takes part as a touching point, inelastic.
-					ps.pending = 0
+					ps.pending, ps.held = 0, 0
 					ps.active = ps.sep <= set.Slop
 					ps.iTarget = rn.target
 					continue
@@ -571,14 +581,22 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 					// approach speed. Bouncing now would reverse the bodies a
 					// gap short of each other; moving them to make up for it
 					// would change angular momentum.
-					if approach > set.BounceThreshold || ps.pending > 0 {
+					//
+					// A point still apart after last step's stop waits on
+					// only while it approaches as an impact: one that no
+					// longer does was turned away, and an impact held for
+					// it would arrive, steps later, at a speed it has long
+					// lost (held.go).
+					if approach > set.BounceThreshold {
 						ac := arrivalSpeed(approach, -rn.cdot(fv), ps.sep, dt)
-						ps.deferred = max(ps.deferred, ac, ps.pending)
+						ps.deferred, ps.aStart = max(ac, ps.pending), ac
 					}
 					continue
 				}
 				if ps.pending > approach && approach > -set.BounceThreshold {
-					// The impact deferred from the last step arrives now.
+					// The impact deferred from the last step arrives now,
+					// giving back no more than its stops took (held.go).
+					ps.arrived, ps.aNow, ps.aArr = true, max(approach, 0), ps.pending
 					approach = ps.pending
 				}
 				ps.pending = 0
@@ -598,26 +616,8 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 				continue
 			}
 			hitAny = true
-			for i := lo; i < hi; i++ {
-				ps := &s.pts[i]
-				ps.iN, ps.iT1, ps.iT2 = 0, 0, 0
-			}
-			tol := impactRelTol * vmax
-			for it := 0; it < set.PairIterations; it++ {
-				res := 0.0
-				for i := lo; i < hi; i++ {
-					ps := &s.pts[i]
-					if !ps.active {
-						continue
-					}
-					res = max(res, solveScalar(vel, &s.nrows[i], ps.iTarget, 0, inf, &ps.iN))
-					d, _ := s.solveFriction(vel, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
-					res = max(res, d)
-				}
-				res = max(res, s.impactPatches(g, it == 0)) // twist.go
-				if res <= tol {
-					break
-				}
+			if !s.boundHeld(bodies, g, points, impactRelTol*vmax) { // held.go
+				s.pairImpact(g, impactRelTol*vmax)
 			}
 			for i := lo; i < hi; i++ {
 				ps, p := &s.pts[i], &points[i]
@@ -639,6 +639,34 @@ func (s *Solver) impacts(dt float64, points []Point, rep *Report) {
 		if v := points[i].ImpactSpeed; v > 0 {
 			rep.Impacts++
 			rep.MaxImpactSpeed = max(rep.MaxImpactSpeed, v)
+		}
+	}
+}
+
+// pairImpact runs the Gauss-Seidel sweeps of pair group g's impact, from
+// zero impulses, until no row changes a velocity by more than tol.
+func (s *Solver) pairImpact(g int, tol float64) {
+	vel := s.sl.vel
+	lo, hi := int(s.groups[g]), int(s.groups[g+1])
+	for i := lo; i < hi; i++ {
+		ps := &s.pts[i]
+		ps.iN, ps.iT1, ps.iT2 = 0, 0, 0
+	}
+	inf := math.Inf(1)
+	for it := 0; it < s.Settings.PairIterations; it++ {
+		res := 0.0
+		for i := lo; i < hi; i++ {
+			ps := &s.pts[i]
+			if !ps.active {
+				continue
+			}
+			res = max(res, solveScalar(vel, &s.nrows[i], ps.iTarget, 0, inf, &ps.iN))
+			d, _ := s.solveFriction(vel, i, ps.mu*ps.iN, &ps.iT1, &ps.iT2)
+			res = max(res, d)
+		}
+		res = max(res, s.impactPatches(g, it == 0)) // twist.go
+		if res <= tol {
+			break
 		}
 	}
 }
@@ -775,7 +803,10 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		// and then copied costs a second pass over its bytes.
 		w := &s.curPts[s.rank[i]]
 		w.key, w.normal, w.friction = p.Key, rn.lambda, p.FrictionImpulse
-		w.sliding, w.slips, w.pending = p.Sliding, slips, pending
+		w.sliding, w.slips, w.pending, w.held = p.Sliding, slips, pending, 0
+		if pending > 0 {
+			w.held = ps.held + stopEnergy(rn.lambda, ps.aStart, -rn.cdot(vel)) // held.go
+		}
 		w.a, w.b, w.pos = p.A, p.B, p.Position
 		if ps.deferred > 0 {
 			// The impulse that stopped a deferred impact at the gap is no
