@@ -74,6 +74,7 @@ type bandState struct {
 	fill     []int32 // per body: entries of adj written so far
 	queue    []int32 // bodies in breadth-first order
 	place    []int32 // per body: its place in queue
+	ground   []bool  // per body: touches a fixed body
 	perm     []int32 // the points in the new order
 	lo       []int32 // per row of the system: the first row coupled with it
 	hi       []int32 // per row of the system: the last row coupled with it
@@ -143,10 +144,18 @@ func (s *Solver) bandOrder(idx []int32) bool {
 		a, b := bodies(ru)
 		return bs.node[a], bs.node[b], im[a] > 0 && im[b] > 0
 	}
+	bs.ground = grow(bs.ground, int(nodes))
+	clear(bs.ground)
 	for _, ru := range bs.runs {
-		if u, v, ok := both(ru); ok {
+		u, v, ok := both(ru)
+		switch a, _ := bodies(ru); {
+		case ok:
 			bs.deg[u+1]++
 			bs.deg[v+1]++
+		case im[a] > 0:
+			bs.ground[u] = true
+		default:
+			bs.ground[v] = true
 		}
 	}
 	for i := int32(1); i <= nodes; i++ {
@@ -198,19 +207,28 @@ func (s *Solver) bandOrder(idx []int32) bool {
 }
 
 // breadthFirst orders the island's bodies (nodes of the graph in adj) by
-// breadth-first search from one with the fewest neighbours, into
-// bs.queue, with each body's place in bs.place.
+// breadth-first search from one with the fewest neighbours among those on
+// a fixed body, into bs.queue, with each body's place in bs.place. Loads
+// reach a tower from its support: starting there, the faces that begin to
+// press during a solve come one after the other at the end of the order,
+// where a pivot refactorises little.
 func (s *Solver) breadthFirst(nodes int32) {
 	bs := &s.blk.band
 	bs.place = growFill(bs.place, int(nodes))
 	bs.queue = bs.queue[:0]
 	degree := func(u int32) int32 { return bs.deg[u+1] - bs.deg[u] }
+	better := func(u, v int32) bool {
+		if bs.ground[u] != bs.ground[v] {
+			return bs.ground[u]
+		}
+		return degree(u) < degree(v)
+	}
 	for len(bs.queue) < int(nodes) {
 		// A start among the bodies not yet placed (one search suffices
 		// for an island, which is connected).
 		start := int32(-1)
 		for u := int32(0); u < nodes; u++ {
-			if bs.place[u] < 0 && (start < 0 || degree(u) < degree(start)) {
+			if bs.place[u] < 0 && (start < 0 || better(u, start)) {
 				start = u
 			}
 		}
@@ -348,14 +366,16 @@ func (bs *bandState) reused() bandState {
 		ok: scratch.Reuse(bs.ok), runs: scratch.Reuse(bs.runs), node: scratch.Reuse(bs.node),
 		firstRow: scratch.Reuse(bs.firstRow), lastRow: scratch.Reuse(bs.lastRow),
 		deg: scratch.Reuse(bs.deg), adj: scratch.Reuse(bs.adj), fill: scratch.Reuse(bs.fill),
-		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), perm: scratch.Reuse(bs.perm),
+		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
 		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi),
 	}
 }
 
-// maxBandPivots bounds the pivots of a banded solve. A pivot costs the
-// envelope work of a tail of the factor, a few times less than the whole,
-// and the solve's work stays within bandPivotBudgets; a tall tower at a
-// coarse step, whose faces lift at a corner and press again, may need
-// several times the pivots of a small island.
+// maxBandPivots bounds the pivots of a banded solve. A tower set down
+// without warm start presses one more face per pivot, so this is the
+// tallest (96 boxes) whose first step is solved exactly; taller ones are
+// solved once the sweeps have loaded their faces. The solve's work bound
+// (bandPivotBudgets) limits its cost: a pivot refactorises only the
+// factor's tail. More pivots let a pyramid of boxes side by side at a
+// coarse step end on a solution that pushes the boxes apart (measured).
 const maxBandPivots = 4 * maxPivots
