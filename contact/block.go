@@ -72,6 +72,7 @@ type blockState struct {
 	cnt    []int32    // a patch row's number of normal rows
 	root   []int32    // island root of each point
 	excess []float64  // per island root: the last sweep's largest excess (velocities)
+	band   bandState  // large islands with a banded system (band.go)
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -136,6 +137,7 @@ func (s *Solver) islands(points []Point, rows []Row) {
 	for r := range b.start {
 		b.start[r] -= max(b.size[r], 0)
 	}
+	s.orderBands() // band.go
 }
 
 // pointRoot is the island root of point i: that of its dynamic body.
@@ -163,7 +165,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 	b := &s.blk
 	for r := range b.size {
 		n := int(b.size[r])
-		if n < 2 || n > s.Settings.MaxBlock {
+		if n < 2 || n > s.Settings.MaxBlock && !b.band.ok[r] {
 			continue
 		}
 		idx := b.order[b.start[r] : int(b.start[r])+n]
@@ -310,14 +312,31 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	b.active = grow(b.active, n)
 	shift := 0.0
 	// Rows couple only through a shared body slot: the others' entries are
-	// the zero coupling returns for them, without reading the rows.
+	// the zero coupling returns for them, without reading the rows. An
+	// island of more than MaxBlock points is banded (band.go): only each
+	// row's band [lo, hi] is written and read.
 	b.ab = grow(b.ab, n)
 	for i, r := range b.rows {
 		b.ab[i] = [2]int32{r.a, r.b}
 	}
+	band := len(idx) > s.Settings.MaxBlock
+	if band {
+		s.bandRanges(n)
+	}
+	span := func(i int) (int, int) {
+		if band {
+			return int(b.band.lo[i]), int(b.band.hi[i])
+		}
+		return 0, n - 1
+	}
 	for i := 0; i < n; i++ {
 		ri, ai, bi := b.rows[i], b.ab[i][0], b.ab[i][1]
-		for j, abj := range b.ab[:i+1] {
+		lo, hi := span(i)
+		if band {
+			clear(b.a[i*n+i+1 : i*n+hi+1]) // the rows below write what couples
+		}
+		for jb, abj := range b.ab[lo : i+1] {
+			j := lo + jb
 			c := 0.0
 			if abj[0] == ai || abj[0] == bi || abj[1] == ai || abj[1] == bi {
 				c = coupling(b.rows[j], ri)
@@ -345,8 +364,9 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// v0: each row's velocity without its island's impulses.
 	for i := 0; i < n; i++ {
 		v := b.rows[i].cdot(vel)
-		for j, a := range b.a[i*n : i*n+n] {
-			v -= a * b.lam[j]
+		lo, hi := span(i)
+		for j, a := range b.a[i*n+lo : i*n+hi+1] {
+			v -= a * b.lam[lo+j]
 		}
 		b.v0[i] = v
 	}
@@ -360,15 +380,23 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	}
 	b.follow()
 	b.resetFactor(n)
+	b.band.work = 0
+	budget := bandPivotBudgets * blockBudget(s.Settings.MaxBlock)
 	tol := s.Settings.Tolerance + 1e-12
-	done := false
-	for it := 0; it < maxPivots; it++ {
+	done, removed := false, false
+	pivotCap := maxPivots
+	if band {
+		pivotCap = maxBandPivots
+	}
+	for it := 0; it < pivotCap; it++ {
 		// Each pivot changes the active set by a row or a few: update the
 		// factor rather than refactorise (cholesky.go).
-		if !b.refactor(n, shift) {
-			return false // not positive definite: leave the impulses to the sweeps
+		if band && !b.refactorBand(n, shift, budget) || !band && !b.refactor(n, shift) {
+			// Not positive definite, or (banded) over its budget: leave
+			// the impulses to the sweeps.
+			return false
 		}
-		b.solveFactor(n)
+		b.solveFactor(n, band)
 		worst, wv := -1, 0.0
 		for i := 0; i < nn; i++ {
 			if b.active[i] && b.x[i] < 0 {
@@ -377,6 +405,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			}
 		}
 		if worst >= 0 {
+			removed = true
 			b.follow()
 			continue
 		}
@@ -385,12 +414,26 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 				continue
 			}
 			v := b.v0[i] - b.tgt[i]
-			x := b.x[:n]
-			for j, a := range b.a[i*n : i*n+n] {
+			lo, hi := span(i)
+			x := b.x[lo : hi+1]
+			for j, a := range b.a[i*n+lo : i*n+hi+1] {
 				v += a * x[j]
 			}
 			if v < -tol && v < wv {
 				worst, wv = i, v
+			}
+			// A banded system takes in every approaching row at once
+			// (band.go) until a row has had to leave: a tower set down
+			// without warm start presses one more face per pivot (the
+			// boxes above fall together), four rows, and its pivots
+			// refactorise a tail of the factor. Exchanging whole sets
+			// can cycle (J. J. Judice and F. M. Pires, "A block
+			// principal pivoting algorithm for large-scale strictly
+			// monotone linear complementarity problems", Computers &
+			// Operations Research 21, 1994), so after a removal rows
+			// enter one at a time again.
+			if band && !removed && v < -tol {
+				b.active[i] = true
 			}
 		}
 		if worst < 0 {

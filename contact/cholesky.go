@@ -64,7 +64,7 @@ func (b *blockState) refactor(n int, shift float64) bool {
 	}
 	for i := 0; i < n; i++ {
 		if b.active[i] && b.pos[i] < 0 {
-			if !b.appendRow(n, i, shift) {
+			if !b.appendRow(n, i, shift, 0) {
 				return false
 			}
 		}
@@ -72,14 +72,16 @@ func (b *blockState) refactor(n int, shift float64) bool {
 	return true
 }
 
-// appendRow borders the factor with row p of the system.
-func (b *blockState) appendRow(n, p int, shift float64) bool {
+// appendRow borders the factor with row p of the system, whose entries in
+// the factor's rows before from are known to be zero.
+func (b *blockState) appendRow(n, p int, shift float64, from int) bool {
 	m := len(b.sub)
 	L, ap := b.l, b.a[p*n:p*n+n]
 	Lm := L[m*n : m*n+m+1]
 	diag, rhs := ap[p]+shift, b.tgt[p]-b.v0[p]
 	f := m // Lm's first nonzero entry so far
-	for j, sj := range b.sub {
+	for jf, sj := range b.sub[from:] {
+		j := from + jf
 		sum := ap[sj]
 		// Row slices, so that the inner product runs without index
 		// arithmetic and bounds checks.
@@ -155,8 +157,9 @@ func (b *blockState) deleteRow(n, k int) {
 
 // solveFactor solves (A + shift I) x = target - v0 on the active rows by
 // back substitution from y, with x = 0 on the others. It runs by rows of L
-// (columns of L^T), which are contiguous, on a copy z of y.
-func (b *blockState) solveFactor(n int) {
+// (columns of L^T), which are contiguous, on a copy z of y; with band
+// (band.go) only over each row's envelope.
+func (b *blockState) solveFactor(n int, band bool) {
 	L, m := b.l, len(b.sub)
 	clear(b.x[:n])
 	b.z = append(b.z[:0], b.y[:m]...)
@@ -165,8 +168,12 @@ func (b *blockState) solveFactor(n int) {
 		Li := L[i*n : i*n+i+1]
 		xi := z[i] / Li[i]
 		b.x[b.sub[i]] = xi
-		for k, l := range Li[:i] {
-			z[k] -= l * xi
+		lo := 0
+		if band {
+			lo = int(b.first[i])
+		}
+		for k, l := range Li[lo:i] {
+			z[lo+k] -= l * xi
 		}
 	}
 }

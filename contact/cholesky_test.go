@@ -60,7 +60,7 @@ func TestFactorUpdate(t *testing.T) {
 		if !b.refactor(n, shift) {
 			t.Fatalf("%s: positive definite matrix reported singular", st.name)
 		}
-		b.solveFactor(n)
+		b.solveFactor(n, false)
 		m := len(b.sub)
 		for p := 0; p < m; p++ {
 			for q := 0; q <= p; q++ {

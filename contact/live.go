@@ -24,9 +24,10 @@ package contact
 // stopping test itself, so a step that stops converged stops with every
 // row within about the same bound as before.
 //
-// Only the islands left to the sweeps (more than MaxBlock points) skip
-// rows: a small island converges in a few cheap sweeps, and its results
-// stay bit for bit those of full sweeps.
+// Only the islands of more than MaxBlock points skip rows (mostly left to
+// the sweeps; a banded one is solved exactly before and after them): a
+// small island converges in a few cheap sweeps, and its results stay bit
+// for bit those of full sweeps.
 
 // liveState is the sweeps' bookkeeping of moved bodies, reset per Solve.
 type liveState struct {

@@ -29,7 +29,10 @@ type Settings struct {
 	// MaxBlock: the normal rows of an island of at most this many contact
 	// points and no joint rows are solved exactly (block.go) before and
 	// after the velocity iterations and before the position iterations;
-	// 0 or 1 leaves every island to the sweeps.
+	// 0 or 1 leaves every island to the sweeps. It also sets the work
+	// budget of larger islands: one whose banded system (a tower) factors
+	// for no more than the dense system of MaxBlock points is solved
+	// exactly too (band.go).
 	MaxBlock int
 
 	// Slop (m) is the penetration left alone by the position pass, so that
@@ -83,7 +86,8 @@ type Settings struct {
 //   - MaxBlock 96: islands up to 96 points (a tower of 24 boxes, a carton
 //     on a pallet of feet) get the exact normal impulses (block.go). A
 //     factorisation of 96 rows costs about as much as ten sweeps over them;
-//     larger islands (piles) are left to the sweeps.
+//     larger islands are solved exactly where their system is banded for
+//     no more work (a tower of any height), piles are left to the sweeps.
 //   - Slop 1e-4 m, Correction 0.2: 0.1 mm is a few percent of a small
 //     part; removing 20 percent per step takes a penetration to within 1
 //     percent of the slop in 20 steps (0.8^20), gently enough for stacks.

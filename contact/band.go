@@ -1,0 +1,381 @@
+package contact
+
+import (
+	"cmp"
+	"slices"
+
+	"clatter/internal/scratch"
+)
+
+// The direct solve of large islands whose system is banded.
+//
+// What limits the direct solve (block.go) is the work of its Cholesky
+// factorisation, not the number of points. The rows of two points couple
+// only through a shared body, so a tower's system is banded: each point
+// couples with the points of the two faces of its boxes, and with the rows
+// in order along the tower the factor of an envelope (profile) method has
+// at most a few dozen entries per row, however tall the tower (A. George
+// and J. W. H. Liu, "Computer Solution of Large Sparse Positive Definite
+// Systems", Prentice-Hall 1981, chapter 4). A pile of a thousand parts
+// couples each part with a dozen others in all directions, and its
+// envelope stays wide in any order.
+//
+// An island of more than MaxBlock points therefore gets the direct solve
+// too when, with its points ordered along its contact graph, the envelope
+// factorisation costs no more than the dense one of MaxBlock points
+// (blockBudget). The order is that of Cuthill and McKee: the bodies by
+// breadth-first search from one of fewest contacts, the points by their
+// bodies' places (E. Cuthill and J. McKee, "Reducing the bandwidth of
+// sparse symmetric matrices", Proc. 24th ACM National Conference, 1969;
+// George and Liu, section 4.3). The points of one pair stay together and
+// in their order, as the patches' rows need (blockrows.go).
+//
+// Such a banded solve keeps its factor in the order of the rows: a pivot
+// that changes the active set at row p keeps the factor's rows before p
+// and appends the active rows from p on again, which costs the envelope
+// work of that tail; updates by rotations (cholesky.go) would fill the
+// envelope in below a deleted row.
+//
+// Islands of up to MaxBlock points are solved as before, bit for bit.
+
+// maxBandPoints bounds the islands considered for the banded solve. Its
+// system and factor are stored densely (n^2 entries each, 8 MB at 1024
+// points): 1024 points is a tower of 256 boxes, and a pile of that many
+// points has a wide envelope anyway. Larger islands are not ordered at all,
+// so a pile of thousands of points costs nothing more.
+const maxBandPoints = 1024
+
+// bandPivotBudgets bounds the factorisation work of one banded solve,
+// over all its pivots, in multiples of blockBudget. A dense solve of
+// MaxBlock points pays one factorisation (one budget) and up to maxPivots
+// row updates of at most MaxBlock^2 each, 1 + 24*3/96 = 1.75 budgets at
+// most; a banded solve gets about twice that before it is left to the
+// sweeps, so that a tower at a coarse step can take the twenty pivots it
+// needs while an island in motion costs no more than a small one.
+const bandPivotBudgets = 4
+
+// blockBudget is the envelope work, the sum over the factor's rows of the
+// square of the row's width (George and Liu, section 4.2), of the dense
+// factor of m rows: 1^2 + 2^2 + ... + m^2.
+func blockBudget(m int) int64 {
+	k := int64(m)
+	return k * (k + 1) * (2*k + 1) / 6
+}
+
+// bandState is the scratch space of the banded solve.
+type bandState struct {
+	ok       []bool  // per island root: solved by the banded solve
+	runs     []run   // the island's pairs, as runs of points
+	node     []int32 // per body slot: its place among the island's bodies, -1 if none
+	firstRow []int32 // per body slot: the first row on it
+	lastRow  []int32 // per body slot: the last row on it
+	deg      []int32 // per body u: its list of neighbours is adj[deg[u]:deg[u+1]]
+	adj      []int32 // the neighbours of each body, by body
+	fill     []int32 // per body: entries of adj written so far
+	queue    []int32 // bodies in breadth-first order
+	place    []int32 // per body: its place in queue
+	ground   []bool  // per body: touches a fixed body
+	perm     []int32 // the points in the new order
+	lo       []int32 // per row of the system: the first row coupled with it
+	hi       []int32 // per row of the system: the last row coupled with it
+	work     int64   // the factor work spent by the current solve
+}
+
+// run is the points idx[start:end] of one pair of an island, with the
+// places of its bodies in the breadth-first order (key).
+type run struct {
+	key        [2]int32
+	start, end int32
+}
+
+// orderBands decides for each island of more than MaxBlock (and at most
+// maxBandPoints) points whether it gets the banded solve, and if so puts
+// its points in b.order in band order.
+func (s *Solver) orderBands() {
+	b := &s.blk
+	b.band.ok = grow(b.band.ok, len(b.size))
+	clear(b.band.ok)
+	for r, n := range b.size {
+		if int(n) <= s.Settings.MaxBlock || n > maxBandPoints {
+			continue
+		}
+		idx := b.order[b.start[r] : b.start[r]+n]
+		b.band.ok[r] = s.bandOrder(idx)
+	}
+}
+
+// bandOrder orders points idx along the island's contact graph and, if the
+// envelope work in that order is within the budget, writes the order into
+// idx and reports true.
+func (s *Solver) bandOrder(idx []int32) bool {
+	bs := &s.blk.band
+	im := s.sl.im
+	nb := len(im)
+	bs.node, bs.firstRow, bs.lastRow = growFill(bs.node, nb), grow(bs.firstRow, nb), grow(bs.lastRow, nb)
+	// The pairs, as runs of consecutive points on the same slots.
+	bs.runs = bs.runs[:0]
+	for k := 0; k < len(idx); {
+		r := &s.nrows[idx[k]]
+		e := k + 1
+		for e < len(idx) && s.nrows[idx[e]].a == r.a && s.nrows[idx[e]].b == r.b {
+			e++
+		}
+		bs.runs = append(bs.runs, run{start: int32(k), end: int32(e)})
+		k = e
+	}
+	// The island's bodies and their neighbours (lists in adj, by body).
+	nodes := int32(0)
+	bodies := func(ru run) (int32, int32) {
+		r := &s.nrows[idx[ru.start]]
+		return r.a, r.b
+	}
+	for _, ru := range bs.runs {
+		a, b := bodies(ru)
+		for _, x := range [2]int32{a, b} {
+			if im[x] > 0 && bs.node[x] < 0 {
+				bs.node[x] = nodes
+				nodes++
+			}
+		}
+	}
+	bs.deg = grow(bs.deg, int(nodes)+1)
+	clear(bs.deg)
+	both := func(ru run) (int32, int32, bool) {
+		a, b := bodies(ru)
+		return bs.node[a], bs.node[b], im[a] > 0 && im[b] > 0
+	}
+	bs.ground = grow(bs.ground, int(nodes))
+	clear(bs.ground)
+	for _, ru := range bs.runs {
+		u, v, ok := both(ru)
+		switch a, _ := bodies(ru); {
+		case ok:
+			bs.deg[u+1]++
+			bs.deg[v+1]++
+		case im[a] > 0:
+			bs.ground[u] = true
+		default:
+			bs.ground[v] = true
+		}
+	}
+	for i := int32(1); i <= nodes; i++ {
+		bs.deg[i] += bs.deg[i-1] // deg[u]: the offset of u's list
+	}
+	bs.adj = grow(bs.adj, int(bs.deg[nodes]))
+	bs.fill = grow(bs.fill, int(nodes))
+	copy(bs.fill, bs.deg[:nodes])
+	for _, ru := range bs.runs {
+		if u, v, ok := both(ru); ok {
+			bs.adj[bs.fill[u]], bs.adj[bs.fill[v]] = v, u
+			bs.fill[u]++
+			bs.fill[v]++
+		}
+	}
+	s.breadthFirst(nodes)
+	// The runs by the places of their bodies; a run on one moving body
+	// has both at its place.
+	for i := range bs.runs {
+		ru := &bs.runs[i]
+		a, b := bodies(*ru)
+		p, q := int32(-1), int32(-1)
+		if im[a] > 0 {
+			p = bs.place[bs.node[a]]
+		}
+		if im[b] > 0 {
+			q = bs.place[bs.node[b]]
+		}
+		if p < 0 || q >= 0 && q < p {
+			p, q = q, p
+		}
+		if p < 0 {
+			p = q
+		}
+		ru.key = [2]int32{p, q}
+	}
+	slices.SortStableFunc(bs.runs, func(x, y run) int {
+		return cmp.Or(cmp.Compare(x.key[0], y.key[0]), cmp.Compare(x.key[1], y.key[1]))
+	})
+	bs.perm = bs.perm[:0]
+	for _, ru := range bs.runs {
+		bs.perm = append(bs.perm, idx[ru.start:ru.end]...)
+	}
+	ok := s.envelopeWork(bs.perm) <= blockBudget(s.Settings.MaxBlock)
+	if ok {
+		copy(idx, bs.perm)
+	}
+	return ok
+}
+
+// breadthFirst orders the island's bodies (nodes of the graph in adj) by
+// breadth-first search from one with the fewest neighbours among those on
+// a fixed body, into bs.queue, with each body's place in bs.place. Loads
+// reach a tower from its support: starting there, the faces that begin to
+// press during a solve come one after the other at the end of the order,
+// where a pivot refactorises little.
+func (s *Solver) breadthFirst(nodes int32) {
+	bs := &s.blk.band
+	bs.place = growFill(bs.place, int(nodes))
+	bs.queue = bs.queue[:0]
+	degree := func(u int32) int32 { return bs.deg[u+1] - bs.deg[u] }
+	better := func(u, v int32) bool {
+		if bs.ground[u] != bs.ground[v] {
+			return bs.ground[u]
+		}
+		return degree(u) < degree(v)
+	}
+	for len(bs.queue) < int(nodes) {
+		// A start among the bodies not yet placed (one search suffices
+		// for an island, which is connected).
+		start := int32(-1)
+		for u := int32(0); u < nodes; u++ {
+			if bs.place[u] < 0 && (start < 0 || better(u, start)) {
+				start = u
+			}
+		}
+		bs.place[start] = int32(len(bs.queue))
+		bs.queue = append(bs.queue, start)
+		for h := len(bs.queue) - 1; h < len(bs.queue); h++ {
+			u := bs.queue[h]
+			for _, v := range bs.adj[bs.deg[u]:bs.deg[u+1]] {
+				if bs.place[v] < 0 {
+					bs.place[v] = int32(len(bs.queue))
+					bs.queue = append(bs.queue, v)
+				}
+			}
+		}
+	}
+}
+
+// envelopeWork is the envelope work of the normal rows of points idx in
+// that order: each row's width from the first row sharing a moving body
+// with it.
+func (s *Solver) envelopeWork(idx []int32) int64 {
+	bs := &s.blk.band
+	im := s.sl.im
+	for _, i := range idx {
+		r := &s.nrows[i]
+		bs.firstRow[r.a], bs.firstRow[r.b] = -1, -1
+	}
+	work := int64(0)
+	for k, i := range idx {
+		r := &s.nrows[i]
+		lo := int32(k)
+		for _, x := range [2]int32{r.a, r.b} {
+			if im[x] > 0 {
+				if bs.firstRow[x] < 0 {
+					bs.firstRow[x] = int32(k)
+				}
+				lo = min(lo, bs.firstRow[x])
+			}
+		}
+		w := int64(int32(k) - lo + 1)
+		work += w * w
+	}
+	return work
+}
+
+// bandRanges sets bs.lo and bs.hi, the first and last row of the system
+// (b.ab, n rows) that shares a moving body with each row: the only ones
+// with a nonzero coupling.
+func (s *Solver) bandRanges(n int) {
+	b := &s.blk
+	bs := &b.band
+	im := s.sl.im
+	bs.lo, bs.hi = grow(bs.lo, n), grow(bs.hi, n)
+	for _, ab := range b.ab[:n] {
+		bs.firstRow[ab[0]], bs.firstRow[ab[1]] = -1, -1
+	}
+	for i, ab := range b.ab[:n] {
+		for _, x := range ab {
+			if im[x] > 0 {
+				if bs.firstRow[x] < 0 {
+					bs.firstRow[x] = int32(i)
+				}
+				bs.lastRow[x] = int32(i)
+			}
+		}
+	}
+	for i, ab := range b.ab[:n] {
+		lo, hi := int32(i), int32(i)
+		for _, x := range ab {
+			if im[x] > 0 {
+				lo, hi = min(lo, bs.firstRow[x]), max(hi, bs.lastRow[x])
+			}
+		}
+		bs.lo[i], bs.hi[i] = lo, hi
+	}
+}
+
+// growFill is grow with every entry set to -1.
+func growFill(s []int32, n int) []int32 {
+	s = grow(s, n)
+	for i := range s {
+		s[i] = -1
+	}
+	return s
+}
+
+// refactorBand brings the factor of (A + shift I) on the active rows up to
+// date with b.active, the rows kept in index order: the factor's rows
+// before the first row whose state changed stay, the active rows from
+// there on are appended again. It reports false if the matrix is not
+// positive definite or the solve's factor work exceeds limit.
+func (b *blockState) refactorBand(n int, shift float64, limit int64) bool {
+	p := n
+	for _, i := range b.sub {
+		if !b.active[i] {
+			p = int(i)
+			break
+		}
+	}
+	for i := 0; i < p; i++ {
+		if b.active[i] && b.pos[i] < 0 {
+			p = i
+			break
+		}
+	}
+	m := len(b.sub)
+	for m > 0 && int(b.sub[m-1]) >= p {
+		m--
+		b.pos[b.sub[m]] = -1
+	}
+	b.sub = b.sub[:m]
+	bs := &b.band
+	for i := p; i < n; i++ {
+		if !b.active[i] {
+			continue
+		}
+		// The factor's rows before the first one coupled with row i
+		// have zeros in its row of L.
+		from, _ := slices.BinarySearch(b.sub, bs.lo[i])
+		if !b.appendRow(n, i, shift, from) {
+			return false
+		}
+		k := len(b.sub) - 1
+		w := int64(k - int(b.first[k]) + 1)
+		if bs.work += w * w; bs.work > limit {
+			return false
+		}
+	}
+	return true
+}
+
+// reused is an empty band state with bs's buffers.
+func (bs *bandState) reused() bandState {
+	return bandState{
+		ok: scratch.Reuse(bs.ok), runs: scratch.Reuse(bs.runs), node: scratch.Reuse(bs.node),
+		firstRow: scratch.Reuse(bs.firstRow), lastRow: scratch.Reuse(bs.lastRow),
+		deg: scratch.Reuse(bs.deg), adj: scratch.Reuse(bs.adj), fill: scratch.Reuse(bs.fill),
+		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
+		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi),
+	}
+}
+
+// maxBandPivots bounds the pivots of a banded solve. A tower set down
+// without warm start presses one more face per pivot, so this is the
+// tallest (96 boxes) whose first step is solved exactly; taller ones are
+// solved once the sweeps have loaded their faces. The solve's work bound
+// (bandPivotBudgets) limits its cost: a pivot refactorises only the
+// factor's tail. More pivots let a pyramid of boxes side by side at a
+// coarse step end on a solution that pushes the boxes apart (measured).
+const maxBandPivots = 4 * maxPivots
