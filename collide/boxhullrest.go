@@ -126,14 +126,5 @@ func (d *Detector) hullSlack(h *shapes.Hull) *hullIndex {
 	if h == nil || len(h.Edges) == 0 || len(h.Faces) == 0 {
 		return nil
 	}
-	c := &d.hullIdx
-	if x := c.m[h]; x.fits(h) {
-		return x
-	}
-	if c.m == nil || len(c.m) >= hullIndexCap {
-		c.m = make(map[*shapes.Hull]*hullIndex)
-	}
-	x := sharedIndex(h)
-	c.m[h] = x
-	return x
+	return d.cachedIndex(h) // hullindex.go
 }

@@ -101,6 +101,12 @@ func (d *Detector) hullIndexFor(h *shapes.Hull) *hullIndex {
 	if h == nil || len(h.Faces) < hullIndexFaces {
 		return nil
 	}
+	return d.cachedIndex(h)
+}
+
+// cachedIndex returns the index of hull h from the detector's memo,
+// building or fetching the shared one on first use.
+func (d *Detector) cachedIndex(h *shapes.Hull) *hullIndex {
 	c := &d.hullIdx
 	if x := c.m[h]; x.fits(h) {
 		return x
