@@ -68,6 +68,32 @@ func (t *treeStack) pushPair(a, b int32, ua, ub float64) {
 	t.push(b, ub)
 }
 
+// walkTree runs a search's depth-first walk over tree t: a node's bound
+// (bound) is worked out when it is pushed, and the node is skipped when
+// that bound can neither separate the pair (beat margin) nor change the
+// choice (reach keep or *best, the best gap leaf has found so far). leaf
+// visits a leaf's items and returns false when one separates the pair,
+// which ends the walk with false.
+func walkTree(t *coneTree, margin, keep float64, best *float64, bound func(*coneNode) float64, leaf func([]int32) bool) bool {
+	var st treeStack
+	st.push(0, math.Inf(1))
+	for st.k > 0 {
+		k, ub := st.pop()
+		if ub <= margin && (ub <= keep || ub < *best) {
+			continue
+		}
+		n := &t.nodes[k]
+		if a, b := n.kid[0], n.kid[1]; a >= 0 {
+			st.pushPair(a, b, bound(&t.nodes[a]), bound(&t.nodes[b]))
+			continue
+		}
+		if !leaf(t.items[n.i0:n.i1]) {
+			return false
+		}
+	}
+	return true
+}
+
 // nodeBound bounds the gaps of face node n, including the rounding slack
 // (see the top of the file): a gap is at most m.(p - q) for any point p of
 // the box, with m the face's normal (within eps of a) and q a point of the
@@ -198,20 +224,9 @@ func (bh *boxHullAxes) treeFaces(x *hullIndex, s *satSearch) bool {
 	slack := bh.treeSlack(x, s.scale)
 	keep := s.best[0] + satFaceBias*s.scale // Q's face must beat this
 	best, bj := math.Inf(-1), -1
-	t := &x.faces
-	var st treeStack
-	st.push(0, math.Inf(1))
-	for st.k > 0 {
-		k, ub := st.pop()
-		if ub <= s.margin && (ub <= keep || ub < best) {
-			continue
-		}
-		n := &t.nodes[k]
-		if a, b := n.kid[0], n.kid[1]; a >= 0 {
-			st.pushPair(a, b, bh.nodeBound(&t.nodes[a], slack), bh.nodeBound(&t.nodes[b], slack))
-			continue
-		}
-		for _, j := range t.items[n.i0:n.i1] {
+	bound := func(n *coneNode) float64 { return bh.nodeBound(n, slack) }
+	leaf := func(items []int32) bool {
+		for _, j := range items {
 			g, _ := bh.hullFace(int(j))
 			if g > s.margin {
 				s.r.fail = pairHint{kind: hintFaceQ, i: j}
@@ -221,6 +236,10 @@ func (bh *boxHullAxes) treeFaces(x *hullIndex, s *satSearch) bool {
 				best, bj = g, int(j)
 			}
 		}
+		return true
+	}
+	if !walkTree(&x.faces, s.margin, keep, &best, bound, leaf) {
+		return false
 	}
 	if bj >= 0 {
 		s.best[1], s.bestI[1] = best, bj
@@ -238,20 +257,9 @@ func (bh *boxHullAxes) treeEdges(x *hullIndex, s *satSearch, r *satResult) bool 
 	best, key := math.Inf(-1), -1
 	var bax vec3
 	var bbi, bhe int
-	t := &x.edges
-	var st treeStack
-	st.push(0, math.Inf(1))
-	for st.k > 0 {
-		k, ub := st.pop()
-		if ub <= s.margin && (ub <= keep || ub < best) {
-			continue
-		}
-		n := &t.nodes[k]
-		if a, b := n.kid[0], n.kid[1]; a >= 0 {
-			st.pushPair(a, b, bh.edgeNodeBound(&t.nodes[a], slack), bh.edgeNodeBound(&t.nodes[b], slack))
-			continue
-		}
-		for _, he := range t.items[n.i0:n.i1] {
+	bound := func(n *coneNode) float64 { return bh.edgeNodeBound(n, slack) }
+	leaf := func(items []int32) bool {
+		for _, he := range items {
 			e := &h.Edges[he]
 			ca, cb := bh.cosines(int(e.F[0])), bh.cosines(int(e.F[1]))
 			for i := 0; i < 3; i++ {
@@ -268,6 +276,10 @@ func (bh *boxHullAxes) treeEdges(x *hullIndex, s *satSearch, r *satResult) bool 
 				}
 			}
 		}
+		return true
+	}
+	if !walkTree(&x.edges, s.margin, keep, &best, bound, leaf) {
+		return false
 	}
 	if key >= 0 && s.outranks(best, s.bestFace, satEdgeBias) {
 		e := &h.Edges[bhe]
