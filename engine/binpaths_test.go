@@ -38,7 +38,8 @@ func TestElasticBinPaths(t *testing.T) {
 	// on any of them: contact with e <= 1 and friction only remove energy
 	// (Newton's law of restitution; Coulomb friction dissipates; for
 	// impacts the energetic bound of Stronge, "Impact Mechanics", 2000).
-	// The same 0.5 percent as TestElasticBinEnergy (issue 12). Before
+	// The same 0.5 percent as TestElasticBinEnergy, for the reasons given
+	// there. Before
 	// deferred impacts were bounded (contact/held.go), one run in 40 at
 	// each of these steps gained a third of the energy in one step.
 	const tol = 0.005

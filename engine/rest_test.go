@@ -182,20 +182,8 @@ func TestElasticBinEnergy(t *testing.T) {
 		seconds = 5
 	}
 	for _, dt := range []float64{1e-3, 1.0 / 480, 1.0 / 240, 1.0 / 100, 1.0 / 60} {
-		w, mat := floorWorld(t, Config{NoSleep: true}, 0, Material{Friction: 0.3, Restitution: 1})
-		for _, n := range []shapes.Vec3{{1, 0, 0}, {-1, 0, 0}, {0, 1, 0}, {0, -1, 0}} {
-			mustAdd(t, w, BodyDef{Name: "wall", Kind: Static, Shape: shapes.Plane{Normal: n}, Material: mat, Position: n.Mul(-0.2)})
-		}
-		for i := 0; i < 6; i++ {
-			var s shapes.Shape = shapes.Sphere{Radius: 0.02}
-			if i%2 == 1 {
-				s = shapes.Box{Half: shapes.Vec3{0.02, 0.015, 0.01}}
-			}
-			mustAdd(t, w, BodyDef{Name: fmt.Sprintf("part %d", i+1), Shape: s, Density: 1000, Material: mat,
-				Position: shapes.Vec3{-0.1 + 0.04*float64(i), 0.01 * float64(i%3), 0.3 + 0.1*float64(i)},
-				Velocity: shapes.Vec3{0.3 * float64(i%3-1), 0.2, 0}})
-		}
-		e0 := w.Energy() // the floor is z = 0: e0 is the energy above resting on it
+		w, _ := elasticBin(t) // binpaths_test.go
+		e0 := w.Energy()      // the floor is z = 0: e0 is the energy above resting on it
 		worst := 0.0
 		run(t, w, dt, seconds, func() { worst = math.Max(worst, w.Energy()-e0) })
 		t.Logf("dt %.4g: largest rise %.3g percent of %.3g J", dt, 100*worst/e0, e0)
