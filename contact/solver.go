@@ -196,7 +196,7 @@ func check(bodies []Body, points []Point, rows []Row) error {
 		if p.A == p.B {
 			return fmt.Errorf("contact: point %d (key %#x): body %d touches itself; a point needs two bodies", i, p.Key, p.A)
 		}
-		if l := p.Normal.Dot(p.Normal); !(math.Abs(l-1) <= 1e-6) {
+		if l := dot3(&p.Normal, &p.Normal); !(math.Abs(l-1) <= 1e-6) {
 			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: normal %v must be a unit vector", i, p.Key, p.A, p.B, p.Normal)
 		}
 		if !finite3(p.Position) || !finite3(p.SurfaceVelocity) || math.IsNaN(p.Separation) || math.IsInf(p.Separation, 0) ||
@@ -730,7 +730,10 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
-	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list)) // live.go
+	if block && len(s.pts) > s.Settings.MaxBlock {
+		// Only an island of more points skips rows (live.go, large).
+		s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list))
+	}
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the
@@ -849,6 +852,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 	}
 	n := len(points)
 	inf := math.Inf(1)
+	work := false // a target that moves something: else the sweeps leave pv zero
 	for i := 0; i < n; i++ {
 		ps, rn := &s.pts[i], &s.nrows[i]
 		ps.pN, ps.pTarget, ps.pLo = 0, 0, 0
@@ -858,6 +862,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 		pred := ps.sep + rn.cdot(vel)*dt
 		if pen := -pred - set.Slop; pen > 0 {
 			ps.pTarget = set.Correction * pen / dt
+			work = true
 		}
 	}
 	for j := range rows {
@@ -866,6 +871,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 		if !r.Correct {
 			continue
 		}
+		work = true
 		jp.target = -set.Correction * (r.Drift + s.jrows[j].cdot(vel)*dt) / dt
 		jp.lo, jp.hi = 0, 0
 		if r.Lo < 0 {
@@ -874,6 +880,12 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 		if r.Hi > 0 {
 			jp.hi = inf
 		}
+	}
+	if !work {
+		// No point penetrates beyond the slop (a resting part, one in
+		// flight) and no joint row corrects: from zero impulses every row
+		// would keep its impulse zero, and pv stays zero.
+		return
 	}
 	if set.MaxBlock >= 2 && set.VelocityIterations > 0 {
 		s.blockSolve(true, false) // islands as found by velocities
