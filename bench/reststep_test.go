@@ -1,0 +1,5 @@
+package bench
+
+import "testing"
+
+func BenchmarkRestStep(b *testing.B) { RestStep(b) }
