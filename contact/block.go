@@ -275,10 +275,11 @@ func (s *Solver) massRatio(idx []int32) float64 {
 	lo, hi := math.Inf(1), 0.0
 	for _, i := range idx {
 		r := &s.nrows[i]
-		for _, m := range [2]float64{s.sl.im[r.a], s.sl.im[r.b]} {
-			if m > 0 {
-				lo, hi = min(lo, m), max(hi, m)
-			}
+		if m := s.sl.im[r.a]; m > 0 {
+			lo, hi = min(lo, m), max(hi, m)
+		}
+		if m := s.sl.im[r.b]; m > 0 {
+			lo, hi = min(lo, m), max(hi, m)
 		}
 	}
 	return hi / lo

@@ -284,8 +284,10 @@ func (w *World) solve(dt float64) error {
 	gdt := w.cfg.Gravity.Mul(dt)
 	trees := len(w.mech.joints) > 0 // the joint trees read the inertia itself (jointtree.go)
 	for i := 0; i < n; i++ {
+		// Field by field: a Body is some two hundred and fifty bytes, and
+		// Solve writes Vp and Wp of every body and leaves DW zero.
 		sb := &c.bodies[i]
-		*sb = contact.Body{Position: w.b.pos[i], V: w.b.vel[i], W: w.b.spin[i]}
+		sb.Position, sb.V, sb.W = w.b.pos[i], w.b.vel[i], w.b.spin[i]
 		if w.b.kind[i] == Dynamic && w.b.awake[i] {
 			sb.InvMass = w.b.invM[i]
 			if trees {
@@ -294,6 +296,8 @@ func (w *World) solve(dt float64) error {
 				sb.InvInertia = w.invInertiaWorld(BodyID(i))
 			}
 			sb.DV = gdt // this step's gravity, already in V (World.step)
+		} else {
+			sb.InvMass, sb.InvInertia, sb.DV = 0, shapes.Mat3{}, shapes.Vec3{}
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (jointrows.go)
