@@ -59,11 +59,14 @@ func principalRotate(q *shapes.Quat, pi, moments *shapes.Vec3, k int, t float64)
 	r.W = c
 	r.V[k] = s
 	// pi <- Rot_k(-theta) pi
-	i, j := (k+1)%3, (k+2)%3
+	i, j := nextAxis[k], nextAxis[nextAxis[k]] // (k+1)%3, (k+2)%3 without the divisions
 	sn, cs := sincos(theta)
 	pi[i], pi[j] = cs*pi[i]+sn*pi[j], -sn*pi[i]+cs*pi[j]
 	*q = qmul(q, &r)
 }
+
+// nextAxis is the axis after each principal axis, cyclically.
+var nextAxis = [3]int{1, 2, 0}
 
 // tinyTurn bounds the angles whose sine and cosine math.Sincos rounds to
 // the angle itself and to 1: below 2^-27 its polynomials add to x a term
