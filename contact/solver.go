@@ -203,8 +203,8 @@ func check(bodies []Body, points []Point, rows []Row) error {
 			math.IsNaN(p.Friction+p.StaticFriction+p.Restitution) || math.IsInf(p.Friction+p.StaticFriction+p.Restitution, 0) {
 			return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: position, separation, surface velocity and coefficients must be finite", i, p.Key, p.A, p.B)
 		}
-		if err := checkPatch(i, p); err != nil { // patch friction (twist.go)
-			return err
+		if !patchOK(p) { // patch friction (twist.go)
+			return checkPatch(i, p)
 		}
 	}
 	for j := range rows {

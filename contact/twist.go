@@ -119,12 +119,20 @@ func (s *Solver) matchPatch(pa *patch) {
 	}
 }
 
-// checkPatch reports point i, p, if its patch is not finite.
+// checkPatch reports point i, p, if its patch is not finite. The test
+// itself (patchOK) is small enough to be inlined into check's loop, which
+// then calls this only for a bad point.
 func checkPatch(i int, p *Point) error {
-	if !finite3(p.PatchCenter) || !(p.PatchRadius >= 0) || math.IsInf(p.PatchRadius, 1) {
+	if !patchOK(p) {
 		return fmt.Errorf("contact: point %d (key %#x), bodies %d, %d: patch centre %v and radius %v must be finite, radius >= 0", i, p.Key, p.A, p.B, p.PatchCenter, p.PatchRadius)
 	}
 	return nil
+}
+
+// patchOK reports whether p's patch centre is finite and its radius finite
+// and >= 0.
+func patchOK(p *Point) bool {
+	return finite3(p.PatchCenter) && p.PatchRadius >= 0 && !math.IsInf(p.PatchRadius, 1)
 }
 
 // setupPatch fills the rows and the block inverse of pa.
@@ -552,6 +560,7 @@ func (s *Solver) storePatches(points []Point) {
 			iSum += points[i].ImpactImpulse
 		}
 		cnt := float64(pa.hi - pa.lo)
+		even := fr.Mul(1 / cnt) // each point's share of a load it does not spread by
 		for i := pa.lo; i < pa.hi; i++ {
 			p := &points[i]
 			share := 1 / cnt
@@ -567,7 +576,7 @@ func (s *Solver) storePatches(points []Point) {
 			if s.pts[i].deferred > 0 {
 				continue // no steady load (see store)
 			}
-			w.friction = fr.Mul(1 / cnt) // should the pair turn into point contacts
+			w.friction = even // should the pair turn into point contacts
 			ps.mem[s.rank[i]] = patchMem{friction: fr, twist: tw, on: true}
 		}
 	}
