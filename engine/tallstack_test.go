@@ -30,14 +30,15 @@ const towerSwayPerSize = 1e-3
 // direct solve may leave its normal impulses.
 const towerLoadTol = 1e-3
 
-// towerCase is a tower of n equal boxes, each set on the one below on a
-// floor tilted by tilt (degrees; gravity is turned instead, floorWorld),
-// run for seconds at step dt.
+// towerCase is a tower of n equal boxes (or another shape with flat ends),
+// each set on the one below on a floor tilted by tilt (degrees; gravity is
+// turned instead, floorWorld), run for seconds at step dt.
 type towerCase struct {
 	name    string
 	n       int
-	half    shapes.Vec3
-	dense   [2]float64 // densities of even and odd boxes, kg/m^3
+	half    shapes.Vec3  // the box's half sizes: half[2] is half its height
+	shape   shapes.Shape // the box of half if nil
+	dense   [2]float64   // densities of even and odd boxes, kg/m^3
 	dt      float64
 	rest    float64 // restitution
 	tilt    float64 // degrees
@@ -85,6 +86,8 @@ func TestTallTowersStand(t *testing.T) {
 		{name: "20 boxes, floor tilted 2 degrees, 1/60 s", n: 20, half: cube, dense: even, dt: 1.0 / 60, tilt: 2},
 		{name: "50 boxes of 10 cm, 1/60 s, 60 s", n: 50, half: cube, dense: even, dt: 1.0 / 60, seconds: 60},
 		{name: "50 boxes of 10 cm, 1/60 s, sleeping", n: 50, half: cube, dense: even, dt: 1.0 / 60, sleep: true},
+		{name: "40 cylinders 10 cm across and high, 1/60 s", n: 40, half: cube, dense: even, dt: 1.0 / 60,
+			shape: shapes.Cylinder{Radius: 0.05, HalfLength: 0.05}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) { standTower(t, c) })
@@ -100,9 +103,13 @@ func standTower(t *testing.T, c towerCase) {
 	w, mat := floorWorld(t, cfg, tilt, Material{Friction: 0.6, Restitution: c.rest})
 	ids := make([]BodyID, c.n)
 	starts := make([]shapes.Vec3, c.n)
+	shape := c.shape
+	if shape == nil {
+		shape = shapes.Box{Half: c.half}
+	}
 	for i := range ids {
 		starts[i] = shapes.Vec3{0, 0, c.half[2] * float64(2*i+1)}
-		ids[i] = mustAdd(t, w, BodyDef{Name: "box", Shape: shapes.Box{Half: c.half}, Density: c.dense[i%2], Material: mat, Position: starts[i]})
+		ids[i] = mustAdd(t, w, BodyDef{Name: "box", Shape: shape, Density: c.dense[i%2], Material: mat, Position: starts[i]})
 	}
 	seconds := c.seconds
 	if seconds == 0 {
