@@ -166,7 +166,13 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 	b := &s.blk
 	for r := range b.size {
 		n := int(b.size[r])
-		if n < 2 || n > s.Settings.MaxBlock && !b.band.ok[r] {
+		if n > s.Settings.MaxBlock && !b.band.ok[r] {
+			continue
+		}
+		if n > maxFrictionBlock && n <= maxBandPoints {
+			n = int(b.band.cut[r]) // its loose points last (band.go)
+		}
+		if n < 2 {
 			continue
 		}
 		idx := b.order[b.start[r] : int(b.start[r])+n]
