@@ -36,7 +36,31 @@ import (
 // work of that tail; updates by rotations (cholesky.go) would fill the
 // envelope in below a deleted row.
 //
-// Islands of up to MaxBlock points are solved as before, bit for bit.
+// Friction rows keep a tower banded too when each pair's friction rows
+// follow its normal rows (systemRows). An island of more than
+// maxFrictionBlock points whose system with friction is banded within
+// the budget of the dense system with friction (frictionBudget) is tall:
+// it gets the direct solve with friction at every step, before the sweeps
+// and after them if they did not converge. Left to the sweeps, a tower's
+// friction and the patches' update after a normal-only solve
+// (settlePatches) rocked a tower of 50 boxes at 1/60 s more each step
+// until it fell (measured: its sway grew tenfold every 20 steps from
+// 1e-8 m); the sweeps' own tolerance on each face, summed over the height,
+// leaned a tower of 100 boxes at 1 ms by 0.7 mm in 5 s.
+//
+// The points of a pair apart by more than Slop and without impulse
+// (loose) go last in the order and are left to the sweeps: at a coarse
+// step the margin of speculative points reaches past a small part's
+// neighbours and would make a tower of them dense.
+//
+// A banded velocity solve starts with every touching point pressing
+// (touches), and takes one step of iterative refinement (refineBand),
+// which removes the error that the shift (blockShift) makes in every
+// face, summed over the tower's height.
+//
+// Islands of up to maxFrictionBlock points, and islands of up to MaxBlock
+// points that are not tall and have more than maxFrictionBlock points that
+// are not loose, are solved as before, bit for bit.
 
 // maxBandPoints bounds the islands considered for the banded solve. Its
 // system and factor are stored densely (n^2 entries each, 8 MB at 1024
@@ -65,6 +89,9 @@ func blockBudget(m int) int64 {
 // bandState is the scratch space of the banded solve.
 type bandState struct {
 	ok       []bool  // per island root: solved by the banded solve
+	tall     []bool  // per island root: solved with friction by the banded solve
+	cut      []int32 // per island root: its points solved directly, first in its order
+	loose    []run   // the island's pairs apart (loose)
 	runs     []run   // the island's pairs, as runs of points
 	node     []int32 // per body slot: its place among the island's bodies, -1 if none
 	firstRow []int32 // per body slot: the first row on it
@@ -88,39 +115,69 @@ type run struct {
 	start, end int32
 }
 
-// orderBands decides for each island of more than MaxBlock (and at most
-// maxBandPoints) points whether it gets the banded solve, and if so puts
-// its points in b.order in band order.
+// orderBands decides for each island of more than maxFrictionBlock (and at
+// most maxBandPoints) points whether it gets the banded solve, of its
+// normal rows if it has more than MaxBlock points (ok), with friction
+// (tall), and if so puts its points in b.order in band order.
 func (s *Solver) orderBands() {
 	b := &s.blk
-	b.band.ok = grow(b.band.ok, len(b.size))
+	b.band.ok, b.band.tall = grow(b.band.ok, len(b.size)), grow(b.band.tall, len(b.size))
+	b.band.cut = grow(b.band.cut, len(b.size))
 	clear(b.band.ok)
+	clear(b.band.tall)
+	copy(b.band.cut, b.size)
 	for r, n := range b.size {
-		if int(n) <= s.Settings.MaxBlock || n > maxBandPoints {
+		if int(n) <= maxFrictionBlock || n > maxBandPoints {
 			continue
 		}
 		idx := b.order[b.start[r] : b.start[r]+n]
-		b.band.ok[r] = s.bandOrder(idx)
+		b.band.ok[r], b.band.tall[r], b.band.cut[r] = s.bandOrder(idx)
 	}
 }
 
-// bandOrder orders points idx along the island's contact graph and, if the
-// envelope work in that order is within the budget, writes the order into
-// idx and reports true.
-func (s *Solver) bandOrder(idx []int32) bool {
+// loose reports whether the points of run ru of idx are all apart by more
+// than Slop and carry no impulse. The margin of speculative points grows
+// with the step, g dt^2 for parts at rest: at 1/60 s, 2.7 mm, so that
+// each of a tower of 1 mm cubes has speculative points with the three
+// above it, and its system is dense (measured: 10 cubes, 168 points,
+// envelope 3.6 times the budget) and the tower, left to the sweeps, fell.
+// Such points press only if a part falls through the gap within the step,
+// which the sweeps that follow take care of; the banded solve leaves them
+// out of its graph and order, and solves the others.
+func (s *Solver) loose(idx []int32, ru run) bool {
+	for _, i := range idx[ru.start:ru.end] {
+		if s.pts[i].sep <= s.Settings.Slop || s.nrows[i].lambda > 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// bandOrder orders points idx along the island's contact graph, its loose
+// pairs last. It reports whether the envelope work of the normal rows of
+// the others (cut, the points the direct solve takes) in that order is
+// within the budget (ok), and whether that of the system with friction is
+// too (tall), and then writes the order into idx. An island of at most
+// MaxBlock points keeps its order, and all its points, unless it is tall:
+// its normal rows get the dense solve.
+func (s *Solver) bandOrder(idx []int32) (ok, tall bool, cut int32) {
 	bs := &s.blk.band
 	im := s.sl.im
 	nb := len(im)
 	bs.node, bs.firstRow, bs.lastRow = growFill(bs.node, nb), grow(bs.firstRow, nb), grow(bs.lastRow, nb)
 	// The pairs, as runs of consecutive points on the same slots.
-	bs.runs = bs.runs[:0]
+	bs.runs, bs.loose = bs.runs[:0], bs.loose[:0]
 	for k := 0; k < len(idx); {
 		r := &s.nrows[idx[k]]
 		e := k + 1
 		for e < len(idx) && s.nrows[idx[e]].a == r.a && s.nrows[idx[e]].b == r.b {
 			e++
 		}
-		bs.runs = append(bs.runs, run{start: int32(k), end: int32(e)})
+		if ru := (run{start: int32(k), end: int32(e)}); s.loose(idx, ru) {
+			bs.loose = append(bs.loose, ru)
+		} else {
+			bs.runs = append(bs.runs, ru)
+		}
 		k = e
 	}
 	// The island's bodies and their neighbours (lists in adj, by body).
@@ -199,11 +256,69 @@ func (s *Solver) bandOrder(idx []int32) bool {
 	for _, ru := range bs.runs {
 		bs.perm = append(bs.perm, idx[ru.start:ru.end]...)
 	}
-	ok := s.envelopeWork(bs.perm) <= blockBudget(s.Settings.MaxBlock)
-	if ok {
-		copy(idx, bs.perm)
+	cut = int32(len(bs.perm))
+	for _, ru := range bs.loose {
+		bs.perm = append(bs.perm, idx[ru.start:ru.end]...)
 	}
-	return ok
+	ok = s.envelopeWork(bs.perm[:cut]) <= blockBudget(s.Settings.MaxBlock)
+	tall = ok && cut > maxFrictionBlock && s.frictionBanded(bs.perm[:cut])
+	small := int(cut) <= maxFrictionBlock && int(cut) < len(idx) // the dense solve with friction takes the others
+	if !(ok && len(idx) > s.Settings.MaxBlock || tall || small) {
+		return ok, tall, int32(len(idx))
+	}
+	copy(idx, bs.perm)
+	return ok, tall, cut
+}
+
+// frictionBanded reports whether the system with friction of points idx,
+// in that order, has at most maxBandRows rows and an envelope work within
+// frictionBudget.
+func (s *Solver) frictionBanded(idx []int32) bool {
+	b := &s.blk
+	s.systemRows(idx, true, true)
+	n := len(b.rows)
+	if n > maxBandRows {
+		return false
+	}
+	b.ab = grow(b.ab, n)
+	for i, r := range b.rows {
+		b.ab[i] = [2]int32{r.a, r.b}
+	}
+	s.bandRanges(n)
+	work := int64(0)
+	for i, lo := range b.band.lo[:n] {
+		w := int64(i) - int64(lo) + 1
+		work += w * w
+	}
+	return work <= frictionBudget
+}
+
+// frictionBudget bounds the envelope work of a banded system with
+// friction: that of the dense one of maxFrictionBlock points, three rows
+// each, the largest that the direct solve takes with friction otherwise.
+// A tower's pairs bring their friction rows next to their normal rows
+// (systemRows), about 900 per box, so that it is tall up to the band's
+// limit (maxBandPoints); a pile's couple rows far apart.
+var frictionBudget = blockBudget(3 * maxFrictionBlock)
+
+// maxBandRows bounds the rows of a banded system with friction, which is
+// stored densely like that of normal rows (maxBandPoints): a tower of 256
+// boxes has 7 rows a box (4 normal rows and a patch's 3), 1792 rows, and
+// its system and factor take 51 MB.
+const maxBandRows = 2048
+
+// tall reports whether the island of points idx, of more than
+// maxFrictionBlock points, is solved with friction by the banded solve,
+// before the sweeps as well as after, even where the warm start would do
+// for its normal rows: the sweeps leave each face a velocity error within
+// Tolerance, and over a tower's height those errors turn it. At 1 ms, a
+// tower of 100 boxes of 10 cm solved with friction only after sweeps that
+// did not converge leaned faster step after step in between, its top
+// 0.7 mm off in 5 s (measured); solved so each step, it stays within
+// 1e-11 m.
+func (s *Solver) tall(idx []int32) bool {
+	b := &s.blk
+	return b.band.tall[b.root[idx[0]]]
 }
 
 // breadthFirst orders the island's bodies (nodes of the graph in adj) by
@@ -363,7 +478,7 @@ func (b *blockState) refactorBand(n int, shift float64, limit int64) bool {
 // reused is an empty band state with bs's buffers.
 func (bs *bandState) reused() bandState {
 	return bandState{
-		ok: scratch.Reuse(bs.ok), runs: scratch.Reuse(bs.runs), node: scratch.Reuse(bs.node),
+		ok: scratch.Reuse(bs.ok), tall: scratch.Reuse(bs.tall), cut: scratch.Reuse(bs.cut), loose: scratch.Reuse(bs.loose), runs: scratch.Reuse(bs.runs), node: scratch.Reuse(bs.node),
 		firstRow: scratch.Reuse(bs.firstRow), lastRow: scratch.Reuse(bs.lastRow),
 		deg: scratch.Reuse(bs.deg), adj: scratch.Reuse(bs.adj), fill: scratch.Reuse(bs.fill),
 		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
@@ -372,10 +487,72 @@ func (bs *bandState) reused() bandState {
 }
 
 // maxBandPivots bounds the pivots of a banded solve. A tower set down
-// without warm start presses one more face per pivot, so this is the
-// tallest (96 boxes) whose first step is solved exactly; taller ones are
-// solved once the sweeps have loaded their faces. The solve's work bound
+// without warm start would press one more face per pivot, and starts from
+// all its touching points instead (touches). The solve's work bound
 // (bandPivotBudgets) limits its cost: a pivot refactorises only the
 // factor's tail. More pivots let a pyramid of boxes side by side at a
 // coarse step end on a solution that pushes the boxes apart (measured).
 const maxBandPivots = 4 * maxPivots
+
+// bandLimit is the factor work that the banded solve of a system, with or
+// without friction, may spend over all its pivots: bandPivotBudgets times
+// the budget of its envelope.
+func (s *Solver) bandLimit(fric bool) int64 {
+	if fric {
+		return bandPivotBudgets * frictionBudget
+	}
+	return bandPivotBudgets * blockBudget(s.Settings.MaxBlock)
+}
+
+// touches reports whether point i touches, within Slop, the start
+// of a banded solve's active set with the points that pressed last step.
+// A tower set down without warm start otherwise takes in one face per
+// pivot, as the boxes above a face that does not press yet fall together
+// (measured: 200 boxes of 10 cm at 1/60 s started with 44 faces pressing
+// after the sweeps of their pairs, and the solve reached its pivot bound
+// at 140 and left the tower to the sweeps, which let it fall). A touching
+// point that need not press leaves the set at the first pivot.
+func (s *Solver) touches(i int32) bool {
+	return s.pts[i].sep <= s.Settings.Slop
+}
+
+// refineBand takes one step of iterative refinement on the banded solve's
+// solution b.x, with the factor of its active rows (G. H. Golub and C. F.
+// Van Loan, "Matrix Computations", 4th ed., Johns Hopkins 2013, section
+// 3.5.3). The factor is that of A + shift I, so the step removes the
+// shift's error, shift times the impulse, to its square (iterated Tikhonov
+// regularisation: H. W. Engl, M. Hanke and A. Neubauer, "Regularization of
+// Inverse Problems", Kluwer 1996, section 5.1). Along a tower that error
+// is a velocity into every face, and summed over its height it sank and
+// turned a tower of 200 boxes of 10 cm at 3 um/s (measured).
+func (b *blockState) refineBand(n int) {
+	bs := &b.band
+	m := len(b.sub)
+	b.z = grow(b.z, m)
+	z := b.z
+	// Forward: L z = r, with r = target - v0 - A x on the active rows.
+	for k, i := range b.sub {
+		r := b.tgt[i] - b.v0[i]
+		lo, hi := bs.lo[i], bs.hi[i]
+		x := b.x[lo : hi+1]
+		for j, a := range b.a[int(i)*n+int(lo) : int(i)*n+int(hi)+1] {
+			r -= a * x[j]
+		}
+		Lk := b.l[k*n : k*n+k+1]
+		f := int(b.first[k])
+		for j, l := range Lk[f:k] {
+			r -= l * z[f+j]
+		}
+		z[k] = r / Lk[k]
+	}
+	// Back: L^T d = z, added to x.
+	for k := m - 1; k >= 0; k-- {
+		Lk := b.l[k*n : k*n+k+1]
+		d := z[k] / Lk[k]
+		b.x[b.sub[k]] += d
+		f := int(b.first[k])
+		for j, l := range Lk[f:k] {
+			z[f+j] -= l * d
+		}
+	}
+}

@@ -158,7 +158,8 @@ func (s *Solver) pointRoot(i int) int32 {
 //
 // After sweeps that did not converge (final), friction joins the system
 // of every island small enough (maxFrictionBlock); before them only where
-// masses differ (blockFrictionRatio).
+// masses differ (blockFrictionRatio). A tall island (band.go) is solved
+// with friction before and after the sweeps.
 //
 // After the sweeps the solve is spent only on islands whose last sweep had
 // not converged, in the position pass only on islands with a penetration
@@ -167,7 +168,13 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 	b := &s.blk
 	for r := range b.size {
 		n := int(b.size[r])
-		if n < 2 || n > s.Settings.MaxBlock && !b.band.ok[r] {
+		if n > s.Settings.MaxBlock && !b.band.ok[r] {
+			continue
+		}
+		if n > maxFrictionBlock && n <= maxBandPoints {
+			n = int(b.band.cut[r]) // its loose points last (band.go)
+		}
+		if n < 2 {
 			continue
 		}
 		idx := b.order[b.start[r] : int(b.start[r])+n]
@@ -255,10 +262,12 @@ func (s *Solver) penetrates(idx []int32) bool {
 // same friction the same way.
 //
 // Before the sweeps, a normal-rows-only solve is skipped where the warm
-// start already solves them (warmSolved). It reports whether the friction
-// rows were solved too.
+// start already solves them (warmSolved). A tall island (a tower, band.go)
+// is solved with friction every time. It reports whether the friction rows
+// were solved too.
 func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
-	if !pseudo && len(idx) <= maxFrictionBlock && (final || s.massRatio(idx) > blockFrictionRatio) {
+	small := len(idx) <= maxFrictionBlock
+	if !pseudo && (small && (final || s.massRatio(idx) > blockFrictionRatio) || !small && s.tall(idx)) {
 		if s.solveRows(idx, false, true) {
 			return true
 		}
@@ -293,10 +302,12 @@ func (s *Solver) massRatio(idx []int32) float64 {
 // cost of a system three times as large.
 const blockFrictionRatio = 20
 
-// maxFrictionBlock bounds the points of an island solved with friction:
-// 64 points (192 rows) is a tower of 16 boxes or a carton on four feet;
-// its factorisation costs about 1.2 million operations, a millisecond,
-// spent only where the sweeps did not converge or masses differ.
+// maxFrictionBlock bounds the points of an island solved with friction
+// by the dense solve: 64 points (192 rows) is a tower of 16 boxes or a
+// carton on four feet; its factorisation costs about 1.2 million
+// operations, a millisecond, spent only where the sweeps did not converge
+// or masses differ. Larger islands get friction only where their system
+// is banded (tall, band.go).
 const maxFrictionBlock = 64
 
 // solveRows solves the rows of points idx, the normal rows or with fric all
@@ -309,8 +320,9 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	if pseudo {
 		vel = s.sl.ps
 	}
-	s.systemRows(idx, fric)
-	n, nn := len(b.rows), len(idx)
+	band := len(idx) > s.Settings.MaxBlock || fric && len(idx) > maxFrictionBlock // a tall island (band.go)
+	s.systemRows(idx, fric, band)
+	n := len(b.rows)
 	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
 	shift := 0.0
@@ -322,7 +334,6 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	for i, r := range b.rows {
 		b.ab[i] = [2]int32{r.a, r.b}
 	}
-	band := len(idx) > s.Settings.MaxBlock
 	if band {
 		s.bandRanges(n)
 	}
@@ -378,13 +389,16 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// position pass, whose impulses start at zero, those of the velocity
 	// solve just done. A pile's points mostly press in both, so the pass
 	// starts next to its solution instead of adding them one pivot each.
-	for i := 0; i < nn; i++ {
-		b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
+	// A banded system's velocity solve starts from every touching point
+	// too (band.go).
+	for i := 0; i < n; i++ {
+		if b.kind[i] == normalRow {
+			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0 || band && !pseudo && s.touches(idx[b.of[i]])
+		}
 	}
 	b.follow()
 	b.resetFactor(n)
 	b.band.work = 0
-	budget := bandPivotBudgets * blockBudget(s.Settings.MaxBlock)
 	tol := s.Settings.Tolerance + 1e-12
 	done, removed := false, false
 	pivotCap := maxPivots
@@ -394,15 +408,15 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	for it := 0; it < pivotCap; it++ {
 		// Each pivot changes the active set by a row or a few: update the
 		// factor rather than refactorise (cholesky.go).
-		if band && !b.refactorBand(n, shift, budget) || !band && !b.refactor(n, shift) {
+		if band && !b.refactorBand(n, shift, s.bandLimit(fric)) || !band && !b.refactor(n, shift) {
 			// Not positive definite, or (banded) over its budget: leave
 			// the impulses to the sweeps.
 			return false
 		}
 		b.solveFactor(n, band)
 		worst, wv := -1, 0.0
-		for i := 0; i < nn; i++ {
-			if b.active[i] && b.x[i] < 0 {
+		for i := 0; i < n; i++ {
+			if b.kind[i] == normalRow && b.active[i] && b.x[i] < 0 {
 				b.active[i] = false
 				worst = i
 			}
@@ -412,8 +426,8 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			b.follow()
 			continue
 		}
-		for i := 0; i < nn; i++ {
-			if b.active[i] {
+		for i := 0; i < n; i++ {
+			if b.active[i] || b.kind[i] != normalRow {
 				continue
 			}
 			v := b.v0[i] - b.tgt[i]
@@ -461,12 +475,15 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	if big > blockConsistent*rhs {
 		return false
 	}
+	if band {
+		b.refineBand(n) // band.go
+	}
 	if fric && !s.sticks(idx) {
 		return false // some contact slides: the sweeps' business
 	}
 	for i := 0; i < n; i++ {
 		x := b.x[i]
-		if i < nn {
+		if b.kind[i] == normalRow {
 			x = max(x, 0)
 		}
 		l := lambda(i)
