@@ -730,7 +730,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
-	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list)) // live.go
+	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list), s.Settings.Tolerance, s.anyLarge(block)) // live.go
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the
@@ -749,7 +749,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		res, excess = max(res, r), max(excess, ex)
 		rep.Iterations++
 		rep.Residual = res
-		if excess <= s.Settings.Tolerance {
+		if s.live.settle(excess, s.Settings.Tolerance) { // live.go
 			converged = true
 			break
 		}

@@ -348,7 +348,7 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 				d = s.solvePoint(vel, i)
 			}
 			if track {
-				lv.note(rn.a, rn.b, d, tol, lv.tick(i))
+				lv.note(rn.a, rn.b, d, lv.tick(i))
 			}
 			res = max(res, d)
 			if !(d <= tol) {
@@ -364,7 +364,7 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 			}
 			d := s.solvePatchVel(pa)
 			if track {
-				lv.note(r0.a, r0.b, d, tol, lv.tick(np+int(k)))
+				lv.note(r0.a, r0.b, d, lv.tick(np+int(k)))
 			}
 			res = max(res, d)
 			if !(d <= tol) {
