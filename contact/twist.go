@@ -63,7 +63,7 @@ type patch struct {
 type patchState struct {
 	list    []patch
 	ofGroup []int32    // first patch of each pair group, then len(list)
-	mem     []patchMem // the patch impulses of each point of the last step, in key order
+	mem     []patchMem // the patch impulses of each point of the last step, as prevPts
 }
 
 // patchMem is what a point remembers of its patch.
@@ -559,13 +559,13 @@ func (s *Solver) storePatches(points []Point) {
 			if iSum > 0 {
 				p.ImpactFriction = p.ImpactFriction.Add(fi.Mul(p.ImpactImpulse / iSum))
 			}
-			w := &s.prevPts[s.rank[i]]
+			w := &s.prevPts[i]
 			w.sliding, w.slips = pa.sliding, slips
 			if s.pts[i].deferred > 0 {
 				continue // no steady load (see store)
 			}
 			w.friction = fr.Mul(1 / cnt) // should the pair turn into point contacts
-			ps.mem[s.rank[i]] = patchMem{friction: fr, twist: tw, on: true}
+			ps.mem[i] = patchMem{friction: fr, twist: tw, on: true}
 		}
 	}
 }
