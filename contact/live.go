@@ -54,6 +54,14 @@ type liveState struct {
 	moved []int32   // per body slot: clock of its last counted velocity change
 	drift []float64 // per body slot: the velocity changes since then that did not count
 	seen  []int32   // per point, then per patch: clock of its last update
+	rows  []liveRow // per point, then per patch: its bodies, whether it may be skipped
+}
+
+// liveRow is what the sweeps' test of a point or patch reads, kept apart
+// from its rows so that the test of a skipped one does not load them.
+type liveRow struct {
+	a, b  int32 // body slots
+	track bool  // in a large island: skipped while its bodies have not moved
 }
 
 // reset starts the bookkeeping for nb body slots and n points and patches,
@@ -67,6 +75,22 @@ func (l *liveState) reset(nb, n int, tol float64, loose bool) {
 	l.seen = grow(l.seen, n)
 	for i := range l.seen {
 		l.seen[i] = -1
+	}
+	l.rows = grow(l.rows, n)
+}
+
+// liveRows fills s.live.rows for the points and patches of this step; with
+// live off (no block solve, or Tolerance 0) nothing is skipped.
+func (s *Solver) liveRows(live bool) {
+	rows := s.live.rows
+	for i := range s.pts {
+		rn := &s.nrows[i]
+		rows[i] = liveRow{a: rn.a, b: rn.b, track: live && s.large(i)}
+	}
+	np := len(s.pts)
+	for k := range s.patches.list {
+		pa := &s.patches.list[k]
+		rows[np+k] = liveRow{a: pa.rows[0].a, b: pa.rows[0].b, track: live && s.large(int(pa.lo))}
 	}
 }
 
@@ -91,14 +115,20 @@ func (l *liveState) note(a, b int32, d float64, t int32) {
 	if d == 0 {
 		return
 	}
-	for _, x := range [2]int32{a, b} {
-		if x == fixedSlot {
-			continue
-		}
-		l.drift[x] += d
-		if l.drift[x] > l.bound {
-			l.moved[x], l.drift[x] = t, 0
-		}
+	if a != fixedSlot {
+		l.add(a, d, t)
+	}
+	if b != fixedSlot {
+		l.add(b, d, t)
+	}
+}
+
+// add adds change d at time t to the drift of slot x.
+func (l *liveState) add(x int32, d float64, t int32) {
+	if dx := l.drift[x] + d; dx > l.bound {
+		l.moved[x], l.drift[x] = t, 0
+	} else {
+		l.drift[x] = dx
 	}
 }
 

@@ -737,6 +737,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 	}
 	conv, converged := s.Settings.Convergence, false
 	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list), s.Settings.Tolerance, s.anyLarge(block)) // live.go
+	s.liveRows(block && s.Settings.Tolerance > 0)
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the
