@@ -7,8 +7,9 @@ type keyIndex struct {
 }
 
 // sortKeys orders this step's points by key and matches them with last
-// step's (sorted) memory: an LSD radix sort, 8 bits a pass and stable, so
-// that equal keys keep the points' order, and then one merge with prevPts.
+// step's memory: an LSD radix sort, 8 bits a pass and stable, so that equal
+// keys keep the points' order, and then one merge with prevKeys (the first
+// entry of a repeated key wins).
 // Both are linear in the number of points, where a comparison sort and a
 // binary search per point cost n log n.
 func (s *Solver) sortKeys(points []Point) {
@@ -16,12 +17,12 @@ func (s *Solver) sortKeys(points []Point) {
 	// counting passes (each clears 256 counters).
 	const smallSort = 48
 	n := len(points)
-	s.byKey, s.keyTmp = grow(s.byKey, n), grow(s.keyTmp, n)
-	s.rank, s.match = grow(s.rank, n), grow(s.match, n)
+	s.byKey = grow(s.byKey, n)
+	s.match = grow(s.match, n)
 	for i := range points {
 		s.byKey[i] = keyIndex{points[i].Key, int32(i)}
 	}
-	src, dst := s.byKey, s.keyTmp
+	src, dst := s.byKey, s.keyTmp[:0]
 	if n <= smallSort {
 		// Few points (a part on a floor): insertion sort, stable too.
 		for i := 1; i < n; i++ {
@@ -34,18 +35,19 @@ func (s *Solver) sortKeys(points []Point) {
 			src[j] = e
 		}
 	} else {
-		src, dst = radixKeys(src, dst)
+		src, dst = radixKeys(src, grow(dst, n))
 	}
-	s.byKey, s.keyTmp = src, dst
-	prev := s.prevPts
+	// The scratch buffer is left empty between uses, so that what it held
+	// is no part of the solver's state (World.Reset compares it).
+	s.byKey, s.keyTmp = src, dst[:0]
+	prev := s.prevKeys
 	k := 0
-	for r, e := range s.byKey {
-		s.rank[e.i] = int32(r)
+	for _, e := range s.byKey {
 		for k < len(prev) && prev[k].key < e.key {
 			k++
 		}
 		if k < len(prev) && prev[k].key == e.key {
-			s.match[e.i] = int32(k)
+			s.match[e.i] = prev[k].i
 		} else {
 			s.match[e.i] = -1
 		}

@@ -8,14 +8,14 @@ func TestLiveStateDue(t *testing.T) {
 	// once their sum exceeds it.
 	const tol = 1.0
 	var l liveState
-	l.reset(3, 2) // slots 0 (fixed), 1, 2; points 0 and 1
+	l.reset(3, 2, tol, false) // slots 0 (fixed), 1, 2; points 0 and 1
 	for i, a := range [][2]int32{{0, 1}, {1, 2}} {
 		if !l.due(i, a[0], a[1]) {
 			t.Fatalf("point %d is not due in the first sweep", i)
 		}
 	}
-	l.note(0, 1, 2*tol, tol, l.tick(0)) // point 0 moves body 1
-	l.note(1, 2, 0, tol, l.tick(1))     // point 1 changes nothing
+	l.note(0, 1, 2*tol, l.tick(0)) // point 0 moves body 1
+	l.note(1, 2, 0, l.tick(1))     // point 1 changes nothing
 	cases := []struct {
 		name string
 		i    int
@@ -32,17 +32,17 @@ func TestLiveStateDue(t *testing.T) {
 	}
 	// Point 1 now changes body 1 by less than tol twice: the second time
 	// the sum exceeds tol and point 0 becomes due.
-	l.note(1, 2, 0.6*tol, tol, l.tick(1))
+	l.note(1, 2, 0.6*tol, l.tick(1))
 	if l.due(0, 0, 1) {
 		t.Error("a change below the tolerance made point 0 due")
 	}
-	l.note(1, 2, 0.6*tol, tol, l.tick(1))
+	l.note(1, 2, 0.6*tol, l.tick(1))
 	if !l.due(0, 0, 1) {
 		t.Error("changes summing above the tolerance left point 0 skipped")
 	}
 	// Point 0 moves body 1 again: point 1, on bodies 1 and 2, is due
 	// through its first body.
-	l.note(0, 1, 2*tol, tol, l.tick(0))
+	l.note(0, 1, 2*tol, l.tick(0))
 	if !l.due(1, 1, 2) {
 		t.Error("point 1 skipped although its first body moved")
 	}
@@ -117,4 +117,48 @@ func columns(levels []int, h float64) ([]Body, []Point) {
 		}
 	}
 	return bodies, pts
+}
+
+func TestLiveSettle(t *testing.T) {
+	// The stopping rule with a loose bound: the sweeps stop converged only
+	// after a sweep under the bound Tolerance, and a body whose skipped
+	// changes add up to more than Tolerance is due again in that sweep.
+	const tol = 1.0
+	var l liveState
+	l.reset(3, 2, tol, true) // slots 0 (fixed), 1, 2; points 0 (on 0, 1) and 1 (on 1, 2)
+	l.note(0, 1, 10*tol, l.tick(0))
+	l.note(1, 2, 10*tol, l.tick(1))
+	if l.settle(500*tol, tol) {
+		t.Fatal("settle stopped with an excess above the tolerance")
+	}
+	if want := liveFraction * 500 * tol; l.bound != want {
+		t.Fatalf("bound after an excess of 500 tol: %v, want %v", l.bound, want)
+	}
+	// Point 0 changes body 1 by 0.8 tol: below the loose bound (5 tol),
+	// it does not count, and point 1 stays skipped.
+	l.note(0, 1, 0.8*tol, l.tick(0))
+	if l.due(1, 1, 2) {
+		t.Fatal("a change below the loose bound made point 1 due")
+	}
+	// Another 0.8 tol, and a sweep meeting the tolerance under the loose
+	// bound: not yet converged, and body 1, 1.6 tol off, counts as moved
+	// under the bound Tolerance, so point 1 is due again.
+	l.note(0, 1, 0.8*tol, l.tick(0))
+	if l.settle(0.5*tol, tol) {
+		t.Fatal("settle stopped after a sweep under a bound looser than the tolerance")
+	}
+	if l.bound != tol {
+		t.Fatalf("bound after meeting the tolerance: %v, want %v", l.bound, tol)
+	}
+	if !l.due(1, 1, 2) {
+		t.Error("body 1 drifted 1.6 tol under the loose bound, yet point 1 is not due under the tight one")
+	}
+	if !l.settle(0.5*tol, tol) {
+		t.Error("settle did not stop after a sweep within the tolerance under the bound tolerance")
+	}
+	// Without skipped rows the bound never loosens.
+	l.reset(3, 2, tol, false)
+	if l.settle(500*tol, tol) || l.bound != tol {
+		t.Errorf("bound without skipped rows: %v, want %v", l.bound, tol)
+	}
 }

@@ -6,7 +6,7 @@ import (
 )
 
 // pairIndex is one body pair's run of points in a step: bodies a, b and
-// the entries lo..hi of Solver.pairPts, which index the step's warm points.
+// the entries lo..hi of the step's warm points (Solver.prevPts).
 type pairIndex struct {
 	a, b   int32
 	lo, hi int32
@@ -82,7 +82,7 @@ func (s *Solver) matchByPosition(points []Point) {
 				pr = &s.prevPair[k]
 			}
 			best, bestD := int32(-1), r2
-			for _, k := range s.prevPairPts[pr.lo:pr.hi] {
+			for k := pr.lo; k < pr.hi; k++ {
 				if s.claimed[k] {
 					continue
 				}
@@ -120,17 +120,12 @@ func (s *Solver) findPair(p pairIndex, cur *int) (int, bool) {
 // matchByPosition: one entry per run of points of a pair, sorted by bodies.
 func (s *Solver) storePairs(points []Point) {
 	s.curPair = s.curPair[:0]
-	s.curPairPts = grow(s.curPairPts, len(points))
 	for g := 0; g+1 < len(s.groups); g++ {
 		lo, hi := s.groups[g], s.groups[g+1]
-		for i := lo; i < hi; i++ {
-			s.curPairPts[i] = s.rank[i]
-		}
 		s.curPair = append(s.curPair, pairIndex{a: points[lo].A, b: points[lo].B, lo: lo, hi: hi})
 	}
 	if !slices.IsSortedFunc(s.curPair, pairOrder) {
 		slices.SortStableFunc(s.curPair, pairOrder)
 	}
 	s.prevPair, s.curPair = s.curPair, s.prevPair
-	s.prevPairPts, s.curPairPts = s.curPairPts, s.prevPairPts
 }

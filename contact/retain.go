@@ -20,19 +20,22 @@ func (m Memory) NormalImpulse() float64 { return m.w.normal }
 
 // Remembered returns the memory that the last Solve stored for its point i
 // (an index into the points it was given). It is valid until the next Solve.
-func (s *Solver) Remembered(i int) Memory { return Memory{s.prevPts[s.rank[i]]} }
+func (s *Solver) Remembered(i int) Memory { return Memory{s.prevPts[i]} }
 
 // Recall adds memories to those the next Solve matches its points against;
 // it sorts ms by key. A key the solver already remembers keeps its own
-// entry. Recall allocates only while the solver's buffers grow.
+// entry. The memories go after last step's in prevPts, so that the entries
+// of last step's points keep their places (patches.mem and prevPair index
+// them). Recall allocates only while the solver's buffers grow.
 func (s *Solver) Recall(ms []Memory) {
 	if len(ms) == 0 {
 		return
 	}
 	slices.SortFunc(ms, func(a, b Memory) int { return cmp.Compare(a.w.key, b.w.key) })
-	// Merge the two sorted lists into curPts, which is free between Solves.
-	prev, add := s.prevPts, ms
-	out := s.curPts[:0]
+	// Merge the new keys into the key index, by way of keyTmp, which is
+	// free between Solves.
+	prev, add := s.prevKeys, ms
+	out := s.keyTmp[:0]
 	i, j := 0, 0
 	for i < len(prev) || j < len(add) {
 		switch {
@@ -44,10 +47,11 @@ func (s *Solver) Recall(ms []Memory) {
 			i++
 		default:
 			if len(out) == 0 || out[len(out)-1].key != add[j].w.key {
-				out = append(out, add[j].w)
+				out = append(out, keyIndex{add[j].w.key, int32(len(s.prevPts))})
+				s.prevPts = append(s.prevPts, add[j].w)
 			}
 			j++
 		}
 	}
-	s.prevPts, s.curPts = out, prev
+	s.prevKeys, s.keyTmp = out, prev[:0]
 }

@@ -65,3 +65,31 @@ func TestRecallRestoresLoad(t *testing.T) {
 		}
 	}
 }
+
+func TestRecallKeepsLastStep(t *testing.T) {
+	// Recall adds memories without moving those of last step's points:
+	// Remembered(i) still gives point i's own memory (same key), and the
+	// patch memory and pair runs that index it stay valid.
+	const dt = 1e-3
+	bodies, pts := stack(1, 2, 0.1, 0.5)
+	s := NewSolver(DefaultSettings())
+	addGravity(bodies, dt)
+	if _, err := s.Solve(dt, bodies, pts, nil); err != nil {
+		t.Fatal(err)
+	}
+	// The smallest key the stack does not use: below some of its keys.
+	used := map[uint64]bool{}
+	for _, p := range pts {
+		used[p.Key] = true
+	}
+	key := uint64(0)
+	for used[key] {
+		key++
+	}
+	s.Recall([]Memory{{warmPoint{key: key, normal: 1}}})
+	for i, p := range pts {
+		if got := s.Remembered(i).Key(); got != p.Key {
+			t.Errorf("after Recall, point %d remembers key %#x, want its own %#x", i, got, p.Key)
+		}
+	}
+}

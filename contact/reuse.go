@@ -12,15 +12,14 @@ func (s *Solver) Clear(set Settings) {
 		ps: scratch.Reuse(s.sl.ps), fv: scratch.Reuse(s.sl.fv), im: scratch.Reuse(s.sl.im)}
 	n.nrows, n.trows, n.jrows, n.pts, n.jp = scratch.Reuse(s.nrows), scratch.Reuse(s.trows), scratch.Reuse(s.jrows), scratch.Reuse(s.pts), scratch.Reuse(s.jp)
 	n.groups = scratch.Reuse(s.groups)
-	n.prevPts, n.curPts = scratch.Reuse(s.prevPts), scratch.Reuse(s.curPts)
+	n.prevPts, n.curPts, n.prevKeys = scratch.Reuse(s.prevPts), scratch.Reuse(s.curPts), scratch.Reuse(s.prevKeys)
 	n.prevRows, n.curRows = scratch.Reuse(s.prevRows), scratch.Reuse(s.curRows)
 	n.byKey, n.keyTmp = scratch.Reuse(s.byKey), scratch.Reuse(s.keyTmp)
-	n.rank, n.match = scratch.Reuse(s.rank), scratch.Reuse(s.match)
+	n.match = scratch.Reuse(s.match)
 	n.prevPair, n.curPair = scratch.Reuse(s.prevPair), scratch.Reuse(s.curPair)
-	n.prevPairPts, n.curPairPts = scratch.Reuse(s.prevPairPts), scratch.Reuse(s.curPairPts)
 	n.claimed = scratch.Reuse(s.claimed)
 	n.blk = s.blk.reused()
-	n.live = liveState{moved: scratch.Reuse(s.live.moved), drift: scratch.Reuse(s.live.drift), seen: scratch.Reuse(s.live.seen)}
+	n.live = liveState{moved: scratch.Reuse(s.live.moved), drift: scratch.Reuse(s.live.drift), seen: scratch.Reuse(s.live.seen), rows: scratch.Reuse(s.live.rows)}
 	n.patches = patchState{list: scratch.Reuse(s.patches.list), ofGroup: scratch.Reuse(s.patches.ofGroup), mem: scratch.Reuse(s.patches.mem)}
 	n.heldSums = scratch.Reuse(s.heldSums)
 	*s = n

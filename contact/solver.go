@@ -94,21 +94,27 @@ type Solver struct {
 	jp     []jpos
 	groups []int32 // start of each run of points of one pair, then len(points)
 
-	prevPts, curPts   []warmPoint // sorted by key
+	// The memory of last step's points, in the order of those points
+	// (then the entries added by Recall), and its index by key: prevKeys
+	// lists the keys sorted, each with its entry in prevPts. Kept in point
+	// order, the memory is written and read (warm start, patches) in
+	// nearly the order of the points, which change little from step to
+	// step; kept in key order, each of those accesses would be a jump.
+	prevPts, curPts   []warmPoint
+	prevKeys          []keyIndex
 	prevRows, curRows []warmRow
 	prevDt            float64
 
 	// This step's points in key order (sortKeys): byKey lists them sorted,
-	// rank[i] is point i's place in that order and match[i] its entry in
-	// prevPts (-1 if none).
+	// match[i] is point i's entry in prevPts (-1 if none).
 	byKey, keyTmp []keyIndex
-	rank, match   []int32
+	match         []int32
 
-	// Matching by position (match.go): prevPair lists prevPts by body
-	// pair, claimed marks the entries this step's points have taken.
-	prevPair, curPair       []pairIndex
-	prevPairPts, curPairPts []int32
-	claimed                 []bool
+	// Matching by position (match.go): prevPair lists the runs of prevPts
+	// by body pair, claimed marks the entries this step's points have
+	// taken.
+	prevPair, curPair []pairIndex
+	claimed           []bool
 
 	blk blockState // block.go
 
@@ -124,7 +130,7 @@ func NewSolver(s Settings) *Solver { return &Solver{Settings: s} }
 
 // Reset forgets the impulses remembered from earlier steps.
 func (s *Solver) Reset() {
-	s.prevPts, s.prevRows, s.prevDt = s.prevPts[:0], s.prevRows[:0], 0
+	s.prevPts, s.prevKeys, s.prevRows, s.prevDt = s.prevPts[:0], s.prevKeys[:0], s.prevRows[:0], 0
 	s.prevPair = s.prevPair[:0]
 }
 
@@ -730,10 +736,8 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
-	if block && len(s.pts) > s.Settings.MaxBlock {
-		// Only an island of more points skips rows (live.go, large).
-		s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list))
-	}
+	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list), s.Settings.Tolerance, s.anyLarge(block)) // live.go
+	s.liveRows(block && s.Settings.Tolerance > 0)
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the
@@ -752,7 +756,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		res, excess = max(res, r), max(excess, ex)
 		rep.Iterations++
 		rep.Residual = res
-		if excess <= s.Settings.Tolerance {
+		if s.live.settle(excess, s.Settings.Tolerance) { // live.go
 			converged = true
 			break
 		}
@@ -802,9 +806,9 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 			// never had, adding energy (seen with tumbling boxes, e = 1).
 			pending = 0
 		}
-		// Written in place, in key order (sortKeys): a warmPoint built
-		// and then copied costs a second pass over its bytes.
-		w := &s.curPts[s.rank[i]]
+		// Written in place: a warmPoint built and then copied costs a
+		// second pass over its bytes.
+		w := &s.curPts[i]
 		w.key, w.normal, w.friction = p.Key, rn.lambda, p.FrictionImpulse
 		w.sliding, w.slips, w.pending, w.held = p.Sliding, slips, pending, 0
 		if pending > 0 {
@@ -818,6 +822,7 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		}
 	}
 	s.prevPts, s.curPts = s.curPts, s.prevPts
+	s.prevKeys, s.byKey = s.byKey, s.prevKeys[:0] // byKey is empty until the next sortKeys
 	s.storePairs(points)
 
 	s.curRows = s.curRows[:0]

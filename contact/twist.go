@@ -64,7 +64,7 @@ type patch struct {
 type patchState struct {
 	list    []patch
 	ofGroup []int32    // first patch of each pair group, then len(list)
-	mem     []patchMem // the patch impulses of each point of the last step, in key order
+	mem     []patchMem // the patch impulses of each point of the last step, as prevPts
 }
 
 // patchMem is what a point remembers of its patch.
@@ -335,7 +335,7 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 		}
 	}
 	ps := &s.patches
-	lv, live := &s.live, block && tol > 0 // live.go
+	lv := &s.live // live.go
 	np := len(s.pts)
 	for g := 0; g+1 < len(s.groups); g++ {
 		// The points of the group's patches (consecutive, in the order of
@@ -343,23 +343,23 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 		// rows alone, without the point's state (solvePoint).
 		k, kEnd := ps.ofGroup[g], ps.ofGroup[g+1]
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
-			rn := &s.nrows[i]
 			inPatch := k < kEnd && int32(i) >= ps.list[k].lo
 			if inPatch && int32(i)+1 == ps.list[k].hi {
 				k++
 			}
-			track := live && s.large(i)
-			if track && !lv.due(i, rn.a, rn.b) {
+			lr := &lv.rows[i]
+			if lr.track && !lv.due(i, lr.a, lr.b) {
 				continue
 			}
+			rn := &s.nrows[i]
 			var d float64
 			if inPatch {
 				d = solveNormal(vel, rn)
 			} else {
 				d = s.solvePoint(vel, i)
 			}
-			if track {
-				lv.note(rn.a, rn.b, d, tol, lv.tick(i))
+			if lr.track {
+				lv.note(lr.a, lr.b, d, lv.tick(i))
 			}
 			res = max(res, d)
 			if !(d <= tol) {
@@ -367,15 +367,14 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 			}
 		}
 		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
-			pa := &ps.list[k]
-			r0 := &pa.rows[0]
-			track := live && s.large(int(pa.lo))
-			if track && !lv.due(np+int(k), r0.a, r0.b) {
+			lr := &lv.rows[np+int(k)]
+			if lr.track && !lv.due(np+int(k), lr.a, lr.b) {
 				continue
 			}
+			pa := &ps.list[k]
 			d := s.solvePatchVel(pa)
-			if track {
-				lv.note(r0.a, r0.b, d, tol, lv.tick(np+int(k)))
+			if lr.track {
+				lv.note(lr.a, lr.b, d, lv.tick(np+int(k)))
 			}
 			res = max(res, d)
 			if !(d <= tol) {
@@ -571,13 +570,13 @@ func (s *Solver) storePatches(points []Point) {
 			if iSum > 0 {
 				p.ImpactFriction = p.ImpactFriction.Add(fi.Mul(p.ImpactImpulse / iSum))
 			}
-			w := &s.prevPts[s.rank[i]]
+			w := &s.prevPts[i]
 			w.sliding, w.slips = pa.sliding, slips
 			if s.pts[i].deferred > 0 {
 				continue // no steady load (see store)
 			}
 			w.friction = even // should the pair turn into point contacts
-			ps.mem[s.rank[i]] = patchMem{friction: fr, twist: tw, on: true}
+			ps.mem[i] = patchMem{friction: fr, twist: tw, on: true}
 		}
 	}
 }
