@@ -137,9 +137,7 @@ func (s *Solver) islands(points []Point, rows []Row) {
 	for r := range b.start {
 		b.start[r] -= max(b.size[r], 0)
 	}
-	if len(points) > s.Settings.MaxBlock {
-		s.orderBands() // band.go; only an island of more points is banded
-	}
+	s.orderBands() // band.go
 }
 
 // pointRoot is the island root of point i: that of its dynamic body.
