@@ -10,16 +10,16 @@ import "math"
 // apart. Between impacts a contact's approach changes by what acts on it
 // within a step: |g| dt from gravity, and, at a point that stays on a
 // turning body, its centripetal acceleration along the normal times dt
-// (contact's bounce.go). A part that lost its support for k steps (a solve
-// that left it a hair above, a cube settling on a woken pile) comes back at
-// k |g| dt, up to 2.2 |g| dt measured at 1 ms; a pivoting plank's edge at
-// omega^2 r dt. bounceGravitySteps of each lie above those; a rebound at
-// the threshold, 3 |g| dt with e = 0.8, flies 2 e 3 = 4.8 steps, few
-// enough for a step to resolve. A fixed speed is wrong at one end of the
-// scales: 0.1 m/s stopped every bounce of a 1 mm part dropped 0.4 mm
-// (which 0.1 ms resolves in 100 steps), and was below |g| dt at 1/60 s.
-// Tied to the step, the threshold shrinks as the step is halved and the
-// results converge.
+// (contact's bounce.go; a pivoting plank's edge approaches by omega^2 r dt).
+// A part that lost its support for one step (a solve that left it a hair
+// above) comes back at |g| dt and must not bounce; bounceGravitySteps = 1.5
+// of each keeps a margin over that, while a part that fell for two steps
+// or more, in flight long enough to count, bounces (a 5 mm drop at 1/120 s
+// lasts 3.8 steps). A rebound at the threshold with e = 0.8 flies 2.4
+// steps. A fixed speed is wrong at one end of the scales: 0.1 m/s stopped
+// every bounce of a 1 mm part dropped 0.4 mm (which 0.1 ms resolves in 100
+// steps), and was below |g| dt at 1/60 s. Tied to the step, the threshold
+// shrinks as the step is halved and the results converge.
 //
 // A rebound that the step cannot resolve (e times the approach below the
 // threshold, and every arrival with e = 0) is an impact only above
@@ -28,9 +28,11 @@ import "math"
 // left, as before, to the velocity solve, whose friction acts with the
 // step's weight (the conveying speed of a part hopping on a vibrating track
 // agrees with the particle model of Redford and Boothroyd, 1967, so; taken
-// as impacts, its slow landings carried it 10 percent faster).
+// as impacts, its slow landings carried it 10 percent faster), and a part
+// settling on a woken pile, whose arrivals reach 2.2 |g| dt at 1 ms, is not
+// rattled by impacts.
 const (
-	bounceGravitySteps = 3
+	bounceGravitySteps = 1.5
 	inelasticImpact    = 0.1 // m/s
 )
 

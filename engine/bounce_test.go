@@ -73,8 +73,8 @@ func TestBounceAtEveryScale(t *testing.T) {
 }
 
 func TestBounceThresholdFollowsStep(t *testing.T) {
-	// The threshold is three steps of gravity, whatever the gravity's
-	// direction, with three steps of a turning point's acceleration, and
+	// The threshold is 1.5 steps of gravity, whatever the gravity's
+	// direction, with 1.5 steps of a turning point's acceleration, and
 	// 0.1 m/s for an arrival that cannot resolve a rebound (bounce.go); a
 	// Config's threshold replaces all three.
 	for _, c := range []struct {
@@ -82,9 +82,9 @@ func TestBounceThresholdFollowsStep(t *testing.T) {
 		dt                     float64
 		want, steps, inelastic float64
 	}{
-		{DefaultConfig(), 1e-3, 3 * StandardGravity * 1e-3, 3, 0.1},
-		{DefaultConfig(), 1.0 / 60, 3 * StandardGravity / 60, 3, 0.1},
-		{Config{Gravity: shapes.Vec3{3, 0, -4}}, 1e-4, 3 * 5 * 1e-4, 3, 0.1},
+		{DefaultConfig(), 1e-3, 1.5 * StandardGravity * 1e-3, 1.5, 0.1},
+		{DefaultConfig(), 1.0 / 60, 1.5 * StandardGravity / 60, 1.5, 0.1},
+		{Config{Gravity: shapes.Vec3{3, 0, -4}}, 1e-4, 1.5 * 5 * 1e-4, 1.5, 0.1},
 		{Config{Gravity: shapes.Vec3{0, 0, -9.81}, BounceThreshold: 0.2}, 1e-3, 0.2, 0, 0},
 	} {
 		t.Run(fmt.Sprint(c.cfg.Gravity, c.dt), func(t *testing.T) {

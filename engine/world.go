@@ -27,7 +27,7 @@ type Config struct {
 	// extra margin of speculative contacts (default 0.2 mm).
 	Slop float64
 	// BounceThreshold, m/s: slower impacts get no restitution. The default 0
-	// ties it, for rigid contacts, to the step (three steps of gravity, and
+	// ties it, for rigid contacts, to the step (1.5 steps of gravity, and
 	// of a turning contact's own acceleration), and keeps 0.1 m/s for
 	// compliant ones (bounce.go).
 	BounceThreshold float64
