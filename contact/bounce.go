@@ -14,11 +14,11 @@ package contact
 // the plain threshold.
 
 // A point whose rebound the step cannot resolve (e times its approach no
-// faster than the threshold) bounces by nothing that the step shows, and
-// with e = 0 by nothing at all: Settings.InelasticThreshold sets the speed
-// above which its arrival still counts as an impact (and is solved and
-// reported as one). The threshold for restitution e is thus
-// max(t, min(InelasticThreshold, t / e)): t where the rebound resolves,
+// faster than Settings.ReboundThreshold, r) bounces by nothing that the
+// step shows, and with e = 0 by nothing at all: Settings.InelasticThreshold
+// sets the speed above which its arrival still counts as an impact (and is
+// solved and reported as one). The threshold for restitution e is thus
+// max(t, min(InelasticThreshold, r / e)): t where the rebound resolves,
 // InelasticThreshold for e = 0.
 
 // bounceThreshold is point ps's bounce threshold, m/s, in a step of dt s.
@@ -29,8 +29,12 @@ func (s *Solver) bounceThreshold(ps *pstate, dt float64) float64 {
 		t += set.BounceSteps * dt * ps.turn
 	}
 	if set.InelasticThreshold > t {
+		r := t
+		if set.ReboundThreshold > r {
+			r = set.ReboundThreshold
+		}
 		if ps.e > 0 {
-			return max(t, min(set.InelasticThreshold, t/ps.e))
+			return max(t, min(set.InelasticThreshold, r/ps.e))
 		}
 		return set.InelasticThreshold
 	}

@@ -63,17 +63,18 @@ func TestTurningPointThreshold(t *testing.T) {
 }
 
 // TestInelasticThreshold: a point whose rebound e v the step cannot resolve
-// is an impact only above InelasticThreshold, or the threshold over e where
-// that is lower: max(t, min(inelastic, t / e)).
+// (no faster than the rebound threshold r) is an impact only above
+// InelasticThreshold, or r over e where that is lower:
+// max(t, min(inelastic, r / e)).
 func TestInelasticThreshold(t *testing.T) {
-	const base, inelastic = 0.01, 0.1
-	s := NewSolver(Settings{BounceThreshold: base, InelasticThreshold: inelastic})
+	const base, rebound, inelastic = 0.01, 0.02, 0.1
+	s := NewSolver(Settings{BounceThreshold: base, InelasticThreshold: inelastic, ReboundThreshold: rebound})
 	for _, c := range []struct{ e, want float64 }{
-		{0, inelastic},    // nothing to bounce
-		{0.05, inelastic}, // t / e = 0.2: the rebound never resolves below 0.1
-		{0.2, base / 0.2}, // rebounds of 0.2 v resolve above 0.05
-		{1, base},         // every rebound above t resolves
-		{0.999999, base / 0.999999},
+		{0, inelastic},       // nothing to bounce
+		{0.1, inelastic},     // r / e = 0.2: the rebound never resolves below 0.1
+		{0.4, rebound / 0.4}, // rebounds of 0.4 v resolve above 0.05
+		{1, rebound},         // every rebound above r resolves
+		{0.999999, rebound / 0.999999},
 	} {
 		ps := pstate{e: c.e}
 		if got := s.bounceThreshold(&ps, 1e-3); math.Abs(got-c.want) > 1e-15 {

@@ -51,10 +51,10 @@ type Settings struct {
 	BounceSteps float64
 	// InelasticThreshold (m/s), if not 0, raises the threshold of a point
 	// whose rebound, e times its approach, would be no faster than
-	// BounceThreshold (one the step cannot resolve, and every point with
-	// e = 0) to this speed, or to BounceThreshold / e if that is lower
-	// (bounce.go).
-	InelasticThreshold float64
+	// ReboundThreshold (one the step cannot resolve, and every point with
+	// e = 0) to this speed, or to ReboundThreshold / e if that is lower
+	// (bounce.go). ReboundThreshold 0 means BounceThreshold.
+	InelasticThreshold, ReboundThreshold float64
 	// ImpactPasses bounds the passes of the impact phase over all pairs;
 	// impacts left after the last pass are resolved inelastically by the
 	// velocity iterations.
@@ -167,6 +167,8 @@ func (s Settings) Validate() error {
 		return bad("BounceThreshold", s.BounceThreshold, "must be a finite speed >= 0 (m/s)")
 	case !finite(s.InelasticThreshold) || s.InelasticThreshold < 0:
 		return bad("InelasticThreshold", s.InelasticThreshold, "must be a finite speed >= 0 (m/s)")
+	case !finite(s.ReboundThreshold) || s.ReboundThreshold < 0:
+		return bad("ReboundThreshold", s.ReboundThreshold, "must be a finite speed >= 0 (m/s)")
 	case !finite(s.BounceSteps) || s.BounceSteps < 0:
 		return bad("BounceSteps", s.BounceSteps, "must be a finite number of steps >= 0")
 	case !finite(s.WarmStart) || s.WarmStart < 0 || s.WarmStart > 1:

@@ -74,31 +74,33 @@ func TestBounceAtEveryScale(t *testing.T) {
 
 func TestBounceThresholdFollowsStep(t *testing.T) {
 	// The threshold is 1.5 steps of gravity, whatever the gravity's
-	// direction, with 1.5 steps of a turning point's acceleration, and
-	// 0.1 m/s for an arrival that cannot resolve a rebound (bounce.go); a
-	// Config's threshold replaces all three.
+	// direction, with 1.5 steps of a turning point's acceleration, 0.1 m/s
+	// for an arrival whose rebound the step cannot resolve, and three steps
+	// of gravity as the slowest resolved rebound (bounce.go); a Config's
+	// threshold replaces them all.
 	for _, c := range []struct {
-		cfg                    Config
-		dt                     float64
-		want, steps, inelastic float64
+		cfg                             Config
+		dt                              float64
+		want, steps, inelastic, rebound float64
 	}{
-		{DefaultConfig(), 1e-3, 1.5 * StandardGravity * 1e-3, 1.5, 0.1},
-		{DefaultConfig(), 1.0 / 60, 1.5 * StandardGravity / 60, 1.5, 0.1},
-		{Config{Gravity: shapes.Vec3{3, 0, -4}}, 1e-4, 1.5 * 5 * 1e-4, 1.5, 0.1},
-		{Config{Gravity: shapes.Vec3{0, 0, -9.81}, BounceThreshold: 0.2}, 1e-3, 0.2, 0, 0},
+		{DefaultConfig(), 1e-3, 1.5 * StandardGravity * 1e-3, 1.5, 0.1, 3 * StandardGravity * 1e-3},
+		{DefaultConfig(), 1.0 / 60, 1.5 * StandardGravity / 60, 1.5, 0.1, 3 * StandardGravity / 60},
+		{Config{Gravity: shapes.Vec3{3, 0, -4}}, 1e-4, 1.5 * 5 * 1e-4, 1.5, 0.1, 3 * 5 * 1e-4},
+		{Config{Gravity: shapes.Vec3{0, 0, -9.81}, BounceThreshold: 0.2}, 1e-3, 0.2, 0, 0, 0},
 	} {
 		t.Run(fmt.Sprint(c.cfg.Gravity, c.dt), func(t *testing.T) {
 			w := newTestWorld(t, c.cfg)
-			got, steps, inelastic := w.bounceThreshold(c.dt)
-			if math.Abs(got-c.want) > 1e-15 || steps != c.steps || inelastic != c.inelastic {
-				t.Errorf("threshold %g m/s, %g steps, inelastic %g m/s; want %g, %g, %g", got, steps, inelastic, c.want, c.steps, c.inelastic)
+			got, steps, inelastic, rebound := w.bounceThreshold(c.dt)
+			if math.Abs(got-c.want) > 1e-15 || steps != c.steps || inelastic != c.inelastic || math.Abs(rebound-c.rebound) > 1e-15 {
+				t.Errorf("threshold %g m/s, %g steps, inelastic %g m/s, rebound %g m/s; want %g, %g, %g, %g",
+					got, steps, inelastic, rebound, c.want, c.steps, c.inelastic, c.rebound)
 			}
 		})
 	}
 	// Without gravity nothing presses resting parts together, and every
 	// approach faster than the solver's rounding is an impact.
 	w := newTestWorld(t, Config{})
-	if got, _, _ := w.bounceThreshold(1e-3); !(got > 0 && got < 1e-6) {
+	if got, _, _, _ := w.bounceThreshold(1e-3); !(got > 0 && got < 1e-6) {
 		t.Errorf("threshold without gravity %g m/s, want a rounding floor in (0, 1e-6)", got)
 	}
 	if _, err := NewWorld(Config{BounceThreshold: -1}); err == nil {
