@@ -45,6 +45,16 @@ type Settings struct {
 	// BounceThreshold (m/s): contacts approaching faster get Newton
 	// restitution in the impact phase; slower ones are inelastic.
 	BounceThreshold float64
+	// BounceSteps adds to BounceThreshold, at a point that persists from
+	// the last step, this many steps of the normal acceleration that its
+	// bodies' spins give it (bounce.go); 0 adds nothing.
+	BounceSteps float64
+	// InelasticThreshold (m/s), if not 0, raises the threshold of a point
+	// whose rebound, e times its approach, would be no faster than
+	// ReboundThreshold (one the step cannot resolve, and every point with
+	// e = 0) to this speed, or to ReboundThreshold / e if that is lower
+	// (bounce.go). ReboundThreshold 0 means BounceThreshold.
+	InelasticThreshold, ReboundThreshold float64
 	// ImpactPasses bounds the passes of the impact phase over all pairs;
 	// impacts left after the last pass are resolved inelastically by the
 	// velocity iterations.
@@ -155,6 +165,12 @@ func (s Settings) Validate() error {
 		return bad("Correction", s.Correction, "must be a fraction in [0, 1]")
 	case !finite(s.BounceThreshold) || s.BounceThreshold < 0:
 		return bad("BounceThreshold", s.BounceThreshold, "must be a finite speed >= 0 (m/s)")
+	case !finite(s.InelasticThreshold) || s.InelasticThreshold < 0:
+		return bad("InelasticThreshold", s.InelasticThreshold, "must be a finite speed >= 0 (m/s)")
+	case !finite(s.ReboundThreshold) || s.ReboundThreshold < 0:
+		return bad("ReboundThreshold", s.ReboundThreshold, "must be a finite speed >= 0 (m/s)")
+	case !finite(s.BounceSteps) || s.BounceSteps < 0:
+		return bad("BounceSteps", s.BounceSteps, "must be a finite number of steps >= 0")
 	case !finite(s.WarmStart) || s.WarmStart < 0 || s.WarmStart > 1:
 		return bad("WarmStart", s.WarmStart, "must be a fraction in [0, 1]")
 	case !finite(s.SlipSpeed) || s.SlipSpeed < 0:

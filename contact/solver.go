@@ -35,6 +35,7 @@ type pstate struct {
 	patch               int32 // 1 + index of the patch that carries its friction, 0 if none (twist.go)
 	muS, muK, e         float64
 	sep                 float64
+	turn                float64 // normal acceleration of the point from its bodies' spins (bounce.go)
 	prevSliding         bool    // last step used the kinetic coefficient
 	prevSlips           uint8   // consecutive steps that ended at the cone's limit and slipping
 	active              bool    // takes part in the current impact processing
@@ -123,6 +124,8 @@ type Solver struct {
 	live liveState // the rows still moving (live.go)
 
 	heldSums [][3]float64 // the patches' impact impulses before a bounded pair impact (held.go)
+
+	chain []int32 // per slot, the pair of its touching unloaded contacts (chain.go)
 }
 
 // NewSolver returns a solver with the given settings and no warm-start memory.
@@ -401,6 +404,9 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		ps.muS = max(p.StaticFriction, ps.muK)
 		ps.e = max(p.Restitution, 0)
 		ps.sep = p.Separation
+		if s.Settings.BounceSteps > 0 {
+			ps.turn = turnAcceleration(A, &rA, &p.Normal) + turnAcceleration(B, &rB, &p.Normal) // bounce.go
+		}
 		if p.PatchRadius > 0 {
 			// Its patch carries its friction (twist.go): no tangent rows.
 			*r1, *r2 = crow{a: a, b: b}, crow{a: a, b: b}
@@ -550,6 +556,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 	if set.PairIterations == 0 {
 		return
 	}
+	s.markChains(dt) // chain.go
 	for pass := 0; pass < set.ImpactPasses; pass++ {
 		hitAny := false
 		for g := 0; g+1 < len(s.groups); g++ {
@@ -571,7 +578,8 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				if ps.sep > 0 && (approach-rn.cdot(fv))*dt <= ps.sep {
 					continue // stays apart this step
 				}
-				if ps.found && ps.prevN*rn.k > set.BounceThreshold*loadFraction {
+				thr := s.bounceThreshold(ps, dt) // bounce.go
+				if s.carriedLoad(ps, rn, thr) {
 					// It carried load last step: a resting contact, whatever
 					// an unconverged solve or a sway left of approach. It
 					// takes part as a touching point, inelastic.
@@ -580,7 +588,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					ps.iTarget = rn.target
 					continue
 				}
-				if ps.sep > set.Slop {
+				if ps.sep > set.Slop && !(approach > thr && s.chained(g, rn)) {
 					// Closing within the step but not yet touching: the
 					// velocity solve lets it arrive exactly (approach sep/dt)
 					// and the impact is deferred to the next step with this
@@ -593,13 +601,13 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// longer does was turned away, and an impact held for
 					// it would arrive, steps later, at a speed it has long
 					// lost (held.go).
-					if approach > set.BounceThreshold {
+					if approach > thr {
 						ac := arrivalSpeed(approach, -rn.cdot(fv), ps.sep, dt)
 						ps.deferred, ps.aStart = max(ac, ps.pending), ac
 					}
 					continue
 				}
-				if ps.pending > approach && approach > -set.BounceThreshold {
+				if ps.pending > approach && approach > -thr {
 					// The impact deferred from the last step arrives now,
 					// giving back no more than its stops took (held.go).
 					ps.arrived, ps.aNow, ps.aArr = true, max(approach, 0), ps.pending
@@ -608,7 +616,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 				ps.pending = 0
 				ps.active = true
 				ps.iTarget = rn.target
-				if approach > set.BounceThreshold {
+				if approach > thr {
 					// The bodies leave the surface at e times the approach,
 					// before this step's forces: those then act on the
 					// free flight that follows, which the world integrates

@@ -55,7 +55,6 @@ func (w *World) initCollision() {
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations
 	s.Slop = w.cfg.Slop
-	s.BounceThreshold = w.cfg.BounceThreshold
 	c.solver.Clear(s)
 }
 
@@ -302,6 +301,8 @@ func (w *World) solve(dt float64) error {
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (jointrows.go)
 	w.recallWoken()                      // contacts of woken islands resume their load (sleep_wake.go)
+	set := &c.solver.Settings
+	set.BounceThreshold, set.BounceSteps, set.InelasticThreshold, set.ReboundThreshold = w.bounceThreshold(dt) // bounce.go
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step (solveerr.go).

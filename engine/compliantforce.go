@@ -115,7 +115,7 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 	// A contact that began slower than the bounce threshold gets no
 	// restitution, as a rigid one does not: its dashpot is critical (a
 	// part set down on a cushion settles instead of ringing for ever).
-	gentle := c.v0 <= w.cfg.BounceThreshold
+	gentle := c.v0 <= w.softBounceThreshold()
 	for i := range pts {
 		p := &pts[i]
 		d := -p.sep
@@ -131,7 +131,7 @@ func (w *World) springPair(pts []softPoint, dt float64) error {
 			return err
 		}
 		inv := w.invMassAt(a, p.pos, p.n) + w.invMassAt(b, p.pos, p.n)
-		w.soft.jn[i] = hertzImpulse(kh, d, w.approach(p), math.Max(c.v0, w.cfg.BounceThreshold), restitutionOf(p, gentle), inv, dt)
+		w.soft.jn[i] = hertzImpulse(kh, d, w.approach(p), math.Max(c.v0, w.softBounceThreshold()), restitutionOf(p, gentle), inv, dt)
 	}
 	for i := range pts {
 		if jn := w.soft.jn[i]; jn != 0 {
@@ -295,7 +295,7 @@ func (w *World) softContactOf(a, b BodyID, deep *softPoint) *softContact {
 
 // reportSoft emits the impact event of a compliant contact.
 func (w *World) reportSoft(c *softContact, end float64) {
-	if c.v0 <= w.cfg.BounceThreshold {
+	if c.v0 <= w.softBounceThreshold() {
 		return // a gentle touch, not an impact (as for rigid contacts)
 	}
 	w.b.maxHit[c.a] = math.Max(w.b.maxHit[c.a], c.v0)

@@ -167,7 +167,8 @@ func (w *World) updateRest(dt float64) {
 			}
 		}
 	}
-	w.jointsKeepAwake() // jointed to a moving kinematic body (jointsleep.go)
+	w.jointsKeepAwake()        // jointed to a moving kinematic body (jointsleep.go)
+	w.keepDriftersAwake(awake) // in free flight (drift.go)
 	s.dozing = s.dozing[:0]
 	for _, id := range awake {
 		if w.b.kind[id] == Dynamic && c.islandRest[w.find(int32(id))] >= w.cfg.RestTime {

@@ -26,7 +26,10 @@ type Config struct {
 	// Slop is the penetration, m, left alone by position correction and the
 	// extra margin of speculative contacts (default 0.2 mm).
 	Slop float64
-	// BounceThreshold, m/s: slower impacts get no restitution (default 0.1 m/s).
+	// BounceThreshold, m/s: slower impacts get no restitution. The default 0
+	// ties it, for rigid contacts, to the step (1.5 steps of gravity, and
+	// of a turning contact's own acceleration), and keeps 0.1 m/s for
+	// compliant ones (bounce.go).
 	BounceThreshold float64
 	// RestSpeed (m/s), RestSpin (rad/s) and RestTime (s): a body slower than
 	// both for RestTime is at rest; an island at rest sleeps (defaults
@@ -62,12 +65,14 @@ func (c *Config) fill() error {
 		}
 		return nil
 	}
+	if !(c.BounceThreshold >= 0) || math.IsInf(c.BounceThreshold, 0) {
+		return fmt.Errorf("bounce threshold must be 0 (tied to the step) or a positive speed, got %g", c.BounceThreshold)
+	}
 	for _, e := range []error{
 		defInt(&c.SubSteps, 1, "sub-steps"),
 		defInt(&c.VelocityIterations, 30, "velocity iterations"),
 		defInt(&c.PositionIterations, 3, "position iterations"),
 		def(&c.Slop, DefaultSlop, "slop"),
-		def(&c.BounceThreshold, 0.1, "bounce threshold"),
 		def(&c.RestSpeed, DefaultRestSpeed, "rest speed"),
 		def(&c.RestSpin, DefaultRestSpin, "rest spin"),
 		def(&c.RestTime, DefaultRestTime, "rest time"),
