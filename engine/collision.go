@@ -51,6 +51,11 @@ func (w *World) initCollision() {
 		c.det.Reset()
 	}
 	c.det.SetPersistence(w.cfg.Slop) // resting pairs refresh their points (collide/persist.go)
+	// A body at rest moves far less than the slop in a step, so the sweep
+	// reuses its pairs while each body's bounds stay within the slop of
+	// where they were last swept (collide/broad/slack.go); the pairs are
+	// the same as without.
+	c.bp.SetSlack(w.cfg.Slop)
 	s := contact.DefaultSettings()
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations
