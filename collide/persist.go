@@ -495,6 +495,6 @@ func (p *persistMem) nextStep() {
 // persistent points answered the query instead.
 func (c *pairCache) carry(key uint64) {
 	if h := c.lookup(key); h != nil && h.kind != hintNone {
-		c.cur = append(c.cur, *h)
+		c.keepHint(h)
 	}
 }

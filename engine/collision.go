@@ -193,6 +193,9 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	if w.soft.on && w.softPair(a, b, c.manifolds, coef) {
 		return // a compliant pair: springs, not rows (compliant.go)
 	}
+	if len(c.manifolds) == 0 {
+		return // apart, as most pairs of the broad phase are
+	}
 	touch := false
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
 	for m := range c.manifolds {
