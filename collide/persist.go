@@ -87,15 +87,14 @@ const persistAge = 8
 // query did, unless the tie was closer than that motion, which no age limit
 // rules out either (a later full query at nearly the same pose may decide
 // it either way). So a pair that has stayed that still refreshes up to
-// persistAgeStill steps. Its points meanwhile are as good as a fresh
-// query's: the same features, separations exact for them, positions within
-// the motion, which stays under persistStill of the limit (5 um at the
-// default slop) however long the pair rests; the cap only bounds the
-// history a step's contacts depend on to some hundred steps and lets a
-// slow drift that never adds up to that motion (a creeping part) meet a
-// fresh query now and then. At 32 steps the full queries of a resting pile
-// of a thousand parts, one pair in 32 each step, cost as much as all its
-// refreshes together.
+// persistAgeStill steps at first (longer once full queries confirm it,
+// persistAgeMax). Its points meanwhile are as good as a fresh query's: the
+// same features, separations exact for them, positions within the motion,
+// which stays under persistStill of the limit (5 um at the default slop)
+// however long the pair rests, since the motion is measured from the full
+// query's pose (a creeping part meets the persistAge rule once its drift
+// adds up to that); the cap only bounds the history a step's contacts
+// depend on.
 const (
 	persistStill    = 0.25
 	persistAgeStill = 128
