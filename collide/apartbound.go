@@ -1,6 +1,8 @@
 package collide
 
 import (
+	"math"
+
 	"clatter/shapes"
 	"github.com/go-gl/mathgl/mgl64"
 )
@@ -54,13 +56,25 @@ func (d *Detector) boundedApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b s
 	if !r.on || r.a != a || r.b != b {
 		return false
 	}
-	band := memBand * (r.rsum + pa.Position.Len() + pb.Position.Len())
-	if r.gap-relMotion(r.mOnB, &r.rq, &r.rt, r.rho, &pa, &pb) > margin+band {
-		d.stats.Bounded++
-		return true
+	left := r.gap - relMotion(r.mOnB, &r.rq, &r.rt, r.rho, &pa, &pb)
+	if !(left > margin) {
+		return false // the band is not negative
 	}
-	return false
+	// First twice the band with the sum of each position's components'
+	// sizes in place of its length: that sum is at least the length over
+	// sqrt(3), so this is above the band as computed, whatever the
+	// rounding; a gap beyond it is beyond the band, and only one between
+	// the two needs the lengths themselves (two square roots).
+	if left <= margin+2*memBand*(r.rsum+l1(&pa.Position)+l1(&pb.Position)) &&
+		!(left > margin+memBand*(r.rsum+pa.Position.Len()+pb.Position.Len())) {
+		return false
+	}
+	d.stats.Bounded++
+	return true
 }
+
+// l1 is the sum of the sizes of v's components.
+func l1(v *vec3) float64 { return math.Abs(v[0]) + math.Abs(v[1]) + math.Abs(v[2]) }
 
 // measuredApart reports whether the pair's remembered axis h, measured at
 // the current poses, proves shape a at pa and b at pb apart by more than

@@ -63,13 +63,18 @@ type pairHint struct {
 	va, vb int32
 	// ref: the gap the axis last measured and the pose then (apartbound.go).
 	ref apartRef
+	// seq orders the hints kept this step: a hint of last step's list is
+	// kept for the next when seq is past the step's start (pairCache.from).
+	seq uint64
 }
 
-// pairCache holds last step's hints sorted by key and this step's as they
-// are made.
+// pairCache holds last step's hints sorted by key and the new ones this
+// step makes. A hint of last step that serves again stays where it is,
+// marked (keepHint), rather than being copied.
 type pairCache struct {
 	prev, cur []pairHint
-	cursor    int // where the next lookup in prev starts (queries come in key order)
+	cursor    int    // where the next lookup in prev starts (queries come in key order)
+	seq, from uint64 // counts the hints kept; its value when the step began
 	on        bool
 	swapped   bool     // the current query's pair handler sees B before A
 	in, out   pairHint // the current query's hint from last step, and for the next
@@ -115,7 +120,7 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	// and it proves nothing (apartbound.go).
 	if h != nil && h.kind != hintNone && (d.boundedApart(h, a, pa, b, pb, margin) ||
 		finitePose(pa) && finitePose(pb) && d.measuredApart(h, a, pa, b, pb, margin)) {
-		c.cur = append(c.cur, *h)
+		c.keepHint(h)
 		d.stats.Remembered++
 		return dst
 	}
@@ -146,33 +151,86 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 			}
 			o.dir, o.off = faceOf(owner, int(o.i))
 		}
+		c.seq++
+		c.out.seq = c.seq
 		c.cur = append(c.cur, c.out)
 	}
 	return dst
+}
+
+// keepHint keeps last step's hint h, as it is now, for the next step.
+func (c *pairCache) keepHint(h *pairHint) {
+	c.seq++
+	h.seq = c.seq
 }
 
 // NextStep ends a step of CollidePair queries: what they found becomes the
 // memory for the next step, and pairs not queried this step are forgotten.
 func (d *Detector) NextStep() {
 	d.persist.nextStep() // persistent manifolds (persist.go)
-	c := &d.cache
-	if !slices.IsSortedFunc(c.cur, cmpHint) {
-		slices.SortStableFunc(c.cur, cmpHint)
-	}
-	// A key queried twice in one step keeps its last hint.
+	d.cache.nextStep()
+}
+
+// nextStep makes the hints kept and made this step the list the next step
+// looks up, sorted by key; a key queried twice in one step keeps its last
+// hint (the larger seq).
+func (c *pairCache) nextStep() {
 	n := 0
-	for i := range c.cur {
-		if n > 0 && c.cur[n-1].key == c.cur[i].key {
-			c.cur[n-1] = c.cur[i]
+	for i := range c.prev {
+		if c.prev[i].seq > c.from {
+			if n != i { // hints stay put until one is forgotten
+				c.prev[n] = c.prev[i]
+			}
+			n++
+		}
+	}
+	add := c.cur
+	if !slices.IsSortedFunc(add, cmpHint) {
+		slices.SortStableFunc(add, cmpHint)
+	}
+	k := 0
+	for i := range add {
+		if k > 0 && add[k-1].key == add[i].key {
+			add[k-1] = add[i]
 			continue
 		}
-		if n != i {
-			c.cur[n] = c.cur[i]
+		if k != i {
+			add[k] = add[i]
 		}
-		n++
+		k++
 	}
-	c.prev, c.cur = c.cur[:n], c.prev[:0]
+	// Merge from the back, in place; of two hints of one key the later.
+	prev := slices.Grow(c.prev[:n], k)[:n+k]
+	i, j, w := n-1, k-1, n+k-1
+	for ; j >= 0; w-- {
+		switch {
+		case i >= 0 && prev[i].key > add[j].key:
+			prev[w] = prev[i]
+			i--
+		case i >= 0 && prev[i].key == add[j].key:
+			if prev[i].seq > add[j].seq {
+				prev[w] = prev[i]
+			} else {
+				prev[w] = add[j]
+			}
+			i--
+			j--
+		default:
+			prev[w] = add[j]
+			j--
+		}
+	}
+	// The merge fills prev[w+1:], and prev[:i+1] is still in place in
+	// front of it; a key in both lists left a slot free between them.
+	if start := w - i; start > 0 {
+		if i >= 0 {
+			copy(prev[start:], prev[:i+1])
+		}
+		prev = prev[:copy(prev, prev[start:])]
+	}
+	c.prev, c.cur = prev, add[:0]
 	c.cursor = 0
+	c.from = c.seq
 }
 
 func cmpHint(a, b pairHint) int { return cmp.Compare(a.key, b.key) }

@@ -39,8 +39,10 @@ import (
 //   - the margin has grown by more than that: a speculative point could
 //     appear that the old margin excluded;
 //   - the full query is persistAge steps old while the shapes have moved
-//     more than persistStill of the motion limit since, or persistAgeStill
-//     steps old while they have not;
+//     more than persistStill of the motion limit since, or, while they
+//     have not, persistAgeStill steps old, or twice as old as the last
+//     such wait if the full query that ended it found the same features
+//     (up to persistAgeMax);
 //   - a refreshed point is beyond the margin (a fresh query would drop it)
 //     or its two surface points have drifted apart along the surface by more
 //     than the slop (the same point no longer);
@@ -85,19 +87,28 @@ const persistAge = 8
 // query did, unless the tie was closer than that motion, which no age limit
 // rules out either (a later full query at nearly the same pose may decide
 // it either way). So a pair that has stayed that still refreshes up to
-// persistAgeStill steps. Its points meanwhile are as good as a fresh
-// query's: the same features, separations exact for them, positions within
-// the motion, which stays under persistStill of the limit (5 um at the
-// default slop) however long the pair rests; the cap only bounds the
-// history a step's contacts depend on to some hundred steps and lets a
-// slow drift that never adds up to that motion (a creeping part) meet a
-// fresh query now and then. At 32 steps the full queries of a resting pile
-// of a thousand parts, one pair in 32 each step, cost as much as all its
-// refreshes together.
+// persistAgeStill steps at first (longer once full queries confirm it,
+// persistAgeMax). Its points meanwhile are as good as a fresh query's: the
+// same features, separations exact for them, positions within the motion,
+// which stays under persistStill of the limit (5 um at the default slop)
+// however long the pair rests, since the motion is measured from the full
+// query's pose (a creeping part meets the persistAge rule once its drift
+// adds up to that); the cap only bounds the history a step's contacts
+// depend on.
 const (
 	persistStill    = 0.25
 	persistAgeStill = 128
 )
+
+// persistAgeMax is the longest wait of a still pair. The full query that
+// ends a still wait of persistAgeStill or more steps tests whether a tie
+// within the motion since has been decided another way: if it finds the
+// same features (sub-shapes and point ids) as the points it replaces,
+// none was, and the pair, still as before, waits twice as long for the
+// next test; if not, the wait starts again from persistAgeStill. A pair
+// resting for good then runs one full query in some thousand steps, and
+// the history its contacts depend on stays bounded by that.
+const persistAgeMax = 8 * persistAgeStill
 
 // persistEntry is the memory of one pair.
 type persistEntry struct {
@@ -115,7 +126,12 @@ type persistEntry struct {
 	rho    float64    // bound on the distance of M's points from its origin
 	margin float64    // the margin of the full query
 	flat   bool       // the manifold lay flat (see flatPoints)
-	m      keptManifold
+	// wait: the age at which a still pair runs the full query again
+	// (persistAgeMax); aged: this entry's full query is running because
+	// the still pair reached it.
+	wait uint32
+	aged bool
+	m    keptManifold
 }
 
 // keptManifold is a manifold in the shapes' frames.
@@ -226,11 +242,15 @@ func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float64, out *Manifold) bool {
 	tol := persistFraction * p.slop
 	age := p.step - e.full
-	if age >= persistAgeStill || margin > e.margin+tol {
+	if margin > e.margin+tol {
 		return false
 	}
 	motion := e.motion(pa, pb)
 	if !(motion <= tol) || (age >= persistAge && motion > persistStill*tol) {
+		return false
+	}
+	if age >= e.wait {
+		e.aged = true // still, and waited long enough (persistAgeMax)
 		return false
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
@@ -336,8 +356,12 @@ func flatPoints(m *Manifold) bool {
 // (nil if it has none): a result of one manifold is kept, any other forgets
 // the pair.
 func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64, res []Manifold) {
+	wait := uint32(persistAgeStill)
 	if e != nil {
 		e.seen = 0
+		if e.aged && e.a == a && e.b == b && sameFeatures(&e.m, res) {
+			wait = min(2*e.wait, persistAgeMax)
+		}
 	}
 	// A result with points comes from a query that found both poses finite
 	// (Collide tests them first).
@@ -359,7 +383,7 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 		p.add = append(p.add, persistEntry{})
 		e = &p.add[len(p.add)-1]
 	}
-	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin}
+	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin, wait: wait}
 	e.rho = rho
 	e.rq, e.rt = relPose(e.mOnB, &pa, &pb)
 	m := &res[0]
@@ -380,6 +404,24 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	}
 	k.ca = mulT(ra, m.PatchCenter.Sub(pa.Position))
 	k.cb = mulT(rb, m.PatchCenter.Sub(pb.Position))
+}
+
+// sameFeatures reports whether res is one manifold of the sub-shapes and
+// point ids of k, in the same order.
+func sameFeatures(k *keptManifold, res []Manifold) bool {
+	if len(res) != 1 {
+		return false
+	}
+	m := &res[0]
+	if m.Count != k.count || m.SubA != k.subA || m.SubB != k.subB {
+		return false
+	}
+	for i := 0; i < m.Count; i++ {
+		if m.Points[i].ID != k.id[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // persistable reports the shapes of this package whose values == compares
@@ -452,6 +494,6 @@ func (p *persistMem) nextStep() {
 // persistent points answered the query instead.
 func (c *pairCache) carry(key uint64) {
 	if h := c.lookup(key); h != nil && h.kind != hintNone {
-		c.cur = append(c.cur, *h)
+		c.keepHint(h)
 	}
 }

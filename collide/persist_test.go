@@ -241,15 +241,46 @@ func TestPersistentRequeries(t *testing.T) {
 		d := NewDetector()
 		d.SetPersistence(persistSlop)
 		var r []Manifold
-		const n = 3*persistAgeStill + 1
+		// At rest: full queries at steps 0, persistAgeStill, 3
+		// persistAgeStill, 7 persistAgeStill, ... (each finds the same
+		// features, so the wait doubles) up to waits of persistAgeMax.
+		const n = 4*persistAgeMax + 1
+		want, wait := n, persistAgeStill
+		for s := 0; s < n; s += wait {
+			if s > 0 {
+				wait = min(2*wait, persistAgeMax)
+			}
+			want--
+		}
 		for s := 0; s < n; s++ {
 			r = d.CollidePair(r[:0], 1, c.a, c.pa, c.b, c.pb, 1e-3)
 			d.NextStep()
 		}
-		// At rest: full queries at steps 0, persistAgeStill, 2
-		// persistAgeStill, 3 persistAgeStill.
-		if got := d.Stats().Persisted; got != n-4 {
-			t.Errorf("%d of %d queries refreshed, want %d", got, n, n-4)
+		if got := d.Stats().Persisted; got != want {
+			t.Errorf("%d of %d queries refreshed, want %d", got, n, want)
+		}
+	})
+	t.Run("age after a jolt", func(t *testing.T) {
+		d := NewDetector()
+		d.SetPersistence(persistSlop)
+		var r []Manifold
+		// At rest until the wait has doubled (full queries at 0 and
+		// persistAgeStill), then one step moved beyond the motion limit
+		// and back: the two full queries of the jolt start the wait again
+		// from persistAgeStill, so the next falls persistAgeStill after.
+		jolt := moved(vec3{2 * tol, 0, 0}, c.pb.Orientation)
+		const at = persistAgeStill + 10
+		const n = at + 1 + persistAgeStill + 1
+		for s := 0; s < n; s++ {
+			p := c.pb
+			if s == at {
+				p = jolt
+			}
+			r = d.CollidePair(r[:0], 1, c.a, c.pa, c.b, p, 1e-3)
+			d.NextStep()
+		}
+		if got, want := d.Stats().Persisted, n-5; got != want {
+			t.Errorf("%d of %d queries refreshed, want %d", got, n, want)
 		}
 	})
 	t.Run("age while swaying", func(t *testing.T) {

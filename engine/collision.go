@@ -51,6 +51,11 @@ func (w *World) initCollision() {
 		c.det.Reset()
 	}
 	c.det.SetPersistence(w.cfg.Slop) // resting pairs refresh their points (collide/persist.go)
+	// A body at rest moves far less than the slop in a step, so the sweep
+	// reuses its pairs while each body's bounds stay within the slop of
+	// where they were last swept (collide/broad/slack.go); the pairs are
+	// the same as without.
+	c.bp.SetSlack(w.cfg.Slop)
 	s := contact.DefaultSettings()
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations
@@ -186,6 +191,9 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
 	if w.soft.on && w.softPair(a, b, c.manifolds, coef) {
 		return // a compliant pair: springs, not rows (compliant.go)
+	}
+	if len(c.manifolds) == 0 {
+		return // apart, as most pairs of the broad phase are
 	}
 	touch := false
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)

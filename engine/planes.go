@@ -131,7 +131,7 @@ func (w *World) meetPlane(dst [][2]int32, i BodyID, j int) [][2]int32 {
 	if f[0]&g[1] == 0 || g[0]&f[1] == 0 {
 		return dst
 	}
-	if boxReaches(&w.b.bounds[i], pl.nd[j], c.margin[p]) {
+	if boxReaches(&w.b.bounds[i], &pl.nd[j], c.margin[p]) {
 		a, b := int32(p), int32(i)
 		if a > b {
 			a, b = b, a
@@ -166,8 +166,8 @@ func (w *World) planeInWorld(p BodyID) planeWorld {
 
 // boxReaches reports whether the lowest point of box along the plane's
 // normal lies within margin (plus rounding) of the plane or below it.
-func boxReaches(box *shapes.AABB, pw planeWorld, margin float64) bool {
-	n := pw.n
+func boxReaches(box *shapes.AABB, pw *planeWorld, margin float64) bool {
+	n := &pw.n
 	low := 0.0
 	for k := 0; k < 3; k++ {
 		if n[k] >= 0 {

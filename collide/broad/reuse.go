@@ -12,5 +12,8 @@ func (s *SAP) Reset() {
 	n.p, n.pend, n.fresh = scratch.Reuse(s.p), scratch.Reuse(s.pend), scratch.Reuse(s.fresh)
 	n.still.p, n.still.big = scratch.Reuse(s.still.p), scratch.Reuse(s.still.big)
 	n.tmp, n.count = scratch.Reuse(s.tmp), scratch.Reuse(s.count)
+	ss := &s.slack
+	n.slack.fat, n.slack.moved = scratch.Reuse(ss.fat), scratch.Reuse(ss.moved)
+	n.slack.kept, n.slack.add, n.slack.next = scratch.Reuse(ss.kept), scratch.Reuse(ss.add), scratch.Reuse(ss.next)
 	*s = n
 }

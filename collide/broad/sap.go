@@ -66,6 +66,7 @@ const (
 	fListed                    // has a proxy in SAP.p
 	fPending                   // id is in SAP.pend, waiting to be listed
 	fStill                     // its proxy is in SAP.still (static or asleep), not SAP.p
+	fMoved                     // its enlarged box was renewed since the last Pairs (slack.go)
 )
 
 type slot struct {
@@ -97,7 +98,8 @@ type SAP struct {
 	fresh []proxy // scratch: proxies of pend and of bodies that woke
 	purge bool    // some listed body was removed
 
-	still stillSet // listed static and sleeping bodies (still.go)
+	still stillSet   // listed static and sleeping bodies (still.go)
+	slack slackState // enlarged boxes and their kept pairs (slack.go)
 
 	axes [3]int // axes[0] is the sweep axis; axes[1] is tested before axes[2]
 
@@ -146,6 +148,7 @@ func (s *SAP) Insert(id int32, box shapes.AABB, kind Kind) error {
 		return fmt.Errorf("broad: insert body %d: %w; remove it first or use Move", id, ErrDuplicate)
 	}
 	sl.box = box
+	s.setFat(id, box, true)
 	sl.cat, sl.mask = AllBits, AllBits
 	sl.flags = sl.flags&(fListed|fPending|fStill) | fLive
 	if kind == Static {
@@ -175,6 +178,7 @@ func (s *SAP) Move(id int32, box shapes.AABB) error {
 		return fmt.Errorf("broad: move body %d: %w", id, err)
 	}
 	sl.box = box
+	s.setFat(id, box, false)
 	if sl.flags&fStill != 0 {
 		s.still.dirty = true
 	}
@@ -191,6 +195,7 @@ func (s *SAP) Remove(id int32) error {
 	if sl.flags&fListed != 0 {
 		s.purge = true
 	}
+	s.forget()
 	s.live--
 	return nil
 }
@@ -212,6 +217,9 @@ func (s *SAP) SetAsleep(id int32, asleep bool) error {
 	if sl.flags != was && sl.flags&fListed != 0 {
 		s.still.reclass = true // its proxy changes lists (still.go)
 	}
+	if sl.flags != was {
+		s.forget()
+	}
 	return nil
 }
 
@@ -222,6 +230,9 @@ func (s *SAP) SetFilter(id int32, category, mask uint32) error {
 	sl, err := s.get(id, "set filter")
 	if err != nil {
 		return err
+	}
+	if sl.cat != category || sl.mask != mask {
+		s.forget()
 	}
 	sl.cat, sl.mask = category, mask
 	return nil
@@ -259,6 +270,9 @@ func checkBox(b shapes.AABB) error {
 // incremental re-sort of the previous order plus a sweep; with dst and the
 // internal buffers grown, it allocates nothing.
 func (s *SAP) Pairs(dst [][2]int32) [][2]int32 {
+	if s.reusable() {
+		return s.reusePairs(dst) // (slack.go)
+	}
 	if s.purge {
 		s.compact()
 	}
@@ -320,7 +334,7 @@ func (s *SAP) Pairs(dst [][2]int32) [][2]int32 {
 	dst = s.sweep(dst)
 	dst = s.sweepStill(dst) // (still.go)
 	s.sortPairs(dst[start:])
-	return dst
+	return s.keepPairs(dst, start) // (slack.go)
 }
 
 // compact drops the proxies of removed bodies.
@@ -361,7 +375,7 @@ func (s *SAP) gather(ps []proxy, st *spreadSums) {
 	ref := s.ref
 	for k := range ps {
 		q := &ps[k]
-		b := &s.slots[q.id].box
+		b := &s.slack.fat[q.id] // the box itself without slack (slack.go)
 		q.lo, q.hi = b.Min[a0], b.Max[a0]
 		q.lo1, q.hi1 = b.Min[a1], b.Max[a1]
 		q.lo2, q.hi2 = b.Min[a2], b.Max[a2]
