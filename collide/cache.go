@@ -128,7 +128,9 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	}
 	c.out = pairHint{key: key}
 	c.on, c.swapped = true, false
+	d.warm.begin(key, a, b)
 	dst = d.Collide(dst, a, pa, b, pb, margin)
+	d.warm.end()
 	c.on = false
 	if o := &c.out; o.kind != hintNone {
 		o.swap = c.swapped
@@ -155,6 +157,7 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 // memory for the next step, and pairs not queried this step are forgotten.
 func (d *Detector) NextStep() {
 	d.persist.nextStep() // persistent manifolds (persist.go)
+	d.warm.nextStep()    // GJK simplices (gjkwarm.go)
 	c := &d.cache
 	if !slices.IsSortedFunc(c.cur, cmpHint) {
 		slices.SortStableFunc(c.cur, cmpHint)
