@@ -82,21 +82,21 @@ func (w *warmMem) begin(key uint64, a, b shapes.Shape) {
 	w.on, w.taken = true, false
 	w.key, w.a, w.b = key, a, b
 	w.at = w.lookup(key)
-	w.s = warmSimplex{}
-	if w.at >= 0 && w.mem[w.at].a == a && w.mem[w.at].b == b {
-		w.s = w.mem[w.at].s
-	}
 }
 
 // take hands the current query's simplex to the first GJK query of views
-// a and b that can use it, or returns nil.
+// a and b that can use it, or returns nil. The simplex is last step's if
+// the pair was queried with the same shapes, in the same handler order.
 func (w *warmMem) take(a, b *view) *warmSimplex {
 	if !w.on || w.off || w.taken || !warmable(a) || !warmable(b) {
 		return nil
 	}
 	w.taken = true
-	if w.s.ka != a.kind || w.s.kb != b.kind {
-		w.s = warmSimplex{} // another handler order: start cold
+	w.s = warmSimplex{}
+	if w.at >= 0 {
+		if e := &w.mem[w.at]; e.a == w.a && e.b == w.b && e.s.ka == a.kind && e.s.kb == b.kind {
+			w.s = e.s
+		}
 	}
 	return &w.s
 }
