@@ -99,7 +99,9 @@ func (c *pairCache) lookup(key uint64) *pairHint {
 
 // collideHinted is CollidePair's query (persist.go) for a pair with no
 // persistent points: it returns the same manifolds as Collide, and uses
-// the axis that separated the pair last step to prove it apart sooner.
+// the axis that separated the pair last step to prove it apart sooner
+// (and, on the general path, GJK starts from the pair's last simplex:
+// the same manifolds to GJK's and EPA's tolerances, gjkwarm.go).
 func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
 	c := &d.cache
 	if !plainConvex(a) || !plainConvex(b) {
