@@ -104,7 +104,9 @@ func (c *pairCache) lookup(key uint64) *pairHint {
 
 // collideHinted is CollidePair's query (persist.go) for a pair with no
 // persistent points: it returns the same manifolds as Collide, and uses
-// the axis that separated the pair last step to prove it apart sooner.
+// the axis that separated the pair last step to prove it apart sooner
+// (and, on the general path, GJK starts from the pair's last simplex:
+// the same manifolds to GJK's and EPA's tolerances, gjkwarm.go).
 func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
 	c := &d.cache
 	if !plainConvex(a) || !plainConvex(b) {
@@ -133,7 +135,9 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	}
 	c.out = pairHint{key: key}
 	c.on, c.swapped = true, false
+	d.warm.begin(key, a, b)
 	dst = d.Collide(dst, a, pa, b, pb, margin)
+	d.warm.end()
 	c.on = false
 	if o := &c.out; o.kind != hintNone {
 		o.swap = c.swapped
@@ -168,6 +172,7 @@ func (c *pairCache) keepHint(h *pairHint) {
 // memory for the next step, and pairs not queried this step are forgotten.
 func (d *Detector) NextStep() {
 	d.persist.nextStep() // persistent manifolds (persist.go)
+	d.warm.nextStep()    // GJK simplices (gjkwarm.go)
 	d.cache.nextStep()
 }
 

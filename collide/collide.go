@@ -118,6 +118,7 @@ type Detector struct {
 	allAxes bool
 
 	persist persistMem // persistent manifolds (persist.go)
+	warm    warmMem    // pairs' last GJK simplices (gjkwarm.go)
 }
 
 // NewDetector returns a Detector with its buffers sized for common shapes.

@@ -42,7 +42,8 @@ func (d *Detector) distance(a, b *view, margin float64) (nearest, bool) {
 	// than coreTouch, below which cores count as overlapping).
 	scale := a.size + b.size
 	stop := math.Max(margin+a.rad+b.rad, coreTouch*scale)
-	g := d.gjkRefined(a, b, false, stop, refinable(a, b)) // (cylrefine.go)
+	// From the pair's last simplex when CollidePair has one (gjkwarm.go).
+	g := d.gjkFrom(a, b, false, stop, refinable(a, b), d.warm.take(a, b)) // (cylrefine.go)
 	if g.apart {
 		r.sep = g.dist - a.rad - b.rad
 		r.n = g.v.Mul(-1 / math.Sqrt(g.v.Dot(g.v)))

@@ -37,11 +37,12 @@ const (
 // simplex holds up to four support points of D with the points of A and B
 // that made them, and the barycentric coordinates of the closest point.
 type simplex struct {
-	n   int
-	w   [4]vec3
-	a   [4]vec3
-	b   [4]vec3
-	lam [4]float64
+	n      int
+	w      [4]vec3
+	a      [4]vec3
+	b      [4]vec3
+	la, lb [4]vec3 // a and b in their shapes' own frames (gjkwarm.go)
+	lam    [4]float64
 }
 
 // gjkResult is the outcome of one GJK query on the cores of two views.
@@ -190,6 +191,7 @@ func (s *simplex) reduceInto(out *simplex) vec3 {
 	switch s.n {
 	case 1:
 		out.n, out.w[0], out.a[0], out.b[0], out.lam[0] = 1, s.w[0], s.a[0], s.b[0], 1
+		out.la[0], out.lb[0] = s.la[0], s.lb[0]
 		return s.w[0]
 	case 2:
 		mask = sd1(&s.w, 0, 1, &lam)
@@ -205,6 +207,7 @@ func (s *simplex) reduceInto(out *simplex) vec3 {
 			continue
 		}
 		out.w[n], out.a[n], out.b[n], out.lam[n] = s.w[i], s.a[i], s.b[i], lam[i]
+		out.la[n], out.lb[n] = s.la[i], s.lb[i]
 		v = v.Add(out.w[n].Mul(lam[i]))
 		n++
 	}
@@ -243,28 +246,54 @@ func (d *Detector) gjkUntil(a, b *view, full bool, stop float64) gjkResult {
 // cylRefine once its bounds are within cylLooseTol, and returns what that
 // finds if it passes the stopping test (cylrefine.go).
 func (d *Detector) gjkRefined(a, b *view, full bool, stop float64, refine bool) gjkResult {
+	return d.gjkFrom(a, b, full, stop, refine, nil)
+}
+
+// gjkFrom is gjkRefined started from the simplex warm holds, when it is
+// not nil and holds one (gjkwarm.go), and leaves in warm the simplex this
+// query ends with. The full shapes (full set) never start warm.
+func (d *Detector) gjkFrom(a, b *view, full bool, stop float64, refine bool, warm *warmSimplex) gjkResult {
 	d.stats.GJKCalls++
-	sup := func(v *view, dir vec3) vec3 {
-		if full {
-			return v.supportFull(dir)
-		}
-		return v.support(dir)
-	}
+	var ia, ib int32 // where hull support climbs start
+	sup := func(v *view, dir vec3, start *int32) (vec3, vec3) { return v.gjkSupport(dir, full, start) }
 	s, next := &d.smp, &d.smp2
-	dir := b.center().Sub(a.center())
-	if dir.Dot(dir) == 0 {
-		dir = vec3{1, 0, 0}
-	}
-	s.n = 1
-	s.a[0] = sup(a, dir)
-	s.b[0] = sup(b, dir.Mul(-1))
-	s.w[0] = s.a[0].Sub(s.b[0])
-	s.lam[0] = 1
-	v := s.w[0]
-	vv := v.Dot(v)
 	var res gjkResult
-	maxww := vv
-	for it := 0; ; it++ {
+	var v vec3
+	var vv, maxww float64
+	if full {
+		warm = nil // its points are not the shapes' own
+	}
+	if warm != nil && warm.n > 0 {
+		ia, ib = warm.ia, warm.ib
+		v, vv, maxww = d.gjkWarm(a, b, warm) // into d.smp
+		if d.smp.n == 4 || vv <= gjkTouchTol*gjkTouchTol*maxww {
+			res.overlap = true
+		} else if refine {
+			// The polytope's feature is most often last step's: its
+			// nearest points to the cylinder pass GJK's own stopping test
+			// at once, where GJK would close in on the curved rim for a
+			// few iterations before trying them (cylrefine.go).
+			if r, ok := d.cylRefine(a, b, s); ok {
+				r.refined = true
+				warm.keep(a, b, s, ia, ib)
+				return r
+			}
+		}
+	} else {
+		dir := b.center().Sub(a.center())
+		if dir.Dot(dir) == 0 {
+			dir = vec3{1, 0, 0}
+		}
+		s.n = 1
+		s.a[0], s.la[0] = sup(a, dir, &ia)
+		s.b[0], s.lb[0] = sup(b, dir.Mul(-1), &ib)
+		s.w[0] = s.a[0].Sub(s.b[0])
+		s.lam[0] = 1
+		v = s.w[0]
+		vv = v.Dot(v)
+		maxww = vv
+	}
+	for it := 0; !res.overlap; it++ {
 		if it == gjkMaxIter {
 			res.capped = true
 			d.stats.GJKCapped++
@@ -275,19 +304,21 @@ func (d *Detector) gjkRefined(a, b *view, full bool, stop float64, refine bool) 
 			res.overlap = true
 			break
 		}
-		pa := sup(a, v.Mul(-1))
-		pb := sup(b, v)
+		pa, la := sup(a, v.Mul(-1), &ia)
+		pb, lb := sup(b, v, &ib)
 		w := pa.Sub(pb)
 		vw := v.Dot(w)
 		// Apart beyond the stop: the lower bound v.w/|v| exceeds it.
 		if lim := stop * (1 + gjkStopBand); vw > 0 && vw*vw > lim*lim*vv {
 			res.apart, res.dist, res.v = true, vw/math.Sqrt(vv), v
+			warm.keep(a, b, s, ia, ib)
 			return res
 		}
 		if refine && vv-vw <= cylLooseTol*vv {
 			refine = false // once
 			if r, ok := d.cylRefine(a, b, s); ok {
 				r.iters, r.refined = it+1, true
+				warm.keep(a, b, s, ia, ib)
 				return r
 			}
 		}
@@ -308,6 +339,7 @@ func (d *Detector) gjkRefined(a, b *view, full bool, stop float64, refine bool) 
 		// The reduced simplex goes to the other buffer, so that s stays
 		// as it was should the step make no progress.
 		s.w[s.n], s.a[s.n], s.b[s.n] = w, pa, pb
+		s.la[s.n], s.lb[s.n] = la, lb
 		s.n++
 		maxww = math.Max(maxww, w.Dot(w))
 		nv := s.reduceInto(next)
@@ -336,6 +368,7 @@ func (d *Detector) gjkRefined(a, b *view, full bool, stop float64, refine bool) 
 		d.smp = *s // EPA starts from d.smp
 		s = &d.smp
 	}
+	warm.keep(a, b, s, ia, ib)
 	res.v = v
 	res.pa, res.pb = s.points()
 	if res.overlap {

@@ -36,6 +36,7 @@ func (d *Detector) Reset() {
 		cache:     pairCache{prev: scratch.Reuse(old.cache.prev), cur: scratch.Reuse(old.cache.cur)},
 		faceCos:   scratch.Reuse(old.faceCos),
 		persist:   persistMem{mem: scratch.Reuse(old.persist.mem), add: scratch.Reuse(old.persist.add)},
+		warm:      warmMem{mem: scratch.Reuse(old.warm.mem), add: scratch.Reuse(old.warm.add)},
 	}
 }
 
