@@ -34,11 +34,7 @@ const (
 // part resting on a floor or in a stack, whose other points may carry
 // nothing) takes a stop's push as a support does, and is left out.
 func (s *Solver) markChains(dt float64) {
-	n := len(s.sl.gid)
-	if cap(s.chain) < n {
-		s.chain = make([]int32, n)
-	}
-	s.chain = s.chain[:n]
+	s.chain = grow(s.chain, len(s.sl.gid))
 	for k := range s.chain {
 		s.chain[k] = noChain
 	}
