@@ -293,7 +293,8 @@ func (w *World) solve(dt float64) error {
 			} else {
 				sb.InvInertia = w.invInertiaWorld(BodyID(i))
 			}
-			sb.DV = gdt // this step's gravity, already in V (World.step)
+			sb.DV = gdt             // this step's gravity, already in V (World.step)
+			sb.Size = w.b.radius[i] // bounds the sweeps' stopping error (contact/turn.go)
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (jointrows.go)
