@@ -30,6 +30,7 @@ type slots struct {
 	ps    []sbody   // Vp, Wp: the position pass's pseudo-velocities
 	fv    []sbody   // DV, DW: this step's force velocities
 	im    []float64 // InvMass
+	cap   []float64 // turnCap of Size: the rows' bound on stopping errors (turn.go)
 }
 
 // slotOf gives body i a slot if it has none.
@@ -72,13 +73,14 @@ func (s *slots) gather(bodies []Body, points []Point, rows []Row) {
 		s.slotOf(bodies, rows[j].B)
 	}
 	n := len(s.gid)
-	s.vel, s.ps, s.fv, s.im = grow(s.vel, n), grow(s.ps, n), grow(s.fv, n), grow(s.im, n)
-	s.vel[fixedSlot], s.fv[fixedSlot], s.im[fixedSlot] = sbody{}, sbody{}, 0
+	s.vel, s.ps, s.fv, s.im, s.cap = grow(s.vel, n), grow(s.ps, n), grow(s.fv, n), grow(s.im, n), grow(s.cap, n)
+	s.vel[fixedSlot], s.fv[fixedSlot], s.im[fixedSlot], s.cap[fixedSlot] = sbody{}, sbody{}, 0, turnCap(0)
 	for k := 1; k < n; k++ {
 		b := &bodies[s.gid[k]]
 		s.vel[k] = sbody{b.V, b.W}
 		s.fv[k] = sbody{b.DV, b.DW}
 		s.im[k] = b.InvMass
+		s.cap[k] = turnCap(b.Size)
 	}
 }
 

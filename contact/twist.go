@@ -326,9 +326,13 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	conv, tol := s.Settings.Convergence, s.Settings.Tolerance
 	// An excess counts only against Tolerance, and it is at most the
 	// velocity change d: a row that changed by no more than Tolerance (most
-	// of them once the sweeps near convergence) needs no scale.
-	note := func(d, scale float64, root int32) {
+	// of them once the sweeps near convergence) needs no scale. A row may
+	// keep no more than its bodies' turn cap either (turn.go).
+	note := func(d, scale, cap float64, root int32) {
 		ex := d - conv*scale
+		if over := d - cap + tol; over > ex {
+			ex = over
+		}
 		excess = max(excess, ex)
 		if block {
 			s.blk.excess[root] = max(s.blk.excess[root], ex)
@@ -362,8 +366,8 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 				lv.note(lr.a, lr.b, d, lv.tick(i))
 			}
 			res = max(res, d)
-			if !(d <= tol) {
-				note(d, s.pointScale(i), s.pointRootOf(i, block))
+			if c := s.sl.rowCap(rn.a, rn.b); !(d <= tol && d <= c) {
+				note(d, s.pointScale(i), c, s.pointRootOf(i, block))
 			}
 		}
 		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
@@ -377,8 +381,8 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 				lv.note(lr.a, lr.b, d, lv.tick(np+int(k)))
 			}
 			res = max(res, d)
-			if !(d <= tol) {
-				note(d, pa.scale(), s.pointRootOf(int(pa.lo), block))
+			if c := s.sl.rowCap(pa.rows[0].a, pa.rows[0].b); !(d <= tol && d <= c) {
+				note(d, pa.scale(), c, s.pointRootOf(int(pa.lo), block))
 			}
 		}
 	}

@@ -26,6 +26,11 @@ type Body struct {
 	// gravity alone presses is never taken for an impact. Zero means that V
 	// and W hold no such part. Solve does not change them.
 	DV, DW shapes.Vec3
+
+	// Size (m) is the body's radius about its centre of mass, or 0 if not
+	// given; it bounds the velocity error that the sweeps may leave at its
+	// contacts (turn.go).
+	Size float64
 }
 
 // Point is one contact point between bodies A and B, filled by the engine

@@ -302,9 +302,10 @@ func (w *World) solve(dt float64) error {
 			} else {
 				sb.InvInertia = w.invInertiaWorld(BodyID(i))
 			}
-			sb.DV = gdt // this step's gravity, already in V (World.step)
+			sb.DV = gdt             // this step's gravity, already in V (World.step)
+			sb.Size = w.b.radius[i] // bounds the sweeps' stopping error (contact/turn.go)
 		} else {
-			sb.InvMass, sb.InvInertia, sb.DV = 0, shapes.Mat3{}, shapes.Vec3{}
+			sb.InvMass, sb.InvInertia, sb.DV, sb.Size = 0, shapes.Mat3{}, shapes.Vec3{}, 0
 		}
 	}
 	c.rows = w.jointRows(dt, c.rows[:0]) // joint rows (jointrows.go)
