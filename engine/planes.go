@@ -4,6 +4,7 @@ import (
 	"math"
 	"slices"
 
+	"clatter/collide/broad"
 	"clatter/shapes"
 )
 
@@ -73,7 +74,7 @@ func (w *World) broadPairs(dst [][2]int32) [][2]int32 {
 		pl.sap = c.bp.Pairs(pl.sap)
 	}
 	pl.found = w.planePairs(pl.found[:0])
-	return mergePairs(dst[:0], pl.sap, pl.found)
+	return broad.MergePairs(dst[:0], pl.sap, pl.found)
 }
 
 // planePairs appends the pairs of a plane and a dynamic body whose bounds
@@ -186,20 +187,4 @@ func cmpPair(a, b [2]int32) int {
 		return int(a[0]) - int(b[0])
 	}
 	return int(a[1]) - int(b[1])
-}
-
-// mergePairs appends to dst the union of two sorted lists of distinct pairs, sorted.
-func mergePairs(dst, x, y [][2]int32) [][2]int32 {
-	i, j := 0, 0
-	for i < len(x) && j < len(y) {
-		if cmpPair(x[i], y[j]) <= 0 {
-			dst = append(dst, x[i])
-			i++
-		} else {
-			dst = append(dst, y[j])
-			j++
-		}
-	}
-	dst = append(dst, x[i:]...)
-	return append(dst, y[j:]...)
 }

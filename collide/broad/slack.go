@@ -120,7 +120,7 @@ func (s *SAP) reusePairs(dst [][2]int32) [][2]int32 {
 				w++
 			}
 		}
-		ss.next = mergeSorted(ss.next[:0], ss.kept[:w], ss.add)
+		ss.next = MergePairs(ss.next[:0], ss.kept[:w], ss.add)
 		ss.kept, ss.next = ss.next, ss.kept
 		s.clearMoved()
 	}
@@ -184,8 +184,9 @@ func (s *SAP) tight(dst, ps [][2]int32) [][2]int32 {
 	return dst
 }
 
-// mergeSorted appends to dst the union of the sorted, disjoint x and y, sorted.
-func mergeSorted(dst, x, y [][2]int32) [][2]int32 {
+// MergePairs appends to dst the union of x and y, two lists of distinct
+// pairs sorted by (first, second) with none in both, sorted the same way.
+func MergePairs(dst, x, y [][2]int32) [][2]int32 {
 	i, j := 0, 0
 	for i < len(x) && j < len(y) {
 		if cmpPair(x[i], y[j]) <= 0 {
