@@ -147,34 +147,11 @@ func (w *warmMem) nextStep() {
 			n++
 		}
 	}
-	// A key first queried twice in one step keeps its last entry.
-	add := w.add
-	slices.SortStableFunc(add, func(x, y warmEntry) int { return cmp.Compare(x.key, y.key) })
-	k := 0
-	for i := range add {
-		if k > 0 && add[k-1].key == add[i].key {
-			add[k-1] = add[i]
-			continue
-		}
-		add[k] = add[i]
-		k++
+	mem := mergeKeyed(w.mem, n, w.add, func(e *warmEntry) uint64 { return e.key }) // keymerge.go
+	if old := len(w.mem); len(mem) < old {
+		clear(w.mem[len(mem):old]) // the shapes of forgotten entries
 	}
-	// Merge from the back, in place.
-	mem := slices.Grow(w.mem[:n], k)[:n+k]
-	i, j := n-1, k-1
-	for o := n + k - 1; j >= 0; o-- {
-		if i >= 0 && mem[i].key > add[j].key {
-			mem[o] = mem[i]
-			i--
-		} else {
-			mem[o] = add[j]
-			j--
-		}
-	}
-	if old := len(w.mem); n+k < old {
-		clear(w.mem[n+k : old]) // the shapes of forgotten entries
-	}
-	w.mem, w.add = mem, add[:0]
+	w.mem, w.add = mem, w.add[:0]
 	w.cursor = 0
 	w.step++
 }

@@ -459,31 +459,8 @@ func (p *persistMem) nextStep() {
 			n++
 		}
 	}
-	// A key first queried twice in one step keeps its last entry.
-	add := p.add
-	slices.SortStableFunc(add, func(x, y persistEntry) int { return cmp.Compare(x.key, y.key) })
-	k := 0
-	for i := range add {
-		if k > 0 && add[k-1].key == add[i].key {
-			add[k-1] = add[i]
-			continue
-		}
-		add[k] = add[i]
-		k++
-	}
-	// Merge from the back, in place.
-	mem := slices.Grow(p.mem[:n], k)[:n+k]
-	i, j := n-1, k-1
-	for w := n + k - 1; j >= 0; w-- {
-		if i >= 0 && mem[i].key > add[j].key {
-			mem[w] = mem[i]
-			i--
-		} else {
-			mem[w] = add[j]
-			j--
-		}
-	}
-	p.mem, p.add = mem, add[:0]
+	mem := mergeKeyed(p.mem, n, p.add, func(e *persistEntry) uint64 { return e.key }) // keymerge.go
+	p.mem, p.add = mem, p.add[:0]
 	p.cursor = 0
 	if p.step++; p.step == 0 { // wrapped: 0 marks forgotten entries
 		p.step = 1
