@@ -260,21 +260,21 @@ func TestPersistentRequeries(t *testing.T) {
 			t.Errorf("%d of %d queries refreshed, want %d", got, n, want)
 		}
 	})
-	t.Run("age after a jolt", func(t *testing.T) {
+	t.Run("age after a knock", func(t *testing.T) {
 		d := NewDetector()
 		d.SetPersistence(persistSlop)
 		var r []Manifold
 		// At rest until the wait has doubled (full queries at 0 and
 		// persistAgeStill), then one step moved beyond the motion limit
-		// and back: the two full queries of the jolt start the wait again
+		// and back: the two full queries of the knock start the wait again
 		// from persistAgeStill, so the next falls persistAgeStill after.
-		jolt := moved(vec3{2 * tol, 0, 0}, c.pb.Orientation)
+		knock := moved(vec3{2 * tol, 0, 0}, c.pb.Orientation)
 		const at = persistAgeStill + 10
 		const n = at + 1 + persistAgeStill + 1
 		for s := 0; s < n; s++ {
 			p := c.pb
 			if s == at {
-				p = jolt
+				p = knock
 			}
 			r = d.CollidePair(r[:0], 1, c.a, c.pa, c.b, p, 1e-3)
 			d.NextStep()
