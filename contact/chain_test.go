@@ -6,6 +6,10 @@ import (
 	"testing"
 )
 
+// tolThreshold: a bounce threshold is a sum or a quotient of a few values
+// of order 0.01 to 1, so it matches its closed form to an ulp or two.
+const tolThreshold = 1e-15
+
 // TestChainImpactWithinStep: a striker that closes a gap within the step
 // onto the first of a row of touching balls. Its impact must travel along
 // the row pair by pair in this step, e = 1 leaving the striker at rest and
@@ -48,7 +52,7 @@ func TestTurningPointThreshold(t *testing.T) {
 	b := sphereBody(1, r, vec{0, 0, r})
 	b.W = vec{0, omega, 0}
 	arm, n := vec{0, 0, -r}, vec{0, 0, 1}
-	if got, want := turnAcceleration(&b, &arm, &n), omega*omega*r; math.Abs(got-want) > 1e-12 {
+	if got, want := turnAcceleration(&b, &arm, &n), omega*omega*r; math.Abs(got-want) > tolExact {
 		t.Errorf("normal centripetal acceleration %g, want %g", got, want)
 	}
 	s := NewSolver(Settings{BounceThreshold: base, BounceSteps: steps})
@@ -57,7 +61,7 @@ func TestTurningPointThreshold(t *testing.T) {
 		t.Errorf("new point: threshold %g, want the plain %g", got, base)
 	}
 	ps.found = true
-	if got, want := s.bounceThreshold(&ps, dt), base+steps*dt*omega*omega*r; math.Abs(got-want) > 1e-15 {
+	if got, want := s.bounceThreshold(&ps, dt), base+steps*dt*omega*omega*r; math.Abs(got-want) > tolThreshold {
 		t.Errorf("persisting point: threshold %g, want %g", got, want)
 	}
 }
@@ -77,7 +81,7 @@ func TestInelasticThreshold(t *testing.T) {
 		{0.999999, rebound / 0.999999},
 	} {
 		ps := pstate{e: c.e}
-		if got := s.bounceThreshold(&ps, 1e-3); math.Abs(got-c.want) > 1e-15 {
+		if got := s.bounceThreshold(&ps, 1e-3); math.Abs(got-c.want) > tolThreshold {
 			t.Errorf("e = %g: threshold %g, want %g", c.e, got, c.want)
 		}
 	}
