@@ -505,7 +505,7 @@ func (s *Solver) warmStart(dt float64, points []Point, rows []Row) {
 // velocity, measured after the warm start, exceeds SlipSpeed. Otherwise a
 // new point sticks (static coefficient), and a persisting one keeps its
 // state until the evidence turns: a sliding point keeps sliding while its
-// steps end with friction at the cone's limit and slip above CreepSpeed (so
+// steps end with friction at the cone's limit and slip above its creep limit (so
 // kinetic friction has not stopped it); a sticking point breaks loose after
 // two such steps in a row. One step would do for a converged solve, but an
 // unconverged step (a new contact, a stack) can end at the limit with a
@@ -802,7 +802,7 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		// At the cone's limit and still slipping: count the steps in a row.
 		ps := &s.pts[i]
 		slips := uint8(0)
-		if ps.sat && hypotAbove(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target, s.Settings.CreepSpeed) {
+		if ps.sat && hypotAbove(r1.cdot(vel)-r1.target, r2.cdot(vel)-r2.target, s.pointCreep(i)) {
 			slips = min(ps.prevSlips, 254) + 1
 		}
 		pending := ps.deferred

@@ -555,7 +555,7 @@ func (s *Solver) storePatches(points []Point) {
 		tw := r[2].lambda * pa.r
 		fi := r[0].d.Mul(pa.impSum[0]).Add(r[1].d.Mul(pa.impSum[1]))
 		slips := uint8(0)
-		if pa.sat && patchSlip(s.sl.vel, pa) > s.Settings.CreepSpeed {
+		if pa.sat && patchSlip(s.sl.vel, pa) > s.patchCreep(pa) {
 			slips = min(pa.prevSlip, 254) + 1
 		}
 		nSum, iSum := s.normalSum(pa), 0.0
