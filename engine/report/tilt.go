@@ -10,7 +10,7 @@ import (
 
 // Thresholds of the tips and slides events: a body has tipped once it has
 // turned this far relative to the body it stands on, and slid once the
-// point of it that stood on its support has moved this far along it.
+// point of it that stood on its support has slipped this far over it.
 const (
 	TipAngle      = 2 * math.Pi / 180 // rad
 	SlideDistance = 1e-3              // m
@@ -20,9 +20,12 @@ const (
 // so that a rock or a creep does not count, but by then the support has
 // turned on (near the critical tilt a body starts to tip or slide slowly:
 // at 2 deg/s, about 1 degree more before it has turned 2 degrees). The
-// tilt they report is the support's tilt at the onset: the last step at
-// which the body was still within these bounds of where it stood, far
-// above the solver's rounding and creep and far below the events'.
+// tilt they report is the support's tilt at the onset. A tip's onset is
+// dated back from the times the turn passed onsetAngle and two and four
+// times that (tiltonset.go); a slide's is the last step at which the
+// body's foot had slipped less than onsetDistance (tiltslip.go). Both
+// bounds lie far above the solver's rounding and creep and far below the
+// events'.
 const (
 	onsetAngle    = 1e-3 // rad
 	onsetDistance = 5e-5 // m
@@ -57,6 +60,16 @@ type tiltState struct {
 	// calmTurn and calmMove are the support's orientation at the last
 	// step the body was within onsetAngle and onsetDistance of its start.
 	calmTurn, calmMove shapes.Quat
+	// slip is how far the foot has slipped over the support, in the
+	// support's frame (tiltslip.go); was the two bodies' poses at the
+	// start of the last step.
+	slip shapes.Vec3
+	was  [2]shapes.Pose
+	then float64 // the time of was
+	// tipAt dates the start of a tip from the times the turn passed
+	// onsetAngle, twice and four times that (tiltonset.go).
+	tipAt tipClock
+	since float64 // when its support was found
 }
 
 // TiltTracker makes the tips and slides events.
@@ -107,24 +120,33 @@ func (t *TiltTracker) After(w *engine.World, partners func(engine.BodyID) []engi
 			}
 			continue
 		}
-		if b.tipped != nil && b.slid != nil || t.still(w, b) {
+		if b.tipped != nil && b.slid != nil {
+			continue
+		}
+		if t.still(w, b) {
+			b.hold(w)
 			continue
 		}
 		sq := w.Orientation(b.on)
-		rel := supportPose(w, b.on).Inverse().Mul(bodyPose(w, b.id))
 		if b.tipped == nil {
+			tilt := t.tilt(b.on, sq)
+			rel := supportPose(w, b.on).Inverse().Mul(bodyPose(w, b.id))
 			turn := rotationAngle(rel.Orientation.Mul(b.rel0.Orientation.Conjugate()))
+			b.tipAt.tick(now, turn, tilt)
 			switch {
 			case turn < onsetAngle:
 				b.calmTurn = sq
 			case turn >= TipAngle:
-				b.tipped = &TiltMark{Time: now, Tilt: t.tilt(b.on, b.calmTurn)}
+				onset, ok := b.tipAt.onset(b.since)
+				if !ok {
+					onset = t.tilt(b.on, b.calmTurn)
+				}
+				b.tipped = &TiltMark{Time: now, Tilt: onset}
 				emit(tiltEvent{kind: "tips", id: b.id, on: b.on, time: now, tiltDeg: b.tipped.Tilt})
 			}
 		}
 		if b.slid == nil {
-			move := rel.Apply(b.foot).Sub(b.rel0.Apply(b.foot))
-			along := move.Sub(b.up.Mul(move.Dot(b.up))).Len()
+			along := b.slipped(w, now-b.then).Len()
 			switch {
 			case along < onsetDistance:
 				b.calmMove = sq
@@ -185,6 +207,9 @@ func (t *TiltTracker) findSupport(w *engine.World, b *tiltState, touching []engi
 	depth, _ := pack.Lowest(w.Shape(b.id), com, q, normal)
 	b.foot = axis.Mul(depth)
 	b.up = sp.RotateInv(normal)
+	b.hold(w)
+	b.since = w.Time()
+	b.tipAt = tipClock{base: onsetAngle, t: b.since, deg: t.tilt(best, w.Orientation(best))}
 }
 
 func bodyPose(w *engine.World, id engine.BodyID) shapes.Pose {
