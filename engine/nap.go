@@ -1,5 +1,7 @@
 package engine
 
+import "slices"
+
 // Naps: the rest timer's wait without its steps.
 //
 // An island falls asleep once its bodies have been below the rest
@@ -129,12 +131,18 @@ func (w *World) napStart(awake []BodyID) []BodyID {
 		n.on = append(n.on, false)
 		n.bad = append(n.bad, 0)
 	}
-	mark := c.isl.mark
 	v2 := w.napSpeed() * w.napSpeed()
+	still := func(id BodyID) bool {
+		r2 := w.b.radius[id] * w.b.radius[id]
+		return w.b.vel[id].LenSqr() < v2 && w.b.spin[id].LenSqr()*r2 < v2
+	}
+	if !slices.ContainsFunc(awake, func(id BodyID) bool { return w.b.kind[id] == Dynamic && still(id) }) {
+		return n.start // the common case while anything moves: no island to look at
+	}
+	mark := c.isl.mark
 	for _, id := range awake {
 		if w.b.kind[id] == Dynamic {
-			if r := w.find(int32(id)); !(c.islandRest[r] > 0 && c.islandRest[r] < w.cfg.RestTime) ||
-				w.b.vel[id].LenSqr() >= v2 || w.b.spin[id].LenSqr()*w.b.radius[id]*w.b.radius[id] >= v2 {
+			if r := w.find(int32(id)); !(c.islandRest[r] > 0 && c.islandRest[r] < w.cfg.RestTime) || !still(id) {
 				n.bad[r] = mark
 			}
 		}
