@@ -37,7 +37,8 @@ const napFraction = 1e-6
 // napState holds the napping bodies.
 type napState struct {
 	on    []bool   // by body: napping
-	ids   []BodyID // the napping bodies, in id order
+	ids   []BodyID // the napping bodies, in id order (and, if stale, some that woke)
+	stale bool     // a body in ids has woken
 	due   []BodyID // the napping bodies whose rest ran out this step
 	bad   []uint32 // by island root, == isl.mark: the island cannot nap
 	start []BodyID // the bodies that start a nap this step
@@ -59,6 +60,7 @@ func (w *World) napSpeed() float64 {
 // updateRest does for the awake ones (a napping body is at rest), and
 // reports whether all of them have rested RestTime.
 func (w *World) napRest(dt float64) bool {
+	w.dropNaps()
 	all := true
 	for _, id := range w.nap.ids {
 		w.b.restFor[id] += dt
@@ -97,6 +99,7 @@ func (w *World) napsDue() []BodyID {
 	for _, id := range n.due {
 		n.on[id] = false
 	}
+	n.stale = len(n.due) > 0
 	w.dropNaps()
 	return n.due
 }
@@ -104,6 +107,10 @@ func (w *World) napsDue() []BodyID {
 // dropNaps removes from the list the bodies no longer napping.
 func (w *World) dropNaps() {
 	n := &w.nap
+	if !n.stale {
+		return
+	}
+	n.stale = false
 	k := 0
 	for _, id := range n.ids {
 		if n.on[id] {
@@ -158,7 +165,7 @@ func (w *World) napStart(awake []BodyID) []BodyID {
 		}
 	}
 	if len(n.start) > 0 {
-		sortIDs(n.ids)
+		slices.Sort(n.ids)
 	}
 	return n.start
 }
@@ -177,8 +184,10 @@ func (w *World) wakeNapping(a, b BodyID) {
 // wakeNaps wakes every napping island: a static or kinematic body was
 // placed or set moving by hand, and what napped on it must feel it.
 func (w *World) wakeNaps() {
-	for len(w.nap.ids) > 0 {
-		w.wakeIsland(w.nap.ids[0])
+	for _, id := range w.nap.ids {
+		if w.napping(id) {
+			w.wakeIsland(id)
+		}
 	}
 }
 
@@ -188,8 +197,7 @@ func (w *World) endNap(id BodyID) bool {
 	if !w.napping(id) {
 		return false
 	}
-	w.nap.on[id] = false
-	w.dropNaps()
+	w.nap.on[id], w.nap.stale = false, true
 	return true
 }
 
@@ -206,14 +214,5 @@ func (w *World) emitSleeps(asleep, due []BodyID) {
 			id, j = due[j], j+1
 		}
 		w.emit(Event{Kind: Sleep, Time: w.time, A: id, B: -1})
-	}
-}
-
-// sortIDs sorts body ids (short lists: insertion sort, no allocation).
-func sortIDs(ids []BodyID) {
-	for i := 1; i < len(ids); i++ {
-		for j := i; j > 0 && ids[j] < ids[j-1]; j-- {
-			ids[j], ids[j-1] = ids[j-1], ids[j]
-		}
 	}
 }

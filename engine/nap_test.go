@@ -92,6 +92,19 @@ var napCases = []napCase{{
 	},
 	actAt: 400,
 	steps: 2000,
+}, {
+	// The floor lowered by 1 mm by hand while the box naps: the box must
+	// fall onto it as it would have awake.
+	name: "support lowered while napping",
+	build: func(t *testing.T, off bool) (*World, []BodyID) {
+		w, id := napBox(t, off, 0.4)
+		return w, []BodyID{id}
+	},
+	act: func(t *testing.T, w *World) {
+		w.SetPose(0, shapes.Vec3{0, 0, -1e-3}, mgl64.QuatIdent())
+	},
+	actAt: 400,
+	steps: 2000,
 }}
 
 // TestNapSameAsFullSteps checks naps against the same worlds stepped in
