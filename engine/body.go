@@ -258,8 +258,9 @@ func (w *World) Spin(id BodyID) shapes.Vec3 { return w.b.spin[id] }
 // MassOf returns a body's mass (0 for static and kinematic bodies).
 func (w *World) MassOf(id BodyID) float64 { return w.b.mass[id] }
 
-// Awake reports whether a body is simulated this step (not asleep).
-func (w *World) Awake(id BodyID) bool { return w.b.awake[id] }
+// Awake reports whether a body has not fallen asleep (a napping body, whose
+// rest time has not run out, counts as awake: nap.go).
+func (w *World) Awake(id BodyID) bool { return w.b.awake[id] || w.napping(id) }
 
 // MaxImpactSpeed returns the largest normal approach speed of an impact on the body so far.
 func (w *World) MaxImpactSpeed(id BodyID) float64 { return w.b.maxHit[id] }

@@ -169,6 +169,9 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	if w.jointedApart(a, b) {
 		return // linked by a joint (joint.go)
 	}
+	if len(w.nap.ids) > 0 {
+		w.wakeNapping(a, b) // another body reaches a napping island (nap.go)
+	}
 	margin := c.margin[a] + c.margin[b]
 	if ka == Static {
 		margin = c.margin[b]

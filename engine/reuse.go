@@ -40,6 +40,8 @@ func (w *World) Reset(cfg Config) error {
 	w.flight, w.pushed = scratch.Reuse(old.flight), scratch.Reuse(old.pushed)
 	w.active = activeSet{ids: scratch.Reuse(old.active.ids), slept: scratch.Reuse(old.active.slept), dozed: scratch.Reuse(old.active.dozed)}
 	w.collision = old.collision.reused()
+	w.nap = napState{on: scratch.Reuse(old.nap.on), ids: scratch.Reuse(old.nap.ids), due: scratch.Reuse(old.nap.due),
+		bad: scratch.Reuse(old.nap.bad), start: scratch.Reuse(old.nap.start)}
 	w.initCollision()
 	w.kept = old.kept.next()
 	return nil

@@ -109,6 +109,7 @@ func (w *World) updateRest(dt float64) {
 	if s.mark++; s.mark == 0 { // wrapped: clear the stamps
 		clear(s.stamp)
 		clear(s.doze)
+		clear(w.nap.bad) // (nap.go)
 		s.mark = 1
 	}
 	s.reps = s.reps[:0]
@@ -132,6 +133,9 @@ func (w *World) updateRest(dt float64) {
 		if w.b.restFor[id] < w.cfg.RestTime {
 			allRest = false
 		}
+	}
+	if !w.napRest(dt) { // napping bodies rest on (nap.go)
+		allRest = false
 	}
 	// The step's touching pairs each have an awake body; the pairs of two
 	// sleeping bodies are already inside their islands.
@@ -175,13 +179,20 @@ func (w *World) updateRest(dt float64) {
 			s.dozing = append(s.dozing, id)
 		}
 	}
+	// Islands whose rest ran out while they napped sleep for good, and
+	// islands that are still enough nap from now on (nap.go).
+	due := w.napsDue()
+	asleep := len(s.dozing)
+	s.dozing = append(s.dozing, w.napStart(awake)...)
 	if len(s.dozing) == 0 {
+		w.emitSleeps(nil, due)
 		return
 	}
 	w.linkSleepers() // (sleep_wake.go)
 	for _, id := range s.dozing {
 		w.sleep(id)
 	}
+	w.emitSleeps(s.dozing[:asleep], due)
 	w.rememberSleepers() // (sleep_wake.go)
 }
 
@@ -190,7 +201,6 @@ func (w *World) sleep(id BodyID) {
 	w.b.vel[id], w.b.spin[id] = [3]float64{}, [3]float64{}
 	w.setActive(id, false)
 	w.fellAsleep(id) // (active.go)
-	w.emit(Event{Kind: Sleep, Time: w.time, A: id, B: -1})
 }
 
 // wake restarts a dynamic body's rest time and wakes it, with its island,
@@ -198,6 +208,7 @@ func (w *World) sleep(id BodyID) {
 func (w *World) wake(id BodyID) {
 	w.stateChanged() // the energies kept for the guard are stale (active.go)
 	if w.b.kind[id] != Dynamic {
+		w.wakeNaps() // a support placed or set moving by hand (nap.go)
 		return
 	}
 	w.b.restFor[id] = 0

@@ -95,8 +95,11 @@ func (w *World) wakeIsland(id BodyID) {
 // wakeOne wakes one sleeping dynamic body and whatever is jointed to it.
 func (w *World) wakeOne(id BodyID) {
 	s := &w.collision.sleep
+	napped := w.endNap(id) // its rest time runs on, and it never slept (nap.go)
 	w.b.awake[id] = true
-	w.b.restFor[id] = 0
+	if !napped {
+		w.b.restFor[id] = 0
+	}
 	if int(id) < len(w.collision.isl.isle) {
 		w.collision.isl.isle[id] = int32(id) // its island is no longer asleep (sleep.go)
 	}
@@ -108,7 +111,9 @@ func (w *World) wakeOne(id BodyID) {
 		s.wokePass[id] = s.pass
 	}
 	s.woken = append(s.woken, id)
-	w.emit(Event{Kind: Wake, Time: w.time, A: id, B: -1})
+	if !napped {
+		w.emit(Event{Kind: Wake, Time: w.time, A: id, B: -1})
+	}
 	w.wakeJointed(id) // (jointsleep.go)
 }
 

@@ -112,6 +112,7 @@ type World struct {
 	mech      mechanisms // joints and drivers (joint.go, driver.go)
 	gates     gateState  // counting gates (gate.go)
 	soft      softState  // compliant contacts (compliant.go)
+	nap       napState   // islands asleep before their rest time ran out (nap.go)
 	kept      keptState  // meshes and principal axes, kept by Reset (reuse.go)
 }
 
