@@ -692,6 +692,17 @@ func (s *Solver) pairImpact(g int, tol float64) {
 func (s *Solver) solvePoint(vel []sbody, i int) float64 {
 	ps, rn := &s.pts[i], &s.nrows[i]
 	res := solveNormal(vel, rn)
+	if rn.lambda == 0 && s.trows[2*i].lambda == 0 && s.trows[2*i+1].lambda == 0 {
+		// Apart, with no friction to take back: the disk of radius 0
+		// leaves both friction impulses at zero, whatever the slip. A
+		// third of a resting pile's points are apart (speculative, or
+		// lifted off) at any sweep; their tangent rows need not be read.
+		if ps.inv11 != 0 || ps.inv22 != 0 {
+			s.trows[2*i].lambda, s.trows[2*i+1].lambda = 0, 0
+		}
+		ps.sat = false
+		return res
+	}
 	bound := ps.mu * rn.lambda
 	d, clamped := s.solveFriction(vel, i, bound, &s.trows[2*i].lambda, &s.trows[2*i+1].lambda)
 	ps.sat = clamped && bound > 0
