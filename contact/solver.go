@@ -110,6 +110,7 @@ type Solver struct {
 	// match[i] is point i's entry in prevPts (-1 if none).
 	byKey, keyTmp []keyIndex
 	match         []int32
+	owner         []int32 // scratch of sortKeysAligned (align.go), empty between uses
 
 	// Matching by position (match.go): prevPair lists the runs of prevPts
 	// by body pair, claimed marks the entries this step's points have
