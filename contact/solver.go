@@ -695,9 +695,11 @@ func (s *Solver) solvePoint(vel []sbody, i int) float64 {
 	res := solveNormal(vel, rn)
 	if rn.lambda == 0 && s.trows[2*i].lambda == 0 && s.trows[2*i+1].lambda == 0 {
 		// Apart, with no friction to take back: the disk of radius 0
-		// leaves both friction impulses at zero, whatever the slip. A
-		// third of a resting pile's points are apart (speculative, or
-		// lifted off) at any sweep; their tangent rows need not be read.
+		// leaves both friction impulses at zero, whatever the slip (the
+		// full update differs only for a slip of exactly zero, by the
+		// sign of a zero impulse). A third of a resting pile's point
+		// updates end apart (speculative, or lifted off); their tangent
+		// rows need not be read.
 		if ps.inv11 != 0 || ps.inv22 != 0 {
 			s.trows[2*i].lambda, s.trows[2*i+1].lambda = 0, 0
 		}
