@@ -6,16 +6,27 @@ type keyIndex struct {
 	i   int32
 }
 
+// smallSort: below this many points an insertion sort beats the eight
+// counting passes (each clears 256 counters).
+const smallSort = 48
+
 // sortKeys orders this step's points by key and matches them with last
 // step's memory: an LSD radix sort, 8 bits a pass and stable, so that equal
 // keys keep the points' order, and then one merge with prevKeys (the first
 // entry of a repeated key wins).
 // Both are linear in the number of points, where a comparison sort and a
-// binary search per point cost n log n.
+// binary search per point cost n log n. A world's steps, whose points
+// mostly keep their keys and order, mostly take a shorter path along last
+// step's order (align.go), with the same result.
 func (s *Solver) sortKeys(points []Point) {
-	// smallSort: below this many points an insertion sort beats the eight
-	// counting passes (each clears 256 counters).
-	const smallSort = 48
+	if s.sortKeysAligned(points) { // align.go
+		return
+	}
+	s.sortKeysAll(points)
+}
+
+// sortKeysAll is sortKeys for any points: it sorts them all.
+func (s *Solver) sortKeysAll(points []Point) {
 	n := len(points)
 	s.byKey = grow(s.byKey, n)
 	s.match = grow(s.match, n)

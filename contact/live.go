@@ -41,9 +41,13 @@ package contact
 // less than a hundredth of it is off by about that hundredth, well inside
 // the error the sweeps still have to remove. It is a ratio of two
 // velocity errors of the same solve, so it holds whatever the step, the
-// loads or the size of the parts. (Measured on a pile of 1000 parts
-// resting in a bin, one island of 4300 points at 1 ms: the sweeps update
-// 14 000 points a step instead of 32 000.)
+// loads or the size of the parts. How much it saves depends on how far
+// the island is from rest: on the pile of the Pile1000 benchmark (1000
+// parts in a bin, one island of 4400 points and 660 patches at 1 ms,
+// some parts still moving at millimetres per second) the sweeps' largest
+// excess stays above 3e-5 m/s however many sweeps run, nearly every body
+// moves by more than the bound in every sweep, and the sweeps update
+// about 97 percent of the rows (measured, December 2026).
 const liveFraction = 0.01
 
 // liveState is the sweeps' bookkeeping of moved bodies, reset per Solve.

@@ -16,7 +16,7 @@ func (s *Solver) Clear(set Settings) {
 	n.prevPts, n.curPts, n.prevKeys = scratch.Reuse(s.prevPts), scratch.Reuse(s.curPts), scratch.Reuse(s.prevKeys)
 	n.prevRows, n.curRows = scratch.Reuse(s.prevRows), scratch.Reuse(s.curRows)
 	n.byKey, n.keyTmp = scratch.Reuse(s.byKey), scratch.Reuse(s.keyTmp)
-	n.match = scratch.Reuse(s.match)
+	n.match, n.owner = scratch.Reuse(s.match), scratch.Reuse(s.owner)
 	n.prevPair, n.curPair = scratch.Reuse(s.prevPair), scratch.Reuse(s.curPair)
 	n.claimed = scratch.Reuse(s.claimed)
 	n.blk = s.blk.reused()

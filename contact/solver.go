@@ -110,6 +110,7 @@ type Solver struct {
 	// match[i] is point i's entry in prevPts (-1 if none).
 	byKey, keyTmp []keyIndex
 	match         []int32
+	owner         []int32 // scratch of sortKeysAligned (align.go), empty between uses
 
 	// Matching by position (match.go): prevPair lists the runs of prevPts
 	// by body pair, claimed marks the entries this step's points have
@@ -692,6 +693,19 @@ func (s *Solver) pairImpact(g int, tol float64) {
 func (s *Solver) solvePoint(vel []sbody, i int) float64 {
 	ps, rn := &s.pts[i], &s.nrows[i]
 	res := solveNormal(vel, rn)
+	if rn.lambda == 0 && s.trows[2*i].lambda == 0 && s.trows[2*i+1].lambda == 0 {
+		// Apart, with no friction to take back: the disk of radius 0
+		// leaves both friction impulses at zero, whatever the slip (the
+		// full update differs only for a slip of exactly zero, by the
+		// sign of a zero impulse). A third of a resting pile's point
+		// updates end apart (speculative, or lifted off); their tangent
+		// rows need not be read.
+		if ps.inv11 != 0 || ps.inv22 != 0 {
+			s.trows[2*i].lambda, s.trows[2*i+1].lambda = 0, 0
+		}
+		ps.sat = false
+		return res
+	}
 	bound := ps.mu * rn.lambda
 	d, clamped := s.solveFriction(vel, i, bound, &s.trows[2*i].lambda, &s.trows[2*i+1].lambda)
 	ps.sat = clamped && bound > 0

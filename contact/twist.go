@@ -323,20 +323,9 @@ func (s *Solver) solvePatchVel(pa *patch) float64 {
 // records each island's largest excess for blockSolve.
 func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	vel := s.sl.vel
-	conv, tol := s.Settings.Convergence, s.Settings.Tolerance
-	// An excess counts only against Tolerance, and it is at most the
-	// velocity change d: a row that changed by no more than Tolerance (most
-	// of them once the sweeps near convergence) needs no scale. A row may
-	// keep no more than its bodies' turn cap either (turn.go).
-	note := func(d, scale, cap float64, root int32) {
-		ex := d - conv*scale
-		if over := d - cap + tol; over > ex {
-			ex = over
-		}
-		excess = max(excess, ex)
-		if block {
-			s.blk.excess[root] = max(s.blk.excess[root], ex)
-		}
+	t := sweepTally{conv: s.Settings.Convergence, tol: s.Settings.Tolerance}
+	if block {
+		t.root, t.island = s.blk.root, s.blk.excess
 	}
 	ps := &s.patches
 	lv := &s.live // live.go
@@ -346,19 +335,18 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 		// the patches) have no friction rows of their own: their normal
 		// rows alone, without the point's state (solvePoint).
 		k, kEnd := ps.ofGroup[g], ps.ofGroup[g+1]
-		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {
+		for i, hi := int(s.groups[g]), int(s.groups[g+1]); i < hi; i++ {
 			inPatch := k < kEnd && int32(i) >= ps.list[k].lo
 			if inPatch && int32(i)+1 == ps.list[k].hi {
 				k++
 			}
-			lr := &lv.rows[i]
+			lr := lv.rows[i]
 			if lr.track && !lv.due(i, lr.a, lr.b) {
 				continue
 			}
-			rn := &s.nrows[i]
 			var d float64
 			if inPatch {
-				d = solveNormal(vel, rn)
+				d = solveNormal(vel, &s.nrows[i])
 			} else {
 				d = s.solvePoint(vel, i)
 			}
@@ -366,12 +354,12 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 				lv.note(lr.a, lr.b, d, lv.tick(i))
 			}
 			res = max(res, d)
-			if c := s.sl.rowCap(rn.a, rn.b); !(d <= tol && d <= c) {
-				note(d, s.pointScale(i), c, s.pointRootOf(i, block))
+			if c := s.sl.rowCap(lr.a, lr.b); !(d <= t.tol && d <= c) && t.mayRaise(d, c, i) {
+				t.note(d, s.pointScale(i), c, i)
 			}
 		}
 		for k := ps.ofGroup[g]; k < ps.ofGroup[g+1]; k++ {
-			lr := &lv.rows[np+int(k)]
+			lr := lv.rows[np+int(k)]
 			if lr.track && !lv.due(np+int(k), lr.a, lr.b) {
 				continue
 			}
@@ -381,20 +369,53 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 				lv.note(lr.a, lr.b, d, lv.tick(np+int(k)))
 			}
 			res = max(res, d)
-			if c := s.sl.rowCap(pa.rows[0].a, pa.rows[0].b); !(d <= tol && d <= c) {
-				note(d, pa.scale(), c, s.pointRootOf(int(pa.lo), block))
+			if c := s.sl.rowCap(lr.a, lr.b); !(d <= t.tol && d <= c) && t.mayRaise(d, c, int(pa.lo)) {
+				t.note(d, pa.scale(), c, int(pa.lo))
 			}
 		}
 	}
-	return res, excess
+	return res, t.excess
 }
 
-// pointRootOf is point i's island root when the block solve is on.
-func (s *Solver) pointRootOf(i int, block bool) int32 {
-	if !block {
-		return 0
+// sweepTally keeps a sweep's largest excess, and with the block solve on
+// (root, island set) each island's. An excess counts only against
+// Tolerance, and it is at most the velocity change d: a row that changed
+// by no more than Tolerance (most of them once the sweeps near
+// convergence) needs no scale. A row may keep no more than its bodies'
+// turn cap either (turn.go).
+type sweepTally struct {
+	conv, tol float64
+	excess    float64
+	root      []int32   // island root of each point (blockState.root), nil without the block solve
+	island    []float64 // largest excess of each island (blockState.excess)
+}
+
+// mayRaise reports whether a row of point i (a patch's: its first point)
+// that changed by d with turn cap c can raise the largest excess or its
+// island's. Its excess is d - conv*scale or d - c + tol, at most the larger
+// of d and d - c + tol (conv and scale are >= 0), so a row under both
+// largest ones need not find its scale. A NaN anywhere fails the test.
+func (t *sweepTally) mayRaise(d, c float64, i int) bool {
+	ub := max(d, d-c+t.tol)
+	if !(ub <= t.excess) {
+		return true
 	}
-	return s.blk.root[i]
+	return t.root != nil && !(ub <= t.island[t.root[i]])
+}
+
+// note records the excess of a row of point i (a patch's: its first point)
+// that changed by d, with the velocity change scale of its accumulated
+// impulses and turn cap c.
+func (t *sweepTally) note(d, scale, c float64, i int) {
+	ex := d - t.conv*scale
+	if over := d - c + t.tol; over > ex {
+		ex = over
+	}
+	t.excess = max(t.excess, ex)
+	if t.root != nil {
+		r := t.root[i]
+		t.island[r] = max(t.island[r], ex)
+	}
 }
 
 // scale is the largest velocity change that one of pa's rows makes with its
