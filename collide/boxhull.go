@@ -190,8 +190,17 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		}
 		return bh.treeEdges(x, &s, r)
 	}
+	var fv [6]int
+	var fg [6]float64
+	scan := len(h.Vertices) <= boxScanVerts // boxhullscan.go
+	if scan {
+		bh.boxFacesScan(&fv, &fg)
+	}
 	for i := range p.planes {
-		v, g := bh.boxFaceAt(i)
+		v, g := fv[i], fg[i]
+		if !scan {
+			v, g = bh.boxFaceAt(i)
+		}
 		if g > s.best[0] && g <= s.margin {
 			bh.deep = v
 		}
@@ -203,20 +212,27 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 		s.pickFace(false)
 		return true
 	}
-	d.faceCos = d.faceCos[:0]
+	d.faceCos, d.faceSgn = d.faceCos[:0], d.faceSgn[:0]
 	for j := range h.Faces {
 		g, cs := bh.hullFace(j)
 		if !s.face(hintFaceQ, g, j) {
 			return false
 		}
-		d.faceCos = append(d.faceCos, cs)
+		d.faceCos, d.faceSgn = append(d.faceCos, cs), append(d.faceSgn, cosSigns(&cs))
 	}
 	s.pickFace(false)
-	cos := d.faceCos
+	cos, sgn := d.faceCos, d.faceSgn
 	for he := range h.Edges {
 		e := &h.Edges[he]
+		axes := crossingAxes(sgn[e.F[0]], sgn[e.F[1]]) // boxhullscan.go
+		if axes == 0 {
+			continue
+		}
 		ca, cb := &cos[e.F[0]], &cos[e.F[1]]
 		for i := 0; i < 3; i++ {
+			if axes&(1<<i) == 0 {
+				continue
+			}
 			g, ax, bi, ok := bh.edgePair(e, ca, cb, i)
 			if !ok {
 				continue

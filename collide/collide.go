@@ -109,7 +109,8 @@ type Detector struct {
 		face int
 	}
 	cache   pairCache
-	faceCos []vec3 // box-hull test: cosines of the hull's face normals with the box axes
+	faceCos []vec3  // box-hull test: cosines of the hull's face normals with the box axes
+	faceSgn []uint8 // and their signs (boxhullscan.go)
 
 	stats Stats
 

@@ -177,6 +177,11 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 			r.n, r.sep, r.pa, r.pb = a.n, a.best, pc, pp
 			return r, true, true
 		}
+		// An edge across the side (cylwitness.go).
+		if x, q, dist, in := a.edgeWitness(); !in && dist <= a.best+tol {
+			r.n, r.sep, r.pa, r.pb = a.n, a.best, q, x
+			return r, true, true
+		}
 		// An edge facing a rim: the nearest points of the two are a pair
 		// of points of the shapes, and the direction between them an axis.
 		a.wit, a.mins = math.Inf(1), true
@@ -201,6 +206,7 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 	if depth >= cylDeep*c.cylR {
 		return r, false, false
 	}
+	a.wit = math.Inf(1)
 	for _, e := range cp.edges {
 		for _, sg := range [2]float64{1, -1} {
 			if a.rimBound(e[0], e[1], sg, depth-tol) < depth-tol {
@@ -208,8 +214,13 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 			}
 		}
 	}
-	if !(a.best <= 0) || !a.overlapWitness() {
-		return r, false, false
+	if !(a.best <= 0) {
+		return a.rimApart(r, tol)
+	}
+	if !a.overlapWitness() {
+		if _, _, _, in := a.edgeWitness(); !in {
+			return r, false, false
+		}
 	}
 	r.n, r.sep = a.n, a.best
 	// The cylinder's deepest point and its image on the polytope's side

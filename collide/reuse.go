@@ -35,6 +35,7 @@ func (d *Detector) Reset() {
 		patchHull: scratch.Reuse(old.patchHull),
 		cache:     pairCache{prev: scratch.Reuse(old.cache.prev), cur: scratch.Reuse(old.cache.cur)},
 		faceCos:   scratch.Reuse(old.faceCos),
+		faceSgn:   scratch.Reuse(old.faceSgn),
 		persist:   persistMem{mem: scratch.Reuse(old.persist.mem), add: scratch.Reuse(old.persist.add)},
 		warm:      warmMem{mem: scratch.Reuse(old.warm.mem), add: scratch.Reuse(old.warm.add)},
 	}

@@ -1,0 +1,95 @@
+package collide
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"clatter/shapes"
+)
+
+// TestBoxFacesScan compares the one-pass gaps of a hull beyond a box's six
+// faces with a brute-force reference (the least of n.v - d over all
+// vertices, written out here) and with the climbs of boxFaceAt, at random
+// poses of a box against random hulls of 12 to 64 vertices.
+func TestBoxFacesScan(t *testing.T) {
+	// climbTol, relative to the hull's reach: the climb returns a vertex
+	// whose value is the largest to the rounding of a dot product when
+	// vertices tie (shapes.Hull.SupportFrom), a few ulps of the reach.
+	const climbTol = 1e-14
+	rng := rand.New(rand.NewPCG(5, 0x5ca7))
+	for _, nv := range []int{12, 40, 64} {
+		pts := make([]vec3, nv)
+		for i := range pts {
+			d := vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Normalize()
+			pts[i] = vec3{d[0] * 0.015, d[1] * 0.012, d[2] * 0.008}
+		}
+		h, err := shapes.NewHull(pts)
+		if err != nil {
+			t.Fatal(err)
+		}
+		reach := 0.0
+		for _, v := range h.Vertices {
+			reach = math.Max(reach, v.Len())
+		}
+		for i := 0; i < 500; i++ {
+			var bv view
+			bv.setConvex(shapes.Box{Half: vec3{0.015, 0.01, 0.008}}, shapes.RotationMatrix(randomTurn(rng)),
+				vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Mul(0.02))
+			var p polytope
+			p.init()
+			p.set(&bv)
+			var bh boxHullAxes
+			bh.init(&p, h, &bv)
+			var fv [6]int
+			var fg [6]float64
+			bh.boxFacesScan(&fv, &fg)
+			for f := 0; f < 6; f++ {
+				pl := p.planes[f]
+				ref := math.Inf(1)
+				for _, v := range h.Vertices {
+					ref = math.Min(ref, pl.n.Dot(v)-pl.d)
+				}
+				if fg[f] != ref {
+					t.Errorf("%d vertices, pose %d, face %d: gap %.17g, brute force %.17g", nv, i, f, fg[f], ref)
+				}
+				if got := pl.n.Dot(h.Vertices[fv[f]]) - pl.d; got != fg[f] {
+					t.Errorf("%d vertices, pose %d, face %d: vertex %d gives %.17g, not the gap %.17g", nv, i, f, fv[f], got, fg[f])
+				}
+				if _, g := bh.boxFaceAt(f); math.Abs(g-ref) > climbTol*reach {
+					t.Errorf("%d vertices, pose %d, face %d: climb %.17g, brute force %.17g", nv, i, f, g, ref)
+				}
+			}
+		}
+	}
+}
+
+// TestCrossingAxes checks the sign filter of the box-hull edge loop
+// against the rule it stands in for, a negative product of the two faces'
+// cosines (crossedBoxEdge): every axis with a negative product must be in
+// the set, and only axes of strictly opposite signs may be. Cosines are
+// drawn from negatives, zeros (both signs) and positives, tiny ones
+// included, on all 3^3 x 3^3 sign patterns and at random.
+func TestCrossingAxes(t *testing.T) {
+	vals := []float64{-1, -1e-300, math.Copysign(0, -1), 0, 1e-300, 0.5}
+	rng := rand.New(rand.NewPCG(3, 0x5195))
+	for k := 0; k < 20000; k++ {
+		var ca, cb vec3
+		for i := 0; i < 3; i++ {
+			ca[i], cb[i] = vals[rng.IntN(len(vals))], vals[rng.IntN(len(vals))]
+			if k%2 == 1 {
+				ca[i], cb[i] = rng.NormFloat64(), rng.NormFloat64()
+			}
+		}
+		m := crossingAxes(cosSigns(&ca), cosSigns(&cb))
+		for i := 0; i < 3; i++ {
+			in := m&(1<<i) != 0
+			if ca[i]*cb[i] < 0 && !in {
+				t.Errorf("cosines %v and %v: axis %d has a negative product but is not in %03b", ca, cb, i, m)
+			}
+			if in && !(ca[i] < 0 && cb[i] > 0 || ca[i] > 0 && cb[i] < 0) {
+				t.Errorf("cosines %v and %v: axis %d is in %03b without opposite signs", ca, cb, i, m)
+			}
+		}
+	}
+}
