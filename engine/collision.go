@@ -161,7 +161,6 @@ func (w *World) moveBounds(id BodyID, dt float64) {
 // appends its contact points.
 func (w *World) collidePair(a, b BodyID, dt float64) {
 	c := &w.collision
-	slop := w.cfg.Slop
 	ka, kb := w.b.kind[a], w.b.kind[b]
 	if ka != Dynamic && kb != Dynamic {
 		return // kinematic against static or kinematic: nothing to solve
@@ -196,6 +195,7 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 		return // apart, as most pairs of the broad phase are
 	}
 	touch := false
+	slop := w.pairSlop(a, b)      // (slop.go)
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
 	for m := range c.manifolds {
 		mf := &c.manifolds[m]
