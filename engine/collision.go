@@ -312,6 +312,7 @@ func (w *World) solve(dt float64) error {
 	w.recallWoken()                      // contacts of woken islands resume their load (sleep_wake.go)
 	set := &c.solver.Settings
 	set.BounceThreshold, set.BounceSteps, set.InelasticThreshold, set.ReboundThreshold = w.bounceThreshold(dt) // bounce.go
+	set.SlipSpeed = w.slipSpeed(dt)                                                                            // slip.go
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step (solveerr.go).

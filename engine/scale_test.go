@@ -67,6 +67,17 @@ const (
 	// first step of contact and the friction cone's accuracy, 1 percent
 	// (TestInclineSlides).
 	scaleSlideTol = 0.01
+	// scaleStopTol: a sliding distance to rest against v0^2/(2 mu g), less
+	// the integrator's half step (slideToStop); the last step stops the
+	// block anywhere within it, up to v0 dt/2 more, 3 percent for a 1 mm
+	// part at 1 ms (17 steps to rest) and under 0.3 percent for the rest.
+	// A part that keeps the static coefficient 0.5 for two steps instead
+	// of 0.3 stops 17 percent short at 1 mm and 1 ms.
+	scaleStopTol = 0.03
+	// scaleRollTol: the speed a sliding ball rolls at against 5 v0/7; the
+	// friction's last step overshoots by at most mu g dt, under 1 percent
+	// of 5 v0/7 for every case here (TestSphereStartsRolling: 2 percent).
+	scaleRollTol = 0.02
 	// scalePeriodTol: a pendulum's period against the elliptic integral;
 	// a period of 2000 steps is found to within a step by its zero
 	// crossings, 5e-4, and the joint's drift adds little.
@@ -106,6 +117,12 @@ func scaleCases() []scaleCase {
 			}},
 		{name: "incline slide, 30 deg, mu 0.2", ref: "s = g t^2 (sin a - mu cos a)/2 (Coulomb friction; any dynamics text)",
 			want: 1, tol: scaleSlideTol, spread: scaleSlideTol, run: inclineSlide},
+		{name: "slide to stop from 0.5 sqrt(gL), mu 0.3", ref: "d = v0^2/(2 mu g) (Coulomb friction; any dynamics text)",
+			want: 1, tol: scaleStopTol, spread: scaleStopTol, run: slideToStop},
+		{name: "ball launched sliding at 0.5 sqrt(gL): rolling speed", ref: "5 v0/7 (Halliday, Resnick and Walker; any dynamics text)",
+			want: 1, tol: scaleRollTol, spread: scaleRollTol, run: rollingSpeed},
+		{name: "cylinder rolling down 20 deg: distance", ref: "a = (2/3) g sin(a) (any dynamics text)",
+			want: 1, tol: scaleSlideTol, spread: scaleSlideTol, run: cylinderRolls},
 		{name: "pendulum period, 40 deg", ref: "T = 4 sqrt(I/(m g d)) K(sin^2(a/2)) (Landau and Lifshitz, Mechanics, sec. 11; gonum mathext.CompleteK)",
 			want: 1, tol: scalePeriodTol, spread: scalePeriodTol, run: pendulumPeriod},
 		{name: "box tilted 45 deg, e = 0: back on its face 3", ref: "statics: tips over its edge beyond atan(0.3/0.2) = 56.3 deg",
@@ -220,6 +237,48 @@ func inclineSlide(t *testing.T, s, rho, dt float64) float64 {
 	// t (t + dt), which is a t^2/2 as the step shrinks.
 	tt := float64(n) * dt
 	return w.Position(id)[0] / (g0 * tt * (tt + dt) * (math.Sin(th) - mu*math.Cos(th)) / 2)
+}
+
+// slideToStop: a cube of size s on a level floor, launched at
+// 0.5 sqrt(g s) with mu 0.3 (static 0.5); its travel to rest over
+// v0^2/(2 mu g), less the integrator's half step.
+func slideToStop(t *testing.T, s, rho, dt float64) float64 {
+	w, mat := floorWorld(t, Config{}, 0, Material{Friction: 0.3, StaticFriction: 0.5})
+	hh, v0 := 0.5*s, 0.5*math.Sqrt(g0*s)
+	id := mustAdd(t, w, BodyDef{Name: "block", Shape: shapes.Box{Half: shapes.Vec3{hh, hh, hh}}, Density: rho, Material: mat,
+		Position: shapes.Vec3{0, 0, hh}, Velocity: shapes.Vec3{v0, 0, 0}})
+	run(t, w, dt, 2*v0/(0.3*g0), nil)
+	// Semi-implicit Euler moves each step at the step's end velocity, so
+	// under a constant deceleration a body stops v0 dt/2 short of
+	// v0^2/(2a) (the sum of the integrator's steps; Hairer, Lubich and
+	// Wanner, "Geometric Numerical Integration", 2006, symplectic Euler).
+	return w.Position(id)[0] / (v0*v0/(2*0.3*g0) - v0*dt/2)
+}
+
+// rollingSpeed: a ball of radius s/2 launched sliding without spin at
+// 0.5 sqrt(g s), mu 0.2; its speed once rolling over 5 v0/7.
+func rollingSpeed(t *testing.T, s, rho, dt float64) float64 {
+	w, mat := scaleWorld(t, 0, 0.2, 0)
+	r, v0 := 0.5*s, 0.5*math.Sqrt(g0*s)
+	id := mustAdd(t, w, BodyDef{Name: "ball", Shape: shapes.Sphere{Radius: r}, Density: rho, Material: mat,
+		Position: shapes.Vec3{0, 0, r}, Velocity: shapes.Vec3{v0, 0, 0}})
+	run(t, w, dt, 2*2*v0/(7*0.2*g0), nil)
+	return w.Velocity(id)[0] / (5 * v0 / 7)
+}
+
+// cylinderRolls: a cylinder of radius 0.3 s rolling from rest down a 20
+// degree incline (mu 0.5) for sqrt(s) s; its travel over the analytic,
+// with t^2 as the integrator takes it (inclineSlide).
+func cylinderRolls(t *testing.T, s, rho, dt float64) float64 {
+	th := mgl64.DegToRad(20)
+	w, mat := scaleWorld(t, th, 0.5, 0)
+	r := 0.3 * s
+	id := mustAdd(t, w, BodyDef{Name: "roller", Shape: shapes.Cylinder{Radius: r, HalfLength: 0.4 * s}, Density: rho, Material: mat,
+		Position: shapes.Vec3{0, 0, r}, Orientation: mgl64.QuatRotate(math.Pi/2, shapes.Vec3{1, 0, 0})})
+	n := int(math.Round(math.Sqrt(s) / dt))
+	run(t, w, dt, float64(n)*dt, nil)
+	tt := float64(n) * dt
+	return w.Position(id)[0] / (2.0 / 3 * g0 * math.Sin(th) * tt * (tt + dt) / 2)
 }
 
 // pendulumPeriod: a ball of radius s/10 on a revolute joint at 1 s from

@@ -15,3 +15,12 @@ func (w *World) pairSlop(a, b BodyID) float64 {
 	}
 	return contact.PointSlop(&w.collision.solver.Settings, size(a), size(b))
 }
+
+// SlopOf is the contact slop (m) of a moving body of radius r (about its
+// centre of mass) on a static support, under the default settings: what
+// it may rest sunk into the support.
+func SlopOf(r float64) float64 {
+	set := contact.DefaultSettings()
+	set.Slop = DefaultSlop
+	return contact.PointSlop(&set, r, 0)
+}
