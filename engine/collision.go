@@ -60,6 +60,7 @@ func (w *World) initCollision() {
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations
 	s.Slop = w.cfg.Slop
+	c.det.SetSlopSize(s.SlopSize) // as the solver's slop: small for small parts (collide/persistsize.go)
 	c.solver.Clear(s)
 }
 
