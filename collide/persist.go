@@ -149,6 +149,7 @@ type keptManifold struct {
 // step until NextStep merges them in.
 type persistMem struct {
 	slop   float64 // the contact slop; 0 turns the memory off
+	size   float64 // the slop's cap as a part of the pair's size (persistsize.go)
 	step   uint32  // counts NextStep calls from 1
 	mem    []persistEntry
 	add    []persistEntry
@@ -240,7 +241,8 @@ func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 // reports whether they stand for a fresh query (the conditions of the file
 // comment); out is left partly written when they do not.
 func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float64, out *Manifold) bool {
-	tol := persistFraction * p.slop
+	slop := p.pairSlop(e) // (persistsize.go)
+	tol := persistFraction * slop
 	age := p.step - e.full
 	if margin > e.margin+tol {
 		return false
@@ -270,7 +272,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 		g0, g1, g2 := b[0]-a[0], b[1]-a[1], b[2]-a[2]
 		sep := g0*n[0] + g1*n[1] + g2*n[2]
 		d0, d1, d2 := g0-n[0]*sep, g1-n[1]*sep, g2-n[2]*sep
-		if sep > margin || math.Sqrt(d0*d0+d1*d1+d2*d2) > p.slop {
+		if sep > margin || math.Sqrt(d0*d0+d1*d1+d2*d2) > slop {
 			return false
 		}
 		pt := &out.Points[i]

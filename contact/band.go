@@ -146,7 +146,7 @@ func (s *Solver) orderBands() {
 // out of its graph and order, and solves the others.
 func (s *Solver) loose(idx []int32, ru run) bool {
 	for _, i := range idx[ru.start:ru.end] {
-		if s.pts[i].sep <= s.Settings.Slop || s.nrows[i].lambda > 0 {
+		if s.pts[i].sep <= s.pts[i].slop || s.nrows[i].lambda > 0 {
 			return false
 		}
 	}
@@ -513,7 +513,7 @@ func (s *Solver) bandLimit(fric bool) int64 {
 // at 140 and left the tower to the sweeps, which let it fall). A touching
 // point that need not press leaves the set at the first pivot.
 func (s *Solver) touches(i int32) bool {
-	return s.pts[i].sep <= s.Settings.Slop
+	return s.pts[i].sep <= s.pts[i].slop
 }
 
 // refineBand takes one step of iterative refinement on the banded solve's

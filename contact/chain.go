@@ -46,7 +46,7 @@ func (s *Solver) markChains(dt float64) {
 				continue
 			}
 			loaded = loaded || s.carriedLoad(ps, rn, s.bounceThreshold(ps, dt))
-			touching = touching || ps.sep <= s.Settings.Slop
+			touching = touching || ps.sep <= ps.slop
 		}
 		if touching && !loaded {
 			rn := &s.nrows[s.groups[g]]

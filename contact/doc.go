@@ -42,7 +42,8 @@
 //  4. Velocity iterations: projected Gauss-Seidel with accumulated-impulse
 //     clamping (Catto 2005). A speculative point (Separation > 0) may
 //     approach by Separation/dt.
-//  5. Position pass: penetration beyond Settings.Slop is removed, a fraction
+//  5. Position pass: penetration beyond the point's slop (Settings.Slop, or
+//     less for small parts: slop.go) is removed, a fraction
 //     per step, by pseudo-velocities (split impulses) in their own
 //     Gauss-Seidel sweeps. They are written to Body.Vp, Body.Wp and never
 //     into V, W, so position correction adds no kinetic energy.

@@ -35,6 +35,7 @@ type pstate struct {
 	patch               int32 // 1 + index of the patch that carries its friction, 0 if none (twist.go)
 	muS, muK, e         float64
 	sep                 float64
+	slop                float64 // the point's slop (slop.go)
 	turn                float64 // normal acceleration of the point from its bodies' spins (bounce.go)
 	prevSliding         bool    // last step used the kinetic coefficient
 	prevSlips           uint8   // consecutive steps that ended at the cone's limit and slipping
@@ -405,6 +406,7 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		ps.muS = max(p.StaticFriction, ps.muK)
 		ps.e = max(p.Restitution, 0)
 		ps.sep = p.Separation
+		ps.slop = PointSlop(&s.Settings, A.Size, B.Size)
 		if s.Settings.BounceSteps > 0 {
 			ps.turn = turnAcceleration(A, &rA, &p.Normal) + turnAcceleration(B, &rB, &p.Normal) // bounce.go
 		}
@@ -585,11 +587,11 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// an unconverged solve or a sway left of approach. It
 					// takes part as a touching point, inelastic.
 					ps.pending, ps.held = 0, 0
-					ps.active = ps.sep <= set.Slop
+					ps.active = ps.sep <= ps.slop
 					ps.iTarget = rn.target
 					continue
 				}
-				if ps.sep > set.Slop && !(approach > thr && s.chained(g, rn)) {
+				if ps.sep > ps.slop && !(approach > thr && s.chained(g, rn)) {
 					// Closing within the step but not yet touching: the
 					// velocity solve lets it arrive exactly (approach sep/dt)
 					// and the impact is deferred to the next step with this
@@ -887,7 +889,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 			continue
 		}
 		pred := ps.sep + rn.cdot(vel)*dt
-		if pen := -pred - set.Slop; pen > 0 {
+		if pen := -pred - ps.slop; pen > 0 {
 			ps.pTarget = set.Correction * pen / dt
 			work = true
 		}

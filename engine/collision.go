@@ -60,6 +60,7 @@ func (w *World) initCollision() {
 	s.VelocityIterations = w.cfg.VelocityIterations
 	s.PositionIterations = w.cfg.PositionIterations
 	s.Slop = w.cfg.Slop
+	c.det.SetSlopSize(s.SlopSize) // as the solver's slop: small for small parts (collide/persistsize.go)
 	c.solver.Clear(s)
 }
 
@@ -161,7 +162,6 @@ func (w *World) moveBounds(id BodyID, dt float64) {
 // appends its contact points.
 func (w *World) collidePair(a, b BodyID, dt float64) {
 	c := &w.collision
-	slop := w.cfg.Slop
 	ka, kb := w.b.kind[a], w.b.kind[b]
 	if ka != Dynamic && kb != Dynamic {
 		return // kinematic against static or kinematic: nothing to solve
@@ -199,6 +199,7 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 		return // apart, as most pairs of the broad phase are
 	}
 	touch := false
+	slop := w.pairSlop(a, b)      // (slop.go)
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
 	for m := range c.manifolds {
 		mf := &c.manifolds[m]
@@ -315,6 +316,7 @@ func (w *World) solve(dt float64) error {
 	w.recallWoken()                      // contacts of woken islands resume their load (sleep_wake.go)
 	set := &c.solver.Settings
 	set.BounceThreshold, set.BounceSteps, set.InelasticThreshold, set.ReboundThreshold = w.bounceThreshold(dt) // bounce.go
+	set.SlipSpeed = w.slipSpeed(dt)                                                                            // slip.go
 	if _, err := c.solver.Solve(dt, c.bodies, c.points, c.rows); err != nil {
 		// Inputs are checked finite when bodies are added and after every
 		// step, so this is a blow-up within this step (solveerr.go).

@@ -99,10 +99,11 @@ func (w *World) softPair(a, b BodyID, ms []collide.Manifold, coef PairCoefficien
 		return false
 	}
 	touch := false
+	slop := w.pairSlop(a, b) // (slop.go)
 	for _, mf := range ms {
 		for k := 0; k < mf.Count; k++ {
 			pt := mf.Points[k]
-			touch = touch || pt.Separation <= w.cfg.Slop
+			touch = touch || pt.Separation <= slop
 			w.soft.pts = append(w.soft.pts, softPoint{a: a, b: b, law: law, pos: pt.Position, n: mf.Normal,
 				sep: pt.Separation, friction: coef.Friction, staticFric: coef.StaticFriction, restitution: coef.Restitution})
 		}

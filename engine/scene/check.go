@@ -26,8 +26,9 @@ const (
 	// refusal is a quarter of the 40 sizes the tests above hold.
 	travelRefuse = 10.0
 	travelWarn   = 1.0
-	// slopSizeWarn: bodies smaller than this many times the engine's
-	// default contact slop (0.2 mm) rest visibly sunk into their supports.
+	// slopSizeWarn: bodies thinner than this many times their contact slop
+	// (engine.SlopOf: 0.2 mm, or 1 percent of a small part's radius) rest
+	// visibly sunk into their supports.
 	slopSizeWarn = 5
 	// manySteps warns of a run that will take long.
 	manySteps = 2e6
@@ -160,8 +161,10 @@ func (r *reader) checkBodyStep(c *stepCheck, b Body) {
 		r.warnAt(r.pathOr(c.path, b), "%s is coarse for body %q (smallest size %s, speeds up to %.3g %s, so up to %.3g %s in one step, more than its size): its impacts are resolved coarsely; a step of %s s is finer",
 			what, b.Name, sizeText, u.FromSI(v, Speed), u.Symbol(Speed), u.FromSI(travel, Length), u.Length, roundDown(fix))
 	}
-	if size < slopSizeWarn*engine.DefaultSlop {
-		r.warnAt(r.pathOr(nil, b), "body %q is only %s thick; the solver's contact slop of 0.2 mm is a large part of it, so it will rest visibly sunk into its support", b.Name, sizeText)
+	// The slop shrinks with a small part (engine.SlopOf) but not with a
+	// thin one: a sheet keeps the slop of its breadth.
+	if slop := engine.SlopOf(sz.Len() / 2); size < slopSizeWarn*slop {
+		r.warnAt(r.pathOr(nil, b), "body %q is only %s thick; the solver's contact slop of %.3g %s is a large part of it, so it will rest visibly sunk into its support", b.Name, sizeText, u.FromSI(slop, Length), u.Length)
 	}
 }
 
