@@ -81,3 +81,43 @@ position = [0, 0, 0.05]
 		t.Errorf("%d samples off the grid in all", off)
 	}
 }
+
+// TestDurationInWholeSteps runs scenes whose step is written to a few
+// digits: a run takes the duration over the step rounded up (it covers
+// the duration), but a duration that passes a whole number of steps only
+// by the rounding of the written step ends at that number: 10 s at
+// 0.0333333 s (1/30 s to six digits) is 300 steps, not 301 ending at
+// 10.033 s. Reference: the arithmetic of the step count.
+func TestDurationInWholeSteps(t *testing.T) {
+	cases := []struct {
+		step, duration string
+		steps          int
+	}{
+		{"0.0333333", "10", 300},  // 300.0003 steps
+		{"0.0166667", "60", 3600}, // 3599.99 steps: rounded up
+		{"0.016666666666666666", "600", 36000},
+		{"0.001", "0.0105", 11}, // 10.5 steps: rounded up
+		{"0.0001", "1", 10000},
+	}
+	for _, c := range cases {
+		src := `
+[world]
+step = ` + c.step + `
+duration = ` + c.duration + `
+until_settled = false
+gravity = [0, 0, 0]
+[[body]]
+name = "ball"
+shape = { sphere = 0.05 }
+density = 1000
+velocity = [1, 0, 0]
+`
+		sum, err := Run(context.Background(), parse(t, src), Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if sum.Steps != c.steps {
+			t.Errorf("step %s s, duration %s s: %d steps ending at %.9g s, want %d", c.step, c.duration, sum.Steps, sum.Time, c.steps)
+		}
+	}
+}
