@@ -370,6 +370,10 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	if len(res) != 1 || res[0].Count == 0 || !persistable(a) || !persistable(b) {
 		return
 	}
+	if n := res[0].Normal; rolling(a, res[0].SubA, pa.Orientation.Conjugate().Rotate(n)) ||
+		rolling(b, res[0].SubB, pb.Orientation.Conjugate().Rotate(n)) { // roll.go
+		return
+	}
 	var mOnB bool
 	var rho float64
 	if e != nil && e.a == a && e.b == b {

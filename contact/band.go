@@ -54,7 +54,7 @@ import (
 // neighbours and would make a tower of them dense.
 //
 // A banded velocity solve starts with every touching point pressing
-// (touches), and takes one step of iterative refinement (refineBand),
+// (touches), and takes one step of iterative refinement (refine.go),
 // which removes the error that the shift (blockShift) makes in every
 // face, summed over the tower's height.
 //
@@ -514,45 +514,4 @@ func (s *Solver) bandLimit(fric bool) int64 {
 // point that need not press leaves the set at the first pivot.
 func (s *Solver) touches(i int32) bool {
 	return s.pts[i].sep <= s.pts[i].slop
-}
-
-// refineBand takes one step of iterative refinement on the banded solve's
-// solution b.x, with the factor of its active rows (G. H. Golub and C. F.
-// Van Loan, "Matrix Computations", 4th ed., Johns Hopkins 2013, section
-// 3.5.3). The factor is that of A + shift I, so the step removes the
-// shift's error, shift times the impulse, to its square (iterated Tikhonov
-// regularisation: H. W. Engl, M. Hanke and A. Neubauer, "Regularization of
-// Inverse Problems", Kluwer 1996, section 5.1). Along a tower that error
-// is a velocity into every face, and summed over its height it sank and
-// turned a tower of 200 boxes of 10 cm at 3 um/s (measured).
-func (b *blockState) refineBand(n int) {
-	bs := &b.band
-	m := len(b.sub)
-	b.z = grow(b.z, m)
-	z := b.z
-	// Forward: L z = r, with r = target - v0 - A x on the active rows.
-	for k, i := range b.sub {
-		r := b.tgt[i] - b.v0[i]
-		lo, hi := bs.lo[i], bs.hi[i]
-		x := b.x[lo : hi+1]
-		for j, a := range b.a[int(i)*n+int(lo) : int(i)*n+int(hi)+1] {
-			r -= a * x[j]
-		}
-		Lk := b.l[k*n : k*n+k+1]
-		f := int(b.first[k])
-		for j, l := range Lk[f:k] {
-			r -= l * z[f+j]
-		}
-		z[k] = r / Lk[k]
-	}
-	// Back: L^T d = z, added to x.
-	for k := m - 1; k >= 0; k-- {
-		Lk := b.l[k*n : k*n+k+1]
-		d := z[k] / Lk[k]
-		b.x[b.sub[k]] += d
-		f := int(b.first[k])
-		for j, l := range Lk[f:k] {
-			z[f+j] -= l * d
-		}
-	}
 }

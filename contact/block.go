@@ -473,8 +473,8 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	if big > blockConsistent*rhs {
 		return false
 	}
-	if band {
-		b.refineBand(n) // band.go
+	if band || big > refineAbove*s.Settings.Tolerance {
+		b.refine(n, band) // refine.go
 	}
 	if fric && !s.sticks(idx) {
 		return false // some contact slides: the sweeps' business

@@ -13,8 +13,10 @@ import (
 // precession of a body turning off its principal axes is of the same
 // second order as the curvature of the joints, and a thin link's is not
 // small: leaving it out leaves a thousand times the drift of a spatial
-// chain of bars). The velocity targets need no more than the constant
-// spin; what they miss the position pass takes.
+// chain of bars). Before the solve a dynamic body turns the same way, at
+// the spin it has, unless it would cone more than maxPredictedConing in the
+// step (coning.go); then it keeps a constant spin, and what its velocity
+// targets miss the position pass takes.
 func (w *World) predictAll(dt float64, solved bool) {
 	m := &w.mech
 	n := len(w.b.kind)
@@ -36,6 +38,9 @@ func (w *World) predictAll(dt float64, solved bool) {
 			// integration reuses it (turnMemo).
 			qp, sp := freeRotation(qmul(&q, &w.b.axes[id]), w.b.moments[id], s, dt)
 			m.turn[id] = turnMemo{step: w.steps, q: q, spin: s, dt: dt, qp: qp, sp: sp}
+			p, q = p.Add(v.Mul(dt)), qmulConj(&qp, &w.b.axes[id]).Normalize()
+		case w.jointFree(id) && w.coning(id, s, dt) <= maxPredictedConing:
+			qp, _ := freeRotation(qmul(&q, &w.b.axes[id]), w.b.moments[id], s, dt)
 			p, q = p.Add(v.Mul(dt)), qmulConj(&qp, &w.b.axes[id]).Normalize()
 		case w.b.kind[id] != Static:
 			p, q = p.Add(v.Mul(dt)), integrateQuat(q, s, dt)

@@ -99,6 +99,7 @@ type World struct {
 	motorChanges []motorChange // schedule.go
 	events       []Event
 	time         float64
+	timeLost     float64 // the low-order part of time (clock.go)
 	steps        int
 	settledAt    float64
 	settled      bool
@@ -276,8 +277,8 @@ func (w *World) step(dt float64) error {
 		work = w.drivenWork() // work.go
 	}
 	w.integrate(dt)
-	w.countGates(dt) // gate.go
-	w.time += dt
+	w.countGates(dt)  // gate.go
+	w.advanceTime(dt) // clock.go
 	w.steps++
 	w.updateRest(dt)
 

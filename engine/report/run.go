@@ -218,7 +218,7 @@ func (r *runner) openFiles() error {
 func (r *runner) loop(ctx context.Context) (simErr error, diverged bool) {
 	s, w, opt := r.s, r.w, r.opt
 	dt := s.World.Step
-	total := int(math.Ceil(s.World.Duration/dt - 1e-9))
+	total := s.World.StepCount() // scene/steps.go
 	every := max(1, total/200)
 	r.sample(0)
 	next := opt.Sample

@@ -135,7 +135,7 @@ func (wk *worker) run(ctx context.Context, g int64) (result, error) {
 	}
 	wk.startCrossings(ids)
 	dt := sc.World.Step
-	steps := int(math.Ceil(sc.World.Duration/dt - 1e-9))
+	steps := sc.World.StepCount()
 	var stepErr error
 	drop := watchDrop(&sc, w, ids)
 	for s := 0; s < steps; s++ {
