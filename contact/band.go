@@ -22,8 +22,8 @@ import (
 //
 // An island of more than MaxBlock points therefore gets the direct solve
 // too when, with its points ordered along its contact graph, the envelope
-// factorisation costs no more than the dense one of MaxBlock points
-// (blockBudget). The order is that of Cuthill and McKee: the bodies by
+// factorisation costs no more per row than the dense one of MaxBlock
+// points (bandBudget). The order is that of Cuthill and McKee: the bodies by
 // breadth-first search from one of fewest contacts, the points by their
 // bodies' places (E. Cuthill and J. McKee, "Reducing the bandwidth of
 // sparse symmetric matrices", Proc. 24th ACM National Conference, 1969;
@@ -39,9 +39,11 @@ import (
 // Friction rows keep a tower banded too when each pair's friction rows
 // follow its normal rows (systemRows). An island of more than
 // maxFrictionBlock points whose system with friction is banded within
-// the budget of the dense system with friction (frictionBudget) is tall:
-// it gets the direct solve with friction at every step, before the sweeps
-// and after them if they did not converge. Left to the sweeps, a tower's
+// the budget per row of the dense system with friction (bandBudget) is
+// tall: it gets the direct solve with friction at every step, before the
+// sweeps and after them if they did not converge, even where its normal
+// rows alone are over their own budget (a pyramid of ten rows of boxes
+// side by side: left to the sweeps it drifted 1.3 mm in 5 s at 1/60 s). Left to the sweeps, a tower's
 // friction and the patches' update after a normal-only solve
 // (settlePatches) rocked a tower of 50 boxes at 1/60 s more each step
 // until it fell (measured: its sway grew tenfold every 20 steps from
@@ -106,6 +108,7 @@ type bandState struct {
 	lo       []int32 // per row of the system: the first row coupled with it
 	hi       []int32 // per row of the system: the last row coupled with it
 	work     int64   // the factor work spent by the current solve
+	flip     []int32 // the rows a pivot exchanges (bandpivot.go)
 }
 
 // run is the points idx[start:end] of one pair of an island, with the
@@ -260,8 +263,16 @@ func (s *Solver) bandOrder(idx []int32) (ok, tall bool, cut int32) {
 	for _, ru := range bs.loose {
 		bs.perm = append(bs.perm, idx[ru.start:ru.end]...)
 	}
-	ok = s.envelopeWork(bs.perm[:cut]) <= blockBudget(s.Settings.MaxBlock)
-	tall = ok && cut > maxFrictionBlock && s.frictionBanded(bs.perm[:cut])
+	// The system with friction holds the normal rows in the same order
+	// with rows between them, so its envelope work is at least theirs: a
+	// pile whose normal rows are over the budget with friction is not
+	// ordered again with friction rows.
+	work := s.envelopeWork(bs.perm[:cut])
+	ok = work <= bandBudget(int(cut), s.Settings.MaxBlock)
+	tall = cut > maxFrictionBlock && work <= bandBudget(3*int(cut), 3*maxFrictionBlock) && s.frictionBanded(bs.perm[:cut])
+	// A tall island's normal rows alone, the solve when its friction
+	// slides, cost less than its system with friction.
+	ok = ok || tall
 	small := int(cut) <= maxFrictionBlock && int(cut) < len(idx) // the dense solve with friction takes the others
 	if !(ok && len(idx) > s.Settings.MaxBlock || tall || small) {
 		return ok, tall, int32(len(idx))
@@ -290,16 +301,26 @@ func (s *Solver) frictionBanded(idx []int32) bool {
 		w := int64(i) - int64(lo) + 1
 		work += w * w
 	}
-	return work <= frictionBudget
+	return work <= bandBudget(n, 3*maxFrictionBlock)
 }
 
-// frictionBudget bounds the envelope work of a banded system with
-// friction: that of the dense one of maxFrictionBlock points, three rows
-// each, the largest that the direct solve takes with friction otherwise.
-// A tower's pairs bring their friction rows next to their normal rows
-// (systemRows), about 900 per box, so that it is tall up to the band's
-// limit (maxBandPoints); a pile's couple rows far apart.
-var frictionBudget = blockBudget(3 * maxFrictionBlock)
+// bandBudget bounds the envelope work of a banded system of rows rows: as
+// much per row as the dense system of dense rows costs per row, and at
+// least all of that. The dense bounds are MaxBlock rows for the normal
+// rows alone and 3*maxFrictionBlock with friction, the largest systems the
+// direct solve takes otherwise (block.go). Tied to the rows rather than to
+// a fixed total, the bound takes a tower of any height (a tower's pairs
+// bring their friction rows next to their normal rows, systemRows, about
+// 1300 per row, under 200 boxes' worth of the dense solve's 12 thousand)
+// and a pyramid of ten rows of boxes side by side (about 3000 per row
+// with friction, measured), while a pile's rows couple with thousands of
+// others in any order and stay with the sweeps.
+func bandBudget(rows, dense int) int64 {
+	if dense < 1 {
+		return 0
+	}
+	return max(blockBudget(dense), int64(rows)*(blockBudget(dense)/int64(dense)))
+}
 
 // maxBandRows bounds the rows of a banded system with friction, which is
 // stored densely like that of normal rows (maxBandPoints): a tower of 256
@@ -482,7 +503,7 @@ func (bs *bandState) reused() bandState {
 		firstRow: scratch.Reuse(bs.firstRow), lastRow: scratch.Reuse(bs.lastRow),
 		deg: scratch.Reuse(bs.deg), adj: scratch.Reuse(bs.adj), fill: scratch.Reuse(bs.fill),
 		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
-		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi),
+		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi), flip: scratch.Reuse(bs.flip),
 	}
 }
 
@@ -494,14 +515,14 @@ func (bs *bandState) reused() bandState {
 // coarse step end on a solution that pushes the boxes apart (measured).
 const maxBandPivots = 4 * maxPivots
 
-// bandLimit is the factor work that the banded solve of a system, with or
-// without friction, may spend over all its pivots: bandPivotBudgets times
-// the budget of its envelope.
-func (s *Solver) bandLimit(fric bool) int64 {
+// bandLimit is the factor work that the banded solve of a system of n
+// rows, with or without friction, may spend over all its pivots:
+// bandPivotBudgets times the budget of its envelope.
+func (s *Solver) bandLimit(n int, fric bool) int64 {
 	if fric {
-		return bandPivotBudgets * frictionBudget
+		return bandPivotBudgets * bandBudget(n, 3*maxFrictionBlock)
 	}
-	return bandPivotBudgets * blockBudget(s.Settings.MaxBlock)
+	return bandPivotBudgets * bandBudget(n, s.Settings.MaxBlock)
 }
 
 // touches reports whether point i touches, within Slop, the start

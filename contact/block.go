@@ -398,20 +398,18 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	b.resetFactor(n)
 	b.band.work = 0
 	tol := s.Settings.Tolerance + 1e-12
-	done, removed := false, false
-	pivotCap := maxPivots
+	done := false
 	if band {
-		pivotCap = maxBandPivots
+		done = b.pivotBand(n, shift, tol, s.bandLimit(n, fric)) // bandpivot.go
 	}
-	for it := 0; it < pivotCap; it++ {
+	for it := 0; it < maxPivots && !band; it++ {
 		// Each pivot changes the active set by a row or a few: update the
 		// factor rather than refactorise (cholesky.go).
-		if band && !b.refactorBand(n, shift, s.bandLimit(fric)) || !band && !b.refactor(n, shift) {
-			// Not positive definite, or (banded) over its budget: leave
-			// the impulses to the sweeps.
+		if !b.refactor(n, shift) {
+			// Not positive definite: leave the impulses to the sweeps.
 			return false
 		}
-		b.solveFactor(n, band)
+		b.solveFactor(n, false)
 		worst, wv := -1, 0.0
 		for i := 0; i < n; i++ {
 			if b.kind[i] == normalRow && b.active[i] && b.x[i] < 0 {
@@ -420,7 +418,6 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			}
 		}
 		if worst >= 0 {
-			removed = true
 			b.follow()
 			continue
 		}
@@ -429,26 +426,11 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 				continue
 			}
 			v := b.v0[i] - b.tgt[i]
-			lo, hi := span(i)
-			x := b.x[lo : hi+1]
-			for j, a := range b.a[i*n+lo : i*n+hi+1] {
-				v += a * x[j]
+			for j, a := range b.a[i*n : i*n+n] {
+				v += a * b.x[j]
 			}
 			if v < -tol && v < wv {
 				worst, wv = i, v
-			}
-			// A banded system takes in every approaching row at once
-			// (band.go) until a row has had to leave: a tower set down
-			// without warm start presses one more face per pivot (the
-			// boxes above fall together), four rows, and its pivots
-			// refactorise a tail of the factor. Exchanging whole sets
-			// can cycle (J. J. Judice and F. M. Pires, "A block
-			// principal pivoting algorithm for large-scale strictly
-			// monotone linear complementarity problems", Computers &
-			// Operations Research 21, 1994), so after a removal rows
-			// enter one at a time again.
-			if band && !removed && v < -tol {
-				b.active[i] = true
 			}
 		}
 		if worst < 0 {
