@@ -109,6 +109,8 @@ type bandState struct {
 	hi       []int32 // per row of the system: the last row coupled with it
 	work     int64   // the factor work spent by the current solve
 	flip     []int32 // the rows a pivot exchanges (bandpivot.go)
+	aoff     []int32 // per row of the system: where its band starts in A (bandstore.go)
+	lbase    []int32 // per row of the factor: where its column 0 would be in L (bandstore.go)
 }
 
 // run is the points idx[start:end] of one pair of an island, with the
@@ -481,10 +483,7 @@ func (b *blockState) refactorBand(n int, shift float64, limit int64) bool {
 		if !b.active[i] {
 			continue
 		}
-		// The factor's rows before the first one coupled with row i
-		// have zeros in its row of L.
-		from, _ := slices.BinarySearch(b.sub, bs.lo[i])
-		if !b.appendRow(n, i, shift, from) {
+		if !b.appendBandRow(i, shift, b.bandFrom(i)) { // bandstore.go
 			return false
 		}
 		k := len(b.sub) - 1
@@ -504,6 +503,7 @@ func (bs *bandState) reused() bandState {
 		deg: scratch.Reuse(bs.deg), adj: scratch.Reuse(bs.adj), fill: scratch.Reuse(bs.fill),
 		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
 		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi), flip: scratch.Reuse(bs.flip),
+		aoff: scratch.Reuse(bs.aoff), lbase: scratch.Reuse(bs.lbase),
 	}
 }
 
@@ -556,10 +556,10 @@ func (b *blockState) refineBand(n int) {
 		r := b.tgt[i] - b.v0[i]
 		lo, hi := bs.lo[i], bs.hi[i]
 		x := b.x[lo : hi+1]
-		for j, a := range b.a[int(i)*n+int(lo) : int(i)*n+int(hi)+1] {
+		for j, a := range b.bandRow(int(i))[lo : hi+1] {
 			r -= a * x[j]
 		}
-		Lk := b.l[k*n : k*n+k+1]
+		Lk := b.factorRow(k)
 		f := int(b.first[k])
 		for j, l := range Lk[f:k] {
 			r -= l * z[f+j]
@@ -568,7 +568,7 @@ func (b *blockState) refineBand(n int) {
 	}
 	// Back: L^T d = z, added to x.
 	for k := m - 1; k >= 0; k-- {
-		Lk := b.l[k*n : k*n+k+1]
+		Lk := b.factorRow(k)
 		d := z[k] / Lk[k]
 		b.x[b.sub[k]] += d
 		f := int(b.first[k])

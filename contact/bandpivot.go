@@ -38,7 +38,7 @@ func (b *blockState) pivotBand(n int, shift, tol float64, limit int64) bool {
 		if !b.refactorBand(n, shift, limit) {
 			return false
 		}
-		b.solveFactor(n, true)
+		b.solveBandFactor(n) // bandstore.go
 		bs.flip = bs.flip[:0]
 		for i := 0; i < n; i++ {
 			if b.kind[i] == normalRow && b.infeasible(n, i, tol) {
@@ -74,7 +74,7 @@ func (b *blockState) infeasible(n, i int, tol float64) bool {
 	lo, hi := int(b.band.lo[i]), int(b.band.hi[i])
 	v := b.v0[i] - b.tgt[i]
 	x := b.x[lo : hi+1]
-	for j, a := range b.a[i*n+lo : i*n+hi+1] {
+	for j, a := range b.bandRow(i)[lo : hi+1] {
 		v += a * x[j]
 	}
 	return v < -tol

@@ -321,7 +321,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	band := len(idx) > s.Settings.MaxBlock || fric && len(idx) > maxFrictionBlock // a tall island (band.go)
 	s.systemRows(idx, fric, band)
 	n := len(b.rows)
-	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
+	b.v0, b.x = grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
 	shift := 0.0
 	// Rows couple only through a shared body slot: the others' entries are
@@ -334,21 +334,13 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	}
 	if band {
 		s.bandRanges(n)
+		shift = b.bandMatrix(n) // bandstore.go
+	} else {
+		b.a = grow(b.a, n*n)
 	}
-	span := func(i int) (int, int) {
-		if band {
-			return int(b.band.lo[i]), int(b.band.hi[i])
-		}
-		return 0, n - 1
-	}
-	for i := 0; i < n; i++ {
+	for i := 0; i < n && !band; i++ {
 		ri, ai, bi := b.rows[i], b.ab[i][0], b.ab[i][1]
-		lo, hi := span(i)
-		if band {
-			clear(b.a[i*n+i+1 : i*n+hi+1]) // the rows below write what couples
-		}
-		for jb, abj := range b.ab[lo : i+1] {
-			j := lo + jb
+		for j, abj := range b.ab[:i+1] {
 			c := 0.0
 			if abj[0] == ai || abj[0] == bi || abj[1] == ai || abj[1] == bi {
 				c = coupling(b.rows[j], ri)
@@ -376,8 +368,14 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// v0: each row's velocity without its island's impulses.
 	for i := 0; i < n; i++ {
 		v := b.rows[i].cdot(vel)
-		lo, hi := span(i)
-		for j, a := range b.a[i*n+lo : i*n+hi+1] {
+		lo, row := 0, []float64(nil)
+		if band {
+			lo = int(b.band.lo[i])
+			row = b.bandRow(i)[lo : b.band.hi[i]+1] // bandstore.go
+		} else {
+			row = b.a[i*n : i*n+n]
+		}
+		for j, a := range row {
 			v -= a * b.lam[lo+j]
 		}
 		b.v0[i] = v
@@ -395,7 +393,11 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 	}
 	b.follow()
-	b.resetFactor(n)
+	if band {
+		b.resetBandFactor(n)
+	} else {
+		b.resetFactor(n)
+	}
 	b.band.work = 0
 	tol := s.Settings.Tolerance + 1e-12
 	done := false
