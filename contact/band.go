@@ -64,12 +64,12 @@ import (
 // points that are not tall and have more than maxFrictionBlock points that
 // are not loose, are solved as before, bit for bit.
 
-// maxBandPoints bounds the islands considered for the banded solve. Its
-// system and factor are stored densely (n^2 entries each, 8 MB at 1024
-// points): 1024 points is a tower of 256 boxes, and a pile of that many
-// points has a wide envelope anyway. Larger islands are not ordered at all,
-// so a pile of thousands of points costs nothing more.
-const maxBandPoints = 1024
+// bandMemoPoints: an island of more points remembers that it is not
+// banded (bandMemo) and is not ordered again while its contacts stay the
+// same. A resting pile of a thousand parts, 4300 points, is over the band's
+// budget in any order; ordering it anew at every step to find that out
+// would cost it about a percent of its step.
+const bandMemoPoints = 1024
 
 // bandPivotBudgets bounds the factorisation work of one banded solve,
 // over all its pivots, in multiples of blockBudget. A dense solve of
@@ -90,27 +90,28 @@ func blockBudget(m int) int64 {
 
 // bandState is the scratch space of the banded solve.
 type bandState struct {
-	ok       []bool  // per island root: solved by the banded solve
-	tall     []bool  // per island root: solved with friction by the banded solve
-	cut      []int32 // per island root: its points solved directly, first in its order
-	loose    []run   // the island's pairs apart (loose)
-	runs     []run   // the island's pairs, as runs of points
-	node     []int32 // per body slot: its place among the island's bodies, -1 if none
-	firstRow []int32 // per body slot: the first row on it
-	lastRow  []int32 // per body slot: the last row on it
-	deg      []int32 // per body u: its list of neighbours is adj[deg[u]:deg[u+1]]
-	adj      []int32 // the neighbours of each body, by body
-	fill     []int32 // per body: entries of adj written so far
-	queue    []int32 // bodies in breadth-first order
-	place    []int32 // per body: its place in queue
-	ground   []bool  // per body: touches a fixed body
-	perm     []int32 // the points in the new order
-	lo       []int32 // per row of the system: the first row coupled with it
-	hi       []int32 // per row of the system: the last row coupled with it
-	work     int64   // the factor work spent by the current solve
-	flip     []int32 // the rows a pivot exchanges (bandpivot.go)
-	aoff     []int32 // per row of the system: where its band starts in A (bandstore.go)
-	lbase    []int32 // per row of the factor: where its column 0 would be in L (bandstore.go)
+	ok       []bool   // per island root: solved by the banded solve
+	tall     []bool   // per island root: solved with friction by the banded solve
+	cut      []int32  // per island root: its points solved directly, first in its order
+	loose    []run    // the island's pairs apart (loose)
+	runs     []run    // the island's pairs, as runs of points
+	node     []int32  // per body slot: its place among the island's bodies, -1 if none
+	firstRow []int32  // per body slot: the first row on it
+	lastRow  []int32  // per body slot: the last row on it
+	deg      []int32  // per body u: its list of neighbours is adj[deg[u]:deg[u+1]]
+	adj      []int32  // the neighbours of each body, by body
+	fill     []int32  // per body: entries of adj written so far
+	queue    []int32  // bodies in breadth-first order
+	place    []int32  // per body: its place in queue
+	ground   []bool   // per body: touches a fixed body
+	perm     []int32  // the points in the new order
+	lo       []int32  // per row of the system: the first row coupled with it
+	hi       []int32  // per row of the system: the last row coupled with it
+	work     int64    // the factor work spent by the current solve
+	memo     []uint64 // per island root: bandSignature of an island found not banded, kept from step to step
+	flip     []int32  // the rows a pivot exchanges (bandpivot.go)
+	aoff     []int32  // per row of the system: where its band starts in A (bandstore.go)
+	lbase    []int32  // per row of the factor: where its column 0 would be in L (bandstore.go)
 }
 
 // run is the points idx[start:end] of one pair of an island, with the
@@ -120,10 +121,10 @@ type run struct {
 	start, end int32
 }
 
-// orderBands decides for each island of more than maxFrictionBlock (and at
-// most maxBandPoints) points whether it gets the banded solve, of its
-// normal rows if it has more than MaxBlock points (ok), with friction
-// (tall), and if so puts its points in b.order in band order.
+// orderBands decides for each island of more than maxFrictionBlock points
+// whether it gets the banded solve, of its normal rows if it has more than
+// MaxBlock points (ok), with friction (tall), and if so puts its points in
+// b.order in band order.
 func (s *Solver) orderBands() {
 	b := &s.blk
 	b.band.ok, b.band.tall = grow(b.band.ok, len(b.size)), grow(b.band.tall, len(b.size))
@@ -131,13 +132,44 @@ func (s *Solver) orderBands() {
 	clear(b.band.ok)
 	clear(b.band.tall)
 	copy(b.band.cut, b.size)
+	memo := &b.band.memo
+	if len(*memo) != len(b.size) { // the body slots changed
+		*memo = grow(*memo, len(b.size))
+		clear(*memo)
+	}
 	for r, n := range b.size {
-		if int(n) <= maxFrictionBlock || n > maxBandPoints {
+		if int(n) <= maxFrictionBlock {
 			continue
 		}
 		idx := b.order[b.start[r] : b.start[r]+n]
+		sig := uint64(0)
+		if n > bandMemoPoints {
+			if sig = s.bandSignature(idx); (*memo)[r] == sig {
+				continue // not banded last time, and nothing changed
+			}
+		}
 		b.band.ok[r], b.band.tall[r], b.band.cut[r] = s.bandOrder(idx)
+		(*memo)[r] = 0
+		if !b.band.ok[r] && b.band.cut[r] == n { // left as it was, to the sweeps
+			(*memo)[r] = sig
+		}
 	}
+}
+
+// bandSignature is a hash of what bandOrder decides points idx by: the
+// body slots of each point and whether it touches or presses (loose). It
+// is never 0.
+func (s *Solver) bandSignature(idx []int32) uint64 {
+	h := uint64(len(idx))
+	for _, i := range idx {
+		r := &s.nrows[i]
+		x := uint64(uint32(r.a))<<32 | uint64(uint32(r.b))<<1
+		if s.pts[i].sep <= s.Settings.Slop || r.lambda > 0 {
+			x |= 1
+		}
+		h = (h ^ x) * 0x100000001b3 // FNV-1a's prime, on 64-bit words
+	}
+	return h | 1
 }
 
 // loose reports whether the points of run ru of idx are all apart by more
@@ -284,15 +316,11 @@ func (s *Solver) bandOrder(idx []int32) (ok, tall bool, cut int32) {
 }
 
 // frictionBanded reports whether the system with friction of points idx,
-// in that order, has at most maxBandRows rows and an envelope work within
-// frictionBudget.
+// in that order, has an envelope work within its budget (bandBudget).
 func (s *Solver) frictionBanded(idx []int32) bool {
 	b := &s.blk
 	s.systemRows(idx, true, true)
 	n := len(b.rows)
-	if n > maxBandRows {
-		return false
-	}
 	b.ab = grow(b.ab, n)
 	for i, r := range b.rows {
 		b.ab[i] = [2]int32{r.a, r.b}
@@ -323,12 +351,6 @@ func bandBudget(rows, dense int) int64 {
 	}
 	return max(blockBudget(dense), int64(rows)*(blockBudget(dense)/int64(dense)))
 }
-
-// maxBandRows bounds the rows of a banded system with friction, which is
-// stored densely like that of normal rows (maxBandPoints): a tower of 256
-// boxes has 7 rows a box (4 normal rows and a patch's 3), 1792 rows, and
-// its system and factor take 51 MB.
-const maxBandRows = 2048
 
 // tall reports whether the island of points idx, of more than
 // maxFrictionBlock points, is solved with friction by the banded solve,

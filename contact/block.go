@@ -169,7 +169,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		if n > s.Settings.MaxBlock && !b.band.ok[r] {
 			continue
 		}
-		if n > maxFrictionBlock && n <= maxBandPoints {
+		if n > maxFrictionBlock {
 			n = int(b.band.cut[r]) // its loose points last (band.go)
 		}
 		if n < 2 {
