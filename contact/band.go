@@ -157,15 +157,22 @@ func (s *Solver) orderBands() {
 }
 
 // bandSignature is a hash of what bandOrder decides points idx by: the
-// body slots of each point and whether it touches or presses (loose). It
-// is never 0.
+// body slots of each point, which of them move, and whether it touches or
+// presses (loose). It is never 0.
 func (s *Solver) bandSignature(idx []int32) uint64 {
+	im := s.sl.im
 	h := uint64(len(idx))
 	for _, i := range idx {
 		r := &s.nrows[i]
-		x := uint64(uint32(r.a))<<32 | uint64(uint32(r.b))<<1
+		x := uint64(uint32(r.a))<<32 | uint64(uint32(r.b))<<3
 		if s.pts[i].sep <= s.Settings.Slop || r.lambda > 0 {
 			x |= 1
+		}
+		if im[r.a] > 0 {
+			x |= 2
+		}
+		if im[r.b] > 0 {
+			x |= 4
 		}
 		h = (h ^ x) * 0x100000001b3 // FNV-1a's prime, on 64-bit words
 	}
