@@ -52,8 +52,9 @@ func (b *blockState) pivotBand(n int, shift, tol float64, limit int64) bool {
 			best, tries = nf, bandBlockTries
 		case tries > 0:
 			tries--
-		default:
-			bs.flip = bs.flip[nf-1:]
+		default: // the last row alone, kept at the buffer's start
+			bs.flip[0] = bs.flip[nf-1]
+			bs.flip = bs.flip[:1]
 		}
 		for _, i := range bs.flip {
 			b.active[i] = !b.active[i]
