@@ -22,8 +22,8 @@ import (
 //
 // An island of more than MaxBlock points therefore gets the direct solve
 // too when, with its points ordered along its contact graph, the envelope
-// factorisation costs no more than the dense one of MaxBlock points
-// (blockBudget). The order is that of Cuthill and McKee: the bodies by
+// factorisation costs no more per row than the dense one of MaxBlock
+// points (bandBudget). The order is that of Cuthill and McKee: the bodies by
 // breadth-first search from one of fewest contacts, the points by their
 // bodies' places (E. Cuthill and J. McKee, "Reducing the bandwidth of
 // sparse symmetric matrices", Proc. 24th ACM National Conference, 1969;
@@ -39,9 +39,11 @@ import (
 // Friction rows keep a tower banded too when each pair's friction rows
 // follow its normal rows (systemRows). An island of more than
 // maxFrictionBlock points whose system with friction is banded within
-// the budget of the dense system with friction (frictionBudget) is tall:
-// it gets the direct solve with friction at every step, before the sweeps
-// and after them if they did not converge. Left to the sweeps, a tower's
+// the budget per row of the dense system with friction (bandBudget) is
+// tall: it gets the direct solve with friction at every step, before the
+// sweeps and after them if they did not converge, even where its normal
+// rows alone are over their own budget (a pyramid of ten rows of boxes
+// side by side: left to the sweeps it drifted 1.3 mm in 5 s at 1/60 s). Left to the sweeps, a tower's
 // friction and the patches' update after a normal-only solve
 // (settlePatches) rocked a tower of 50 boxes at 1/60 s more each step
 // until it fell (measured: its sway grew tenfold every 20 steps from
@@ -62,12 +64,12 @@ import (
 // points that are not tall and have more than maxFrictionBlock points that
 // are not loose, are solved as before, bit for bit.
 
-// maxBandPoints bounds the islands considered for the banded solve. Its
-// system and factor are stored densely (n^2 entries each, 8 MB at 1024
-// points): 1024 points is a tower of 256 boxes, and a pile of that many
-// points has a wide envelope anyway. Larger islands are not ordered at all,
-// so a pile of thousands of points costs nothing more.
-const maxBandPoints = 1024
+// bandMemoPoints: an island of more points remembers that it is not
+// banded (bandMemo) and is not ordered again while its contacts stay the
+// same. A resting pile of a thousand parts, 4300 points, is over the band's
+// budget in any order; ordering it anew at every step to find that out
+// would cost it about a percent of its step.
+const bandMemoPoints = 1024
 
 // bandPivotBudgets bounds the factorisation work of one banded solve,
 // over all its pivots, in multiples of blockBudget. A dense solve of
@@ -88,24 +90,28 @@ func blockBudget(m int) int64 {
 
 // bandState is the scratch space of the banded solve.
 type bandState struct {
-	ok       []bool  // per island root: solved by the banded solve
-	tall     []bool  // per island root: solved with friction by the banded solve
-	cut      []int32 // per island root: its points solved directly, first in its order
-	loose    []run   // the island's pairs apart (loose)
-	runs     []run   // the island's pairs, as runs of points
-	node     []int32 // per body slot: its place among the island's bodies, -1 if none
-	firstRow []int32 // per body slot: the first row on it
-	lastRow  []int32 // per body slot: the last row on it
-	deg      []int32 // per body u: its list of neighbours is adj[deg[u]:deg[u+1]]
-	adj      []int32 // the neighbours of each body, by body
-	fill     []int32 // per body: entries of adj written so far
-	queue    []int32 // bodies in breadth-first order
-	place    []int32 // per body: its place in queue
-	ground   []bool  // per body: touches a fixed body
-	perm     []int32 // the points in the new order
-	lo       []int32 // per row of the system: the first row coupled with it
-	hi       []int32 // per row of the system: the last row coupled with it
-	work     int64   // the factor work spent by the current solve
+	ok       []bool   // per island root: solved by the banded solve
+	tall     []bool   // per island root: solved with friction by the banded solve
+	cut      []int32  // per island root: its points solved directly, first in its order
+	loose    []run    // the island's pairs apart (loose)
+	runs     []run    // the island's pairs, as runs of points
+	node     []int32  // per body slot: its place among the island's bodies, -1 if none
+	firstRow []int32  // per body slot: the first row on it
+	lastRow  []int32  // per body slot: the last row on it
+	deg      []int32  // per body u: its list of neighbours is adj[deg[u]:deg[u+1]]
+	adj      []int32  // the neighbours of each body, by body
+	fill     []int32  // per body: entries of adj written so far
+	queue    []int32  // bodies in breadth-first order
+	place    []int32  // per body: its place in queue
+	ground   []bool   // per body: touches a fixed body
+	perm     []int32  // the points in the new order
+	lo       []int32  // per row of the system: the first row coupled with it
+	hi       []int32  // per row of the system: the last row coupled with it
+	work     int64    // the factor work spent by the current solve
+	memo     []uint64 // per island root: bandSignature of an island found not banded, kept from step to step
+	flip     []int32  // the rows a pivot exchanges (bandpivot.go)
+	aoff     []int32  // per row of the system: where its band starts in A (bandstore.go)
+	lbase    []int32  // per row of the factor: where its column 0 would be in L (bandstore.go)
 }
 
 // run is the points idx[start:end] of one pair of an island, with the
@@ -115,10 +121,10 @@ type run struct {
 	start, end int32
 }
 
-// orderBands decides for each island of more than maxFrictionBlock (and at
-// most maxBandPoints) points whether it gets the banded solve, of its
-// normal rows if it has more than MaxBlock points (ok), with friction
-// (tall), and if so puts its points in b.order in band order.
+// orderBands decides for each island of more than maxFrictionBlock points
+// whether it gets the banded solve, of its normal rows if it has more than
+// MaxBlock points (ok), with friction (tall), and if so puts its points in
+// b.order in band order.
 func (s *Solver) orderBands() {
 	b := &s.blk
 	b.band.ok, b.band.tall = grow(b.band.ok, len(b.size)), grow(b.band.tall, len(b.size))
@@ -126,13 +132,51 @@ func (s *Solver) orderBands() {
 	clear(b.band.ok)
 	clear(b.band.tall)
 	copy(b.band.cut, b.size)
+	memo := &b.band.memo
+	if len(*memo) != len(b.size) { // the body slots changed
+		*memo = grow(*memo, len(b.size))
+		clear(*memo)
+	}
 	for r, n := range b.size {
-		if int(n) <= maxFrictionBlock || n > maxBandPoints {
+		if int(n) <= maxFrictionBlock {
 			continue
 		}
 		idx := b.order[b.start[r] : b.start[r]+n]
+		sig := uint64(0)
+		if n > bandMemoPoints {
+			if sig = s.bandSignature(idx); (*memo)[r] == sig {
+				continue // not banded last time, and nothing changed
+			}
+		}
 		b.band.ok[r], b.band.tall[r], b.band.cut[r] = s.bandOrder(idx)
+		(*memo)[r] = 0
+		if !b.band.ok[r] && b.band.cut[r] == n { // left as it was, to the sweeps
+			(*memo)[r] = sig
+		}
 	}
+}
+
+// bandSignature is a hash of what bandOrder decides points idx by: the
+// body slots of each point, which of them move, and whether it touches or
+// presses (loose). It is never 0.
+func (s *Solver) bandSignature(idx []int32) uint64 {
+	im := s.sl.im
+	h := uint64(len(idx))
+	for _, i := range idx {
+		r := &s.nrows[i]
+		x := uint64(uint32(r.a))<<32 | uint64(uint32(r.b))<<3
+		if s.pts[i].sep <= s.Settings.Slop || r.lambda > 0 {
+			x |= 1
+		}
+		if im[r.a] > 0 {
+			x |= 2
+		}
+		if im[r.b] > 0 {
+			x |= 4
+		}
+		h = (h ^ x) * 0x100000001b3 // FNV-1a's prime, on 64-bit words
+	}
+	return h | 1
 }
 
 // loose reports whether the points of run ru of idx are all apart by more
@@ -260,8 +304,16 @@ func (s *Solver) bandOrder(idx []int32) (ok, tall bool, cut int32) {
 	for _, ru := range bs.loose {
 		bs.perm = append(bs.perm, idx[ru.start:ru.end]...)
 	}
-	ok = s.envelopeWork(bs.perm[:cut]) <= blockBudget(s.Settings.MaxBlock)
-	tall = ok && cut > maxFrictionBlock && s.frictionBanded(bs.perm[:cut])
+	// The system with friction holds the normal rows in the same order
+	// with rows between them, so its envelope work is at least theirs: a
+	// pile whose normal rows are over the budget with friction is not
+	// ordered again with friction rows.
+	work := s.envelopeWork(bs.perm[:cut])
+	ok = work <= bandBudget(int(cut), s.Settings.MaxBlock)
+	tall = cut > maxFrictionBlock && work <= bandBudget(3*int(cut), 3*maxFrictionBlock) && s.frictionBanded(bs.perm[:cut])
+	// A tall island's normal rows alone, the solve when its friction
+	// slides, cost less than its system with friction.
+	ok = ok || tall
 	small := int(cut) <= maxFrictionBlock && int(cut) < len(idx) // the dense solve with friction takes the others
 	if !(ok && len(idx) > s.Settings.MaxBlock || tall || small) {
 		return ok, tall, int32(len(idx))
@@ -271,15 +323,11 @@ func (s *Solver) bandOrder(idx []int32) (ok, tall bool, cut int32) {
 }
 
 // frictionBanded reports whether the system with friction of points idx,
-// in that order, has at most maxBandRows rows and an envelope work within
-// frictionBudget.
+// in that order, has an envelope work within its budget (bandBudget).
 func (s *Solver) frictionBanded(idx []int32) bool {
 	b := &s.blk
 	s.systemRows(idx, true, true)
 	n := len(b.rows)
-	if n > maxBandRows {
-		return false
-	}
 	b.ab = grow(b.ab, n)
 	for i, r := range b.rows {
 		b.ab[i] = [2]int32{r.a, r.b}
@@ -290,22 +338,26 @@ func (s *Solver) frictionBanded(idx []int32) bool {
 		w := int64(i) - int64(lo) + 1
 		work += w * w
 	}
-	return work <= frictionBudget
+	return work <= bandBudget(n, 3*maxFrictionBlock)
 }
 
-// frictionBudget bounds the envelope work of a banded system with
-// friction: that of the dense one of maxFrictionBlock points, three rows
-// each, the largest that the direct solve takes with friction otherwise.
-// A tower's pairs bring their friction rows next to their normal rows
-// (systemRows), about 900 per box, so that it is tall up to the band's
-// limit (maxBandPoints); a pile's couple rows far apart.
-var frictionBudget = blockBudget(3 * maxFrictionBlock)
-
-// maxBandRows bounds the rows of a banded system with friction, which is
-// stored densely like that of normal rows (maxBandPoints): a tower of 256
-// boxes has 7 rows a box (4 normal rows and a patch's 3), 1792 rows, and
-// its system and factor take 51 MB.
-const maxBandRows = 2048
+// bandBudget bounds the envelope work of a banded system of rows rows: as
+// much per row as the dense system of dense rows costs per row, and at
+// least all of that. The dense bounds are MaxBlock rows for the normal
+// rows alone and 3*maxFrictionBlock with friction, the largest systems the
+// direct solve takes otherwise (block.go). Tied to the rows rather than to
+// a fixed total, the bound takes a tower of any height (a tower's pairs
+// bring their friction rows next to their normal rows, systemRows, about
+// 1300 per row, under 200 boxes' worth of the dense solve's 12 thousand)
+// and a pyramid of ten rows of boxes side by side (about 3000 per row
+// with friction, measured), while a pile's rows couple with thousands of
+// others in any order and stay with the sweeps.
+func bandBudget(rows, dense int) int64 {
+	if dense < 1 {
+		return 0
+	}
+	return max(blockBudget(dense), int64(rows)*(blockBudget(dense)/int64(dense)))
+}
 
 // tall reports whether the island of points idx, of more than
 // maxFrictionBlock points, is solved with friction by the banded solve,
@@ -460,10 +512,7 @@ func (b *blockState) refactorBand(n int, shift float64, limit int64) bool {
 		if !b.active[i] {
 			continue
 		}
-		// The factor's rows before the first one coupled with row i
-		// have zeros in its row of L.
-		from, _ := slices.BinarySearch(b.sub, bs.lo[i])
-		if !b.appendRow(n, i, shift, from) {
+		if !b.appendBandRow(i, shift, b.bandFrom(i)) { // bandstore.go
 			return false
 		}
 		k := len(b.sub) - 1
@@ -482,7 +531,8 @@ func (bs *bandState) reused() bandState {
 		firstRow: scratch.Reuse(bs.firstRow), lastRow: scratch.Reuse(bs.lastRow),
 		deg: scratch.Reuse(bs.deg), adj: scratch.Reuse(bs.adj), fill: scratch.Reuse(bs.fill),
 		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
-		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi),
+		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi), flip: scratch.Reuse(bs.flip),
+		aoff: scratch.Reuse(bs.aoff), lbase: scratch.Reuse(bs.lbase),
 	}
 }
 
@@ -494,14 +544,14 @@ func (bs *bandState) reused() bandState {
 // coarse step end on a solution that pushes the boxes apart (measured).
 const maxBandPivots = 4 * maxPivots
 
-// bandLimit is the factor work that the banded solve of a system, with or
-// without friction, may spend over all its pivots: bandPivotBudgets times
-// the budget of its envelope.
-func (s *Solver) bandLimit(fric bool) int64 {
+// bandLimit is the factor work that the banded solve of a system of n
+// rows, with or without friction, may spend over all its pivots:
+// bandPivotBudgets times the budget of its envelope.
+func (s *Solver) bandLimit(n int, fric bool) int64 {
 	if fric {
-		return bandPivotBudgets * frictionBudget
+		return bandPivotBudgets * bandBudget(n, 3*maxFrictionBlock)
 	}
-	return bandPivotBudgets * blockBudget(s.Settings.MaxBlock)
+	return bandPivotBudgets * bandBudget(n, s.Settings.MaxBlock)
 }
 
 // touches reports whether point i touches, within Slop, the start

@@ -169,7 +169,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		if n > s.Settings.MaxBlock && !b.band.ok[r] {
 			continue
 		}
-		if n > maxFrictionBlock && n <= maxBandPoints {
+		if n > maxFrictionBlock {
 			n = int(b.band.cut[r]) // its loose points last (band.go)
 		}
 		if n < 2 {
@@ -321,7 +321,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	band := len(idx) > s.Settings.MaxBlock || fric && len(idx) > maxFrictionBlock // a tall island (band.go)
 	s.systemRows(idx, fric, band)
 	n := len(b.rows)
-	b.a, b.v0, b.x = grow(b.a, n*n), grow(b.v0, n), grow(b.x, n)
+	b.v0, b.x = grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
 	shift := 0.0
 	// Rows couple only through a shared body slot: the others' entries are
@@ -334,21 +334,13 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	}
 	if band {
 		s.bandRanges(n)
+		shift = b.bandMatrix(n) // bandstore.go
+	} else {
+		b.a = grow(b.a, n*n)
 	}
-	span := func(i int) (int, int) {
-		if band {
-			return int(b.band.lo[i]), int(b.band.hi[i])
-		}
-		return 0, n - 1
-	}
-	for i := 0; i < n; i++ {
+	for i := 0; i < n && !band; i++ {
 		ri, ai, bi := b.rows[i], b.ab[i][0], b.ab[i][1]
-		lo, hi := span(i)
-		if band {
-			clear(b.a[i*n+i+1 : i*n+hi+1]) // the rows below write what couples
-		}
-		for jb, abj := range b.ab[lo : i+1] {
-			j := lo + jb
+		for j, abj := range b.ab[:i+1] {
 			c := 0.0
 			if abj[0] == ai || abj[0] == bi || abj[1] == ai || abj[1] == bi {
 				c = coupling(b.rows[j], ri)
@@ -376,8 +368,14 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// v0: each row's velocity without its island's impulses.
 	for i := 0; i < n; i++ {
 		v := b.rows[i].cdot(vel)
-		lo, hi := span(i)
-		for j, a := range b.a[i*n+lo : i*n+hi+1] {
+		lo, row := 0, []float64(nil)
+		if band {
+			lo = int(b.band.lo[i])
+			row = b.bandRow(i)[lo : b.band.hi[i]+1] // bandstore.go
+		} else {
+			row = b.a[i*n : i*n+n]
+		}
+		for j, a := range row {
 			v -= a * b.lam[lo+j]
 		}
 		b.v0[i] = v
@@ -395,23 +393,25 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 	}
 	b.follow()
-	b.resetFactor(n)
+	if band {
+		b.resetBandFactor(n)
+	} else {
+		b.resetFactor(n)
+	}
 	b.band.work = 0
 	tol := s.Settings.Tolerance + 1e-12
-	done, removed := false, false
-	pivotCap := maxPivots
+	done := false
 	if band {
-		pivotCap = maxBandPivots
+		done = b.pivotBand(n, shift, tol, s.bandLimit(n, fric)) // bandpivot.go
 	}
-	for it := 0; it < pivotCap; it++ {
+	for it := 0; it < maxPivots && !band; it++ {
 		// Each pivot changes the active set by a row or a few: update the
 		// factor rather than refactorise (cholesky.go).
-		if band && !b.refactorBand(n, shift, s.bandLimit(fric)) || !band && !b.refactor(n, shift) {
-			// Not positive definite, or (banded) over its budget: leave
-			// the impulses to the sweeps.
+		if !b.refactor(n, shift) {
+			// Not positive definite: leave the impulses to the sweeps.
 			return false
 		}
-		b.solveFactor(n, band)
+		b.solveFactor(n, false)
 		worst, wv := -1, 0.0
 		for i := 0; i < n; i++ {
 			if b.kind[i] == normalRow && b.active[i] && b.x[i] < 0 {
@@ -420,7 +420,6 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			}
 		}
 		if worst >= 0 {
-			removed = true
 			b.follow()
 			continue
 		}
@@ -429,26 +428,11 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 				continue
 			}
 			v := b.v0[i] - b.tgt[i]
-			lo, hi := span(i)
-			x := b.x[lo : hi+1]
-			for j, a := range b.a[i*n+lo : i*n+hi+1] {
-				v += a * x[j]
+			for j, a := range b.a[i*n : i*n+n] {
+				v += a * b.x[j]
 			}
 			if v < -tol && v < wv {
 				worst, wv = i, v
-			}
-			// A banded system takes in every approaching row at once
-			// (band.go) until a row has had to leave: a tower set down
-			// without warm start presses one more face per pivot (the
-			// boxes above fall together), four rows, and its pivots
-			// refactorise a tail of the factor. Exchanging whole sets
-			// can cycle (J. J. Judice and F. M. Pires, "A block
-			// principal pivoting algorithm for large-scale strictly
-			// monotone linear complementarity problems", Computers &
-			// Operations Research 21, 1994), so after a removal rows
-			// enter one at a time again.
-			if band && !removed && v < -tol {
-				b.active[i] = true
 			}
 		}
 		if worst < 0 {

@@ -3,7 +3,7 @@ package contact
 // refine takes one step of iterative refinement on the direct solve's
 // solution b.x, with the factor of its active rows (G. H. Golub and C. F.
 // Van Loan, "Matrix Computations", 4th ed., Johns Hopkins 2013, section
-// 3.5.3); with band (band.go) over each row's band only. The factor is that
+// 3.5.3); with band over each row's band only (bandstore.go). The factor is that
 // of A + shift I, so the step removes the shift's error, shift times the
 // impulse, to its square (iterated Tikhonov regularisation: H. W. Engl,
 // M. Hanke and A. Neubauer, "Regularization of Inverse Problems", Kluwer
@@ -31,15 +31,17 @@ func (b *blockState) refine(n int, band bool) {
 	// Forward: L z = r, with r = target - v0 - A x on the active rows.
 	for k, i := range b.sub {
 		r := b.tgt[i] - b.v0[i]
-		lo, hi := 0, n-1
+		lo, hi, ar := 0, n-1, []float64(nil)
 		if band {
-			lo, hi = int(b.band.lo[i]), int(b.band.hi[i])
+			lo, hi, ar = int(b.band.lo[i]), int(b.band.hi[i]), b.bandRow(int(i))
+		} else {
+			ar = b.a[int(i)*n : int(i)*n+n]
 		}
 		x := b.x[lo : hi+1]
-		for j, a := range b.a[int(i)*n+lo : int(i)*n+hi+1] {
+		for j, a := range ar[lo : hi+1] {
 			r -= a * x[j]
 		}
-		Lk := b.l[k*n : k*n+k+1]
+		Lk := b.lowerRow(k, n, band)
 		f := int(b.first[k])
 		for j, l := range Lk[f:k] {
 			r -= l * z[f+j]
@@ -48,7 +50,7 @@ func (b *blockState) refine(n int, band bool) {
 	}
 	// Back: L^T d = z, into z (in factor order).
 	for k := m - 1; k >= 0; k-- {
-		Lk := b.l[k*n : k*n+k+1]
+		Lk := b.lowerRow(k, n, band)
 		d := z[k] / Lk[k]
 		z[k] = d
 		f := int(b.first[k])
@@ -66,6 +68,16 @@ func (b *blockState) refine(n int, band bool) {
 	for k, i := range b.sub {
 		b.x[i] += z[k]
 	}
+}
+
+// lowerRow is row k of the factor L of an n-row system, indexed by
+// column up to k: stored in its envelope if band (bandstore.go), else
+// densely.
+func (b *blockState) lowerRow(k, n int, band bool) []float64 {
+	if band {
+		return b.factorRow(k)
+	}
+	return b.l[k*n : k*n+k+1]
 }
 
 // refineAbove: a dense solve is refined where the shift's velocity error,
