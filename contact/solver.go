@@ -49,6 +49,7 @@ type pstate struct {
 	arrived             bool    // a deferred impact arrives at it in this pass
 	prevN               float64 // last step's normal impulse of the velocity solve (the load it carried)
 	deferred            float64 // approach speed of an impact deferred to the next step, 0 if none
+	struck              bool    // an impact reaches it this step, now or deferred (impacts)
 	pN, pTarget, pLo    float64 // position pass
 }
 
@@ -556,6 +557,9 @@ func (s *Solver) classify(points []Point) {
 func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
 	vel, fv := s.sl.vel, s.sl.fv
 	set := &s.Settings
+	for i := range s.pts {
+		s.pts[i].struck = false
+	}
 	if set.PairIterations == 0 {
 		return
 	}
@@ -607,6 +611,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					if approach > thr {
 						ac := arrivalSpeed(approach, -rn.cdot(fv), ps.sep, dt)
 						ps.deferred, ps.aStart = max(ac, ps.pending), ac
+						ps.struck = true
 					}
 					continue
 				}
@@ -625,6 +630,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// free flight that follows, which the world integrates
 					// exactly, so an elastic bounce returns to its height.
 					ps.iTarget = ps.e * approach
+					ps.struck = true
 					vmax = max(vmax, approach)
 					points[i].ImpactSpeed = max(points[i].ImpactSpeed, approach)
 				}
