@@ -1,9 +1,6 @@
 package contact
 
-import (
-	"math"
-	"slices"
-)
+import "slices"
 
 // The storage of a banded system (band.go): each row of A keeps only its
 // band, the columns lo..hi of the rows it shares a moving body with, and
@@ -87,8 +84,8 @@ func (b *blockState) resetBandFactor(n int) {
 
 // appendBandRow borders the banded factor with row p of the system, whose
 // entries in the factor's rows before from are zero: appendRow
-// (cholesky.go) on the profile storage, with the same operations in the
-// same order.
+// (cholesky.go) on the profile storage, whose row m starts where row m-1
+// ends.
 func (b *blockState) appendBandRow(p int, shift float64, from int) bool {
 	m := len(b.sub)
 	start := 0
@@ -96,37 +93,16 @@ func (b *blockState) appendBandRow(p int, shift float64, from int) bool {
 		start = int(b.band.lbase[m-1]) + m // the end of row m-1
 	}
 	b.band.lbase[m] = int32(start - from)
-	Lm, ap := b.factorRow(m), b.bandRow(p)
-	diag, rhs := ap[p]+shift, b.tgt[p]-b.v0[p]
-	f := m // Lm's first nonzero entry so far
-	for jf, sj := range b.sub[from:] {
-		j := from + jf
-		sum := ap[sj]
-		Lj := b.factorRow(j)
-		if lo := max(f, int(b.first[j])); lo < j {
-			lm := Lm[lo:j]
-			for k, x := range Lj[lo:j] {
-				sum -= lm[k] * x
-			}
-		}
-		if sum != 0 {
-			Lm[j] = sum / Lj[j]
-			f = min(f, j)
-			diag -= Lm[j] * Lm[j]
-		} else {
-			Lm[j] = 0
-		}
-		rhs -= Lm[j] * b.y[j]
+	return b.border(b.bandRow(p), p, 0, shift, from, true)
+}
+
+// lowerRow is row k of the factor L of an n-row system, indexed by
+// column up to k: stored in its envelope if band, else densely.
+func (b *blockState) lowerRow(k, n int, band bool) []float64 {
+	if band {
+		return b.factorRow(k)
 	}
-	if !(diag > 0) {
-		return false
-	}
-	b.first[m] = int32(f)
-	Lm[m] = math.Sqrt(diag)
-	b.y[m] = rhs / Lm[m]
-	b.pos[p] = int32(m)
-	b.sub = append(b.sub, int32(p))
-	return true
+	return b.l[k*n : k*n+k+1]
 }
 
 // solveBandFactor is solveFactor (cholesky.go) on the banded factor.

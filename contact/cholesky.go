@@ -75,9 +75,14 @@ func (b *blockState) refactor(n int, shift float64) bool {
 // appendRow borders the factor with row p of the system, whose entries in
 // the factor's rows before from are known to be zero.
 func (b *blockState) appendRow(n, p int, shift float64, from int) bool {
+	return b.border(b.a[p*n:p*n+n], p, n, shift, from, false)
+}
+
+// border appends row p of the system, ap (indexed by column), to the
+// factor of n rows, stored in its envelope if band (bandstore.go).
+func (b *blockState) border(ap []float64, p, n int, shift float64, from int, band bool) bool {
 	m := len(b.sub)
-	L, ap := b.l, b.a[p*n:p*n+n]
-	Lm := L[m*n : m*n+m+1]
+	Lm := b.lowerRow(m, n, band)
 	diag, rhs := ap[p]+shift, b.tgt[p]-b.v0[p]
 	f := m // Lm's first nonzero entry so far
 	for jf, sj := range b.sub[from:] {
@@ -85,7 +90,7 @@ func (b *blockState) appendRow(n, p int, shift float64, from int) bool {
 		sum := ap[sj]
 		// Row slices, so that the inner product runs without index
 		// arithmetic and bounds checks.
-		Lj := L[j*n : j*n+j+1]
+		Lj := b.lowerRow(j, n, band)
 		if lo := max(f, int(b.first[j])); lo < j {
 			lm := Lm[lo:j]
 			for k, x := range Lj[lo:j] {

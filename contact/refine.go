@@ -70,16 +70,6 @@ func (b *blockState) refine(n int, band bool) {
 	}
 }
 
-// lowerRow is row k of the factor L of an n-row system, indexed by
-// column up to k: stored in its envelope if band (bandstore.go), else
-// densely.
-func (b *blockState) lowerRow(k, n int, band bool) []float64 {
-	if band {
-		return b.factorRow(k)
-	}
-	return b.l[k*n : k*n+k+1]
-}
-
 // refineAbove: a dense solve is refined where the shift's velocity error,
 // shift times the largest impulse, passes this fraction of the solver's
 // Tolerance. Near-equal masses keep it orders below (their results stay as
