@@ -131,7 +131,11 @@ type persistEntry struct {
 	// the still pair reached it.
 	wait uint32
 	aged bool
-	m    keptManifold
+	// nOnA: the kept normal is in A's frame (else B's): F's, or the shape
+	// that does not roll (roll.go). rollA, rollB: the shape touches along a
+	// curved surface.
+	nOnA, rollA, rollB bool
+	m                  keptManifold
 }
 
 // keptManifold is a manifold in the shapes' frames.
@@ -257,7 +261,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 	rf := &ra
-	if !e.mOnB {
+	if !e.nOnA {
 		rf = &rb
 	}
 	k := &e.m
@@ -269,6 +273,9 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 	for i := 0; i < k.count; i++ {
 		placeTo(&a, &ra, &pa.Position, &k.pa[i])
 		placeTo(&b, &rb, &pb.Position, &k.pb[i])
+		if e.rollA || e.rollB {
+			e.rollPoints(&a, &b, &ra, &rb, pa, pb, &n, i) // roll.go
+		}
 		g0, g1, g2 := b[0]-a[0], b[1]-a[1], b[2]-a[2]
 		sep := g0*n[0] + g1*n[1] + g2*n[2]
 		d0, d1, d2 := g0-n[0]*sep, g1-n[1]*sep, g2-n[2]*sep
@@ -284,6 +291,9 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 	}
 	placeTo(&a, &ra, &pa.Position, &k.ca)
 	placeTo(&b, &rb, &pb.Position, &k.cb)
+	if e.rollA || e.rollB {
+		e.rollPoints(&a, &b, &ra, &rb, pa, pb, &n, -1)
+	}
 	out.PatchCenter = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
 	return true
 }
@@ -370,8 +380,10 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	if len(res) != 1 || res[0].Count == 0 || !persistable(a) || !persistable(b) {
 		return
 	}
-	if n := res[0].Normal; rolling(a, res[0].SubA, pa.Orientation.Conjugate().Rotate(n)) ||
-		rolling(b, res[0].SubB, pb.Orientation.Conjugate().Rotate(n)) { // roll.go
+	n := res[0].Normal
+	rollA := rolling(a, res[0].SubA, pa.Orientation.Conjugate().Rotate(n)) // roll.go
+	rollB := rolling(b, res[0].SubB, pb.Orientation.Conjugate().Rotate(n))
+	if rollA && (rollB || !rollable(a)) || rollB && !rollable(b) {
 		return
 	}
 	var mOnB bool
@@ -390,13 +402,15 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 		e = &p.add[len(p.add)-1]
 	}
 	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin, wait: wait}
+	e.rollA, e.rollB = rollA, rollB
+	e.nOnA = mOnB && !rollA || rollB
 	e.rho = rho
 	e.rq, e.rt = relPose(e.mOnB, &pa, &pb)
 	m := &res[0]
 	e.flat = flatPoints(m)
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 	rf := ra
-	if !e.mOnB {
+	if !e.nOnA {
 		rf = rb
 	}
 	k := &e.m

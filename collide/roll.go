@@ -10,14 +10,21 @@ import (
 // fresh query finds it only while each shape touches with a face, an edge
 // or a vertex: a material point. A ball, a capsule or a cylinder on its
 // side touches along a curved surface instead, and rolling carries the
-// material point of the last full query off the contact: the kept point
-// lags behind the true one by the distance rolled since, up to the motion
-// limit, and the normal load there turns the part on in the direction it
-// rolls. That feeds on itself: a ball of 2 cm resting on a box resting on
-// a floor, kept awake, started rolling from rounding and left the box in
-// 10 s at 1 ms; a capsule lying on a box crept 4 mm in 30 s at 1/30 s
-// (measured; with the refresh off both stay within 1e-8 m). Such pairs run
-// the full query every step.
+// material point of the last full query off the contact: kept, it would
+// lag behind the true one by the distance rolled since, and the normal
+// load there would turn the part on in the direction it rolls. That feeds
+// on itself: a ball of 2 cm resting on a box resting on a floor, kept
+// awake, started rolling from rounding and left the box in 10 s at 1 ms;
+// a capsule lying on a box crept 4 mm in 30 s at 1/30 s (measured; with
+// the refresh off both stay within 1e-8 m).
+//
+// So the curved shape's point is not kept but found again at each refresh:
+// its support along the kept normal at the point's place along its axis
+// (rollPoints), where a fresh query finds it; the normal is kept in the
+// frame of the other shape, whose face, edge or vertex touches; and the
+// other shape's point is moved along its surface under it. Two curved
+// shapes touching, or a curved piece of a compound, run the full query
+// every step.
 
 // capAlign is the cosine above which a cylinder's contact normal counts as
 // along its axis, the contact then being on a flat cap: 1e-3 rad, far
@@ -41,4 +48,58 @@ func rolling(s shapes.Shape, sub int32, n vec3) bool {
 		return rolling(p.Shape, -1, p.Pose.Orientation.Conjugate().Rotate(n))
 	}
 	return false
+}
+
+// rollable reports whether rollPoints places the points of s: a ball, a
+// capsule or a cylinder, not a compound's piece.
+func rollable(s shapes.Shape) bool {
+	switch s.(type) {
+	case shapes.Sphere, shapes.Capsule, shapes.Cylinder:
+		return true
+	}
+	return false
+}
+
+// rollPoints places the refreshed points a and b (world) of e's kept point
+// i (-1: the patch centre) at the support of the rolling shape along the
+// normal n, A toward B: the rolling shape's point where a fresh query
+// finds it, and the other's moved to lie across from it along n, which
+// keeps their separation along n.
+func (e *persistEntry) rollPoints(a, b *vec3, ra, rb *mat3, pa, pb *shapes.Pose, n *vec3, i int) {
+	k := &e.m
+	if e.rollA {
+		z := k.ca[2]
+		if i >= 0 {
+			z = k.pa[i][2]
+		}
+		loc := rollSupport(e.a, z, mulT(*ra, *n))
+		placeTo(a, ra, &pa.Position, &loc)
+		sep := (b[0]-a[0])*n[0] + (b[1]-a[1])*n[1] + (b[2]-a[2])*n[2]
+		*b = vec3{a[0] + n[0]*sep, a[1] + n[1]*sep, a[2] + n[2]*sep}
+		return
+	}
+	z := k.cb[2]
+	if i >= 0 {
+		z = k.pb[i][2]
+	}
+	loc := rollSupport(e.b, z, mulT(*rb, vec3{-n[0], -n[1], -n[2]}))
+	placeTo(b, rb, &pb.Position, &loc)
+	sep := (b[0]-a[0])*n[0] + (b[1]-a[1])*n[1] + (b[2]-a[2])*n[2]
+	*a = vec3{b[0] - n[0]*sep, b[1] - n[1]*sep, b[2] - n[2]*sep}
+}
+
+// rollSupport is the point of rollable shape s (its frame) farthest along
+// d at height z along its axis: the ball's along d, the capsule's from its
+// core at z, the cylinder's on its side at z.
+func rollSupport(s shapes.Shape, z float64, d vec3) vec3 {
+	switch c := s.(type) {
+	case shapes.Sphere:
+		return d.Mul(c.Radius / d.Len())
+	case shapes.Capsule:
+		return d.Mul(c.Radius / d.Len()).Add(vec3{0, 0, min(max(z, -c.HalfLength), c.HalfLength)})
+	case shapes.Cylinder:
+		l := math.Hypot(d[0], d[1])
+		return vec3{d[0] * c.Radius / l, d[1] * c.Radius / l, min(max(z, -c.HalfLength), c.HalfLength)}
+	}
+	panic("collide: rollSupport of a shape that does not roll")
 }
