@@ -86,9 +86,20 @@ func (s *Solver) alignKeys(points []Point, owner []int32, fresh *[]keyIndex) boo
 	return true
 }
 
-// sortFew sorts a few entries by key (insertion sort) and reports whether
-// their keys are unique.
+// sortFew sorts a few entries by key and reports whether their keys are
+// unique.
 func sortFew(f []keyIndex) bool {
+	insertionSort(f)
+	for i := 1; i < len(f); i++ {
+		if f[i].key == f[i-1].key {
+			return false
+		}
+	}
+	return true
+}
+
+// insertionSort sorts f by key, stably: the fastest sort of a few entries.
+func insertionSort(f []keyIndex) {
 	for i := 1; i < len(f); i++ {
 		e := f[i]
 		j := i
@@ -98,12 +109,6 @@ func sortFew(f []keyIndex) bool {
 		}
 		f[j] = e
 	}
-	for i := 1; i < len(f); i++ {
-		if f[i].key == f[i-1].key {
-			return false
-		}
-	}
-	return true
 }
 
 // mergeAligned appends to out the points in key order: the entries of

@@ -35,16 +35,7 @@ func (s *Solver) sortKeysAll(points []Point) {
 	}
 	src, dst := s.byKey, s.keyTmp[:0]
 	if n <= smallSort {
-		// Few points (a part on a floor): insertion sort, stable too.
-		for i := 1; i < n; i++ {
-			e := src[i]
-			j := i
-			for j > 0 && src[j-1].key > e.key {
-				src[j] = src[j-1]
-				j--
-			}
-			src[j] = e
-		}
+		insertionSort(src[:n]) // few points (a part on a floor); align.go
 	} else {
 		src, dst = radixKeys(src, grow(dst, n))
 	}
