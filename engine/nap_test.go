@@ -48,19 +48,9 @@ var napCases = []napCase{{
 	// A five-row pyramid of boxes rests as one island of fifteen bodies.
 	name: "pyramid",
 	build: func(t *testing.T, off bool) (*World, []BodyID) {
-		const h = 0.05
 		w, mat := floorWorld(t, DefaultConfig(), 0, Material{Friction: 0.6})
 		w.nap.off = off
-		var ids []BodyID
-		for row := 0; row < pileRows; row++ {
-			n := pileRows - row
-			for i := 0; i < n; i++ {
-				x := (float64(i) - float64(n-1)/2) * 2 * h * 1.01
-				ids = append(ids, mustAdd(t, w, BodyDef{Name: "box", Shape: shapes.Box{Half: shapes.Vec3{h, h, h}},
-					Density: 500, Material: mat, Position: shapes.Vec3{x, 0, h + 2*h*float64(row)}}))
-			}
-		}
-		return w, ids
+		return w, addPyramid(t, w, mat) // sleep_test.go
 	},
 	steps: 3000,
 }, {

@@ -140,29 +140,17 @@ func scaleCases() []scaleCase {
 		{name: "pendulum period, 40 deg", ref: "T = 4 sqrt(I/(m g d)) K(sin^2(a/2)) (Landau and Lifshitz, Mechanics, sec. 11; gonum mathext.CompleteK)",
 			want: 1, tol: scalePeriodTol, spread: scalePeriodTol, run: pendulumPeriod},
 		{name: "box tilted 45 deg, e = 0: back on its face 3", ref: "statics: tips over its edge beyond atan(0.3/0.2) = 56.3 deg",
-			want: 0, tol: scaleExact, spread: scaleExact, run: func(t *testing.T, s, rho, dt float64) float64 {
-				return boxFaceAfterTilt(t, s, rho, dt, 45)
-			}},
+			want: 0, tol: scaleExact, spread: scaleExact, run: atAngle(boxFaceAfterTilt, 45)},
 		{name: "box tilted 65 deg, e = 0: onto its side", ref: "statics: tips over its edge beyond atan(0.3/0.2) = 56.3 deg",
-			want: 1, tol: scaleExact, spread: scaleExact, run: func(t *testing.T, s, rho, dt float64) float64 {
-				return boxFaceAfterTilt(t, s, rho, dt, 65)
-			}},
+			want: 1, tol: scaleExact, spread: scaleExact, run: atAngle(boxFaceAfterTilt, 65)},
 		{name: "cylinder tilted 20 deg: stands", ref: "statics: tips beyond atan(r/(l/2)) = 31.0 deg",
-			want: 0, tol: scaleExact, spread: scaleExact, run: func(t *testing.T, s, rho, dt float64) float64 {
-				return cylinderAfterTilt(t, s, rho, dt, 20)
-			}},
+			want: 0, tol: scaleExact, spread: scaleExact, run: atAngle(cylinderAfterTilt, 20)},
 		{name: "cylinder tilted 45 deg: lies down", ref: "statics: tips beyond atan(r/(l/2)) = 31.0 deg",
-			want: 1, tol: scaleExact, spread: scaleExact, run: func(t *testing.T, s, rho, dt float64) float64 {
-				return cylinderAfterTilt(t, s, rho, dt, 45)
-			}},
+			want: 1, tol: scaleExact, spread: scaleExact, run: atAngle(cylinderAfterTilt, 45)},
 		{name: "block b/h = 0.5 on a 24 deg incline: stands", ref: "statics: tips at atan(b/h) = 26.6 deg",
-			want: 0, tol: scaleExact, spread: scaleExact, run: func(t *testing.T, s, rho, dt float64) float64 {
-				return blockTipsOnIncline(t, s, rho, dt, 24)
-			}},
+			want: 0, tol: scaleExact, spread: scaleExact, run: atAngle(blockTipsOnIncline, 24)},
 		{name: "block b/h = 0.5 on a 29 deg incline: tips", ref: "statics: tips at atan(b/h) = 26.6 deg",
-			want: 1, tol: scaleExact, spread: scaleExact, run: func(t *testing.T, s, rho, dt float64) float64 {
-				return blockTipsOnIncline(t, s, rho, dt, 29)
-			}},
+			want: 1, tol: scaleExact, spread: scaleExact, run: atAngle(blockTipsOnIncline, 29)},
 		{name: "cube at rest: sink / size", ref: "statics: a rigid cube rests on its face, sunk 0",
 			want: 0, tol: scaleSinkTol, spread: scaleSinkTol, run: cubeSink},
 		{name: "stack of 4: sideways drift / size", ref: "statics: a straight stack stays straight",
@@ -336,6 +324,11 @@ func pendulumPeriod(t *testing.T, s, rho, dt float64) float64 {
 		return math.NaN()
 	}
 	return (cross[2] - cross[0]) / want
+}
+
+// atAngle is the scaling case run of f at the angle deg (degrees).
+func atAngle(f func(t *testing.T, s, rho, dt, deg float64) float64, deg float64) func(t *testing.T, s, rho, dt float64) float64 {
+	return func(t *testing.T, s, rho, dt float64) float64 { return f(t, s, rho, dt, deg) }
 }
 
 // boxFaceAfterTilt stands a box of 1 x 0.6 x 0.4 sizes turned by deg about

@@ -15,17 +15,8 @@ const pileRows = 5
 
 func restingPile(t *testing.T, dt float64) (*World, []BodyID, float64) {
 	t.Helper()
-	const h = 0.05
 	w, mat := floorWorld(t, DefaultConfig(), 0, Material{Friction: 0.6})
-	var ids []BodyID
-	for row := 0; row < pileRows; row++ {
-		n := pileRows - row
-		for i := 0; i < n; i++ {
-			x := (float64(i) - float64(n-1)/2) * 2 * h * 1.01
-			ids = append(ids, mustAdd(t, w, BodyDef{Name: "box", Shape: shapes.Box{Half: shapes.Vec3{h, h, h}},
-				Density: 500, Material: mat, Position: shapes.Vec3{x, 0, h + 2*h*float64(row)}}))
-		}
-	}
+	ids := addPyramid(t, w, mat)
 	for n := 0; n < int(3/dt) && w.anyAwake(ids); n++ {
 		if err := w.Step(dt); err != nil {
 			t.Fatal(err)
@@ -35,6 +26,23 @@ func restingPile(t *testing.T, dt float64) (*World, []BodyID, float64) {
 		t.Fatal("the pile did not fall asleep within 3 s")
 	}
 	return w, ids, dt
+}
+
+// addPyramid adds restingPile's pyramid of pileRows rows of 10 cm boxes
+// of material mat to w, at rest, and returns the boxes.
+func addPyramid(t *testing.T, w *World, mat int) []BodyID {
+	t.Helper()
+	const h = 0.05
+	var ids []BodyID
+	for row := 0; row < pileRows; row++ {
+		n := pileRows - row
+		for i := 0; i < n; i++ {
+			x := (float64(i) - float64(n-1)/2) * 2 * h * 1.01
+			ids = append(ids, mustAdd(t, w, BodyDef{Name: "box", Shape: shapes.Box{Half: shapes.Vec3{h, h, h}},
+				Density: 500, Material: mat, Position: shapes.Vec3{x, 0, h + 2*h*float64(row)}}))
+		}
+	}
+	return ids
 }
 
 func (w *World) anyAwake(ids []BodyID) bool {
