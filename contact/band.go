@@ -165,7 +165,7 @@ func (s *Solver) bandSignature(idx []int32) uint64 {
 	for _, i := range idx {
 		r := &s.nrows[i]
 		x := uint64(uint32(r.a))<<32 | uint64(uint32(r.b))<<3
-		if s.pts[i].sep <= s.Settings.Slop || r.lambda > 0 {
+		if s.pts[i].sep <= s.pts[i].slop || r.lambda > 0 { // as loose judges
 			x |= 1
 		}
 		if im[r.a] > 0 {

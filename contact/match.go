@@ -30,9 +30,11 @@ func pairOrder(x, y pairIndex) int {
 // the reference face. The point is the same point carrying the same load;
 // losing its warm start would make it look like a new contact hit by a
 // step of gravity. So a point whose key is new takes over the nearest
-// unclaimed point of the same body pair within Slop of where it is: a
-// distance the contact's features cannot cross without the contact itself
-// changing (points of one manifold lie much farther apart).
+// unclaimed point of the same body pair within its slop of where it is
+// (slop.go: at most a hundredth of a small part's radius): a distance the
+// contact's features cannot cross without the contact itself changing
+// (points of one manifold lie much farther apart). A fixed Slop of 0.2 mm
+// would reach across the corners of a 0.2 mm part.
 func (s *Solver) matchPoints(points []Point) {
 	s.sortKeys(points)
 	prev := s.prevPts
@@ -62,10 +64,9 @@ func (s *Solver) matchPoints(points []Point) {
 }
 
 // matchByPosition matches the points left without a key match to unclaimed
-// points of last step of the same pair within Slop, nearest first in the
-// points' order.
+// points of last step of the same pair within the point's slop, nearest
+// first in the points' order.
 func (s *Solver) matchByPosition(points []Point) {
-	r2 := s.Settings.Slop * s.Settings.Slop
 	cur := 0 // a cursor over prevPair (sorted by bodies)
 	for g := 0; g+1 < len(s.groups); g++ {
 		lo, hi := int(s.groups[g]), int(s.groups[g+1])
@@ -81,7 +82,8 @@ func (s *Solver) matchByPosition(points []Point) {
 				}
 				pr = &s.prevPair[k]
 			}
-			best, bestD := int32(-1), r2
+			r := s.pts[i].slop
+			best, bestD := int32(-1), r*r
 			for k := pr.lo; k < pr.hi; k++ {
 				if s.claimed[k] {
 					continue

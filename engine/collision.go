@@ -141,10 +141,10 @@ func shapeBounds(s shapes.Shape) localBounds {
 }
 
 // moveBounds grows an awake body's bounds by its speculative margin: how
-// far its surface can travel this step, plus the slop (the step, stage 2).
+// far its surface can travel this step, plus its slop (the step, stage 2).
 func (w *World) moveBounds(id BodyID, dt float64) {
 	c := &w.collision
-	m := (w.b.vel[id].Len()+w.b.spin[id].Len()*w.b.radius[id])*dt + w.cfg.Slop
+	m := (w.b.vel[id].Len()+w.b.spin[id].Len()*w.b.radius[id])*dt + w.bodySlop(id) // (slop.go)
 	if w.soft.on {
 		m += w.softLookAhead(int(id)) // compliant.go
 	}

@@ -16,10 +16,12 @@ import (
 // world stops instead, naming the part and what holds it.
 
 // jamDepthSlops: a driven contact predicted to end the step deeper than
-// this many slops, and still closing, is a jam. Resting and pushed contacts
-// stay within one slop (position correction holds them there); a drive
-// that closes on a blocked part adds its own travel every step, so the
-// depth passes five slops (1 mm at the default slop) within a few steps.
+// this many of its slops, and still closing, is a jam. Resting and pushed
+// contacts stay within one slop (position correction holds them there); a
+// drive that closes on a blocked part adds its own travel every step, so
+// the depth passes five slops (1 mm at the default slop, 5 percent of the
+// radius of a part under 2 cm, whose slop follows its size: slop.go)
+// within a few steps.
 const jamDepthSlops = 5
 
 // JamError reports a body squeezed between a driven body and others that
@@ -53,7 +55,6 @@ func quoteList(names []string) string {
 // the solve and before the positions are integrated.
 func (w *World) checkJam(dt float64) error {
 	c := &w.collision
-	limit := jamDepthSlops * w.cfg.Slop
 	for i := range c.points {
 		p := &c.points[i]
 		a, b := BodyID(p.A), BodyID(p.B)
@@ -75,7 +76,7 @@ func (w *World) checkJam(dt float64) error {
 		vb := w.b.vel[b].Add(vpB).Add(w.b.spin[b].Add(wpB).Cross(rb))
 		vn := vb.Sub(va).Dot(p.Normal)
 		depth := -(p.Separation + vn*dt)
-		if vn >= 0 || depth <= limit {
+		if vn >= 0 || depth <= jamDepthSlops*w.pairSlop(part, drive) { // (slop.go)
 			continue
 		}
 		// The others that jam it push back against the drive: their push

@@ -59,8 +59,8 @@ func fmtLength(m float64) string {
 }
 
 // CheckOverlaps reports, as an *OverlapError naming the deepest pair, the
-// bodies that are inside each other by more than the slop (the sink that
-// resting contact itself leaves). Pairs that never collide (static or
+// bodies that are inside each other by more than their contacts' slop (the
+// sink that resting contact itself leaves, slop.go). Pairs that never collide (static or
 // kinematic with each other, filtered out, joined by a joint) are not
 // checked. Call it after the bodies are placed and before the first step.
 func (w *World) CheckOverlaps() error {
@@ -88,7 +88,7 @@ func (w *World) CheckOverlaps() error {
 				}
 			}
 		}
-		if depth <= w.cfg.Slop {
+		if depth <= w.pairSlop(a, b) { // (slop.go)
 			continue
 		}
 		n++
