@@ -82,6 +82,9 @@ func sincos(x float64) (sin, cos float64) {
 	if math.Abs(x) < tinyTurn {
 		return x, 1
 	}
+	if s, c, ok := sincosOctant(x); ok { // octant.go
+		return s, c
+	}
 	return math.Sincos(x)
 }
 
