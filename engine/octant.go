@@ -12,8 +12,10 @@ import "math"
 // operations are math.Sincos's, whose polynomials are those of S. L.
 // Moshier's Cephes library (sin.c), so the roundings are the same.
 func sincosOctant(x float64) (sin, cos float64, ok bool) {
+	// a 4/pi < 1 is uint64(a 4/pi) == 0 for a >= 0, without the
+	// conversion; NaN fails it.
 	a := math.Abs(x)
-	if uint64(a*(4/math.Pi)) != 0 || !(a > 0) {
+	if !(a*(4/math.Pi) < 1) || a == 0 {
 		return 0, 0, false // another octant, a zero, NaN or an infinity
 	}
 	const (
