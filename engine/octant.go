@@ -1,23 +1,16 @@
 package engine
 
-import "math"
-
-// sincosOctant is math.Sincos, bit for bit, for |x| whose octant number
-// uint64(|x| 4/pi) is 0, and reports whether x was such an angle. There
-// math.Sincos reduces nothing (the reduced angle is x itself) and only
-// evaluates its two polynomials; this is that evaluation, written out
-// here so that the free rotation's calls (almost all of them small turns,
-// above tinyTurn while a part rocks or settles) skip the special cases,
-// the reduction and the call. The coefficients and the order of the
-// operations are math.Sincos's, whose polynomials are those of S. L.
-// Moshier's Cephes library (sin.c), so the roundings are the same.
-func sincosOctant(x float64) (sin, cos float64, ok bool) {
-	// a 4/pi < 1 is uint64(a 4/pi) == 0 for a >= 0, without the
-	// conversion; NaN fails it.
-	a := math.Abs(x)
-	if !(a*(4/math.Pi) < 1) || a == 0 {
-		return 0, 0, false // another octant, a zero, NaN or an infinity
-	}
+// sincosOctant is math.Sincos(x), bit for bit, for x with a = |x| in
+// the first octant: a > 0 and a 4/pi < 1, that is uint64(a 4/pi) == 0, the
+// octant number math.Sincos works out. There math.Sincos reduces nothing
+// (the reduced angle is a itself) and only evaluates its two polynomials;
+// this is that evaluation, written out here so that the free rotation's
+// calls (almost all of them small turns, above tinyTurn while a part
+// rocks or tumbles) skip the special cases, the reduction and a call. The
+// coefficients and the order of the operations are math.Sincos's, whose
+// polynomials are those of S. L. Moshier's Cephes library (sin.c), so the
+// roundings are the same.
+func sincosOctant(x, a float64) (sin, cos float64) {
 	const (
 		s0, s1, s2 = 1.58962301576546568060e-10, -2.50507477628578072866e-8, 2.75573136213857245213e-6
 		s3, s4, s5 = -1.98412698295895385996e-4, 8.33333333332211858878e-3, -1.66666666666666307295e-1
@@ -30,5 +23,5 @@ func sincosOctant(x float64) (sin, cos float64, ok bool) {
 	if x < 0 {
 		sin = -sin
 	}
-	return sin, cos, true
+	return sin, cos
 }
