@@ -86,6 +86,13 @@ func (b *blockState) find(i int32) int32 {
 // islands groups the points by island into b.order and reports the number
 // of points in each island root in b.size (-1 where joint rows take part).
 func (s *Solver) islands(points []Point, rows []Row) {
+	if !s.islandOne(points, rows) { // one moving body (islandone.go)
+		s.unionIslands(points, rows)
+	}
+}
+
+// unionIslands is islands for any step: a union-find over the body slots.
+func (s *Solver) unionIslands(points []Point, rows []Row) {
 	b := &s.blk
 	im := s.sl.im
 	nb := len(im)

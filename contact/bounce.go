@@ -44,8 +44,16 @@ func (s *Solver) bounceThreshold(ps *pstate, dt float64) float64 {
 // turnAcceleration is the size of the normal part of the centripetal
 // acceleration omega x (omega x r) = omega (omega . r) - r |omega|^2 of the
 // point at lever arm r on body b, m/s^2.
+//
+// A body that does not turn (a floor, a part that slides) gives 0 without
+// the products: they would give a zero too, perhaps -0, which the
+// threshold it is added to (bounceThreshold, a sum with t >= 0) cannot
+// tell from 0.
 func turnAcceleration(b *Body, r, n *vec) float64 {
 	w := &b.W
+	if *w == (vec{}) {
+		return 0
+	}
 	wr, ww, wn, rn := dot3(w, r), dot3(w, w), dot3(w, n), dot3(r, n)
 	a := wn*wr - rn*ww
 	if a < 0 {

@@ -86,6 +86,9 @@ func (l *liveState) reset(nb, n int, tol float64, loose bool) {
 // liveRows fills s.live.rows for the points and patches of this step; with
 // live off (no block solve, or Tolerance 0) nothing is skipped.
 func (s *Solver) liveRows(live bool) {
+	if !s.live.loose {
+		return // no row is skipped: sweepFew reads no live rows
+	}
 	rows := s.live.rows
 	for i := range s.pts {
 		rn := &s.nrows[i]

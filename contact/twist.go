@@ -322,6 +322,9 @@ func (s *Solver) solvePatchVel(pa *patch) float64 {
 // point's by pointScale, a patch's by patchScale); with block it also
 // records each island's largest excess for blockSolve.
 func (s *Solver) sweepPoints(block bool) (res, excess float64) {
+	if !s.live.loose {
+		return s.sweepFew(block) // no row is skipped (sweepfew.go)
+	}
 	vel := s.sl.vel
 	t := sweepTally{conv: s.Settings.Convergence, tol: s.Settings.Tolerance}
 	if block {

@@ -208,19 +208,16 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 			if pt.Separation <= slop {
 				touch = true
 			}
-			c.points = append(c.points, contact.Point{
-				A: int32(a), B: int32(b),
-				Position:        pt.Position,
-				Normal:          mf.Normal,
-				Separation:      pt.Separation,
-				Friction:        coef.Friction,
-				StaticFriction:  coef.StaticFriction,
-				Restitution:     coef.Restitution,
-				Key:             contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
-				PatchCenter:     mf.PatchCenter, // patch friction (contact/twist.go)
-				PatchRadius:     mf.PatchRadius,
-				SurfaceVelocity: sv,
-			})
+			// Filled in place: a Point built and then appended is
+			// written twice (some 250 bytes).
+			c.points = append(c.points, contact.Point{})
+			cp := &c.points[len(c.points)-1]
+			cp.A, cp.B = int32(a), int32(b)
+			cp.Position, cp.Normal, cp.Separation = pt.Position, mf.Normal, pt.Separation
+			cp.Friction, cp.StaticFriction, cp.Restitution = coef.Friction, coef.StaticFriction, coef.Restitution
+			cp.Key = contactKey(a, b, mf.SubA, mf.SubB, pt.ID)
+			cp.PatchCenter, cp.PatchRadius = mf.PatchCenter, mf.PatchRadius // patch friction (contact/twist.go)
+			cp.SurfaceVelocity = sv
 		}
 	}
 	if touch {

@@ -79,8 +79,12 @@ const tinyTurn = 0x1p-28
 // nanoradians a step, so the free rotation's ten calls mostly ask for
 // angles below tinyTurn, whose answer is known.
 func sincos(x float64) (sin, cos float64) {
-	if math.Abs(x) < tinyTurn {
+	a := math.Abs(x)
+	switch {
+	case a < tinyTurn:
 		return x, 1
+	case a*(4/math.Pi) < 1: // the first octant; false for NaN
+		return sincosOctant(x, a) // octant.go
 	}
 	return math.Sincos(x)
 }
