@@ -30,10 +30,12 @@ const bandBlockTries = 3
 // pivotBand finds the active rows of the banded system of n rows, from
 // b.active, and leaves its solution in b.x. It reports false if the
 // system is not positive definite, the pivots' factor work exceeds limit,
-// or maxBandPivots pivots do not end it.
+// the single exchanges cycle (bandcycle.go), or maxBandPivots pivots do
+// not end it.
 func (b *blockState) pivotBand(n int, shift, tol float64, limit int64) bool {
 	bs := &b.band
 	best, tries := n+1, bandBlockTries
+	bs.cycle.start(b, n) // bandcycle.go
 	for it := 0; it < maxBandPivots; it++ {
 		if !b.refactorBand(n, shift, limit) {
 			return false
@@ -50,14 +52,18 @@ func (b *blockState) pivotBand(n int, shift, tol float64, limit int64) bool {
 			return true
 		case nf < best:
 			best, tries = nf, bandBlockTries
+			bs.cycle.newLow()
 		case tries > 0:
 			tries--
+		case bs.cycle.repeats():
+			return false // the single exchanges cycle: they cannot end
 		default: // the last row alone, kept at the buffer's start
 			bs.flip[0] = bs.flip[nf-1]
 			bs.flip = bs.flip[:1]
 		}
 		for _, i := range bs.flip {
 			b.active[i] = !b.active[i]
+			bs.cycle.flip(i)
 		}
 		b.follow()
 	}

@@ -269,12 +269,18 @@ func (s *Solver) penetrates(idx []int32) bool {
 // Before the sweeps, a normal-rows-only solve is skipped where the warm
 // start already solves them (warmSolved). A tall island (a tower, band.go)
 // is solved with friction every time, but after the sweeps only while no
-// impact reaches it (struck). It reports whether the friction rows
+// impact reaches it (struck), and never where its warm start already
+// solves that system or a point slides faster than its friction can stop
+// (tallpolicy.go). It reports whether the friction rows
 // were solved too.
 func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
 	small := len(idx) <= maxFrictionBlock
-	if !pseudo && (small && (final || s.massRatio(idx) > blockFrictionRatio) || !small && s.tall(idx) && !(final && s.struck(idx))) {
-		if s.solveRows(idx, false, true) {
+	tall := !small && s.tall(idx)
+	if !pseudo && (small && (final || s.massRatio(idx) > blockFrictionRatio) || tall && !(final && s.struck(idx))) {
+		if tall && !final && s.warmSticks(idx) { // tallpolicy.go
+			return true
+		}
+		if !(tall && s.outrunsFriction(idx)) && s.solveRows(idx, false, true) {
 			return true
 		}
 	} else if !pseudo && !final && s.warmSolved(idx) {

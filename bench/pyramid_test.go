@@ -1,0 +1,5 @@
+package bench
+
+import "testing"
+
+func BenchmarkPyramidAwake(b *testing.B) { PyramidAwake(b) }
