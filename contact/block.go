@@ -59,6 +59,7 @@ type blockState struct {
 	lam    []float64 // the rows' impulses when the solve starts
 	tgt    []float64 // the rows' targets
 	active []bool
+	free   []freeRow  // friction rows released from the system (blockrows.go)
 	sub    []int32    // the active rows in the order of the factor b.l (cholesky.go)
 	first  []int32    // where each row of the factor may start to be nonzero (cholesky.go)
 	pos    []int32    // each row's place in b.sub, -1 if inactive
@@ -250,8 +251,10 @@ func (s *Solver) penetrates(idx []int32) bool {
 // coupling is the velocity change of row q per unit impulse of row p.
 // solveIsland solves the island of points idx. With friction (real
 // velocities only) the tangent rows of pressing points join the system as
-// sticking rows; that solution is taken only if every friction impulse
-// lies in its cone, else the normal rows are solved alone.
+// sticking rows; a contact whose friction impulse would leave its cone
+// is released from the system (release, blockrows.go), and the solution
+// is taken only if the released contacts do not slip, else the normal
+// rows are solved alone.
 //
 // A point of a contact patch (twist.go) has no friction rows of its own:
 // the patch's three rows (two tangents and the twist) join the system in
@@ -411,6 +414,8 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0 || band && !pseudo && s.touches(idx[b.of[i]])
 		}
 	}
+	b.free = grow(b.free, n)
+	clear(b.free)
 	b.follow()
 	if band {
 		b.resetBandFactor(n)
@@ -418,12 +423,67 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		b.resetFactor(n)
 	}
 	b.band.work = 0
-	tol := s.Settings.Tolerance + 1e-12
-	done := false
-	if band {
-		done = b.pivotBand(n, shift, tol, s.bandLimit(n, fric)) // bandpivot.go
+	for round := 0; ; round++ {
+		if !s.pivotRows(n, band, fric, shift) {
+			return false // contacts still opening and closing: the sweeps' business
+		}
+		// A consistent system is solved to within the shift's share of the
+		// impulses; one without a solution (a body squeezed between a driven
+		// and a fixed one) gives impulses of the order of 1/shift. Leave those
+		// to the sweeps and the world's checks.
+		rhs, big := 0.0, 0.0
+		for i := 0; i < n; i++ {
+			rhs = max(rhs, math.Abs(b.tgt[i]-b.v0[i]))
+			big = max(big, shift*math.Abs(b.x[i]))
+		}
+		if big > blockConsistent*rhs {
+			return false
+		}
+		if band || big > refineAbove*s.Settings.Tolerance {
+			b.refine(n, band) // refine.go
+		}
+		if !fric {
+			break
+		}
+		// Friction outside its bound: release it (blockrows.go) and solve
+		// the others again; the sweeps take the released friction.
+		if k := s.release(idx); k == 0 {
+			if !b.holds(n, band, s.Settings.Tolerance) { // blockrows.go
+				return false // a released contact slips: the sweeps' business
+			}
+			break
+		} else if round == maxReleases {
+			return false // some contacts slide: the sweeps' business
+		}
+		b.follow()
 	}
-	for it := 0; it < maxPivots && !band; it++ {
+	for i := 0; i < n; i++ {
+		x := b.x[i]
+		if b.kind[i] == normalRow {
+			x = max(x, 0)
+		}
+		l := lambda(i)
+		d := x - *l
+		if d == 0 {
+			continue
+		}
+		*l += d
+		b.rows[i].apply(vel, d)
+	}
+	return true
+}
+
+// pivotRows finds the active set of the system of n rows and leaves its
+// solution in b.x: by block principal pivoting if band (bandpivot.go),
+// else one or a few rows a pivot. It reports false if it found none
+// within its bounds or the system is not positive definite.
+func (s *Solver) pivotRows(n int, band, fric bool, shift float64) bool {
+	b := &s.blk
+	tol := s.Settings.Tolerance + 1e-12
+	if band {
+		return b.pivotBand(n, shift, tol, s.bandLimit(n, fric)) // bandpivot.go
+	}
+	for it := 0; it < maxPivots; it++ {
 		// Each pivot changes the active set by a row or a few: update the
 		// factor rather than refactorise (cholesky.go).
 		if !b.refactor(n, shift) {
@@ -455,45 +515,10 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			}
 		}
 		if worst < 0 {
-			done = true
-			break
+			return true
 		}
 		b.active[worst] = true
 		b.follow()
 	}
-	if !done {
-		return false // contacts still opening and closing: the sweeps' business
-	}
-	// A consistent system is solved to within the shift's share of the
-	// impulses; one without a solution (a body squeezed between a driven
-	// and a fixed one) gives impulses of the order of 1/shift. Leave those
-	// to the sweeps and the world's checks.
-	rhs, big := 0.0, 0.0
-	for i := 0; i < n; i++ {
-		rhs = max(rhs, math.Abs(b.tgt[i]-b.v0[i]))
-		big = max(big, shift*math.Abs(b.x[i]))
-	}
-	if big > blockConsistent*rhs {
-		return false
-	}
-	if band || big > refineAbove*s.Settings.Tolerance {
-		b.refine(n, band) // refine.go
-	}
-	if fric && !s.sticks(idx) {
-		return false // some contact slides: the sweeps' business
-	}
-	for i := 0; i < n; i++ {
-		x := b.x[i]
-		if b.kind[i] == normalRow {
-			x = max(x, 0)
-		}
-		l := lambda(i)
-		d := x - *l
-		if d == 0 {
-			continue
-		}
-		*l += d
-		b.rows[i].apply(vel, d)
-	}
-	return true
+	return false
 }
