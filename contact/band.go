@@ -166,7 +166,7 @@ func (s *Solver) bandSignature(idx []int32) uint64 {
 	for _, i := range idx {
 		r := &s.nrows[i]
 		x := uint64(uint32(r.a))<<32 | uint64(uint32(r.b))<<3
-		if s.pts[i].sep <= s.pts[i].slop || r.lambda > 0 { // as loose judges
+		if s.pts[i].sep <= s.pts[i].slop || r.lambda > 0 && s.pressed(i) { // as loose judges
 			x |= 1
 		}
 		if im[r.a] > 0 {
@@ -181,7 +181,8 @@ func (s *Solver) bandSignature(idx []int32) uint64 {
 }
 
 // loose reports whether the points of run ru of idx are all apart by more
-// than Slop and carry no impulse. The margin of speculative points grows
+// than Slop and carry no impulse, or one that only the sweeps of their own
+// pair gave them (pressed). The margin of speculative points grows
 // with the step, g dt^2 for parts at rest: at 1/60 s, 2.7 mm, so that
 // each of a tower of 1 mm cubes has speculative points with the three
 // above it, and its system is dense (measured: 10 cubes, 168 points,
@@ -191,7 +192,7 @@ func (s *Solver) bandSignature(idx []int32) uint64 {
 // out of its graph and order, and solves the others.
 func (s *Solver) loose(idx []int32, ru run) bool {
 	for _, i := range idx[ru.start:ru.end] {
-		if s.pts[i].sep <= s.pts[i].slop || s.nrows[i].lambda > 0 {
+		if s.pts[i].sep <= s.pts[i].slop || s.nrows[i].lambda > 0 && s.pressed(i) { // bandpivot.go
 			return false
 		}
 	}

@@ -59,6 +59,7 @@ type blockState struct {
 	lam    []float64 // the rows' impulses when the solve starts
 	tgt    []float64 // the rows' targets
 	active []bool
+	free   []freeRow  // friction rows released from the system (blockrows.go)
 	sub    []int32    // the active rows in the order of the factor b.l (cholesky.go)
 	first  []int32    // where each row of the factor may start to be nonzero (cholesky.go)
 	pos    []int32    // each row's place in b.sub, -1 if inactive
@@ -257,8 +258,10 @@ func (s *Solver) penetrates(idx []int32) bool {
 // coupling is the velocity change of row q per unit impulse of row p.
 // solveIsland solves the island of points idx. With friction (real
 // velocities only) the tangent rows of pressing points join the system as
-// sticking rows; that solution is taken only if every friction impulse
-// lies in its cone, else the normal rows are solved alone.
+// sticking rows; a contact whose friction impulse would leave its cone
+// is released from the system (release, blockrows.go), and the solution
+// is taken only if the released contacts do not slip, else the normal
+// rows are solved alone.
 //
 // A point of a contact patch (twist.go) has no friction rows of its own:
 // the patch's three rows (two tangents and the twist) join the system in
@@ -417,13 +420,25 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// position pass, whose impulses start at zero, those of the velocity
 	// solve just done. A pile's points mostly press in both, so the pass
 	// starts next to its solution instead of adding them one pivot each.
-	// A banded system's velocity solve starts from every touching point
-	// too (band.go).
+	// A banded system's velocity solve starts from the touching points
+	// instead (touches, band.go), whatever their impulse: a point apart
+	// beyond the slop that the sweeps of its pair alone made press (a
+	// 1 mm cube's speculative point on the floor two rows below, at
+	// 1/60 s) asks for a velocity the touching points forbid, impulses of
+	// the order of the difference over the shift (blockShift) came out,
+	// and the pivots went round until their bound and left a pyramid of
+	// 1 mm cubes to the sweeps, which let it fall (measured). Such a point
+	// enters at the first pivot if it must press.
 	for i := 0; i < n; i++ {
 		if b.kind[i] == normalRow {
-			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0 || band && !pseudo && s.touches(idx[b.of[i]])
+			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
+			if band && !pseudo {
+				b.active[i] = s.touches(idx[b.of[i]])
+			}
 		}
 	}
+	b.free = grow(b.free, n)
+	clear(b.free)
 	b.follow()
 	if band {
 		b.resetBandFactor(n)
@@ -431,12 +446,67 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		b.resetFactor(n)
 	}
 	b.band.work = 0
-	tol := s.Settings.Tolerance + 1e-12
-	done := false
-	if band {
-		done = b.pivotBand(n, shift, tol, s.bandLimit(n, fric)) // bandpivot.go
+	for round := 0; ; round++ {
+		if !s.pivotRows(n, band, fric, shift) {
+			return false // contacts still opening and closing: the sweeps' business
+		}
+		// A consistent system is solved to within the shift's share of the
+		// impulses; one without a solution (a body squeezed between a driven
+		// and a fixed one) gives impulses of the order of 1/shift. Leave those
+		// to the sweeps and the world's checks.
+		rhs, big := 0.0, 0.0
+		for i := 0; i < n; i++ {
+			rhs = max(rhs, math.Abs(b.tgt[i]-b.v0[i]))
+			big = max(big, shift*math.Abs(b.x[i]))
+		}
+		if big > blockConsistent*rhs {
+			return false
+		}
+		if band || big > refineAbove*s.Settings.Tolerance {
+			b.refine(n, band) // refine.go
+		}
+		if !fric {
+			break
+		}
+		// Friction outside its bound: release it (blockrows.go) and solve
+		// the others again; the sweeps take the released friction.
+		if k := s.release(idx); k == 0 {
+			if !b.holds(n, band, s.Settings.Tolerance) { // blockrows.go
+				return false // a released contact slips: the sweeps' business
+			}
+			break
+		} else if round == maxReleases {
+			return false // some contacts slide: the sweeps' business
+		}
+		b.follow()
 	}
-	for it := 0; it < maxPivots && !band; it++ {
+	for i := 0; i < n; i++ {
+		x := b.x[i]
+		if b.kind[i] == normalRow {
+			x = max(x, 0)
+		}
+		l := lambda(i)
+		d := x - *l
+		if d == 0 {
+			continue
+		}
+		*l += d
+		b.rows[i].apply(vel, d)
+	}
+	return true
+}
+
+// pivotRows finds the active set of the system of n rows and leaves its
+// solution in b.x: by block principal pivoting if band (bandpivot.go),
+// else one or a few rows a pivot. It reports false if it found none
+// within its bounds or the system is not positive definite.
+func (s *Solver) pivotRows(n int, band, fric bool, shift float64) bool {
+	b := &s.blk
+	tol := s.Settings.Tolerance + 1e-12
+	if band {
+		return b.pivotBand(n, shift, tol, s.bandLimit(n, fric)) // bandpivot.go
+	}
+	for it := 0; it < maxPivots; it++ {
 		// Each pivot changes the active set by a row or a few: update the
 		// factor rather than refactorise (cholesky.go).
 		if !b.refactor(n, shift) {
@@ -468,45 +538,10 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			}
 		}
 		if worst < 0 {
-			done = true
-			break
+			return true
 		}
 		b.active[worst] = true
 		b.follow()
 	}
-	if !done {
-		return false // contacts still opening and closing: the sweeps' business
-	}
-	// A consistent system is solved to within the shift's share of the
-	// impulses; one without a solution (a body squeezed between a driven
-	// and a fixed one) gives impulses of the order of 1/shift. Leave those
-	// to the sweeps and the world's checks.
-	rhs, big := 0.0, 0.0
-	for i := 0; i < n; i++ {
-		rhs = max(rhs, math.Abs(b.tgt[i]-b.v0[i]))
-		big = max(big, shift*math.Abs(b.x[i]))
-	}
-	if big > blockConsistent*rhs {
-		return false
-	}
-	if band || big > refineAbove*s.Settings.Tolerance {
-		b.refine(n, band) // refine.go
-	}
-	if fric && !s.sticks(idx) {
-		return false // some contact slides: the sweeps' business
-	}
-	for i := 0; i < n; i++ {
-		x := b.x[i]
-		if b.kind[i] == normalRow {
-			x = max(x, 0)
-		}
-		l := lambda(i)
-		d := x - *l
-		if d == 0 {
-			continue
-		}
-		*l += d
-		b.rows[i].apply(vel, d)
-	}
-	return true
+	return false
 }

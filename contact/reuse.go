@@ -32,7 +32,7 @@ func (b *blockState) reused() blockState {
 	return blockState{
 		parent: scratch.Reuse(b.parent), size: scratch.Reuse(b.size), start: scratch.Reuse(b.start), order: scratch.Reuse(b.order),
 		a: scratch.Reuse(b.a), l: scratch.Reuse(b.l), v0: scratch.Reuse(b.v0), x: scratch.Reuse(b.x),
-		lam: scratch.Reuse(b.lam), tgt: scratch.Reuse(b.tgt), active: scratch.Reuse(b.active),
+		lam: scratch.Reuse(b.lam), tgt: scratch.Reuse(b.tgt), active: scratch.Reuse(b.active), free: scratch.Reuse(b.free),
 		sub: scratch.Reuse(b.sub), pos: scratch.Reuse(b.pos), col: scratch.Reuse(b.col), y: scratch.Reuse(b.y), z: scratch.Reuse(b.z),
 		rows: scratch.Reuse(b.rows), kind: scratch.Reuse(b.kind), of: scratch.Reuse(b.of), cnt: scratch.Reuse(b.cnt),
 		root: scratch.Reuse(b.root), excess: scratch.Reuse(b.excess),

@@ -63,8 +63,9 @@ func TestPyramidsKeptAwakeStand(t *testing.T) {
 	}
 }
 
-// standPyramid runs pyramid c kept awake and checks that no box moved.
-func standPyramid(t *testing.T, c pyramidCase) {
+// standPyramid runs pyramid c kept awake and checks that no box moved. It
+// returns the world and the boxes, bottom row first.
+func standPyramid(t *testing.T, c pyramidCase) (*World, []BodyID) {
 	cfg := DefaultConfig()
 	cfg.NoSleep = true
 	w, mat := floorWorld(t, cfg, 0, Material{Friction: 0.6})
@@ -87,4 +88,5 @@ func standPyramid(t *testing.T, c pyramidCase) {
 			t.Errorf("box %d moved %.3g m (%.3g m across, %.3g m up), want at most %.3g", i, d.Len(), math.Hypot(d[0], d[1]), d[2], tol)
 		}
 	}
+	return w, ids
 }
