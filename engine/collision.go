@@ -201,12 +201,21 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	touch := false
 	slop := w.pairSlop(a, b)      // (slop.go)
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
+	turning := w.turns(a) || w.turns(b)
 	for m := range c.manifolds {
 		mf := &c.manifolds[m]
 		for k := 0; k < mf.Count; k++ {
 			pt := &mf.Points[k]
 			if pt.Separation <= slop {
 				touch = true
+			}
+			svk := sv
+			if turning { // a turning support's material moves along arcs (turning.go)
+				at := pt.Position
+				if mf.PatchRadius > 0 {
+					at = mf.PatchCenter // the patch's friction acts there (contact/twist.go)
+				}
+				svk = sv.Add(w.turnSurface(a, b, at, dt))
 			}
 			c.points = append(c.points, contact.Point{
 				A: int32(a), B: int32(b),
@@ -219,7 +228,7 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 				Key:             contactKey(a, b, mf.SubA, mf.SubB, pt.ID),
 				PatchCenter:     mf.PatchCenter, // patch friction (contact/twist.go)
 				PatchRadius:     mf.PatchRadius,
-				SurfaceVelocity: sv,
+				SurfaceVelocity: svk,
 			})
 		}
 	}
