@@ -109,12 +109,13 @@ type World struct {
 	pushed       []bool        // bodies a contact, joint or force acted on this step (flight.go)
 
 	collision collisionState
-	active    activeSet  // the awake bodies (active.go)
-	mech      mechanisms // joints and drivers (joint.go, driver.go)
-	gates     gateState  // counting gates (gate.go)
-	soft      softState  // compliant contacts (compliant.go)
-	nap       napState   // islands asleep before their rest time ran out (nap.go)
-	kept      keptState  // meshes and principal axes, kept by Reset (reuse.go)
+	active    activeSet   // the awake bodies (active.go)
+	mech      mechanisms  // joints and drivers (joint.go, driver.go)
+	gates     gateState   // counting gates (gate.go)
+	soft      softState   // compliant contacts (compliant.go)
+	nap       napState    // islands asleep before their rest time ran out (nap.go)
+	steady    steadyState // the velocities each body's rest began with (steady.go)
+	kept      keptState   // meshes and principal axes, kept by Reset (reuse.go)
 }
 
 // kick is an impulse applied at a moment.
