@@ -107,6 +107,7 @@ type World struct {
 	preSolve     preSolveLog   // energies before the last steps' contact solves (energy.go)
 	flight       []shapes.Vec3 // velocities after gravity, before the solve (flight.go)
 	pushed       []bool        // bodies a contact, joint or force acted on this step (flight.go)
+	ledger       energyLedger  // the energy guard over many steps (ledger.go)
 
 	collision collisionState
 	active    activeSet   // the awake bodies (active.go)
@@ -278,6 +279,9 @@ func (w *World) step(dt float64) error {
 		work = w.drivenWork() // work.go
 	}
 	w.integrate(dt)
+	if w.ledger.fault != nil {
+		w.ledger.fault(w) // the ledger's tests inject a gain (ledger.go)
+	}
 	w.countGates(dt)  // gate.go
 	w.advanceTime(dt) // clock.go
 	w.steps++
@@ -290,6 +294,11 @@ func (w *World) step(dt float64) error {
 		if err := w.checkEnergy(max(e0, w.preSolve.max())+work, k0); err != nil {
 			return err
 		}
+		if err := w.checkLedger(e0, ePre, work, dt); err != nil { // over many steps (ledger.go)
+			return err
+		}
+	} else {
+		w.ledger.on = false
 	}
 	w.preSolve.add(ePre)
 	return nil
