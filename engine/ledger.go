@@ -20,16 +20,18 @@ import (
 // allowance stops the run.
 //
 // Energy that a deferred impact holds back for a step or a few and then
-// gives back (preSolveLog) is no gain: the low is taken over windows of
-// ledgerWindow values, each counted at its window's highest value, so a
-// dip shorter than a window never lowers it. A kick, a compliant contact
+// gives back (preSolveLog) is no gain: the low is taken over blocks of
+// ledgerWindow consecutive values, each counted at its highest value, so a
+// dip shorter than a block never lowers it (every block it touches keeps
+// a value from before or after it). A kick, a compliant contact
 // (its springs hold energy the sums cannot see), a body added, placed or
 // set moving by hand or a change of gravity between steps starts the
 // ledger again.
 
-// ledgerWindow is the number of the ledger's latest values whose highest
-// counts toward its low: the end and pre-solve energies of the steps over
-// which the per-step guard lets deferred impacts give energy back.
+// ledgerWindow is the number of the ledger's consecutive values whose
+// highest counts toward its low: the end and pre-solve energies of the
+// steps over which the per-step guard lets deferred impacts give energy
+// back.
 const ledgerWindow = 2 * (preSolveSteps + 1)
 
 // ledgerFraction is the part of the largest kinetic energy since the low
@@ -49,9 +51,9 @@ type energyLedger struct {
 	last  float64 // the energy at the end of the last step checked
 	step  int     // that step
 	work  float64 // the drives' work since the ledger began, J
-	win   [ledgerWindow]float64
-	n     int     // values written into win
-	low   float64 // the lowest window high of E - W so far
+	hi    float64 // the highest value of E - W in the current block
+	n     int     // values in the current block
+	low   float64 // the lowest block high of E - W so far
 	lowAt float64 // the time of that low, s
 	kin   float64 // the largest kinetic energy since then
 	lin   float64 // the largest linear kinetic energy since then
@@ -69,18 +71,15 @@ func (l *energyLedger) restart(e0 float64) {
 	l.push(e0)
 }
 
-// push adds a value of E - W and lowers the low to the window's high.
+// push adds a value of E - W to the current block of ledgerWindow values
+// and, once the block is full, lowers the low to the block's highest.
 func (l *energyLedger) push(x float64) {
-	l.win[l.n%ledgerWindow] = x
-	l.n++
-	if l.n < ledgerWindow {
-		return
+	if l.n == 0 || x > l.hi {
+		l.hi = x
 	}
-	hi := l.win[0]
-	for _, v := range l.win[1:] {
-		hi = max(hi, v)
+	if l.n++; l.n == ledgerWindow {
+		l.low, l.n = min(l.low, l.hi), 0
 	}
-	l.low = min(l.low, hi)
 }
 
 // checkLedger enters the step just taken: e0 its start energy, pre the
@@ -101,9 +100,17 @@ func (w *World) checkLedger(e0, pre, work, dt float64) error {
 	if l.low < lowBefore {
 		l.lowAt, l.kin, l.lin = w.time, k1, lin
 	}
-	l.kin, l.lin = max(l.kin, k1), max(l.lin, lin)
+	if k1 > l.kin {
+		l.kin = k1
+	}
+	if lin > l.lin {
+		l.lin = lin
+	}
 	l.last, l.step = e1, w.steps
 	gain := x - l.low
+	if gain <= ledgerFraction*l.kin { // the common case: no need of the rest
+		return nil
+	}
 	allow := ledgerFraction*l.kin + w.energyFloor() + w.flightAllowance(l.lin, dt)
 	if !(gain > allow) {
 		return nil
