@@ -281,6 +281,9 @@ func (w *World) SetVelocity(id BodyID, v, spin shapes.Vec3) {
 func (w *World) SetPose(id BodyID, position shapes.Vec3, orientation shapes.Quat) {
 	w.b.pos[id], w.b.rot[id] = position, orientation.Normalize()
 	w.active.poseAll = true // (active.go)
+	if w.b.kind[id] == Static {
+		w.staticMoved(id) // what slept on it, or sleeps where it now is, wakes (support.go)
+	}
 	w.wake(id)
 }
 

@@ -201,12 +201,21 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	touch := false
 	slop := w.pairSlop(a, b)      // (slop.go)
 	sv := w.surfaceVelocity(a, b) // conveyors (driver.go)
+	turning := w.turns(a) || w.turns(b)
 	for m := range c.manifolds {
 		mf := &c.manifolds[m]
 		for k := 0; k < mf.Count; k++ {
 			pt := &mf.Points[k]
 			if pt.Separation <= slop {
 				touch = true
+			}
+			svk := sv
+			if turning { // a turning support's material moves along arcs (turning.go)
+				at := pt.Position
+				if mf.PatchRadius > 0 {
+					at = mf.PatchCenter // the patch's friction acts there (contact/twist.go)
+				}
+				svk = sv.Add(w.turnSurface(a, b, at, dt))
 			}
 			// Filled in place: a Point built and then appended is
 			// written twice (some 250 bytes).
@@ -217,7 +226,7 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 			cp.Friction, cp.StaticFriction, cp.Restitution = coef.Friction, coef.StaticFriction, coef.Restitution
 			cp.Key = contactKey(a, b, mf.SubA, mf.SubB, pt.ID)
 			cp.PatchCenter, cp.PatchRadius = mf.PatchCenter, mf.PatchRadius // patch friction (contact/twist.go)
-			cp.SurfaceVelocity = sv
+			cp.SurfaceVelocity = svk
 		}
 	}
 	if touch {

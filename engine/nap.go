@@ -141,7 +141,11 @@ func (w *World) napStart(awake []BodyID) []BodyID {
 	v2 := w.napSpeed() * w.napSpeed()
 	still := func(id BodyID) bool {
 		r2 := w.b.radius[id] * w.b.radius[id]
-		return w.b.vel[id].LenSqr() < v2 && w.b.spin[id].LenSqr()*r2 < v2
+		// The position pass's pseudo-velocities too: a body it is still
+		// pushing out of an overlap (one placed by hand) must not nap in it.
+		vp, wp := w.pseudoVelocity(id)
+		return w.b.vel[id].LenSqr() < v2 && w.b.spin[id].LenSqr()*r2 < v2 &&
+			vp.LenSqr() < v2 && wp.LenSqr()*r2 < v2
 	}
 	if !slices.ContainsFunc(awake, func(id BodyID) bool { return w.b.kind[id] == Dynamic && still(id) }) {
 		return n.start // the common case while anything moves: no island to look at

@@ -42,6 +42,7 @@ func (w *World) Reset(cfg Config) error {
 	w.collision = old.collision.reused()
 	w.nap = napState{on: scratch.Reuse(old.nap.on), ids: scratch.Reuse(old.nap.ids), due: scratch.Reuse(old.nap.due),
 		bad: scratch.Reuse(old.nap.bad), start: scratch.Reuse(old.nap.start)}
+	w.steady = steadyState{vel: scratch.Reuse(old.steady.vel), spin: scratch.Reuse(old.steady.spin)}
 	w.initCollision()
 	w.kept = old.kept.next()
 	return nil

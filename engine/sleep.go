@@ -126,6 +126,9 @@ func (w *World) updateRest(dt float64) {
 			continue
 		}
 		if w.b.vel[id].LenSqr() < rs2 && w.b.spin[id].LenSqr() < rw2 {
+			if w.unsteady(id) { // slow but gaining speed is not at rest (steady.go)
+				w.b.restFor[id] = 0
+			}
 			w.b.restFor[id] += dt
 		} else {
 			w.b.restFor[id] = 0

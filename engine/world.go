@@ -107,14 +107,16 @@ type World struct {
 	preSolve     preSolveLog   // energies before the last steps' contact solves (energy.go)
 	flight       []shapes.Vec3 // velocities after gravity, before the solve (flight.go)
 	pushed       []bool        // bodies a contact, joint or force acted on this step (flight.go)
+	ledger       energyLedger  // the energy guard over many steps (ledger.go)
 
 	collision collisionState
-	active    activeSet  // the awake bodies (active.go)
-	mech      mechanisms // joints and drivers (joint.go, driver.go)
-	gates     gateState  // counting gates (gate.go)
-	soft      softState  // compliant contacts (compliant.go)
-	nap       napState   // islands asleep before their rest time ran out (nap.go)
-	kept      keptState  // meshes and principal axes, kept by Reset (reuse.go)
+	active    activeSet   // the awake bodies (active.go)
+	mech      mechanisms  // joints and drivers (joint.go, driver.go)
+	gates     gateState   // counting gates (gate.go)
+	soft      softState   // compliant contacts (compliant.go)
+	nap       napState    // islands asleep before their rest time ran out (nap.go)
+	steady    steadyState // the velocities each body's rest began with (steady.go)
+	kept      keptState   // meshes and principal axes, kept by Reset (reuse.go)
 }
 
 // kick is an impulse applied at a moment.
@@ -277,6 +279,9 @@ func (w *World) step(dt float64) error {
 		work = w.drivenWork() // work.go
 	}
 	w.integrate(dt)
+	if w.ledger.fault != nil {
+		w.ledger.fault(w) // the ledger's tests inject a gain (ledger.go)
+	}
 	w.countGates(dt)  // gate.go
 	w.advanceTime(dt) // clock.go
 	w.steps++
@@ -289,6 +294,11 @@ func (w *World) step(dt float64) error {
 		if err := w.checkEnergy(max(e0, w.preSolve.max())+work, k0); err != nil {
 			return err
 		}
+		if err := w.checkLedger(e0, ePre, work, dt); err != nil { // over many steps (ledger.go)
+			return err
+		}
+	} else {
+		w.ledger.on = false
 	}
 	w.preSolve.add(ePre)
 	return nil
