@@ -345,8 +345,11 @@ func hintGap(h *pairHint, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb sha
 	case hintEdge:
 		ba, okA := a.(shapes.Box)
 		bb, okB := b.(shapes.Box)
+		if okA != okB {
+			return boxHullEdgeGap(h, a, pa, b, pb) // apartedge.go
+		}
 		if !okA || !okB || h.i < 0 || h.i > 2 || h.j < 0 || h.j > 2 {
-			return 0, false // edges of hulls: the test's own loop checks them
+			return 0, false // edges of two hulls: the test's own loop checks them
 		}
 		ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 		pi, qj := int(h.i), int(h.j)

@@ -136,6 +136,9 @@ type persistEntry struct {
 	// curved surface.
 	nOnA, rollA, rollB bool
 	m                  keptManifold
+	// cores: the touching features of A and B when both roll
+	// (rollboth.go), refreshed by rollBoth.
+	cores [2]rollCore
 }
 
 // keptManifold is a manifold in the shapes' frames.
@@ -258,6 +261,9 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 	if age >= e.wait {
 		e.aged = true // still, and waited long enough (persistAgeMax)
 		return false
+	}
+	if e.rollA && e.rollB {
+		return e.rollBoth(pa, pb, margin, out) // rollboth.go
 	}
 	ra, rb := shapes.RotationMatrix(pa.Orientation), shapes.RotationMatrix(pb.Orientation)
 	rf := &ra
@@ -383,7 +389,13 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 	n := res[0].Normal
 	rollA := rolling(a, res[0].SubA, pa.Orientation.Conjugate().Rotate(n)) // roll.go
 	rollB := rolling(b, res[0].SubB, pb.Orientation.Conjugate().Rotate(n))
-	if rollA && (rollB || !rollable(a)) || rollB && !rollable(b) {
+	var cores [2]rollCore
+	if rollA && rollB {
+		var ok bool
+		if cores[0], cores[1], ok = bothCores(a, b, &pa, &pb, &res[0]); !ok { // rollboth.go
+			return
+		}
+	} else if rollA && !rollable(a) || rollB && !rollable(b) {
 		return
 	}
 	var mOnB bool
@@ -402,7 +414,7 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 		e = &p.add[len(p.add)-1]
 	}
 	*e = persistEntry{key: key, full: p.step, seen: p.step, a: a, b: b, mOnB: mOnB, margin: margin, wait: wait}
-	e.rollA, e.rollB = rollA, rollB
+	e.rollA, e.rollB, e.cores = rollA, rollB, cores
 	e.nOnA = mOnB && !rollA || rollB
 	e.rho = rho
 	e.rq, e.rt = relPose(e.mOnB, &pa, &pb)

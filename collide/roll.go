@@ -23,8 +23,9 @@ import (
 // (rollPoints), where a fresh query finds it; the normal is kept in the
 // frame of the other shape, whose face, edge or vertex touches; and the
 // other shape's point is moved along its surface under it. Two curved
-// shapes touching, or a curved piece of a compound, run the full query
-// every step.
+// shapes touching at one point find it again from their touching features
+// (rollboth.go); a curved piece of a compound, and two curved shapes
+// touching at two points or rim to rim, run the full query every step.
 
 // capAlign is the cosine above which a cylinder's contact normal counts as
 // along its axis, the contact then being on a flat cap: 1e-3 rad, far
