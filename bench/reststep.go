@@ -48,14 +48,5 @@ func RestStep(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
-	b.ReportAllocs()
-	b.ResetTimer()
-	var cpu cpuClock // cputime.go
-	cpu.start()
-	defer func() { cpu.stop(); cpu.report(b) }()
-	for i := 0; i < b.N; i++ {
-		if err := w.Step(1e-3); err != nil {
-			b.Fatal(err)
-		}
-	}
+	stepTimed(b, w, 1e-3)
 }
