@@ -913,6 +913,7 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 			work = true
 		}
 	}
+	levelled := s.level(dt) // level.go
 	for j := range rows {
 		r, jp := &rows[j], &s.jp[j]
 		*jp = jpos{on: r.Correct}
@@ -929,13 +930,17 @@ func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 			jp.hi = inf
 		}
 	}
-	if !work {
+	if !work && !levelled {
 		// No point penetrates beyond the slop (a resting part, one in
 		// flight) and no joint row corrects: from zero impulses every row
 		// would keep its impulse zero, and pv stays zero.
 		return
 	}
-	if set.MaxBlock >= 2 && set.VelocityIterations > 0 {
+	// Levelling alone is left to the sweeps: its lifts are below a tenth of
+	// the velocity tolerance per step (level.go); the direct solve run for
+	// it alone left its block scratch differing between a reused world and
+	// a new one (TestBuildInSameAsNew, pusher scene; not yet explained).
+	if work && set.MaxBlock >= 2 && set.VelocityIterations > 0 {
 		s.blockSolve(true, false) // islands as found by velocities
 	}
 	for it := 0; it < set.PositionIterations; it++ {
