@@ -20,9 +20,10 @@ import "math"
 // and none apart and opening) to the depth of its shallowest point (to the
 // surface if that one is apart, to the slop if it is deeper): the tilt goes
 // and the depth within the slop stays, so a resting part is neither lifted
-// nor pressed in. Only tilts far within the slop are levelled (levelMax). It moves positions only (pseudo-velocities), adding no
-// kinetic energy, at the pass's Correction rate, as the penetration beyond
-// the slop is removed (Catto 2005, split impulses).
+// nor pressed in. Only tilts far within the slop are levelled (levelMax).
+// It moves positions only (pseudo-velocities), adding no kinetic energy,
+// at the pass's Correction rate, as the penetration beyond the slop is
+// removed (Catto 2005, split impulses).
 
 // levelTol is the depth difference, as a fraction of the slop, that
 // levelling leaves alone: a billionth, far above the rounding of a depth
