@@ -255,7 +255,6 @@ func (s *Solver) penetrates(idx []int32) bool {
 	return false
 }
 
-// coupling is the velocity change of row q per unit impulse of row p.
 // solveIsland solves the island of points idx. With friction (real
 // velocities only) the tangent rows of pressing points join the system as
 // sticking rows; a contact whose friction impulse would leave its cone
