@@ -19,10 +19,11 @@ import "clatter/shapes"
 // than steadyFraction of RestSpeed from what it was when its rest began.
 
 // steadyFraction is the part of RestSpeed by which a resting body's
-// velocity may move during its rest: 5 um/s with the defaults. Its floor is the noise in a resting body's velocity, which must
-// not keep restarting its rest: a converged contact leaves less than the
-// solver's Tolerance (0.1 um/s), and piles of 200 and 500 mixed parts in a
-// bin had as many bodies asleep after 4 s as without the test (measured).
+// velocity may move during its rest: 5 um/s with the defaults. Its floor
+// is the noise in a resting body's velocity, which must not keep
+// restarting its rest: a converged contact leaves less than the solver's
+// Tolerance (0.1 um/s), and piles of 200 and 500 mixed parts in a bin had
+// as many bodies asleep after 4 s as without the test (measured).
 // A body accelerating more slowly than steadyFraction RestSpeed / RestTime
 // (2e-5 m/s^2 with the defaults, two millionths of g) can still sleep; the
 // test is independent of the step.
