@@ -1,5 +1,7 @@
 package contact
 
+import "clatter/internal/splitmix"
+
 // Ending a banded solve that cycles.
 //
 // Murty's single principal pivoting (bandpivot.go) ends for a system whose
@@ -22,15 +24,8 @@ package contact
 // exchange; two different sets of one run share a 64-bit hash with a
 // probability of about 1e-16.
 
-// rowHash is a fixed pseudo-random 64-bit value of row i: the finaliser of
-// SplitMix64 (G. L. Steele, D. Lea and C. H. Flood, "Fast splittable
-// pseudorandom number generators", OOPSLA 2014).
-func rowHash(i int32) uint64 {
-	z := uint64(i) + 0x9e3779b97f4a7c15
-	z = (z ^ z>>30) * 0xbf58476d1ce4e5b9
-	z = (z ^ z>>27) * 0x94d049bb133111eb
-	return z ^ z>>31
-}
+// rowHash is a fixed pseudo-random 64-bit value of row i.
+func rowHash(i int32) uint64 { return splitmix.Mix(uint64(i) + splitmix.Golden) }
 
 // setTrail keeps the hashes of the active sets of one run of single
 // exchanges.

@@ -6,6 +6,7 @@ import (
 	"clatter/collide"
 	"clatter/collide/broad"
 	"clatter/contact"
+	"clatter/internal/splitmix"
 	"clatter/shapes"
 )
 
@@ -235,16 +236,13 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 }
 
 // contactKey mixes the bodies, the sub-shapes and the feature id into the
-// solver's warm-start key (splitmix64 finaliser; S. Vigna, 2014): equal
-// features give equal keys, and distinct ones collide with probability
-// about 2^-64 per pair.
+// solver's warm-start key (the SplitMix64 output function, splitmix.Mix):
+// equal features give equal keys, and distinct ones collide with
+// probability about 2^-64 per pair.
 func contactKey(a, b BodyID, subA, subB int32, id uint32) uint64 {
 	x := uint64(uint32(a))<<32 | uint64(uint32(b))
 	for _, v := range [2]uint64{uint64(uint32(subA))<<32 | uint64(uint32(subB)), uint64(id)} {
-		x ^= v + 0x9e3779b97f4a7c15 + (x << 6) + (x >> 2)
-		x = (x ^ (x >> 30)) * 0xbf58476d1ce4e5b9
-		x = (x ^ (x >> 27)) * 0x94d049bb133111eb
-		x ^= x >> 31
+		x = splitmix.Mix(x ^ (v + splitmix.Golden + (x << 6) + (x >> 2)))
 	}
 	return x
 }
