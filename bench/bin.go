@@ -11,7 +11,7 @@ import (
 // events off, 8 velocity iterations, one material (its index is mat), a
 // floor at z = 0 and four walls at x = +-hx and y = +-hy; add adds a body
 // or stops the benchmark.
-func binWorld(b *testing.B, hx, hy float64) (w *engine.World, mat int, add func(engine.BodyDef)) {
+func binWorld(b testing.TB, hx, hy float64) (w *engine.World, mat int, add func(engine.BodyDef)) {
 	cfg := engine.DefaultConfig()
 	cfg.NoSleep = true
 	cfg.NoEvents = true
