@@ -109,9 +109,6 @@ func (c *pairCache) lookup(key uint64) *pairHint {
 // the same manifolds to GJK's and EPA's tolerances, gjkwarm.go).
 func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
 	c := &d.cache
-	if !plainConvex(a) || !plainConvex(b) {
-		return d.Collide(dst, a, pa, b, pb, margin)
-	}
 	if !(margin >= 0) || math.IsInf(margin, 0) {
 		margin = 0
 	}
@@ -119,9 +116,18 @@ func (d *Detector) collideHinted(dst []Manifold, key uint64, a shapes.Shape, pa 
 	// again once this step's is made.
 	h := c.lookup(key)
 	// The bound first: a pose that is not finite makes it NaN or infinite,
-	// and it proves nothing (apartbound.go).
-	if h != nil && h.kind != hintNone && (d.boundedApart(h, a, pa, b, pb, margin) ||
-		finitePose(pa) && finitePose(pb) && d.measuredApart(h, a, pa, b, pb, margin)) {
+	// and it proves nothing (apartbound.go). It holds only for the shapes
+	// it was made with, which were plain convex ones, so the most common
+	// pair, apart and resting, skips the tests of the shapes' kinds.
+	if h != nil && h.kind != hintNone && d.boundedApart(h, a, pa, b, pb, margin) {
+		c.keepHint(h)
+		d.stats.Remembered++
+		return dst
+	}
+	if !plainConvex(a) || !plainConvex(b) {
+		return d.Collide(dst, a, pa, b, pb, margin)
+	}
+	if h != nil && h.kind != hintNone && finitePose(pa) && finitePose(pb) && d.measuredApart(h, a, pa, b, pb, margin) {
 		c.keepHint(h)
 		d.stats.Remembered++
 		return dst

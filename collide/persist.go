@@ -244,9 +244,10 @@ func relPose(mOnB bool, pa, pb *shapes.Pose) (mgl64.Quat, vec3) {
 	return qmulConjA(&f.Orientation, &m.Orientation), qrotateConj(&f.Orientation, m.Position.Sub(f.Position))
 }
 
-// refresh moves e's points with the shapes at pa and pb into out and
-// reports whether they stand for a fresh query (the conditions of the file
-// comment); out is left partly written when they do not.
+// refresh moves e's points with the shapes at pa and pb into out, a zero
+// Manifold, and reports whether they stand for a fresh query (the
+// conditions of the file comment); out is left partly written when they do
+// not.
 func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float64, out *Manifold) bool {
 	slop := p.pairSlop(e) // (persistsize.go)
 	tol := persistFraction * slop
@@ -272,15 +273,21 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 	}
 	k := &e.m
 	n := mul(*rf, k.n)
-	*out = Manifold{Normal: n, Count: k.count, SubA: k.subA, SubB: k.subB, PatchRadius: k.radius}
+	// Field by field: out is zero (appended so by CollidePair), and a
+	// Manifold written whole is some two hundred bytes written twice.
+	out.Normal, out.Count, out.SubA, out.SubB, out.PatchRadius = n, k.count, k.subA, k.subB, k.radius
 	// By component, as in motion; the same operations as the vector
 	// methods, so the same roundings.
 	var a, b vec3
+	var r rollDir
+	if e.rollA || e.rollB {
+		r = e.rollDir(&ra, &rb, &n) // roll.go
+	}
 	for i := 0; i < k.count; i++ {
 		placeTo(&a, &ra, &pa.Position, &k.pa[i])
 		placeTo(&b, &rb, &pb.Position, &k.pb[i])
 		if e.rollA || e.rollB {
-			e.rollPoints(&a, &b, &ra, &rb, pa, pb, &n, i) // roll.go
+			e.rollPoints(&a, &b, &ra, &rb, pa, pb, &n, &r, i)
 		}
 		g0, g1, g2 := b[0]-a[0], b[1]-a[1], b[2]-a[2]
 		sep := g0*n[0] + g1*n[1] + g2*n[2]
@@ -298,7 +305,7 @@ func (p *persistMem) refresh(e *persistEntry, pa, pb *shapes.Pose, margin float6
 	placeTo(&a, &ra, &pa.Position, &k.ca)
 	placeTo(&b, &rb, &pb.Position, &k.cb)
 	if e.rollA || e.rollB {
-		e.rollPoints(&a, &b, &ra, &rb, pa, pb, &n, -1)
+		e.rollPoints(&a, &b, &ra, &rb, pa, pb, &n, &r, -1)
 	}
 	out.PatchCenter = vec3{(a[0] + b[0]) * 0.5, (a[1] + b[1]) * 0.5, (a[2] + b[2]) * 0.5}
 	return true

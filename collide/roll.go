@@ -65,15 +65,16 @@ func rollable(s shapes.Shape) bool {
 // i (-1: the patch centre) at the support of the rolling shape along the
 // normal n, A toward B: the rolling shape's point where a fresh query
 // finds it, and the other's moved to lie across from it along n, which
-// keeps their separation along n.
-func (e *persistEntry) rollPoints(a, b *vec3, ra, rb *mat3, pa, pb *shapes.Pose, n *vec3, i int) {
+// keeps their separation along n. r is that support's part that depends on
+// n alone (e.rollDir), the same for every point of the manifold.
+func (e *persistEntry) rollPoints(a, b *vec3, ra, rb *mat3, pa, pb *shapes.Pose, n *vec3, r *rollDir, i int) {
 	k := &e.m
 	if e.rollA {
 		z := k.ca[2]
 		if i >= 0 {
 			z = k.pa[i][2]
 		}
-		loc := rollSupport(e.a, z, mulT(*ra, *n))
+		loc := r.at(z)
 		placeTo(a, ra, &pa.Position, &loc)
 		sep := (b[0]-a[0])*n[0] + (b[1]-a[1])*n[1] + (b[2]-a[2])*n[2]
 		*b = vec3{a[0] + n[0]*sep, a[1] + n[1]*sep, a[2] + n[2]*sep}
@@ -83,24 +84,59 @@ func (e *persistEntry) rollPoints(a, b *vec3, ra, rb *mat3, pa, pb *shapes.Pose,
 	if i >= 0 {
 		z = k.pb[i][2]
 	}
-	loc := rollSupport(e.b, z, mulT(*rb, vec3{-n[0], -n[1], -n[2]}))
+	loc := r.at(z)
 	placeTo(b, rb, &pb.Position, &loc)
 	sep := (b[0]-a[0])*n[0] + (b[1]-a[1])*n[1] + (b[2]-a[2])*n[2]
 	*a = vec3{b[0] - n[0]*sep, b[1] - n[1]*sep, b[2] - n[2]*sep}
 }
 
-// rollSupport is the point of rollable shape s (its frame) farthest along
-// d at height z along its axis: the ball's along d, the capsule's from its
-// core at z, the cylinder's on its side at z.
-func rollSupport(s shapes.Shape, z float64, d vec3) vec3 {
+// rollDir returns the support direction of e's rolling shape for the
+// normal n (world, A toward B): n, or -n for B, in that shape's frame.
+func (e *persistEntry) rollDir(ra, rb *mat3, n *vec3) rollDir {
+	if e.rollA {
+		return newRollDir(e.a, mulT(*ra, *n))
+	}
+	return newRollDir(e.b, mulT(*rb, vec3{-n[0], -n[1], -n[2]}))
+}
+
+// A rollDir is the point of a rollable shape farthest along a direction d
+// (its frame), found once for every height along its axis (at): the ball's
+// along d, the capsule's from its core, the cylinder's on its side. The
+// square root (and a cylinder's hypotenuse) of the direction's length is
+// then taken once for a manifold's points, not once for each.
+type rollDir struct {
+	base vec3    // the support of the ball, of the capsule's core's middle, or the cylinder's side (x, y)
+	half float64 // the half-length of the capsule's core or of the cylinder
+	kind uint8   // rollBall, rollCapsule or rollCylinder
+}
+
+const (
+	rollBall uint8 = iota
+	rollCapsule
+	rollCylinder
+)
+
+// newRollDir returns the support of rollable shape s along d.
+func newRollDir(s shapes.Shape, d vec3) rollDir {
 	switch c := s.(type) {
 	case shapes.Sphere:
-		return d.Mul(c.Radius / d.Len())
+		return rollDir{base: d.Mul(c.Radius / d.Len()), kind: rollBall}
 	case shapes.Capsule:
-		return d.Mul(c.Radius / d.Len()).Add(vec3{0, 0, min(max(z, -c.HalfLength), c.HalfLength)})
+		return rollDir{base: d.Mul(c.Radius / d.Len()), half: c.HalfLength, kind: rollCapsule}
 	case shapes.Cylinder:
 		l := math.Hypot(d[0], d[1])
-		return vec3{d[0] * c.Radius / l, d[1] * c.Radius / l, min(max(z, -c.HalfLength), c.HalfLength)}
+		return rollDir{base: vec3{d[0] * c.Radius / l, d[1] * c.Radius / l}, half: c.HalfLength, kind: rollCylinder}
 	}
-	panic("collide: rollSupport of a shape that does not roll")
+	panic("collide: rollDir of a shape that does not roll")
+}
+
+// at is the support at height z along the shape's axis.
+func (r *rollDir) at(z float64) vec3 {
+	switch r.kind {
+	case rollBall:
+		return r.base
+	case rollCapsule:
+		return r.base.Add(vec3{0, 0, min(max(z, -r.half), r.half)})
+	}
+	return vec3{r.base[0], r.base[1], min(max(z, -r.half), r.half)}
 }

@@ -191,6 +191,9 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 			w.wake(b)
 		}
 	}
+	if len(c.manifolds) == 0 && !w.soft.on {
+		return // apart, as most pairs of the broad phase are
+	}
 	nmat := len(w.materials)
 	coef := w.pairs[int(w.b.mat[a])*nmat+int(w.b.mat[b])]
 	if w.soft.on && w.softPair(a, b, c.manifolds, coef) {
