@@ -313,6 +313,9 @@ func (s *Solver) struck(idx []int32) bool {
 // massRatio is the ratio of the largest to the smallest inverse mass of the
 // dynamic bodies of an island.
 func (s *Solver) massRatio(idx []int32) float64 {
+	if len(s.sl.im) == 2 {
+		return 1 // one moving body (slot 0 holds the fixed ones): no ratio above 1
+	}
 	lo, hi := math.Inf(1), 0.0
 	for _, i := range idx {
 		r := &s.nrows[i]

@@ -38,6 +38,10 @@ func (s *Solver) markChains(dt float64) {
 	for k := range s.chain {
 		s.chain[k] = noChain
 	}
+	if len(s.groups) <= 2 {
+		// One pair: chained looks for the chains of other pairs only.
+		return
+	}
 	for g := 0; g+1 < len(s.groups); g++ {
 		touching, loaded := false, false
 		for i := int(s.groups[g]); i < int(s.groups[g+1]); i++ {

@@ -90,6 +90,17 @@ func (l *liveState) reset(nb, n int, tol float64, loose bool) {
 	l.rows = grow(l.rows, n)
 }
 
+// start is reset for a Solve: without loose no row is skipped, and the
+// sweeps (sweepFew) and settle, whose bound stays tol, read none of the
+// arrays, which it leaves as they are.
+func (l *liveState) start(nb, n int, tol float64, loose bool) {
+	if !loose {
+		l.bound, l.loose, l.clock = tol, loose, 0
+		return
+	}
+	l.reset(nb, n, tol, loose)
+}
+
 // liveRows fills s.live.rows for the points and patches of this step; with
 // live off (no block solve, or Tolerance 0) nothing is skipped.
 func (s *Solver) liveRows(live bool) {

@@ -202,6 +202,9 @@ func check(bodies []Body, points []Point, rows []Row) error {
 	n := int32(len(bodies))
 	for i := range points {
 		p := &points[i]
+		if pointOK(p, n) { // pointok.go
+			continue
+		}
 		if p.A < 0 || p.A >= n || p.B < 0 || p.B >= n {
 			return fmt.Errorf("contact: point %d (key %#x): bodies %d, %d: index out of range [0, %d)", i, p.Key, p.A, p.B, n)
 		}
@@ -557,9 +560,7 @@ func (s *Solver) classify(points []Point) {
 func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
 	vel, fv := s.sl.vel, s.sl.fv
 	set := &s.Settings
-	for i := range s.pts {
-		s.pts[i].struck = false
-	}
+	// Every point's struck is false from prepare on.
 	if set.PairIterations == 0 {
 		return
 	}
@@ -779,7 +780,7 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 		s.blockSolve(false, false)
 	}
 	conv, converged := s.Settings.Convergence, false
-	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list), s.Settings.Tolerance, s.anyLarge(block)) // live.go
+	s.live.start(len(s.sl.vel), len(s.pts)+len(s.patches.list), s.Settings.Tolerance, s.anyLarge(block)) // live.go
 	s.liveRows(block && s.Settings.Tolerance > 0)
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
