@@ -112,7 +112,10 @@ func (a *cylAxes) try(ax vec3, bias float64) bool {
 		return true
 	}
 	un := n.Dot(a.u)
-	ec := a.h*math.Abs(un) + a.r*math.Sqrt(math.Max(0, 1-un*un))
+	// The part of n across the axis by its length, not sqrt(1 - un^2),
+	// which loses half the digits near the axis (a cap's normal): 1e-8
+	// of the radius where un is 1 to rounding.
+	ec := a.h*math.Abs(un) + a.r*n.Sub(a.u.Mul(un)).Len()
 	cn := n.Dot(a.c0)
 	var lo, hi float64 // the polytope's extent along n
 	if p := a.p; p.kind == kBox {
@@ -184,14 +187,8 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 		}
 		// An edge facing a rim: the nearest points of the two are a pair
 		// of points of the shapes, and the direction between them an axis.
-		a.wit, a.mins = math.Inf(1), true
-		for _, e := range cp.edges {
-			for _, sg := range [2]float64{1, -1} {
-				if a.rimBound(e[0], e[1], sg, a.wit) < a.wit {
-					a.edgeRim(e[0], e[1], sg, tol)
-				}
-			}
-		}
+		a.wit = math.Inf(1)
+		a.rimWitness(tol)
 		switch {
 		case a.apart:
 			r.n, r.sep = a.n, a.best
@@ -210,17 +207,22 @@ func (d *Detector) cylPoly(c, p *view, margin float64) (r nearest, ok, handled b
 	for _, e := range cp.edges {
 		for _, sg := range [2]float64{1, -1} {
 			if a.rimBound(e[0], e[1], sg, depth-tol) < depth-tol {
-				a.edgeRim(e[0], e[1], sg, tol)
+				a.edgeRim(e[0], e[1], sg, tol, depth)
+			}
+		}
+	}
+	if a.best <= 0 && !a.overlapWitness() {
+		if _, _, _, in := a.edgeWitness(); !in {
+			// No point of both: a pair that proves a gap, farther apart
+			// than the depth, lies outside the windows searched.
+			a.rimWitness(tol)
+			if a.best <= 0 {
+				return r, false, false
 			}
 		}
 	}
 	if !(a.best <= 0) {
 		return a.rimApart(r, tol)
-	}
-	if !a.overlapWitness() {
-		if _, _, _, in := a.edgeWitness(); !in {
-			return r, false, false
-		}
 	}
 	r.n, r.sep = a.n, a.best
 	// The cylinder's deepest point and its image on the polytope's side
@@ -327,14 +329,6 @@ func (a *cylAxes) line(i0, i1 int32, sg float64) edgeLine {
 	return l
 }
 
-// dist2 is the squared distance of the edge's point t from the rim circle
-// of radius r.
-func (l *edgeLine) dist2(t, r float64) float64 {
-	z := l.z0 + t*l.z1
-	rho := math.Sqrt(math.Max(0, l.ra+t*(2*l.rb+t*l.rc))) - r
-	return rho*rho + z*z
-}
-
 // rimBound is a lower bound on the distance between edge p0 p1 and the rim
 // on side sg: at every point of the edge the distance from the circle is at
 // least the height over its plane and at least the radial gap |rho - r|;
@@ -371,88 +365,10 @@ func (a *cylAxes) rimBound(i0, i1 int32, sg, limit float64) float64 {
 	return math.Max(z, g)
 }
 
-// cylGolden is the number of golden-section steps that refine an extremum
-// of an edge-rim distance bracketed by samples 1/cylSamples of the
-// interval apart: 0.618^24 (1e-5) of that leaves the extremum, flat to
-// second order, exact to about 1e-10 of the edge's length.
-const (
-	cylGolden  = 24
-	cylSamples = 16
-)
-
-// edgeRim tries the common normals of edge p0 p1 and the rim circle on
-// side sg: the critical points of the distance from the edge's point to
-// its nearest rim point. Between the edge's crossings of the circle's
-// cylinder the distance is smooth; outside it (rho > r) it is convex with
-// one minimum (the nearest approach of an edge apart); inside it, where an
-// edge is sunk across the rim, the radial and axial gaps pull against each
-// other and minima and maxima alternate. Each interval is sampled and each
-// sampled extremum refined by golden-section search (the maxima only for
-// shapes that overlap). At each the axes are
-// e x t (t the rim's tangent there) and the direction from the rim point
-// to the edge point.
-func (a *cylAxes) edgeRim(i0, i1 int32, sg, bias float64) {
-	l := a.line(i0, i1, sg)
-	p0 := a.cp.verts[i0]
-	// Crossings of rho = r: |rv0 + t rv1|^2 = r^2.
-	var cuts [4]float64
-	nc := 1
-	qa, qb, qc := l.rv1.Dot(l.rv1), 2*l.rv0.Dot(l.rv1), l.rv0.Dot(l.rv0)-a.r*a.r
-	if disc := qb*qb - 4*qa*qc; qa > 0 && disc > 0 {
-		sq := math.Sqrt(disc)
-		for _, t := range [2]float64{(-qb - sq) / (2 * qa), (-qb + sq) / (2 * qa)} {
-			if t > 0 && t < 1 {
-				cuts[nc] = t
-				nc++
-			}
-		}
-	}
-	cuts[nc] = 1
-	for i := 0; i < nc; i++ {
-		lo, hi := cuts[i], cuts[i+1]
-		dt := (hi - lo) / cylSamples
-		var f [cylSamples + 1]float64
-		for k := range f {
-			f[k] = l.dist2(lo+float64(k)*dt, a.r)
-		}
-		for k := range f {
-			b0, b1 := lo+float64(max(k-1, 0))*dt, lo+float64(min(k+1, cylSamples))*dt
-			isMin, isMax := true, true
-			for _, j := range [2]int{k - 1, k + 1} {
-				if j >= 0 && j <= cylSamples {
-					isMin = isMin && f[k] <= f[j]
-					isMax = isMax && f[k] >= f[j]
-				}
-			}
-			if isMin {
-				a.rimAxes(&l, p0, l.golden(b0, b1, a.r, 1), bias)
-			}
-			if isMax && !a.mins {
-				a.rimAxes(&l, p0, l.golden(b0, b1, a.r, -1), bias)
-			}
-		}
-	}
-}
-
-// golden returns the point of [lo, hi] where sg times the squared distance
-// from the rim is least (golden-section search).
-func (l *edgeLine) golden(lo, hi, r, sg float64) float64 {
-	const g = 0.6180339887498949
-	x1, x2 := hi-g*(hi-lo), lo+g*(hi-lo)
-	f1, f2 := sg*l.dist2(x1, r), sg*l.dist2(x2, r)
-	for it := 0; it < cylGolden; it++ {
-		if f1 <= f2 {
-			hi, x2, f2 = x2, x1, f1
-			x1 = hi - g*(hi-lo)
-			f1 = sg * l.dist2(x1, r)
-		} else {
-			lo, x1, f1 = x1, x2, f2
-			x2 = lo + g*(hi-lo)
-			f2 = sg * l.dist2(x2, r)
-		}
-	}
-	return 0.5 * (lo + hi)
-}
+// cylSamples is the number of samples of the slope of an edge-rim
+// distance inside the rim's cylinder, where its extrema alternate
+// (rimroots.go).
+const cylSamples = 16
 
 // rimAxes tries the axes of the edge's point t and its nearest rim point.
 func (a *cylAxes) rimAxes(l *edgeLine, p0 vec3, t, bias float64) {

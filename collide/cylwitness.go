@@ -62,9 +62,21 @@ func (a *cylAxes) nearestTo(x vec3) (q vec3, dist float64, in bool) {
 // rimApart is cylPoly's answer when the edge-rim axes, searched because the
 // closed-form ones left the shapes overlapping, show them apart instead:
 // apart beyond the margin by an axis, or within it when the nearest pair of
-// an edge point and a rim point met in the search, or the edges' pairs
-// (edgeWitness), come within tol of the gap; otherwise left to GJK.
+// an edge point and a rim point met in the search (or in a search for the
+// nearest such pair, rimWitness), or the edges' pairs (edgeWitness), come
+// within tol of the gap; otherwise left to GJK.
 func (a *cylAxes) rimApart(r nearest, tol float64) (nearest, bool, bool) {
+	r.n, r.sep = a.n, a.best
+	switch {
+	case a.apart:
+		return r, false, true
+	case a.wit <= a.best+tol:
+		r.pa, r.pb = a.witQ, a.witX
+		return r, true, true
+	}
+	// The search looked only where the edges come within the overlap's
+	// depth of a rim; the pair that proves the gap is farther apart.
+	a.rimWitness(tol)
 	r.n, r.sep = a.n, a.best
 	switch {
 	case a.apart:
