@@ -175,6 +175,7 @@ type mechanisms struct {
 	powered bool          // something can add energy: a motor, a driven body, a conveyor
 	tree    jointTree     // scratch of the exact joint solve (jointtree.go)
 	jbodies []BodyID      // bodies with a joint, each once
+	held    []bool        // per body (grown on demand): it has a joint (turning.go)
 	predP   []shapes.Vec3 // per body: predicted pose at the end of the step
 	predQ   []shapes.Quat
 	turn    []turnMemo    // per body: the free rotation predictAll worked out for the step
@@ -248,6 +249,10 @@ func (w *World) AddJoint(def JointDef) (JointID, error) {
 	for _, id := range [2]BodyID{def.A, def.B} {
 		if id != Ground && !slices.Contains(m.jbodies, id) {
 			m.jbodies = append(m.jbodies, id)
+			if n := int(id) + 1; len(m.held) < n {
+				m.held = append(m.held, make([]bool, n-len(m.held))...)
+			}
+			m.held[id] = true
 		}
 	}
 	if !def.Collide && def.B != Ground {

@@ -63,11 +63,15 @@ type energyLedger struct {
 	// mass is the dynamic bodies' total mass when there were massN bodies.
 	mass  float64
 	massN int
+	// at holds each body's energy, kinetic plus potential, when the low
+	// was last lowered: the body whose energy rose most since then is the
+	// one a stop names (culprit).
+	at []float64
 }
 
 // restart begins the ledger at the start of this step, with energy e0.
 func (l *energyLedger) restart(e0 float64) {
-	*l = energyLedger{on: true, low: math.Inf(1), fault: l.fault, mass: l.mass, massN: l.massN}
+	*l = energyLedger{on: true, low: math.Inf(1), fault: l.fault, mass: l.mass, massN: l.massN, at: l.at[:0]}
 	l.push(e0)
 }
 
@@ -92,13 +96,20 @@ func (w *World) checkLedger(e0, pre, work, dt float64) error {
 	}
 	lin, rot, pot := w.active.end[0], w.active.end[1], w.active.end[2] // (endEnergies)
 	e1, k1 := lin+rot+pot, lin+rot
+	lowStart := l.low
 	l.push(pre - l.work)
 	l.work += work
 	x := e1 - l.work
 	lowBefore := l.low
 	l.push(x)
 	if l.low < lowBefore {
-		l.lowAt, l.kin, l.lin = w.time, k1, lin
+		l.kin, l.lin = k1, lin
+	}
+	if l.low < lowStart {
+		// The low was lowered by either value: the bodies' energies now
+		// stand for theirs at it (a block ends on either push).
+		l.lowAt = w.time
+		l.at = w.bodyEnergies(l.at)
 	}
 	if k1 > l.kin {
 		l.kin = k1
@@ -115,10 +126,10 @@ func (w *World) checkLedger(e0, pre, work, dt float64) error {
 	if !(gain > allow) {
 		return nil
 	}
-	worst, top := w.mostKinetic()
-	return &DivergenceError{Body: worst, Name: w.b.name[worst], Time: w.time,
-		Cause: fmt.Sprintf("the total energy has grown by %.4g J since t = %.6g s with no kick or drive to explain it (allowed %.4g J), and this body moves with the most kinetic energy (%.4g J); %s",
-			gain, l.lowAt, allow, top, stepAdvice)}
+	id, rise := w.culprit()
+	return &DivergenceError{Body: id, Name: w.b.name[id], Time: w.time,
+		Cause: fmt.Sprintf("the total energy has grown by %.4g J since t = %.6g s with no kick or drive to explain it (allowed %.4g J), and this body's energy rose most, by %.4g J (it now moves with %.4g J); %s",
+			gain, l.lowAt, allow, rise, w.kinetic(id), stepAdvice)}
 }
 
 // flightAllowance is the swing of the energy that semi-implicit Euler
@@ -149,14 +160,35 @@ func (w *World) dynamicMass() float64 {
 	return l.mass
 }
 
-// mostKinetic returns the dynamic body with the most kinetic energy and that energy.
-func (w *World) mostKinetic() (BodyID, float64) {
+// bodyEnergies fills e with each body's kinetic plus potential energy
+// (0 for bodies that are not dynamic), reusing its storage.
+func (w *World) bodyEnergies(e []float64) []float64 {
+	e = e[:0]
+	for i, k := range w.b.kind {
+		x := 0.0
+		if k == Dynamic {
+			x = w.kinetic(BodyID(i)) - w.b.mass[i]*w.cfg.Gravity.Dot(w.b.pos[i])
+		}
+		e = append(e, x)
+	}
+	return e
+}
+
+// culprit returns the dynamic body whose energy rose most since the
+// ledger's low, and that rise: the total says that energy came from
+// nowhere, this body says where it went. The body moving fastest, named
+// before, was often one that merely kept its energy (a flywheel beside a
+// part that a fault pumped).
+func (w *World) culprit() (BodyID, float64) {
+	at := w.ledger.at
 	worst, top := BodyID(0), math.Inf(-1)
 	for i, k := range w.b.kind {
-		if k == Dynamic {
-			if ke := w.kinetic(BodyID(i)); ke > top {
-				worst, top = BodyID(i), ke
-			}
+		if k != Dynamic || i >= len(at) {
+			continue
+		}
+		e := w.kinetic(BodyID(i)) - w.b.mass[i]*w.cfg.Gravity.Dot(w.b.pos[i])
+		if rise := e - at[i]; rise > top {
+			worst, top = BodyID(i), rise
 		}
 	}
 	return worst, top

@@ -43,6 +43,7 @@ func (w *World) Reset(cfg Config) error {
 	w.nap = napState{on: scratch.Reuse(old.nap.on), ids: scratch.Reuse(old.nap.ids), due: scratch.Reuse(old.nap.due),
 		bad: scratch.Reuse(old.nap.bad), start: scratch.Reuse(old.nap.start)}
 	w.steady = steadyState{vel: scratch.Reuse(old.steady.vel), spin: scratch.Reuse(old.steady.spin)}
+	w.ledger.at = scratch.Reuse(old.ledger.at) // the bodies' energies at the ledger's low (ledger.go)
 	w.initCollision()
 	w.kept = old.kept.next()
 	return nil

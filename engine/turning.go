@@ -23,23 +23,46 @@ import (
 // ends the step where the support's material point ends it, and friction
 // supplies the centripetal impulse m r w^2 dt that it must.
 
-// turns reports whether body id is a kinematic body that turns.
+// A body held by a joint (a free turntable on a revolute joint, turning
+// by its own inertia or driven by a motor) carries a part the same way:
+// the integration turns it at its spin about its centre of mass
+// (integrate), so over the step its material point at x moves along the
+// chord of that turn, and a part held on it drifted r (w dt)^2 / 2 outward
+// a step as on a kinematic table. Its spin at the start of the step stands
+// for the step's (the solve changes it by the step's torques, a change of
+// the next order). A free body is not a support in this sense: one that
+// rolls on what it touches leaves the contact with a new material point
+// each instant, whose chord (rising from the surface) is not the velocity
+// friction must match; rolling is left to the velocities at the instant.
+
+// turns reports whether body id turns as a support: a kinematic body that
+// turns, or a dynamic body held by a joint that turns.
 func (w *World) turns(id BodyID) bool {
-	return w.b.kind[id] == Kinematic && w.b.spin[id] != (shapes.Vec3{})
+	if w.b.spin[id] == (shapes.Vec3{}) {
+		return false
+	}
+	switch w.b.kind[id] {
+	case Kinematic:
+		return true
+	case Dynamic:
+		h := w.mech.held
+		return int(id) < len(h) && h[id]
+	}
+	return false
 }
 
 // turnLead is the velocity of body id's material point at world point x
 // averaged over a step of length dt (its chord over the step) less its
-// velocity now, for a body that turns at its spin about its position
-// throughout the step (integrateQuat): with k the unit axis, theta = |w| dt
+// velocity now, for a support that turns at its spin about its position
+// throughout the step (integrateQuat; turns): with k the unit axis, theta = |w| dt
 // and r = x - pos, (R(theta) - I) r = sin(theta) k x r + (1 - cos(theta))
 // k x (k x r) (Rodrigues' rotation formula).
 func (w *World) turnLead(id BodyID, x shapes.Vec3, dt float64) shapes.Vec3 {
-	s := w.b.spin[id]
-	l := s.Len()
-	if w.b.kind[id] != Kinematic || l == 0 {
+	if !w.turns(id) {
 		return shapes.Vec3{}
 	}
+	s := w.b.spin[id]
+	l := s.Len()
 	k := s.Mul(1 / l)
 	kr := k.Cross(x.Sub(w.b.pos[id]))
 	sn, hs := math.Sin(l*dt), math.Sin(l*dt/2)

@@ -290,6 +290,11 @@ func (w *World) step(dt float64) error {
 	if err := w.checkFinite(); err != nil {
 		return err
 	}
+	if guard {
+		if err := w.checkConing(dt); err != nil { // fast tops (coning.go)
+			return err
+		}
+	}
 	if guard && !kicked {
 		if err := w.checkEnergy(max(e0, w.preSolve.max())+work, k0); err != nil {
 			return err
