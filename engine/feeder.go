@@ -82,6 +82,22 @@ func peakOfSines(byFreq map[float64]complex128) float64 {
 	return peak
 }
 
+// AlongAcceleration bounds the acceleration of the track's point at
+// (world) along the unit direction dir: the sum of each term's peak, as
+// terms out of phase never exceed it. It allocates nothing.
+func (v *Vibration) AlongAcceleration(at, dir shapes.Vec3) float64 {
+	sum := 0.0
+	for _, o := range v.Terms {
+		c := o.Axis.Normalize().Dot(dir)
+		if o.Rotary {
+			c = o.Axis.Normalize().Cross(at.Sub(v.Center)).Dot(dir)
+		}
+		w := 2 * math.Pi * o.Frequency
+		sum += math.Abs(w * w * o.Amplitude * c)
+	}
+	return sum
+}
+
 // ConveyingDirection returns the direction in which the vibration carries
 // parts lying at the world point at on a track with the given normal: the
 // direction of the track's stroke there (the linear terms, and the rotary

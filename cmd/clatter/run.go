@@ -134,6 +134,7 @@ func simulate(e *env, s *scene.Scene, dir string, sample float64, asJSON bool, v
 		return exitFailed
 	}
 	warnBalanced(e, sum)
+	e.warn(report.CoarseSteps(s, sum)) // feeders (engine/report/drives.go)
 	if asJSON {
 		e.stdout.Write(sum.JSON())
 		if !e.quiet {
