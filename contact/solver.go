@@ -126,6 +126,8 @@ type Solver struct {
 
 	live liveState // the rows still moving (live.go)
 
+	apart apartState // the points the sweeps cannot close (apart.go)
+
 	heldSums [][3]float64 // the patches' impact impulses before a bounded pair impact (held.go)
 
 	chain []int32 // per slot, the pair of its touching unloaded contacts (chain.go)
@@ -781,6 +783,9 @@ func (s *Solver) velocities(points []Point, rows []Row, rep *Report) {
 	conv, converged := s.Settings.Convergence, false
 	s.live.reset(len(s.sl.vel), len(s.pts)+len(s.patches.list), s.Settings.Tolerance, s.anyLarge(block)) // live.go
 	s.liveRows(block && s.Settings.Tolerance > 0)
+	if s.live.loose {
+		s.markApart() // apart.go
+	}
 	for it := 0; it < s.Settings.VelocityIterations; it++ {
 		// res is the largest velocity change of a row in this sweep, excess
 		// the largest by which one exceeds its share Convergence of the

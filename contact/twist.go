@@ -332,6 +332,7 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	}
 	ps := &s.patches
 	lv := &s.live // live.go
+	ap := &s.apart
 	np := len(s.pts)
 	for g := 0; g+1 < len(s.groups); g++ {
 		// The points of the group's patches (consecutive, in the order of
@@ -346,6 +347,12 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 			lr := lv.rows[i]
 			if lr.track && !lv.due(i, lr.a, lr.b) {
 				continue
+			}
+			if fp := &ap.pts[i]; fp.margin > 0 {
+				if fp.skip(vel, ap.vel0) { // apart.go
+					continue
+				}
+				fp.margin = 0
 			}
 			var d float64
 			if inPatch {
