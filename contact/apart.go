@@ -107,17 +107,31 @@ func absDot(a, b *vec) float64 {
 	return math.Abs(a[0]*b[0]) + math.Abs(a[1]*b[1]) + math.Abs(a[2]*b[2])
 }
 
+// apartDiffs caches the velocity changes of one pair of body slots for
+// the test of skip: the points of a pair group share their bodies, and
+// their velocities do not change while the group's points are skipped.
+type apartDiffs struct {
+	ok     bool    // valid: no velocity changed since they were taken
+	a, b   int32   // the slots
+	lin    float64 // L1 norms of the changes of V_a plus V_b
+	wa, wb float64 // L1 norms of the changes of W_a and W_b
+}
+
 // skip reports whether point fp is still certain to be left unchanged by
-// its update on velocities vel (the sweeps began at vel0). The change of
-// its row's velocity since then is at most the sum of the L1 norms of its
-// bodies' velocity changes, the angular ones times the lever terms (and
-// the length of the normal, within apartGrow of 1); the rounding of the
-// velocity at its update is within the margin's allowance for rounding
-// plus apartRound times that change. A false answer is final: the caller
-// sets margin to 0.
-func (fp *apartPoint) skip(vel, vel0 []sbody) bool {
-	A, A0, B, B0 := &vel[fp.a], &vel0[fp.a], &vel[fp.b], &vel0[fp.b]
-	dv := l1Diff(&A.v, &A0.v) + l1Diff(&B.v, &B0.v) + fp.ca*l1Diff(&A.w, &A0.w) + fp.cb*l1Diff(&B.w, &B0.w)
+// its update on velocities vel (the sweeps began at vel0); c holds the
+// changes of fp's slots if c.ok and c.a, c.b are fp's, and is set to them.
+// The change of its row's velocity since the sweeps began is at most the
+// sum of the L1 norms of its bodies' velocity changes, the angular ones
+// times the lever terms (and the length of the normal, within apartGrow
+// of 1); the rounding of the velocity at its update is within the
+// margin's allowance for rounding plus apartRound times that change. A
+// false answer is final: the caller sets margin to 0.
+func (fp *apartPoint) skip(vel, vel0 []sbody, c *apartDiffs) bool {
+	if !c.ok || c.a != fp.a || c.b != fp.b {
+		A, A0, B, B0 := &vel[fp.a], &vel0[fp.a], &vel[fp.b], &vel0[fp.b]
+		*c = apartDiffs{ok: true, a: fp.a, b: fp.b, lin: l1Diff(&A.v, &A0.v) + l1Diff(&B.v, &B0.v), wa: l1Diff(&A.w, &A0.w), wb: l1Diff(&B.w, &B0.w)}
+	}
+	dv := c.lin + fp.ca*c.wa + fp.cb*c.wb
 	return dv*apartGrow < fp.margin
 }
 

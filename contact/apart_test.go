@@ -47,7 +47,7 @@ func TestApartSkipIsSafe(t *testing.T) {
 			vel[k].v = vel[k].v.Add(r3(scale))
 			vel[k].w = vel[k].w.Add(r3(scale / 0.02))
 		}
-		if !fp.skip(vel, s.apart.vel0) {
+		if !fp.skip(vel, s.apart.vel0, &apartDiffs{}) {
 			swept++
 			continue
 		}
