@@ -333,14 +333,12 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	ps := &s.patches
 	lv := &s.live // live.go
 	ap := &s.apart
-	var diffs apartDiffs
 	np := len(s.pts)
 	for g := 0; g+1 < len(s.groups); g++ {
 		// The points of the group's patches (consecutive, in the order of
 		// the patches) have no friction rows of their own: their normal
 		// rows alone, without the point's state (solvePoint).
 		k, kEnd := ps.ofGroup[g], ps.ofGroup[g+1]
-		diffs.ok = false // the last group's patches may have changed velocities
 		for i, hi := int(s.groups[g]), int(s.groups[g+1]); i < hi; i++ {
 			inPatch := k < kEnd && int32(i) >= ps.list[k].lo
 			if inPatch && int32(i)+1 == ps.list[k].hi {
@@ -350,13 +348,15 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 			if lr.track && !lv.due(i, lr.a, lr.b) {
 				continue
 			}
-			if fp := &ap.pts[i]; fp.margin > 0 {
-				if fp.skip(vel, ap.vel0, &diffs) { // apart.go
+			if k := ap.of[i]; k > 0 {
+				if ap.rows[k-1].apart(vel) { // apart.go
+					if lr.track {
+						lv.tick(i) // updated, changing nothing
+					}
 					continue
 				}
-				fp.margin = 0
+				ap.of[i] = 0 // swept from now on
 			}
-			diffs.ok = false // the update may change velocities
 			var d float64
 			if inPatch {
 				d = solveNormal(vel, &s.nrows[i])
