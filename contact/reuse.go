@@ -22,7 +22,6 @@ func (s *Solver) Clear(set Settings) {
 	n.blk = s.blk.reused()
 	n.live = liveState{moved: scratch.Reuse(s.live.moved), drift: scratch.Reuse(s.live.drift), seen: scratch.Reuse(s.live.seen), rows: scratch.Reuse(s.live.rows)}
 	n.patches = patchState{list: scratch.Reuse(s.patches.list), ofGroup: scratch.Reuse(s.patches.ofGroup), mem: scratch.Reuse(s.patches.mem)}
-	n.apart = apartState{of: scratch.Reuse(s.apart.of), rows: scratch.Reuse(s.apart.rows)}
 	n.heldSums = scratch.Reuse(s.heldSums)
 	n.chain = scratch.Reuse(s.chain)
 	*s = n

@@ -332,7 +332,6 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 	}
 	ps := &s.patches
 	lv := &s.live // live.go
-	ap := &s.apart
 	np := len(s.pts)
 	for g := 0; g+1 < len(s.groups); g++ {
 		// The points of the group's patches (consecutive, in the order of
@@ -347,15 +346,6 @@ func (s *Solver) sweepPoints(block bool) (res, excess float64) {
 			lr := lv.rows[i]
 			if lr.track && !lv.due(i, lr.a, lr.b) {
 				continue
-			}
-			if k := ap.of[i]; k > 0 {
-				if ap.rows[k-1].apart(vel) { // apart.go
-					if lr.track {
-						lv.tick(i) // updated, changing nothing
-					}
-					continue
-				}
-				ap.of[i] = 0 // swept from now on
 			}
 			var d float64
 			if inPatch {
