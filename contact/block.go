@@ -179,6 +179,9 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		}
 		if n > maxFrictionBlock {
 			n = int(b.band.cut[r]) // its loose points last (band.go)
+			if !pseudo && !final && n > maxFrictionBlock {
+				s.dropLoose(b.order[int(b.start[r])+n : b.start[r]+b.size[r]]) // banded: bandloose.go
+			}
 		}
 		if n < 2 {
 			continue
