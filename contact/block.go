@@ -74,6 +74,8 @@ type blockState struct {
 	root   []int32    // island root of each point
 	excess []float64  // per island root: the last sweep's largest excess (velocities)
 	band   bandState  // large islands with a banded system (band.go)
+	held   []float64  // a solution that holds while its released rows are back (blockstick.go)
+	hfree  []freeRow  // its released rows
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -476,6 +478,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			if !b.holds(n, band, s.Settings.Tolerance) { // blockrows.go
 				return false // a released contact slips: the sweeps' business
 			}
+			s.restick(idx, n, band, shift) // blockstick.go
 			break
 		} else if round == maxReleases {
 			return false // some contacts slide: the sweeps' business
