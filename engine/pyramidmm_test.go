@@ -36,6 +36,12 @@ func TestMillimetreMassRatioPyramidsStand(t *testing.T) {
 		// same reason (measured).
 		{name: "6 rows, friction 0.3, restitution 0.5, 1/60 s", rows: 6, half: 0.0005, gap: 0.01, dense: [2]float64{500, 500}, dt: 1.0 / 60, seconds: 3, mu: 0.3, rest: 0.5},
 		{name: "6 rows, friction 0.3, 1/30 s", rows: 6, half: 0.0005, gap: 0.01, dense: [2]float64{500, 500}, dt: 1.0 / 30, seconds: 3, mu: 0.3},
+		// Fell before both changes above (at 5159a49, measured in 3 s):
+		// 14 mm; 1.6 m; stopped as diverged in its first step; 13 mm.
+		{name: "10 rows, equal masses, 1/30 s", rows: 10, half: 0.0005, gap: 0.01, dense: [2]float64{500, 500}, dt: 1.0 / 30, seconds: 3},
+		{name: "12 rows, heavy on light 1000:1, 1/30 s", rows: 12, half: 0.0005, gap: 0.01, dense: [2]float64{500, 500000}, dt: 1.0 / 30, seconds: 3},
+		{name: "10 rows, friction 0.3, 1/30 s", rows: 10, half: 0.0005, gap: 0.01, dense: [2]float64{500, 500}, dt: 1.0 / 30, seconds: 3, mu: 0.3},
+		{name: "10 rows, friction 1, 1/30 s", rows: 10, half: 0.0005, gap: 0.01, dense: [2]float64{500, 500}, dt: 1.0 / 30, seconds: 3, mu: 1},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
