@@ -182,7 +182,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		if n > maxFrictionBlock {
 			n = int(b.band.cut[r]) // its loose points last (band.go)
 			if !pseudo && !final && n > maxFrictionBlock {
-				s.dropLoose(b.order[int(b.start[r])+n : b.start[r]+b.size[r]]) // banded: bandloose.go
+				s.dropLoose(b.order[b.start[r]:int(b.start[r])+n], b.order[int(b.start[r])+n:b.start[r]+b.size[r]]) // banded: bandloose.go
 			}
 		}
 		if n < 2 {
@@ -478,7 +478,9 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			if !b.holds(n, band, s.Settings.Tolerance) { // blockrows.go
 				return false // a released contact slips: the sweeps' business
 			}
-			s.restick(idx, n, band, shift) // blockstick.go
+			if band {
+				s.restick(idx, n, shift) // blockstick.go
+			}
 			break
 		} else if round == maxReleases {
 			return false // some contacts slide: the sweeps' business
