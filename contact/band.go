@@ -113,6 +113,7 @@ type bandState struct {
 	aoff     []int32  // per row of the system: where its band starts in A (bandstore.go)
 	lbase    []int32  // per row of the factor: where its column 0 would be in L (bandstore.go)
 	cycle    setTrail // the active sets of the pivots (bandcycle.go)
+	held     []bool   // per body slot: has a point in the banded system, while dropLoose runs (bandloose.go)
 }
 
 // run is the points idx[start:end] of one pair of an island, with the
@@ -535,7 +536,7 @@ func (bs *bandState) reused() bandState {
 		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
 		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi), flip: scratch.Reuse(bs.flip),
 		aoff: scratch.Reuse(bs.aoff), lbase: scratch.Reuse(bs.lbase),
-		cycle: setTrail{seen: scratch.Reuse(bs.cycle.seen)},
+		cycle: setTrail{seen: scratch.Reuse(bs.cycle.seen)}, held: scratch.Reuse(bs.held),
 	}
 }
 

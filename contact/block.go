@@ -74,6 +74,8 @@ type blockState struct {
 	root   []int32    // island root of each point
 	excess []float64  // per island root: the last sweep's largest excess (velocities)
 	band   bandState  // large islands with a banded system (band.go)
+	held   []float64  // a solution that holds while its released rows are back (blockstick.go)
+	hfree  []freeRow  // its released rows
 }
 
 func (b *blockState) find(i int32) int32 {
@@ -179,6 +181,9 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		}
 		if n > maxFrictionBlock {
 			n = int(b.band.cut[r]) // its loose points last (band.go)
+			if !pseudo && !final && n > maxFrictionBlock {
+				s.dropLoose(b.order[b.start[r]:int(b.start[r])+n], b.order[int(b.start[r])+n:b.start[r]+b.size[r]]) // banded: bandloose.go
+			}
 		}
 		if n < 2 {
 			continue
@@ -475,6 +480,9 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		if k := s.release(idx); k == 0 {
 			if !b.holds(n, band, s.Settings.Tolerance) { // blockrows.go
 				return false // a released contact slips: the sweeps' business
+			}
+			if band {
+				s.restick(idx, n, shift) // blockstick.go
 			}
 			break
 		} else if round == maxReleases {

@@ -36,6 +36,7 @@ func (b *blockState) reused() blockState {
 		sub: scratch.Reuse(b.sub), pos: scratch.Reuse(b.pos), col: scratch.Reuse(b.col), y: scratch.Reuse(b.y), z: scratch.Reuse(b.z),
 		rows: scratch.Reuse(b.rows), kind: scratch.Reuse(b.kind), of: scratch.Reuse(b.of), cnt: scratch.Reuse(b.cnt),
 		root: scratch.Reuse(b.root), excess: scratch.Reuse(b.excess),
+		held: scratch.Reuse(b.held), hfree: scratch.Reuse(b.hfree),
 		band: b.band.reused(), // band.go
 	}
 }

@@ -27,7 +27,8 @@ const pyramidDriftPerSize = 1e-5
 // pyramidCase is a pyramid of rows rows of cubes of half size half, each
 // row offset by half a box on the one below with gaps of gap times the
 // box's width between neighbours, densities dense for even and odd rows,
-// run kept awake for seconds at step dt.
+// run kept awake for seconds at step dt, with friction mu and restitution
+// rest.
 type pyramidCase struct {
 	name    string
 	rows    int
@@ -36,6 +37,8 @@ type pyramidCase struct {
 	dense   [2]float64
 	dt      float64
 	seconds float64
+	mu      float64 // friction, 0.6 if 0
+	rest    float64 // restitution
 }
 
 func TestPyramidsKeptAwakeStand(t *testing.T) {
@@ -68,7 +71,11 @@ func TestPyramidsKeptAwakeStand(t *testing.T) {
 func standPyramid(t *testing.T, c pyramidCase) (*World, []BodyID) {
 	cfg := DefaultConfig()
 	cfg.NoSleep = true
-	w, mat := floorWorld(t, cfg, 0, Material{Friction: 0.6})
+	mu := c.mu
+	if mu == 0 {
+		mu = 0.6
+	}
+	w, mat := floorWorld(t, cfg, 0, Material{Friction: mu, Restitution: c.rest})
 	box := shapes.Box{Half: shapes.Vec3{c.half, c.half, c.half}}
 	var ids []BodyID
 	var starts []shapes.Vec3
