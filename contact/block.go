@@ -478,7 +478,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		// Friction outside its bound: release it (blockrows.go) and solve
 		// the others again; the sweeps take the released friction.
 		if k := s.release(idx); k == 0 {
-			if !b.holds(n, band, s.Settings.Tolerance) { // blockrows.go
+			if !s.holds(n, band) { // blockrows.go
 				return false // a released contact slips: the sweeps' business
 			}
 			if band {

@@ -631,7 +631,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// free flight that follows, which the world integrates
 					// exactly, so an elastic bounce returns to its height.
 					ps.iTarget = ps.e * approach
-					if !ps.arrived && ps.sep > 0 && ps.sep <= ps.slop {
+					if !ps.arrived && ps.sep != 0 && ps.sep <= ps.slop {
 						ps.iTarget = gapRebound(ps.e, approach, -rn.cdot(fv), ps.sep, dt) // gapbounce.go
 					}
 					ps.struck = true
