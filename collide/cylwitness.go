@@ -66,28 +66,34 @@ func (a *cylAxes) nearestTo(x vec3) (q vec3, dist float64, in bool) {
 // nearest such pair, rimWitness), or the edges' pairs (edgeWitness), come
 // within tol of the gap; otherwise left to GJK.
 func (a *cylAxes) rimApart(r nearest, tol float64) (nearest, bool, bool) {
-	r.n, r.sep = a.n, a.best
-	switch {
-	case a.apart:
-		return r, false, true
-	case a.wit <= a.best+tol:
-		r.pa, r.pb = a.witQ, a.witX
-		return r, true, true
+	if res, in, ok := a.provedApart(r, tol); ok {
+		return res, in, true
 	}
 	// The search looked only where the edges come within the overlap's
 	// depth of a rim; the pair that proves the gap is farther apart.
 	a.rimWitness(tol)
-	r.n, r.sep = a.n, a.best
-	switch {
-	case a.apart:
-		return r, false, true
-	case a.wit <= a.best+tol:
-		r.pa, r.pb = a.witQ, a.witX
-		return r, true, true
+	if res, in, ok := a.provedApart(r, tol); ok {
+		return res, in, true
 	}
+	r.n, r.sep = a.n, a.best
 	if x, q, dist, in := a.edgeWitness(); !in && dist <= a.best+tol {
 		r.pa, r.pb = q, x
 		return r, true, true
 	}
 	return nearest{}, false, false
+}
+
+// provedApart is rimApart's answer from the axes and the nearest edge-rim
+// pair found so far: ok when an axis shows the shapes apart beyond the
+// margin (in false) or the pair comes within tol of the gap (in true).
+func (a *cylAxes) provedApart(r nearest, tol float64) (res nearest, in, ok bool) {
+	r.n, r.sep = a.n, a.best
+	switch {
+	case a.apart:
+		return r, false, true
+	case a.wit <= a.best+tol:
+		r.pa, r.pb = a.witQ, a.witX
+		return r, true, true
+	}
+	return r, false, false
 }
