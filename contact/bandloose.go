@@ -24,7 +24,6 @@ package contact
 // solved as before: a pyramid of three rows of 1 mm cubes at 1/60 s,
 // solved so, stood within 3e-5 of a cube's width in 3 s with the impulses
 // kept, and its top cube tipped over without them (measured).
-
 //
 // Only a point between bodies that the banded solve holds (each has a
 // point in its system) is so treated: a part falling onto a structure,
