@@ -57,16 +57,9 @@ func pileFile(n int) string { return fmt.Sprintf("testdata/pile%d.bin", n) }
 // storedPile returns the bin of buildPile with the stored pile of n parts
 // in it, stepped pileSettle steps.
 func storedPile(b testing.TB, n int) *engine.World {
-	data, err := pileFiles.ReadFile(pileFile(n))
+	ps, err := readPile(n)
 	if err != nil {
 		b.Fatal(err)
-	}
-	ps, err := decodePile(data)
-	if err != nil {
-		b.Fatalf("%s: %v", pileFile(n), err)
-	}
-	if len(ps) != n {
-		b.Fatalf("%s: %d parts, want %d", pileFile(n), len(ps), n)
 	}
 	w, mat, add := binWorld(b, 0.25, 0.25)
 	parts := pileParts(rand.New(rand.NewPCG(1000, 1)))
@@ -80,6 +73,23 @@ func storedPile(b testing.TB, n int) *engine.World {
 		}
 	}
 	return w
+}
+
+// readPile reads the stored pile of n parts, an error naming its file if
+// it cannot be read or holds another number of parts.
+func readPile(n int) ([]pilePart, error) {
+	data, err := pileFiles.ReadFile(pileFile(n))
+	if err != nil {
+		return nil, err
+	}
+	ps, err := decodePile(data)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %v", pileFile(n), err)
+	}
+	if len(ps) != n {
+		return nil, fmt.Errorf("%s: %d parts, want %d", pileFile(n), len(ps), n)
+	}
+	return ps, nil
 }
 
 // pileState returns the state of the dynamic bodies of w, in order.
