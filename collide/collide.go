@@ -232,8 +232,9 @@ func (d *Detector) collide(dst []Manifold, a shapes.Shape, fa frame, subA int32,
 }
 
 func finitePose(p shapes.Pose) bool {
-	q := p.Orientation
-	return finite(p.Position) && finite(q.V) && !math.IsNaN(q.W) && !math.IsInf(q.W, 0)
+	q := &p.Orientation
+	w := q.W - q.W // NaN unless q.W is finite (see finite)
+	return finite(p.Position) && finite(q.V) && w == w
 }
 
 func asPlane(s shapes.Shape) (shapes.Plane, bool) {

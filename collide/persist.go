@@ -394,8 +394,8 @@ func (p *persistMem) keep(e *persistEntry, key uint64, a shapes.Shape, pa shapes
 		return
 	}
 	n := res[0].Normal
-	rollA := rolling(a, res[0].SubA, pa.Orientation.Conjugate().Rotate(n)) // roll.go
-	rollB := rolling(b, res[0].SubB, pb.Orientation.Conjugate().Rotate(n))
+	rollA := rolling(a, res[0].SubA, qrotateConj(&pa.Orientation, n)) // roll.go
+	rollB := rolling(b, res[0].SubB, qrotateConj(&pb.Orientation, n))
 	var cores [2]rollCore
 	if rollA && rollB {
 		var ok bool
