@@ -635,7 +635,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					if !ps.arrived && ps.sep != 0 && ps.sep <= ps.slop {
 						fd := -rn.cdot(fv)
 						ps.iTarget = gapRebound(ps.e, approach, fd, ps.sep, dt) // gapbounce.go
-						if ps.iTarget == 0 && ps.sep > 0 {
+						if ps.iTarget == 0 && ps.sep > 0 && fd > 0 {
 							ps.iTarget = s.land(ps, rn, approach, fd, dt) // landing.go
 						}
 					}
