@@ -21,7 +21,8 @@ import "math"
 //	v^2 + 2 G sep = (e ac)^2,  v^2 = e^2 a0^2 - 2 G sep (1 - e^2),
 //
 // or 0 where that is negative: a bounce from the surface that would not
-// rise above the gap leaves the bodies resting there.
+// rise above the gap is a landing, which puts the bodies on the surface
+// (landing.go).
 //
 // A bounce found already inside the surface, at a depth d = -sep, has the
 // mirror error: the bodies crossed the surface at ac = sqrt(a0^2 - 2 G d),

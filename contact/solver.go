@@ -50,6 +50,7 @@ type pstate struct {
 	prevN               float64 // last step's normal impulse of the velocity solve (the load it carried)
 	deferred            float64 // approach speed of an impact deferred to the next step, 0 if none
 	struck              bool    // an impact reaches it this step, now or deferred (impacts)
+	tau                 float64 // how far into the step it lands from within its slop, s; 0 if not (landing.go)
 	pN, pTarget, pLo    float64 // position pass
 }
 
@@ -632,7 +633,11 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// exactly, so an elastic bounce returns to its height.
 					ps.iTarget = ps.e * approach
 					if !ps.arrived && ps.sep != 0 && ps.sep <= ps.slop {
-						ps.iTarget = gapRebound(ps.e, approach, -rn.cdot(fv), ps.sep, dt) // gapbounce.go
+						fd := -rn.cdot(fv)
+						ps.iTarget = gapRebound(ps.e, approach, fd, ps.sep, dt) // gapbounce.go
+						if ps.iTarget == 0 && ps.sep > 0 && fd > 0 {
+							ps.iTarget = s.land(ps, rn, approach, fd, dt) // landing.go
+						}
 					}
 					ps.struck = true
 					vmax = max(vmax, approach)
@@ -910,22 +915,31 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 func (s *Solver) positions(dt float64, points []Point, rows []Row) {
 	vel, pv := s.sl.vel, s.sl.ps
 	clear(pv)
+	landed := s.strikeLate(dt, points) // landing.go
 	set := &s.Settings
 	if set.PositionIterations == 0 {
 		return
 	}
 	n := len(points)
 	inf := math.Inf(1)
-	work := false // a target that moves something: else the sweeps leave pv zero
+	work := false // a target that moves something: else the sweeps leave pv as it is
 	for i := 0; i < n; i++ {
 		ps, rn := &s.pts[i], &s.nrows[i]
 		ps.pN, ps.pTarget, ps.pLo = 0, 0, 0
 		if rn.mass == 0 {
 			continue
 		}
-		pred := ps.sep + rn.cdot(vel)*dt
+		pred, base := ps.sep+rn.cdot(vel)*dt, 0.0
+		if landed {
+			// A landing's move to the surface stays: the pass pushes out
+			// only what penetrates beyond the slop after it.
+			c := rn.cdot(pv)
+			pred += c * dt
+			base = min(c, 0)
+			ps.pTarget = base
+		}
 		if pen := -pred - ps.slop; pen > 0 {
-			ps.pTarget = set.Correction * pen / dt
+			ps.pTarget = base + set.Correction*pen/dt
 			work = true
 		}
 	}
