@@ -51,21 +51,31 @@ func (d *Detector) boxHull(a, b *view, margin float64, h pairHint) (vec3, bool) 
 	p := &d.polyP
 	p.set(&bv)
 	x := d.hullIndexFor(b.hull) // nil for a small hull
+	sx := d.hullSlack(b.hull)   // the same index, for any size; nil without edges
 	var r satResult
-	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r, x) {
+	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r, x, sx) {
 		d.remember(r)
 		return vec3{}, false
 	}
-	// Touching: the hull's polytope, in its own frame, for the clipping.
+	// Touching: the hull's polytope, in its own frame, for the clipping;
+	// its planes are the index's (the faces as set makes them).
 	hv := *b
 	hv.rot, hv.pos = identity3, vec3{}
 	q := &d.polyQ
 	var n vec3
-	if x != nil {
+	switch {
+	case x != nil:
 		q.setIndexed(&hv, x)
 		n = d.indexedContact(p, q, r, margin, x)
-	} else {
-		q.set(&hv)
+	case sx != nil && r.kind == satFaceP && len(d.faceCos) == len(b.hull.Faces):
+		q.setIndexed(&hv, sx)
+		n = d.boxFaceContact(p, q, r, margin)
+	default:
+		if sx != nil {
+			q.setIndexed(&hv, sx)
+		} else {
+			q.set(&hv)
+		}
 		n = d.polyContact(p, q, r, margin)
 	}
 	if b.rot != identity3 || b.pos != (vec3{}) {
@@ -164,7 +174,12 @@ func (x *boxEdgeFrame) edgeGap(q0, dq *vec3) (s float64, ax vec3, ok bool) {
 // against hull h in its own frame; scale is the sum of the shapes' sizes.
 // With x, h's index, the hull's faces and edges are searched through its
 // tree (boxhulltree.go), with the same result as the loops below.
-func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult, x *hullIndex) bool {
+//
+// sx is h's index for its slack (hullSlack). d.faceCos holds the cosines
+// of all of h's faces when the test has measured them all (boxFaceContact
+// reads them), and is empty otherwise.
+func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult, x, sx *hullIndex) bool {
+	d.faceCos, d.faceSgn = d.faceCos[:0], d.faceSgn[:0]
 	var bh boxHullAxes
 	bh.init(p, h, bv)
 	s := newSatSearch(r, margin, scale)
@@ -208,11 +223,10 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 			return false
 		}
 	}
-	if !d.allAxes && bh.restSkips(d.hullSlack(h), &s) { // boxhullrest.go
+	if !d.allAxes && bh.restSkips(sx, &s) { // boxhullrest.go
 		s.pickFace(false)
 		return true
 	}
-	d.faceCos, d.faceSgn = d.faceCos[:0], d.faceSgn[:0]
 	for j := range h.Faces {
 		g, cs := bh.hullFace(j)
 		if !s.face(hintFaceQ, g, j) {
@@ -362,4 +376,28 @@ func growF(s []float64, n int) []float64 {
 		return make([]float64, n, n+n/4)
 	}
 	return s[:n]
+}
+
+// boxFaceContact is polyContact for a test that chose box face r.face of p
+// against small hull q (in its own frame), with the cosines of q's face
+// normals with the box's axes in d.faceCos (satBoxHull). The face normal of
+// box face r.face is box axis k = r.face/2 or its negative, so its dot
+// product with a hull face's normal is that face's cosine with axis k, or
+// the cosine negated, bit for bit (negation is exact): the incident face
+// is incidentFace's without another pass of dot products.
+func (d *Detector) boxFaceContact(p, q *polytope, r satResult, margin float64) vec3 {
+	d.cand = d.cand[:0]
+	k, neg := r.face/2, r.face%2 == 1
+	best, fi := math.Inf(1), 0
+	for j := range d.faceCos {
+		c := d.faceCos[j][k]
+		if neg {
+			c = -c
+		}
+		if c < best {
+			best, fi = c, j
+		}
+	}
+	d.clipFaces(p, r.face, q, fi, false, margin)
+	return p.planes[r.face].n
 }

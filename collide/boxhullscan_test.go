@@ -93,3 +93,50 @@ func TestCrossingAxes(t *testing.T) {
 		}
 	}
 }
+
+// TestBoxFaceContact checks that the box-hull test's contact on a box face,
+// whose incident hull face is read off the cosines the test measured
+// (boxFaceContact), is polyContact's on the same result bit for bit: the
+// same normal and the same candidate points, at random poses of a box
+// overlapping or near random hulls. It fails unless both signs of a box
+// face were seen.
+func TestBoxFaceContact(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 0xfacec))
+	seen := [2]int{}
+	for _, nv := range []int{12, 40, 64} {
+		h := ellipsoidHull(t, rng, nv, vec3{0.015, 0.012, 0.008})
+		d := NewDetector()
+		for i := 0; i < 2000; i++ {
+			var bv, hv view
+			bv.setConvex(shapes.Box{Half: vec3{0.015, 0.01, 0.008}}, shapes.RotationMatrix(randomTurn(rng)),
+				vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Mul(0.012))
+			hv.setConvex(h, identity3, vec3{})
+			p := &d.polyP
+			p.set(&bv)
+			var r satResult
+			if !d.satBoxHull(p, h, &bv, bv.size+hv.size, 0.002, pairHint{}, &r, nil, d.hullSlack(h)) ||
+				r.kind != satFaceP || len(d.faceCos) != len(h.Faces) {
+				continue
+			}
+			seen[r.face%2]++
+			q := &d.polyQ
+			q.set(&hv)
+			nRef := d.polyContact(p, q, r, 0.002)
+			ref := append([]candPoint(nil), d.cand...)
+			q.setIndexed(&hv, d.hullSlack(h))
+			n := d.boxFaceContact(p, q, r, 0.002)
+			if n != nRef || len(d.cand) != len(ref) {
+				t.Fatalf("%d vertices, pose %d: normal %v and %d points, polyContact %v and %d", nv, i, n, len(d.cand), nRef, len(ref))
+			}
+			for k := range ref {
+				if d.cand[k] != ref[k] {
+					t.Errorf("%d vertices, pose %d, point %d: %+v, polyContact %+v", nv, i, k, d.cand[k], ref[k])
+				}
+			}
+		}
+	}
+	if seen[0] == 0 || seen[1] == 0 {
+		t.Errorf("box faces chosen: %d positive, %d negative; want both", seen[0], seen[1])
+	}
+	t.Logf("box faces chosen: %d positive, %d negative", seen[0], seen[1])
+}
