@@ -127,8 +127,8 @@ func (a *cylAxes) try(ax vec3, bias float64) bool {
 		lo, hi = m-e, m+e
 	} else {
 		lo, hi = math.Inf(1), math.Inf(-1)
-		for _, v := range a.cp.verts {
-			x := n.Dot(v)
+		for i := range a.cp.verts {
+			x := n.Dot(a.cp.verts[i])
 			lo, hi = math.Min(lo, x), math.Max(hi, x)
 		}
 	}
@@ -257,23 +257,23 @@ const cylCertTol = 1e-9
 // least over all points of the polytope).
 func (a *cylAxes) closedForm(bias float64) bool {
 	cp := a.cp
-	for _, n := range cp.norms {
-		if !a.try(n, 0) {
+	for i := range cp.norms {
+		if !a.try(cp.norms[i], 0) {
 			return false
 		}
 	}
 	if !a.try(a.u, bias) {
 		return false
 	}
-	for _, e := range cp.dirs {
-		if !a.try(a.u.Cross(e), bias) {
+	for i := range cp.dirs {
+		if !a.try(a.u.Cross(cp.dirs[i]), bias) {
 			return false
 		}
 	}
 	cp.vz, cp.vr, cp.vd = cp.vz[:0], cp.vr[:0], cp.vd[:0]
 	near := math.Inf(1)
-	for _, v := range cp.verts {
-		w := v.Sub(a.c0)
+	for i := range cp.verts {
+		w := cp.verts[i].Sub(a.c0)
 		z := w.Dot(a.u)
 		rad := w.Sub(a.u.Mul(z))
 		dz, dr := math.Abs(z)-a.h, rad.Len()-a.r
