@@ -51,21 +51,31 @@ func (d *Detector) boxHull(a, b *view, margin float64, h pairHint) (vec3, bool) 
 	p := &d.polyP
 	p.set(&bv)
 	x := d.hullIndexFor(b.hull) // nil for a small hull
+	sx := d.hullSlack(b.hull)   // the same index, for any size; nil without edges
 	var r satResult
-	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r, x) {
+	if !d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, h, &r, x, sx) {
 		d.remember(r)
 		return vec3{}, false
 	}
-	// Touching: the hull's polytope, in its own frame, for the clipping.
+	// Touching: the hull's polytope, in its own frame, for the clipping;
+	// its planes are the index's (the faces as set makes them).
 	hv := *b
 	hv.rot, hv.pos = identity3, vec3{}
 	q := &d.polyQ
 	var n vec3
-	if x != nil {
+	switch {
+	case x != nil:
 		q.setIndexed(&hv, x)
 		n = d.indexedContact(p, q, r, margin, x)
-	} else {
-		q.set(&hv)
+	case sx != nil && r.kind == satFaceP && len(d.faceCos) == len(b.hull.Faces):
+		q.setIndexed(&hv, sx)
+		n = d.boxFaceContact(p, q, r, margin)
+	default:
+		if sx != nil {
+			q.setIndexed(&hv, sx)
+		} else {
+			q.set(&hv)
+		}
 		n = d.polyContact(p, q, r, margin)
 	}
 	if b.rot != identity3 || b.pos != (vec3{}) {
@@ -147,24 +157,37 @@ type boxEdgeFrame struct {
 // q0 along dq, oriented outward from the box; ok is false for parallel
 // edges (as in sat, the cross product below satParallel of the lengths'
 // product).
+//
+// It is written out on scalars: the vector methods (Cross, Dot, Mul, Sub),
+// whose results are arrays, keep them in memory, and this form measured
+// about half their time; it does the same operations in the same order, so
+// its results are theirs bit for bit (TestEdgeGapScalars).
 func (x *boxEdgeFrame) edgeGap(q0, dq *vec3) (s float64, ax vec3, ok bool) {
-	ax = x.dp.Cross(*dq)
-	l2 := ax.Dot(ax)
-	if l2 <= satParallel*satParallel*x.dd*dq.Dot(*dq) || l2 == 0 {
-		return 0, ax, false
+	a0, a1, a2 := x.dp[0], x.dp[1], x.dp[2]
+	b0, b1, b2 := dq[0], dq[1], dq[2]
+	c0, c1, c2 := a1*b2-a2*b1, a2*b0-a0*b2, a0*b1-a1*b0 // dp x dq
+	l2 := c0*c0 + c1*c1 + c2*c2
+	if l2 <= satParallel*satParallel*x.dd*(b0*b0+b1*b1+b2*b2) || l2 == 0 {
+		return 0, vec3{c0, c1, c2}, false
 	}
-	ax = ax.Mul(1 / math.Sqrt(l2))
-	if ax.Dot(x.out) < 0 {
-		ax = ax.Mul(-1)
+	k := 1 / math.Sqrt(l2)
+	c0, c1, c2 = c0*k, c1*k, c2*k
+	if c0*x.out[0]+c1*x.out[1]+c2*x.out[2] < 0 {
+		c0, c1, c2 = c0*-1, c1*-1, c2*-1
 	}
-	return ax.Dot(q0.Sub(x.p0)), ax, true
+	return c0*(q0[0]-x.p0[0]) + c1*(q0[1]-x.p0[1]) + c2*(q0[2]-x.p0[2]), vec3{c0, c1, c2}, true
 }
 
 // satBoxHull is satHint for box polytope p (view bv, in the hull's frame)
 // against hull h in its own frame; scale is the sum of the shapes' sizes.
 // With x, h's index, the hull's faces and edges are searched through its
 // tree (boxhulltree.go), with the same result as the loops below.
-func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult, x *hullIndex) bool {
+//
+// sx is h's index for its slack (hullSlack). d.faceCos holds the cosines
+// of all of h's faces when the test has measured them all (boxFaceContact
+// reads them), and is empty otherwise.
+func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, margin float64, hint pairHint, r *satResult, x, sx *hullIndex) bool {
+	d.faceCos, d.faceSgn = d.faceCos[:0], d.faceSgn[:0]
 	var bh boxHullAxes
 	bh.init(p, h, bv)
 	s := newSatSearch(r, margin, scale)
@@ -208,11 +231,10 @@ func (d *Detector) satBoxHull(p *polytope, h *shapes.Hull, bv *view, scale, marg
 			return false
 		}
 	}
-	if !d.allAxes && bh.restSkips(d.hullSlack(h), &s) { // boxhullrest.go
+	if !d.allAxes && bh.restSkips(sx, &s) { // boxhullrest.go
 		s.pickFace(false)
 		return true
 	}
-	d.faceCos, d.faceSgn = d.faceCos[:0], d.faceSgn[:0]
 	for j := range h.Faces {
 		g, cs := bh.hullFace(j)
 		if !s.face(hintFaceQ, g, j) {
@@ -362,4 +384,28 @@ func growF(s []float64, n int) []float64 {
 		return make([]float64, n, n+n/4)
 	}
 	return s[:n]
+}
+
+// boxFaceContact is polyContact for a test that chose box face r.face of p
+// against small hull q (in its own frame), with the cosines of q's face
+// normals with the box's axes in d.faceCos (satBoxHull). The face normal of
+// box face r.face is box axis k = r.face/2 or its negative, so its dot
+// product with a hull face's normal is that face's cosine with axis k, or
+// the cosine negated, bit for bit (negation is exact): the incident face
+// is incidentFace's without another pass of dot products.
+func (d *Detector) boxFaceContact(p, q *polytope, r satResult, margin float64) vec3 {
+	d.cand = d.cand[:0]
+	k, neg := r.face/2, r.face%2 == 1
+	best, fi := math.Inf(1), 0
+	for j := range d.faceCos {
+		c := d.faceCos[j][k]
+		if neg {
+			c = -c
+		}
+		if c < best {
+			best, fi = c, j
+		}
+	}
+	d.clipFaces(p, r.face, q, fi, false, margin)
+	return p.planes[r.face].n
 }

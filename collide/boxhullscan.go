@@ -26,8 +26,10 @@ func (bh *boxHullAxes) boxFacesScan(v *[6]int, g *[6]float64) {
 	hi := [3]float64{math.Inf(-1), math.Inf(-1), math.Inf(-1)}
 	var li, hiI [3]int
 	u0, u1, u2 := bh.u[0], bh.u[1], bh.u[2]
-	for i, x := range bh.h.Vertices {
-		p0, p1, p2 := u0.Dot(x), u1.Dot(x), u2.Dot(x)
+	vs := bh.h.Vertices
+	for i := range vs {
+		x := &vs[i] // by index (geom.go)
+		p0, p1, p2 := u0.Dot(*x), u1.Dot(*x), u2.Dot(*x)
 		if p0 < lo[0] {
 			lo[0], li[0] = p0, i
 		}

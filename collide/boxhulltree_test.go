@@ -60,7 +60,7 @@ func runBoxHullWith(d *Detector, a, b *view, margin float64, hint pairHint, x *h
 	p := &d.polyP
 	p.set(&bv)
 	var out boxHullRun
-	out.ok = d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, hint, &out.r, x)
+	out.ok = d.satBoxHull(p, b.hull, &bv, a.size+b.size, margin, hint, &out.r, x, d.hullSlack(b.hull))
 	if !out.ok {
 		return out
 	}

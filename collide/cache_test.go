@@ -11,7 +11,7 @@ import (
 
 // ellipsoidHull is the hull of n random points on an ellipsoid of half
 // axes s (every point a vertex: about 2n faces and 3n edges).
-func ellipsoidHull(t testing.TB, rng *rand.Rand, n int, s vec3) *shapes.Hull {
+func ellipsoidHull(t testing.TB, rng interface{ NormFloat64() float64 }, n int, s vec3) *shapes.Hull {
 	t.Helper()
 	pts := make([]vec3, n)
 	for i := range pts {
@@ -84,7 +84,7 @@ func TestBoxHullMatchesReference(t *testing.T) {
 		d.polyP.set(&bv)
 		d.polyQ.set(&hv)
 		var r satResult
-		ok := d.satBoxHull(&d.polyP, hull, &bv, a.size+b.size, 0, pairHint{}, &r, nil)
+		ok := d.satBoxHull(&d.polyP, hull, &bv, a.size+b.size, 0, pairHint{}, &r, nil, d.hullSlack(hull))
 		generic, gok := sat(&d.polyP, &d.polyQ, 0)
 		if ok != gok {
 			t.Errorf("pair %d: fast test overlap %v, generic %v (brute-force gap %.3g)", i, ok, gok, ref)

@@ -109,7 +109,8 @@ func (d *Detector) clipFaces(ref *polytope, rf int, inc *polytope, nf int, flip 
 			break
 		}
 	}
-	for _, c := range poly {
+	for i := range poly {
+		c := &poly[i]
 		sep := rp.n.Dot(c.p) - rp.d
 		if sep > margin {
 			continue
@@ -147,7 +148,8 @@ func (d *Detector) clipToPolygon(ref []vec3, rn vec3, inc []vec3, rad float64, f
 			break
 		}
 	}
-	for _, c := range poly {
+	for i := range poly {
+		c := &poly[i]
 		d.addRefPoint(c.p, rn, rd, rad, flip, baseRef, baseInc, c.c1, c.c2, margin)
 	}
 	d.clip0, d.clip1 = poly[:0], out[:0]

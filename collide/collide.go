@@ -323,11 +323,11 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	proj := func(i int) (float64, float64) { return pts[i].p.Dot(u), pts[i].p.Dot(v) }
 	var cx, cy float64
 	minSep := math.Inf(1)
-	for i, p := range pts {
+	for i := range pts {
 		x, y := proj(i)
 		cx += x
 		cy += y
-		minSep = math.Min(minSep, p.sep)
+		minSep = math.Min(minSep, pts[i].sep)
 	}
 	cx /= float64(len(pts))
 	cy /= float64(len(pts))
@@ -365,8 +365,8 @@ func (d *Detector) reduce(pts []candPoint, n vec3) []int {
 	}
 	// The deepest point; among equally deep ones the farthest from the centre.
 	i0, far := -1, 0.0
-	for i, p := range pts {
-		if p.sep > minSep+tieD {
+	for i := range pts {
+		if pts[i].sep > minSep+tieD {
 			continue
 		}
 		x, y := proj(i)

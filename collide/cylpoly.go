@@ -106,29 +106,40 @@ type cylAxes struct {
 // separates by more than the margin. The cylinder's extent about its
 // centre along a unit n is h |n.u| + r sqrt(1 - (n.u)^2), the same both
 // ways, so both orientations cost one pass.
+//
+// It is written out on scalars: the vector methods return arrays, which
+// the compiler keeps in memory. The operations and their order are those
+// of the vector form (unit, Dot, Sub, Mul, Len), so the results are the
+// same bit for bit (TestCylTryScalars).
 func (a *cylAxes) try(ax vec3, bias float64) bool {
-	n, l := unit(ax)
+	l := math.Sqrt(ax[0]*ax[0] + ax[1]*ax[1] + ax[2]*ax[2])
 	if !(l > 1e-12) {
 		return true
 	}
-	un := n.Dot(a.u)
+	k := 1 / l
+	n0, n1, n2 := ax[0]*k, ax[1]*k, ax[2]*k // unit(ax)
+	u := &a.u
+	un := n0*u[0] + n1*u[1] + n2*u[2]
 	// The part of n across the axis by its length, not sqrt(1 - un^2),
 	// which loses half the digits near the axis (a cap's normal): 1e-8
 	// of the radius where un is 1 to rounding.
-	ec := a.h*math.Abs(un) + a.r*n.Sub(a.u.Mul(un)).Len()
-	cn := n.Dot(a.c0)
+	w0, w1, w2 := n0-u[0]*un, n1-u[1]*un, n2-u[2]*un
+	ec := a.h*math.Abs(un) + a.r*math.Sqrt(w0*w0+w1*w1+w2*w2)
+	cn := n0*a.c0[0] + n1*a.c0[1] + n2*a.c0[2]
 	var lo, hi float64 // the polytope's extent along n
 	if p := a.p; p.kind == kBox {
-		m := n.Dot(p.pos)
+		m := n0*p.pos[0] + n1*p.pos[1] + n2*p.pos[2]
 		e := 0.0
 		for k := 0; k < 3; k++ {
-			e += p.half[k] * math.Abs(n.Dot(col(p.rot, k)))
+			r := p.rot[3*k : 3*k+3]
+			e += p.half[k] * math.Abs(n0*r[0]+n1*r[1]+n2*r[2])
 		}
 		lo, hi = m-e, m+e
 	} else {
 		lo, hi = math.Inf(1), math.Inf(-1)
-		for _, v := range a.cp.verts {
-			x := n.Dot(v)
+		for i := range a.cp.verts {
+			v := &a.cp.verts[i]
+			x := n0*v[0] + n1*v[1] + n2*v[2]
 			lo, hi = math.Min(lo, x), math.Max(hi, x)
 		}
 	}
@@ -138,9 +149,9 @@ func (a *cylAxes) try(ax vec3, bias float64) bool {
 	}
 	if s > a.best+bias {
 		if neg {
-			n = n.Mul(-1)
+			n0, n1, n2 = n0*-1, n1*-1, n2*-1
 		}
-		a.best, a.n = s, n
+		a.best, a.n = s, vec3{n0, n1, n2}
 		if s > a.margin {
 			a.apart = true
 			return false
@@ -257,23 +268,23 @@ const cylCertTol = 1e-9
 // least over all points of the polytope).
 func (a *cylAxes) closedForm(bias float64) bool {
 	cp := a.cp
-	for _, n := range cp.norms {
-		if !a.try(n, 0) {
+	for i := range cp.norms {
+		if !a.try(cp.norms[i], 0) {
 			return false
 		}
 	}
 	if !a.try(a.u, bias) {
 		return false
 	}
-	for _, e := range cp.dirs {
-		if !a.try(a.u.Cross(e), bias) {
+	for i := range cp.dirs {
+		if !a.try(a.u.Cross(cp.dirs[i]), bias) {
 			return false
 		}
 	}
 	cp.vz, cp.vr, cp.vd = cp.vz[:0], cp.vr[:0], cp.vd[:0]
 	near := math.Inf(1)
-	for _, v := range cp.verts {
-		w := v.Sub(a.c0)
+	for i := range cp.verts {
+		w := cp.verts[i].Sub(a.c0)
 		z := w.Dot(a.u)
 		rad := w.Sub(a.u.Mul(z))
 		dz, dr := math.Abs(z)-a.h, rad.Len()-a.r

@@ -174,3 +174,93 @@ func TestCylinderOnBoxClosedForm(t *testing.T) {
 		}
 	})
 }
+
+// tryVectors is cylAxes.try written with the vector methods, as it was
+// before it was written out on scalars: the reference of
+// TestCylTryScalars.
+func (a *cylAxes) tryVectors(ax vec3, bias float64) bool {
+	n, l := unit(ax)
+	if !(l > 1e-12) {
+		return true
+	}
+	un := n.Dot(a.u)
+	ec := a.h*math.Abs(un) + a.r*n.Sub(a.u.Mul(un)).Len()
+	cn := n.Dot(a.c0)
+	var lo, hi float64
+	if p := a.p; p.kind == kBox {
+		m := n.Dot(p.pos)
+		e := 0.0
+		for k := 0; k < 3; k++ {
+			e += p.half[k] * math.Abs(n.Dot(col(p.rot, k)))
+		}
+		lo, hi = m-e, m+e
+	} else {
+		lo, hi = math.Inf(1), math.Inf(-1)
+		for _, v := range a.cp.verts {
+			x := n.Dot(v)
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+		}
+	}
+	s, neg := lo-cn-ec, false
+	if s2 := cn - ec - hi; s2 > s {
+		s, neg = s2, true
+	}
+	if s > a.best+bias {
+		if neg {
+			n = n.Mul(-1)
+		}
+		a.best, a.n = s, n
+		if s > a.margin {
+			a.apart = true
+			return false
+		}
+	}
+	return true
+}
+
+// TestCylTryScalars checks that cylAxes.try on scalars keeps the vector
+// form's verdict, best separation and axis bit for bit, trying runs of
+// random axes (of random, tiny and zero length, and the cylinder's own
+// axis) at random poses of a cylinder against a box and a triangle.
+func TestCylTryScalars(t *testing.T) {
+	rng := rand.New(rand.NewPCG(17, 0x7e5))
+	rv := func(s float64) vec3 { return vec3{rng.NormFloat64(), rng.NormFloat64(), rng.NormFloat64()}.Mul(s) }
+	bits := func(v vec3) [3]uint64 {
+		return [3]uint64{math.Float64bits(v[0]), math.Float64bits(v[1]), math.Float64bits(v[2])}
+	}
+	var cp cylPolytope
+	for i := 0; i < 4000; i++ {
+		var cv, pv view
+		cv.setConvex(shapes.Cylinder{Radius: 0.01, HalfLength: 0.012}, shapes.RotationMatrix(randomTurn(rng)), rv(0.01))
+		if i%2 == 0 {
+			pv.setConvex(shapes.Box{Half: vec3{0.015, 0.01, 0.008}}, shapes.RotationMatrix(randomTurn(rng)), rv(0.01))
+		} else {
+			a, b, c := rv(0.02), rv(0.02), rv(0.02)
+			n, _ := unit(b.Sub(a).Cross(c.Sub(a)))
+			pv.setTriangle(a, b, c, n)
+		}
+		if !cp.gather(&pv) {
+			t.Fatal("gather refused a box or a triangle")
+		}
+		margin := 0.004 * rng.Float64()
+		x := cylAxes{c0: cv.pos, u: cv.axis(), r: cv.cylR, h: cv.half[2], p: &pv, cp: &cp, best: math.Inf(-1), margin: margin}
+		y := x
+		for k := 0; k < 12; k++ {
+			ax := rv(math.Pow(10, -14*rng.Float64()))
+			switch k % 6 {
+			case 1:
+				ax = vec3{}
+			case 2:
+				ax = x.u
+			}
+			bias := 1e-7 * float64(k%2)
+			ok, rok := x.try(ax, bias), y.tryVectors(ax, bias)
+			if ok != rok || x.apart != y.apart || math.Float64bits(x.best) != math.Float64bits(y.best) || bits(x.n) != bits(y.n) {
+				t.Fatalf("pose %d, axis %d: %v, best %.17g along %v; vector form %v, %.17g along %v", i, k, ok, x.best, x.n, rok, y.best, y.n)
+			}
+			if !ok {
+				break
+			}
+		}
+	}
+}

@@ -147,8 +147,8 @@ func (d *Detector) epa(a, b *view, full bool) epaResult {
 	}
 	w := d.epaW
 	scale := 0.0
-	for _, p := range w {
-		scale = math.Max(scale, p.Len())
+	for i := range w {
+		scale = math.Max(scale, w[i].Len())
 	}
 	tol := epaRelTol * scale
 	if a.curved(full) || b.curved(full) {
@@ -296,8 +296,8 @@ func (d *Detector) epaHorizonIsLoop() bool {
 // false when D has no volume (flat shapes in contact face to face).
 func (d *Detector) epaTetra(a, b *view, full bool) bool {
 	scale := 0.0
-	for _, p := range d.epaW {
-		scale = math.Max(scale, p.Len())
+	for i := range d.epaW {
+		scale = math.Max(scale, d.epaW[i].Len())
 	}
 	add := func(dirs []vec3, dist func(vec3) float64) bool {
 		bestD, bi := 0.0, -1

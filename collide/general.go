@@ -263,7 +263,8 @@ func (d *Detector) faceFeature(ref, inc *feature, flip bool, margin, scale float
 	tol := clipTolerance * scale
 	rd := ref.normal.Dot(ref.pts[0])
 next:
-	for i, p := range inc.pts {
+	for i := range inc.pts {
+		p := &inc.pts[i]
 		for k := range ref.pts {
 			a, b := ref.pts[k], ref.pts[(k+1)%len(ref.pts)]
 			sn, l := unit(b.Sub(a).Cross(ref.normal))
@@ -271,7 +272,7 @@ next:
 				continue next
 			}
 		}
-		d.addRefPoint(p, ref.normal, rd, inc.rad, flip, ref.base, inc.base, codeV(i), 0, margin)
+		d.addRefPoint(*p, ref.normal, rd, inc.rad, flip, ref.base, inc.base, codeV(i), 0, margin)
 	}
 }
 

@@ -11,6 +11,13 @@ type (
 	mat3 = shapes.Mat3
 )
 
+// Hot loops over slices of vectors, or of structs that hold them (vertices,
+// planes, candidate points), index the slice rather than range over its
+// values: ranging by value copies each element, and with Go 1.26 on amd64
+// a loop of dot products over a 40-vertex hull's 76 face planes measured
+// 4 to 5 times slower that way (the same for a slice of vec3). The sums
+// are the same either way, so the results are too, bit for bit.
+
 // mulT returns m^T v: for a rotation, the inverse rotation of v.
 func mulT(m mat3, v vec3) vec3 {
 	return vec3{

@@ -1,8 +1,7 @@
 package collide
 
 import (
-	"cmp"
-	"slices"
+	"sort"
 
 	"clatter/shapes"
 )
@@ -126,9 +125,12 @@ func (w *warmMem) lookup(key uint64) int {
 		}
 		return -1
 	}
-	i, ok := slices.BinarySearchFunc(m, key, func(e warmEntry, k uint64) int { return cmp.Compare(e.key, k) })
+	// The first entry whose key is not below key, by its index: a search
+	// handed the entries by value (slices.BinarySearchFunc) copies one, a
+	// simplex and all, at every probe.
+	i = sort.Search(len(m), func(j int) bool { return m[j].key >= key })
 	w.cursor = i
-	if !ok {
+	if i == len(m) || m[i].key != key {
 		return -1
 	}
 	w.cursor++

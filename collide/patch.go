@@ -59,7 +59,8 @@ func (d *Detector) patch(n vec3) (vec3, float64) {
 	u, v := d.tangents.basis(n)
 	minSep := math.Inf(1)
 	x0, x1, y0, y1 := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
-	for _, c := range d.cand {
+	for i := range d.cand {
+		c := &d.cand[i]
 		x, y := c.p.Dot(u), c.p.Dot(v)
 		minSep = min(minSep, c.sep)
 		x0, x1, y0, y1 = min(x0, x), max(x1, x), min(y0, y), max(y1, y)
@@ -67,7 +68,8 @@ func (d *Detector) patch(n vec3) (vec3, float64) {
 	lim := max(minSep+patchDepthTol*max(x1-x0, y1-y0), 0)
 	pts := d.patchPts[:0]
 	var cx, cy, cz float64
-	for _, c := range d.cand {
+	for i := range d.cand {
+		c := &d.cand[i]
 		if c.sep > lim {
 			continue
 		}

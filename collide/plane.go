@@ -68,11 +68,12 @@ func (d *Detector) planeConvex(dst []Manifold, pl shapes.Plane, fp frame, s shap
 		h0 := nw.Dot(v.pos) - dw
 		tol := 1e-9 * (v.size + math.Abs(h0))
 		if len(v.hull.Neighbors) != len(v.hull.Vertices) {
-			for i, p := range v.hull.Vertices {
-				if h0-l.Dot(p) > margin+tol {
+			for i := range v.hull.Vertices {
+				p := &v.hull.Vertices[i]
+				if h0-l.Dot(*p) > margin+tol {
 					continue
 				}
-				add(v.pos.Add(mul(v.rot, p)), uint32(i))
+				add(v.pos.Add(mul(v.rot, *p)), uint32(i))
 			}
 			break
 		}

@@ -78,7 +78,8 @@ func (p *polytope) prepareArcs(neg bool) {
 	if neg {
 		sg = -1
 	}
-	for i, e := range p.edges {
+	for i := range p.edges {
+		e := &p.edges[i]
 		p0 := p.verts[e.V[0]]
 		dp := p.verts[e.V[1]].Sub(p0)
 		if p.flat {
@@ -177,18 +178,20 @@ func (p *polytope) set(v *view) {
 			p.verts = h.Vertices
 		} else {
 			p.vbuf = p.vbuf[:0]
-			for _, x := range h.Vertices {
-				p.vbuf = append(p.vbuf, v.pos.Add(mul(v.rot, x)))
+			for i := range h.Vertices {
+				p.vbuf = append(p.vbuf, v.pos.Add(mul(v.rot, h.Vertices[i])))
 			}
 			p.verts = p.vbuf
 		}
 		p.pbuf = p.pbuf[:0]
 		if v.rot == identity3 && v.pos == (vec3{}) {
-			for _, f := range h.Faces {
+			for i := range h.Faces {
+				f := &h.Faces[i]
 				p.pbuf = append(p.pbuf, plane{f.Normal, f.Offset})
 			}
 		} else {
-			for _, f := range h.Faces {
+			for i := range h.Faces {
+				f := &h.Faces[i]
 				n := mul(v.rot, f.Normal)
 				p.pbuf = append(p.pbuf, plane{n, f.Offset + n.Dot(v.pos)})
 			}
@@ -209,8 +212,8 @@ func (p *polytope) minAlong(n vec3) (int, float64) {
 		return i, n.Dot(p.verts[i])
 	}
 	best, bi := math.Inf(1), 0
-	for i, x := range p.verts {
-		if d := n.Dot(x); d < best {
+	for i := range p.verts {
+		if d := n.Dot(p.verts[i]); d < best { // by index (geom.go)
 			best, bi = d, i
 		}
 	}
@@ -310,8 +313,8 @@ func satHint(p, q *polytope, margin float64, h pairHint, r *satResult) bool {
 	if g, ok := polyHintGap(p, q, h); ok && s.hinted(h, g) {
 		return false
 	}
-	for i, pl := range p.planes {
-		if !s.face(hintFaceP, satFaceGap(pl, q), i) {
+	for i := range p.planes {
+		if !s.face(hintFaceP, satFaceGap(p.planes[i], q), i) {
 			return false
 		}
 	}
@@ -408,8 +411,8 @@ func (q *polytope) arcMisses(y *edgeArc) bool {
 // incidentFace returns the face of q most anti-parallel to n.
 func incidentFace(q *polytope, n vec3) int {
 	best, bi := math.Inf(1), 0
-	for i, pl := range q.planes {
-		if d := pl.n.Dot(n); d < best {
+	for i := range q.planes {
+		if d := q.planes[i].n.Dot(n); d < best { // by index (geom.go)
 			best, bi = d, i
 		}
 	}
