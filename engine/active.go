@@ -67,8 +67,10 @@ func (w *World) fellAsleep(id BodyID) {
 	a.sleepPot += a.slept[id]
 	a.sleepers++
 	a.dozed = append(a.dozed, id)
-	if int(id) < len(w.collision.pose) {
-		w.collision.pose[id] = w.ShapePose(id) // the pose it sleeps in
+	if c := &w.collision; int(id) < len(c.pose) {
+		p := w.ShapePose(id) // the pose it sleeps in
+		c.skip.moved(id, &c.pose[id], &p)
+		c.pose[id] = p
 	}
 }
 
@@ -83,11 +85,14 @@ func (w *World) shapePoses() {
 		for i := range w.b.kind {
 			c.pose = append(c.pose, w.ShapePose(BodyID(i)))
 		}
+		c.skip.resetMotion(len(c.pose)) // (apartskip.go)
 		w.active.poseAll = false
 		return
 	}
 	for _, id := range w.awakeBodies() {
-		c.pose[id] = w.ShapePose(id)
+		p := w.ShapePose(id)
+		c.skip.moved(id, &c.pose[id], &p) // (apartskip.go)
+		c.pose[id] = p
 	}
 }
 
