@@ -69,7 +69,9 @@ func (w *World) fellAsleep(id BodyID) {
 	a.dozed = append(a.dozed, id)
 	if c := &w.collision; int(id) < len(c.pose) {
 		p := w.ShapePose(id) // the pose it sleeps in
-		c.skip.moved(id, &c.pose[id], &p)
+		if c.skip.tracking() {
+			c.skip.moved(id, &c.pose[id], &p) // (apartskip.go)
+		}
 		c.pose[id] = p
 	}
 }
@@ -89,9 +91,12 @@ func (w *World) shapePoses() {
 		w.active.poseAll = false
 		return
 	}
+	track := c.skip.tracking() // (apartskip.go)
 	for _, id := range w.awakeBodies() {
 		p := w.ShapePose(id)
-		c.skip.moved(id, &c.pose[id], &p) // (apartskip.go)
+		if track {
+			c.skip.moved(id, &c.pose[id], &p)
+		}
 		c.pose[id] = p
 	}
 }

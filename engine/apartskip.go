@@ -26,7 +26,7 @@ import (
 // apartSkip holds the bodies' summed motion and the pairs' rooms.
 type apartSkip struct {
 	// moves: by body, the summed motion of its shape pose since the poses
-	// were last taken all anew.
+	// were last taken all anew, over the steps that began with rooms kept.
 	moves []bodyMotion
 	// prev: the rooms of last step's pairs, and cur this step's, sorted
 	// by key.
@@ -71,7 +71,13 @@ func (s *apartSkip) resetMotion(n int) {
 	s.cursor = 0
 }
 
-// moved adds the motion of body id's shape pose from p0 to p1.
+// tracking reports whether the bodies' motion is summed: while rooms are
+// kept. A room compares the sums with their values at its proof, so the
+// motion of steps when no room is kept need not be summed.
+func (s *apartSkip) tracking() bool { return len(s.prev) > 0 }
+
+// moved adds the motion of body id's shape pose from p0 to p1 (while
+// tracking).
 func (s *apartSkip) moved(id BodyID, p0, p1 *shapes.Pose) {
 	d0, d1, d2 := p1.Position[0]-p0.Position[0], p1.Position[1]-p0.Position[1], p1.Position[2]-p0.Position[2]
 	// The vector part of q1 conj(q0) is sin(phi/2) of the turn phi, for
