@@ -70,6 +70,7 @@ func (d *Detector) boundedApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b s
 		return false
 	}
 	d.stats.Bounded++
+	d.noteRoom(r, left, &pa, &pb)
 	return true
 }
 
@@ -102,5 +103,7 @@ func (d *Detector) measuredApart(h *pairHint, a shapes.Shape, pa shapes.Pose, b 
 		return true
 	}
 	h.ref.rq, h.ref.rt = relPose(h.ref.mOnB, &pa, &pb)
+	r := &h.ref
+	d.noteRoom(r, r.gap-relMotion(r.mOnB, &r.rq, &r.rt, r.rho, &pa, &pb), &pa, &pb)
 	return true
 }

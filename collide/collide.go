@@ -120,6 +120,7 @@ type Detector struct {
 
 	persist persistMem // persistent manifolds (persist.go)
 	warm    warmMem    // pairs' last GJK simplices (gjkwarm.go)
+	room    apartRoom  // the room the last CollidePair query's bound left (apartroom.go)
 }
 
 // NewDetector returns a Detector with its buffers sized for common shapes.

@@ -185,6 +185,7 @@ func (d *Detector) SetPersistence(slop float64) {
 // separations exact for those features. Call NextStep once all of a step's
 // pairs have been queried.
 func (d *Detector) CollidePair(dst []Manifold, key uint64, a shapes.Shape, pa shapes.Pose, b shapes.Shape, pb shapes.Pose, margin float64) []Manifold {
+	d.room.ok = false
 	p := &d.persist
 	if p.slop == 0 {
 		return d.collideHinted(dst, key, a, pa, b, pb, margin)

@@ -67,8 +67,12 @@ func (w *World) fellAsleep(id BodyID) {
 	a.sleepPot += a.slept[id]
 	a.sleepers++
 	a.dozed = append(a.dozed, id)
-	if int(id) < len(w.collision.pose) {
-		w.collision.pose[id] = w.ShapePose(id) // the pose it sleeps in
+	if c := &w.collision; int(id) < len(c.pose) {
+		p := w.ShapePose(id) // the pose it sleeps in
+		if c.skip.tracking() {
+			c.skip.moved(id, &c.pose[id], &p) // (apartskip.go)
+		}
+		c.pose[id] = p
 	}
 }
 
@@ -83,11 +87,17 @@ func (w *World) shapePoses() {
 		for i := range w.b.kind {
 			c.pose = append(c.pose, w.ShapePose(BodyID(i)))
 		}
+		c.skip.resetMotion(len(c.pose)) // (apartskip.go)
 		w.active.poseAll = false
 		return
 	}
+	track := c.skip.tracking() // (apartskip.go)
 	for _, id := range w.awakeBodies() {
-		c.pose[id] = w.ShapePose(id)
+		p := w.ShapePose(id)
+		if track {
+			c.skip.moved(id, &c.pose[id], &p)
+		}
+		c.pose[id] = p
 	}
 }
 

@@ -35,6 +35,7 @@ type collisionState struct {
 	parent, size []int32   // the step's union-find of islands (sleep.go)
 	islandRest   []float64 // by island root: how long its least rested body has rested
 	isl          islandState
+	skip         apartSkip // pairs apart by the room their bound left (apartskip.go)
 }
 
 // touchPair is a pair of bodies with at least one contact point at or
@@ -124,6 +125,7 @@ func (w *World) collide(dt float64) {
 	}
 	w.collideWoken(dt) // pairs of the islands that this loop woke (sleep_wake.go)
 	c.det.NextStep()
+	c.skip.nextStep()
 	w.contactEvents()
 }
 
@@ -181,7 +183,13 @@ func (w *World) collidePair(a, b BodyID, dt float64) {
 	}
 	// The pair's key lets the narrow phase reuse what it found last step.
 	key := uint64(uint32(a))<<32 | uint64(uint32(b))
+	if !w.soft.on && w.skipApart(a, b, key, margin) {
+		return // apart by the room its bound left (apartskip.go)
+	}
 	c.manifolds = c.det.CollidePair(c.manifolds[:0], key, w.b.shape[a], c.pose[a], w.b.shape[b], c.pose[b], margin)
+	if len(c.manifolds) == 0 && !w.soft.on {
+		w.noteApart(a, b, key)
+	}
 	// A sleeping body wakes, with its island, only when a contact presses on it.
 	if (ka == Dynamic && !w.b.awake[a] || kb == Dynamic && !w.b.awake[b]) && w.presses(a, b, dt) {
 		if ka == Dynamic && !w.b.awake[a] {

@@ -78,6 +78,8 @@ func (c *collisionState) reused() collisionState {
 		parent: scratch.Reuse(c.parent), size: scratch.Reuse(c.size), islandRest: scratch.Reuse(c.islandRest),
 		isl: islandState{stamp: scratch.Reuse(c.isl.stamp), reps: scratch.Reuse(c.isl.reps), doze: scratch.Reuse(c.isl.doze),
 			isle: scratch.Reuse(c.isl.isle), dozing: scratch.Reuse(c.isl.dozing)},
+		skip: apartSkip{moves: scratch.Reuse(c.skip.moves),
+			prev: scratch.Reuse(c.skip.prev), cur: scratch.Reuse(c.skip.cur)},
 	}
 }
 
