@@ -857,9 +857,8 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 			slips = min(ps.prevSlips, 254) + 1
 		}
 		pending := ps.deferred
-		if rn.lambda <= 0 {
-			// The velocity solve did not have to stop the point at the gap:
-			// other contacts turned the body away, it does not arrive at
+		if !s.stoppedAtGap(i) { // held.go
+			// Other contacts turned the body away: it does not arrive at
 			// that speed, and no energy waits for it to give back. Keeping
 			// the speed would bounce the point next step at a speed it
 			// never had, adding energy (seen with tumbling boxes, e = 1).
