@@ -558,12 +558,14 @@ func (s *Solver) classify(points []Point) {
 // solve's target (no approach; a speculative point its gap per step).
 // A speculative point counts only if it would close its gap within the step.
 func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
-	vel, fv := s.sl.vel, s.sl.fv
+	vel := s.sl.vel
 	set := &s.Settings
 	// Every point's struck is false from prepare on.
 	if set.PairIterations == 0 {
 		return
 	}
+	s.supportedForces(bodies) // supported.go
+	fv := s.sl.fs
 	s.markChains(dt) // chain.go
 	for pass := 0; pass < set.ImpactPasses; pass++ {
 		hitAny := false
