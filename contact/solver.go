@@ -859,7 +859,7 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 			slips = min(ps.prevSlips, 254) + 1
 		}
 		pending := ps.deferred
-		if !s.stoppedAtGap(i) { // held.go
+		if pending > 0 && !s.stoppedAtGap(i) { // held.go
 			// Other contacts turned the body away: it does not arrive at
 			// that speed, and no energy waits for it to give back. Keeping
 			// the speed would bounce the point next step at a speed it

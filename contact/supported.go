@@ -40,12 +40,14 @@ func (s *Solver) supportedForces(bodies []Body) {
 		}
 		// The row's direction d separates B from A: B presses along -d,
 		// A along +d.
+		// A body whose weight an earlier point took up is passed over
+		// at once: a resting pile asks resting once or twice a body.
 		rn := &s.nrows[i]
-		if rn.b != fixedSlot && s.resting(bodies, rn.b) {
-			takeUp(&sl.fs[rn.b].v, &rn.d, -1, mu)
+		if f := &sl.fs[rn.b].v; rn.b != fixedSlot && *f != (vec{}) && s.resting(bodies, rn.b) {
+			takeUp(f, &rn.d, -1, mu)
 		}
-		if rn.a != fixedSlot && s.resting(bodies, rn.a) {
-			takeUp(&sl.fs[rn.a].v, &rn.d, 1, mu)
+		if f := &sl.fs[rn.a].v; rn.a != fixedSlot && *f != (vec{}) && s.resting(bodies, rn.a) {
+			takeUp(f, &rn.d, 1, mu)
 		}
 	}
 }
