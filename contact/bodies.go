@@ -29,6 +29,7 @@ type slots struct {
 	vel   []sbody   // V, W of each slot: what the sweeps work on
 	ps    []sbody   // Vp, Wp: the position pass's pseudo-velocities
 	fv    []sbody   // DV, DW: this step's force velocities
+	fs    []sbody   // fv without what supports take up (supported.go)
 	im    []float64 // InvMass
 	cap   []float64 // turnCap of Size: the rows' bound on stopping errors (turn.go)
 }

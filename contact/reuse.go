@@ -9,7 +9,7 @@ import "clatter/internal/scratch"
 func (s *Solver) Clear(set Settings) {
 	n := *NewSolver(set)
 	n.sl = slots{gid: scratch.Reuse(s.sl.gid), fixed: scratch.Reuse(s.sl.fixed), vel: scratch.Reuse(s.sl.vel),
-		ps: scratch.Reuse(s.sl.ps), fv: scratch.Reuse(s.sl.fv), im: scratch.Reuse(s.sl.im),
+		ps: scratch.Reuse(s.sl.ps), fv: scratch.Reuse(s.sl.fv), fs: scratch.Reuse(s.sl.fs), im: scratch.Reuse(s.sl.im),
 		cap: scratch.Reuse(s.sl.cap)}
 	n.nrows, n.trows, n.jrows, n.pts, n.jp = scratch.Reuse(s.nrows), scratch.Reuse(s.trows), scratch.Reuse(s.jrows), scratch.Reuse(s.pts), scratch.Reuse(s.jp)
 	n.groups = scratch.Reuse(s.groups)

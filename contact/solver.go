@@ -559,12 +559,14 @@ func (s *Solver) classify(points []Point) {
 // solve's target (no approach; a speculative point its gap per step).
 // A speculative point counts only if it would close its gap within the step.
 func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report) {
-	vel, fv := s.sl.vel, s.sl.fv
+	vel := s.sl.vel
 	set := &s.Settings
 	// Every point's struck is false from prepare on.
 	if set.PairIterations == 0 {
 		return
 	}
+	s.supportedForces(bodies) // supported.go
+	fv := s.sl.fs
 	s.markChains(dt) // chain.go
 	for pass := 0; pass < set.ImpactPasses; pass++ {
 		hitAny := false
@@ -862,9 +864,8 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 			slips = min(ps.prevSlips, 254) + 1
 		}
 		pending := ps.deferred
-		if rn.lambda <= 0 {
-			// The velocity solve did not have to stop the point at the gap:
-			// other contacts turned the body away, it does not arrive at
+		if pending > 0 && !s.stoppedAtGap(i) { // held.go
+			// Other contacts turned the body away: it does not arrive at
 			// that speed, and no energy waits for it to give back. Keeping
 			// the speed would bounce the point next step at a speed it
 			// never had, adding energy (seen with tumbling boxes, e = 1).
