@@ -114,6 +114,7 @@ type bandState struct {
 	lbase    []int32  // per row of the factor: where its column 0 would be in L (bandstore.go)
 	cycle    setTrail // the active sets of the pivots (bandcycle.go)
 	held     []bool   // per body slot: has a point in the banded system, while dropLoose runs (bandloose.go)
+	pressing []int8   // per point: +1 or -1 if this step's last banded velocity solve of its island had it pressing or free, 0 if none ran
 }
 
 // run is the points idx[start:end] of one pair of an island, with the
@@ -536,7 +537,7 @@ func (bs *bandState) reused() bandState {
 		queue: scratch.Reuse(bs.queue), place: scratch.Reuse(bs.place), ground: scratch.Reuse(bs.ground), perm: scratch.Reuse(bs.perm),
 		lo: scratch.Reuse(bs.lo), hi: scratch.Reuse(bs.hi), flip: scratch.Reuse(bs.flip),
 		aoff: scratch.Reuse(bs.aoff), lbase: scratch.Reuse(bs.lbase),
-		cycle: setTrail{seen: scratch.Reuse(bs.cycle.seen)}, held: scratch.Reuse(bs.held),
+		cycle: setTrail{seen: scratch.Reuse(bs.cycle.seen)}, held: scratch.Reuse(bs.held), pressing: scratch.Reuse(bs.pressing),
 	}
 }
 
@@ -568,4 +569,44 @@ func (s *Solver) bandLimit(n int, fric bool) int64 {
 // point that need not press leaves the set at the first pivot.
 func (s *Solver) touches(i int32) bool {
 	return s.pts[i].sep <= s.pts[i].slop
+}
+
+// bandStart reports whether point i, with impulse lam, starts in the
+// active set of a banded velocity solve: with friction, where it touches
+// (touches); for the normal rows alone, where this step's banded solve
+// of its island before the sweeps had it pressing, or else where it
+// touches and pressed last step or is new (no warm start).
+//
+// The normal rows alone have one solution whatever the start (A plus the
+// shift is positive definite, so a P-matrix: R. W. Cottle, J.-S. Pang and
+// R. E. Stone, "The Linear Complementarity Problem", Academic Press 1992,
+// section 3.3), so the start decides only how many pivots find it (and,
+// within the pivots' tolerance, which of the near-solutions they stop at). In a pile in motion many touching
+// points do not press: in the pour of 4000 parts into a bin, 40 percent
+// of an island's 6000 points left the set of touching points at the first
+// pivot, and after the sweeps, whose friction moves the normal impulses
+// little, the solve before them is nearer still. A tower set down without
+// warm start still starts with every touching point pressing.
+func (s *Solver) bandStart(i int32, lam float64, fric bool) bool {
+	switch p := s.blk.band.pressing[i]; {
+	case fric:
+		return s.touches(i)
+	case p != 0:
+		return p > 0
+	}
+	return s.touches(i) && (lam > 0 || !s.pts[i].found)
+}
+
+// notePressing records, per point of the banded velocity solve of points
+// idx just applied (n rows), whether it pressed (bandStart).
+func (b *blockState) notePressing(idx []int32, n int) {
+	for i := 0; i < n; i++ {
+		if b.kind[i] == normalRow {
+			p := int8(-1)
+			if b.active[i] {
+				p = 1
+			}
+			b.band.pressing[idx[b.of[i]]] = p
+		}
+	}
 }
