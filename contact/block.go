@@ -439,13 +439,13 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// 1 mm cubes to the sweeps, which let it fall (measured). Such a point
 	// enters at the first pivot if it must press. Without friction, only
 	// the touching points that pressed last step or are new start so, or
-	// those this step's banded solve before the sweeps left pressing
-	// (bandStart).
+	// those this step's banded solve before the sweeps left pressing; a
+	// banded position pass starts from last step's (bandStart).
 	for i := 0; i < n; i++ {
 		if b.kind[i] == normalRow {
 			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
-			if band && !pseudo {
-				b.active[i] = s.bandStart(idx[b.of[i]], b.lam[i], fric) // band.go
+			if band {
+				b.active[i] = s.bandStart(idx[b.of[i]], b.active[i], fric, pseudo) // band.go
 			}
 		}
 	}
@@ -508,8 +508,8 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		*l += d
 		b.rows[i].apply(vel, d)
 	}
-	if band && !pseudo {
-		b.notePressing(idx, n) // band.go
+	if band {
+		s.notePressing(idx, n, pseudo) // band.go
 	}
 	return true
 }
