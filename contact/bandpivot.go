@@ -15,6 +15,16 @@ package contact
 // chapter 4). The single exchange of the last row refactorises the
 // shortest tail (refactorBand).
 //
+// Once whole-set exchanges have stalled, single exchanges run to the end,
+// also past a new low: Judice and Pires return to whole-set exchanges
+// there, but in a large island the few rows still infeasible then are
+// the ones whose exchanges undo each other, and each return spent its
+// bandBlockTries exchanges raising the count again before single ones
+// brought it back. In the pour of 4000 parts into a bin (an island of up
+// to 6700 points, the Pour4000 benchmark, 150 steps) the banded solves
+// took 21 percent fewer pivots and 28 percent less factor work so, all
+// ending as before (measured, December 2026).
+//
 // Murty's rule ends for a system of normal rows alone. With friction, a
 // pressing row brings its friction rows in with it, and then it is no
 // longer one row that enters: a light box squeezed by friction between
@@ -59,17 +69,26 @@ func (b *blockState) pivotBand(n int, shift, tol float64, limit int64) bool {
 				bs.flip = append(bs.flip, int32(i))
 			}
 		}
-		switch nf := len(bs.flip); {
-		case nf == 0:
+		nf := len(bs.flip)
+		if nf == 0 {
 			return true
+		}
+		single := tries == 0
+		switch {
 		case nf < best:
-			best, tries = nf, bandBlockTries
+			best = nf
 			bs.cycle.newLow()
-		case tries > 0:
+			if !single {
+				tries = bandBlockTries
+			}
+		case !single:
 			tries--
-		case bs.cycle.repeats():
-			return false // the single exchanges cycle: they cannot end
-		default: // the last row alone, kept at the buffer's start
+		}
+		if single {
+			if bs.cycle.repeats() {
+				return false // the single exchanges cycle: they cannot end
+			}
+			// The last row alone, kept at the buffer's start.
 			bs.flip[0] = bs.flip[nf-1]
 			bs.flip = bs.flip[:1]
 			if i := int(bs.flip[0]); b.active[i] {

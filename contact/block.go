@@ -92,6 +92,8 @@ func (s *Solver) islands(points []Point, rows []Row) {
 	if !s.islandOne(points, rows) { // one moving body (islandone.go)
 		s.unionIslands(points, rows)
 	}
+	s.blk.band.pressing = grow(s.blk.band.pressing, len(points))
+	clear(s.blk.band.pressing)
 }
 
 // unionIslands is islands for any step: a union-find over the body slots.
@@ -435,12 +437,15 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// the order of the difference over the shift (blockShift) came out,
 	// and the pivots went round until their bound and left a pyramid of
 	// 1 mm cubes to the sweeps, which let it fall (measured). Such a point
-	// enters at the first pivot if it must press.
+	// enters at the first pivot if it must press. Without friction, only
+	// the touching points that pressed last step or are new start so, or
+	// those this step's banded solve before the sweeps left pressing; a
+	// banded position pass starts from last step's (bandStart).
 	for i := 0; i < n; i++ {
 		if b.kind[i] == normalRow {
 			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
-			if band && !pseudo {
-				b.active[i] = s.touches(idx[b.of[i]])
+			if band {
+				b.active[i] = s.bandStart(idx[b.of[i]], b.active[i], fric, pseudo) // band.go
 			}
 		}
 	}
@@ -502,6 +507,9 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		}
 		*l += d
 		b.rows[i].apply(vel, d)
+	}
+	if band {
+		s.notePressing(idx, n, pseudo) // band.go
 	}
 	return true
 }

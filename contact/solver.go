@@ -67,6 +67,7 @@ type warmPoint struct {
 	friction vec // world vector, so that a new tangent basis can take it over
 	sliding  bool
 	slips    uint8
+	pushed   bool    // the position pass's banded solve had it pressing (bandStart)
 	pending  float64 // approach speed of a deferred impact
 	held     float64 // energy its stops have taken, J (held.go)
 	a, b     int32   // bodies, for matching by position (match.go)
@@ -875,7 +876,7 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		// second pass over its bytes.
 		w := &s.curPts[i]
 		w.key, w.normal, w.friction = p.Key, rn.lambda, p.FrictionImpulse
-		w.sliding, w.slips, w.pending, w.held = p.Sliding, slips, pending, 0
+		w.sliding, w.slips, w.pending, w.held, w.pushed = p.Sliding, slips, pending, 0, false
 		if pending > 0 {
 			w.held = ps.held + stopEnergy(rn.lambda, ps.aStart, -rn.cdot(vel)) // held.go
 		}
