@@ -289,7 +289,7 @@ func (w *World) softContactOf(a, b BodyID, deep *softPoint) *softContact {
 		start = math.Max(w.time-w.soft.lastH, w.time+deep.sep/v0)
 	}
 	s.contacts = append(s.contacts, softContact{a: a, b: b, start: start, v0: v0,
-		point: deep.pos, normal: deep.n, seen: true})
+		point: deep.pos, normal: deep.n, poses: [2]shapes.Pose{w.ShapePose(a), w.ShapePose(b)}, seen: true})
 	return &s.contacts[len(s.contacts)-1]
 }
 
@@ -301,7 +301,7 @@ func (w *World) reportSoft(c *softContact, end float64) {
 	w.b.maxHit[c.a] = math.Max(w.b.maxHit[c.a], c.v0)
 	w.b.maxHit[c.b] = math.Max(w.b.maxHit[c.b], c.v0)
 	w.emit(Event{Kind: Impact, Time: c.start, A: c.a, B: c.b, Point: c.point, Normal: c.normal, Speed: c.v0, Impulse: c.impulse,
-		Compliant: true, PeakForce: c.peakF, Duration: end - c.start, PeakAcceleration: c.peakG})
+		Compliant: true, PeakForce: c.peakF, Duration: end - c.start, PeakAcceleration: c.peakG, Poses: c.poses})
 }
 
 // invMOrZero is a body's inverse mass, 0 unless it is dynamic.
