@@ -73,13 +73,14 @@ type softContact struct {
 	a, b          BodyID
 	start, v0     float64 // time and normal approach speed when it began
 	point, normal shapes.Vec3
-	peakF         float64    // largest contact force, N
-	impulse       float64    // normal impulse so far, N s
-	peakG         [2]float64 // largest contact force over weight, per body
-	lastT, lastD  float64    // time, deepest indentation and rate at the
-	lastRate      float64    // last sub-step, to find when it ended
-	restoring     bool       // past the deepest indentation
-	done          bool       // the impact is reported; the bodies may still touch
+	poses         [2]shapes.Pose // the bodies' shape poses when it began
+	peakF         float64        // largest contact force, N
+	impulse       float64        // normal impulse so far, N s
+	peakG         [2]float64     // largest contact force over weight, per body
+	lastT, lastD  float64        // time, deepest indentation and rate at the
+	lastRate      float64        // last sub-step, to find when it ended
+	restoring     bool           // past the deepest indentation
+	done          bool           // the impact is reported; the bodies may still touch
 	seen          bool
 }
 

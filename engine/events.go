@@ -48,6 +48,11 @@ type Event struct {
 	PeakForce        float64
 	Duration         float64
 	PeakAcceleration [2]float64
+	// Poses are the shape poses (ShapePose) of A and B when a compliant
+	// impact began: it is reported when it ends, after the bodies have
+	// moved and turned, and what it struck is read at its start. Zero for
+	// a rigid impact, which is reported in the step it happens.
+	Poses [2]shapes.Pose
 }
 
 // Events returns the events of the steps since the last call; the slice is

@@ -181,7 +181,9 @@ func (t *DropTracker) Report(w *engine.World, u scene.Units, resting bool) *Drop
 }
 
 // Features returns, for each body of an impact, the feature of its box of
-// bounds struck, in package numbering; nil for a static body.
+// bounds struck, in package numbering; nil for a static body. A compliant
+// impact is read in the poses the bodies had when it began (it is reported
+// when it ends), a rigid one in their poses now.
 func Features(w *engine.World, e engine.Event) [2]pack.Feature {
 	var out [2]pack.Feature
 	for k, id := range [2]engine.BodyID{e.A, e.B} {
@@ -189,6 +191,9 @@ func Features(w *engine.World, e engine.Event) [2]pack.Feature {
 			continue
 		}
 		pose := w.ShapePose(id)
+		if e.Compliant {
+			pose = e.Poses[k]
+		}
 		toward := e.Normal
 		if k == 1 {
 			toward = toward.Mul(-1)
