@@ -330,7 +330,7 @@ func (s *Solver) bandOrder(idx []int32) (ok, tall bool, cut int32) {
 // in that order, has an envelope work within its budget (bandBudget).
 func (s *Solver) frictionBanded(idx []int32) bool {
 	b := &s.blk
-	s.systemRows(idx, true, true)
+	s.systemRows(idx, len(idx), true)
 	n := len(b.rows)
 	b.ab = grow(b.ab, n)
 	for i, r := range b.rows {

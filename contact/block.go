@@ -168,8 +168,9 @@ func (s *Solver) pointRoot(i int) int32 {
 //
 // After sweeps that did not converge (final), friction joins the system
 // of every island small enough (maxFrictionBlock); before them only where
-// masses differ (blockFrictionRatio). A tall island (band.go) is solved
-// with friction before and after the sweeps.
+// masses differ (blockFrictionRatio) or loose points join as normal rows
+// (denseloose.go). A tall island (band.go) is solved with friction before
+// and after the sweeps.
 //
 // After the sweeps the solve is spent only on islands whose last sweep had
 // not converged, in the position pass only on islands with a penetration
@@ -181,10 +182,14 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		if n > s.Settings.MaxBlock && !b.band.ok[r] {
 			continue
 		}
+		nf := n // the points whose friction rows may join the system
 		if n > maxFrictionBlock {
-			n = int(b.band.cut[r]) // its loose points last (band.go)
-			if !pseudo && !final && n > maxFrictionBlock {
-				s.dropLoose(b.order[b.start[r]:int(b.start[r])+n], b.order[int(b.start[r])+n:b.start[r]+b.size[r]]) // banded: bandloose.go
+			nf = int(b.band.cut[r]) // its loose points last (band.go)
+			if n > s.Settings.MaxBlock || b.band.tall[r] {
+				n = nf // left to the sweeps; else normal rows (denseloose.go)
+			}
+			if !pseudo && !final && nf > maxFrictionBlock {
+				s.dropLoose(b.order[b.start[r]:int(b.start[r])+nf], b.order[int(b.start[r])+nf:b.start[r]+b.size[r]]) // banded: bandloose.go
 			}
 		}
 		if n < 2 {
@@ -197,7 +202,7 @@ func (s *Solver) blockSolve(pseudo, final bool) {
 		case final && b.excess[r] <= s.Settings.Tolerance:
 			continue
 		}
-		if !s.solveIsland(idx, pseudo, final) && final {
+		if !s.solveIsland(idx, nf, pseudo, final) && final {
 			s.settlePatches(idx) // twist.go
 		}
 	}
@@ -282,20 +287,21 @@ func (s *Solver) penetrates(idx []int32) bool {
 // solves that system or a point slides faster than its friction can stop
 // (tallpolicy.go). It reports whether the friction rows
 // were solved too.
-func (s *Solver) solveIsland(idx []int32, pseudo, final bool) bool {
-	small := len(idx) <= maxFrictionBlock
+func (s *Solver) solveIsland(idx []int32, nf int, pseudo, final bool) bool {
+	small := nf <= maxFrictionBlock
 	tall := !small && s.tall(idx)
-	if !pseudo && (small && (final || s.massRatio(idx) > blockFrictionRatio) || tall && !(final && s.struck(idx))) {
-		if tall && !final && s.warmSticks(idx) { // tallpolicy.go
+	asTall := tall || denseLoose(idx, nf) // denseloose.go
+	if !pseudo && (small && (final || s.massRatio(idx) > blockFrictionRatio || asTall) || tall && !(final && s.struck(idx))) {
+		if asTall && !final && s.warmSticks(idx, nf) { // tallpolicy.go
 			return true
 		}
-		if !(tall && s.outrunsFriction(idx)) && s.solveRows(idx, false, true) {
+		if !(asTall && s.outrunsFriction(idx[:nf])) && s.solveRows(idx, nf, false, true) {
 			return true
 		}
 	} else if !pseudo && !final && s.warmSolved(idx) {
 		return false
 	}
-	s.solveRows(idx, pseudo, false)
+	s.solveRows(idx, nf, pseudo, false)
 	return false
 }
 
@@ -356,14 +362,18 @@ const maxFrictionBlock = 64
 // three rows of each point, and applies the impulses unless the system has
 // no solution or, with fric, a friction impulse would leave its cone. It
 // reports whether it applied them.
-func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
+func (s *Solver) solveRows(idx []int32, nf int, pseudo, fric bool) bool {
 	b := &s.blk
 	vel := s.sl.vel
 	if pseudo {
 		vel = s.sl.ps
 	}
-	band := len(idx) > s.Settings.MaxBlock || fric && len(idx) > maxFrictionBlock // a tall island (band.go)
-	s.systemRows(idx, fric, band)
+	band := len(idx) > s.Settings.MaxBlock || fric && nf > maxFrictionBlock // a tall island (band.go)
+	if fric {
+		s.systemRows(idx, nf, band)
+	} else {
+		s.systemRows(idx, 0, band)
+	}
 	n := len(b.rows)
 	b.v0, b.x = grow(b.v0, n), grow(b.x, n)
 	b.active = grow(b.active, n)
@@ -440,12 +450,15 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 	// enters at the first pivot if it must press. Without friction, only
 	// the touching points that pressed last step or are new start so, or
 	// those this step's banded solve before the sweeps left pressing; a
-	// banded position pass starts from last step's (bandStart).
+	// banded position pass starts from last step's (bandStart). A dense
+	// system's loose points start from whether they touch (denseloose.go).
 	for i := 0; i < n; i++ {
 		if b.kind[i] == normalRow {
 			b.active[i] = b.lam[i] > 0 || pseudo && b.rows[i].lambda > 0
 			if band {
 				b.active[i] = s.bandStart(idx[b.of[i]], b.active[i], fric, pseudo) // band.go
+			} else if int(b.of[i]) >= nf && !pseudo { // denseloose.go
+				b.active[i] = s.touches(idx[b.of[i]])
 			}
 		}
 	}
@@ -474,7 +487,7 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 		if big > blockConsistent*rhs {
 			return false
 		}
-		if band || big > refineAbove*s.Settings.Tolerance {
+		if band || denseLoose(idx, nf) || big > refineAbove*s.Settings.Tolerance {
 			b.refine(n, band) // refine.go
 		}
 		if !fric {
@@ -486,8 +499,8 @@ func (s *Solver) solveRows(idx []int32, pseudo, fric bool) bool {
 			if !s.holds(n, band) { // blockrows.go
 				return false // a released contact slips: the sweeps' business
 			}
-			if band {
-				s.restick(idx, n, shift) // blockstick.go
+			if band || denseLoose(idx, nf) {
+				s.restick(idx, n, shift, band) // blockstick.go
 			}
 			break
 		} else if round == maxReleases {

@@ -23,19 +23,19 @@ const (
 // point's friction rows follow its normal row instead, and a patch's follow
 // the normal rows of its last point, so that the rows of one pair stay
 // together and the system stays banded.
-func (s *Solver) systemRows(idx []int32, fric, band bool) {
+func (s *Solver) systemRows(idx []int32, nf int, band bool) {
 	b := &s.blk
 	b.rows, b.kind, b.of, b.cnt = b.rows[:0], b.kind[:0], b.of[:0], b.cnt[:0]
 	for k, pi := range idx {
 		b.addRow(&s.nrows[pi], normalRow, k, 0)
-		if fric && band {
+		if k < nf && band {
 			s.frictionRows(idx, k, len(b.rows)-1, true)
 		}
 	}
-	if !fric || band {
+	if band {
 		return
 	}
-	for k := range idx {
+	for k := range idx[:nf] {
 		s.frictionRows(idx, k, k, false)
 	}
 }

@@ -34,7 +34,8 @@ import "math"
 const warmTall = 1e-12
 
 // warmSticks reports whether the warm start already solves the system
-// with friction of the tall island of points idx: every pressing row's
+// with friction of the tall island of points idx (the friction of its
+// first nf points; denseloose.go): every pressing row's
 // velocity, normal or friction, within warmTall of the velocity change its
 // point's normal impulse makes (for a patch's rows, the largest of its
 // points'), no free normal row approaching faster than Tolerance (the
@@ -43,10 +44,10 @@ const warmTall = 1e-12
 // load have no scale and must be still: with no normal impulse they carry
 // none either. A load that changes (a part that lands, a row that tips)
 // fails the test and is solved directly again.
-func (s *Solver) warmSticks(idx []int32) bool {
+func (s *Solver) warmSticks(idx []int32, nf int) bool {
 	b := &s.blk
 	vel, tol := s.sl.vel, s.Settings.Tolerance
-	s.systemRows(idx, true, true)
+	s.systemRows(idx, nf, true)
 	n := len(b.rows)
 	b.x = grow(b.x, n)
 	for i, r := range b.rows {
