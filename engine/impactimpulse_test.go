@@ -84,6 +84,76 @@ func TestRigidImpactImpulse(t *testing.T) {
 	}
 }
 
+// eccentricImpulseTol and eccentricPointTol are the tolerances of the
+// eccentric impact below: 3 percent on the impulse and 1 cm on where the
+// edge strikes. An eccentric impact whose gap closes within a step is
+// split over two steps (contact/held.go): the stop at the gap already
+// turns the carton, so the bounce a step later acts at a lever arm moved
+// by the turn, and the carton leaves slower than Newton's law at the
+// first contact says. That is the simulated motion, not its report: the
+// reported impulse matches the carton's change of momentum over the
+// impact's steps within 1.1 percent (measured), and comes out 0.1 percent
+// under the analytic value at 0.1 ms, 0.5 at 1 ms, 1.1 at 2 ms and 2.3 at
+// 5 ms, where the edge has moved 3 and 5.4 mm (measured). Counting the
+// bounce's part alone, as before, read 10.4 to 17.6 N s for 23.3 at e = 0.2.
+const (
+	eccentricImpulseTol = 0.03
+	eccentricPointTol   = 0.01
+)
+
+// TestEccentricImpactImpulse drops the carton of TestRigidImpactImpulse
+// tilted 20 degrees about its y axis onto a frictionless floor: it strikes
+// on its lowest edge, off the line through its centre of mass, and the
+// impact turns it. For a rigid body striking at a point without friction,
+// Newton's law at the point gives the normal impulse
+//
+//	P = (1+e) v / (1/m + r^2/I),
+//
+// r the horizontal lever arm of the point about the centre of mass and I
+// the moment of inertia about the axis of the turn (eccentric impact: W. J.
+// Stronge, "Impact Mechanics", Cambridge University Press, 2000, ch. 2-3;
+// J. L. Meriam and L. G. Kraige, "Engineering Mechanics: Dynamics", impact
+// chapter); a uniform box of half sides a, c about the third axis has
+// I = m (a^2 + c^2) / 3 (any mechanics text). The edge's two end corners
+// strike together and the event is their sum.
+func TestEccentricImpactImpulse(t *testing.T) {
+	const m, h, tilt = 12.0, 0.610, 20 * math.Pi / 180
+	half := shapes.Vec3{0.2, 0.15, 0.125}
+	q := mgl64.QuatRotate(tilt, shapes.Vec3{0, 1, 0})
+	var low shapes.Vec3 // the lowest corner's offset from the centre of mass
+	for _, sx := range []float64{-1, 1} {
+		for _, sz := range []float64{-1, 1} {
+			if r := q.Rotate(shapes.Vec3{sx * half[0], 0, sz * half[2]}); r[2] < low[2] {
+				low = r
+			}
+		}
+	}
+	inertia := m * (half[0]*half[0] + half[2]*half[2]) / 3
+	for _, e := range []float64{0, 0.2, 0.5} {
+		for _, dt := range []float64{1e-4, 1e-3, 2e-3, 5e-3} {
+			t.Run(fmt.Sprintf("e=%g dt=%g", e, dt), func(t *testing.T) {
+				cfg := DefaultConfig()
+				cfg.NoSleep = true
+				w, mat := floorWorld(t, cfg, 0, Material{Friction: 0, Restitution: e})
+				id := mustAdd(t, w, BodyDef{Name: "carton", Shape: shapes.Box{Half: half}, Mass: m, Material: mat,
+					Position: shapes.Vec3{0, 0, -low[2] + h}, Orientation: q})
+				v := math.Sqrt(2 * g0 * h) // free fall
+				want := (1 + e) * v / (1/m + low[0]*low[0]/inertia)
+				hit := firstHit(t, w, id, dt)
+				if got := hit.Impulse; math.Abs(got-want) > eccentricImpulseTol*want {
+					t.Errorf("first impact's impulse %.4g N s, want (1+e) v / (1/m + r^2/I) = %.4g N s within %g", got, want, eccentricImpulseTol)
+				}
+				if math.Abs(hit.Speed-v) > impactSpeedTol*v {
+					t.Errorf("impact speed %.5g m/s, want %.5g m/s within %g", hit.Speed, v, impactSpeedTol)
+				}
+				if off := math.Abs(hit.Point[0] - low[0]); off > eccentricPointTol {
+					t.Errorf("struck at %.4g, %.3g m off the lowest edge (x = %.4g)", hit.Point, off, low[0])
+				}
+			})
+		}
+	}
+}
+
 // firstHit steps until the body's first impact event and returns it.
 func firstHit(t *testing.T, w *World, id BodyID, dt float64) Event {
 	t.Helper()
