@@ -23,6 +23,15 @@ package contact
 // energy. Where Newton's targets would add more, the arriving points'
 // approach is scaled back, from the arrival speed toward their approach
 // now, until the impact adds that much.
+//
+// The stops' normal impulse is kept with the point too, and handed out
+// with the impact when it arrives (Point.StopImpulse): the stop is the
+// impact's compression begun a step early, and the impulse of the impact
+// is the stop's and the bounce's together, m v (1+e) for a central impact
+// (Newton's impact law: W. Goldsmith, "Impact", 1960, ch. 1). Reporting the
+// bounce's part alone made the impulse depend on the step: a 12 kg carton
+// dropped flat from 610 mm, e = 0.2, read 23.1 N s at 2 ms and 49.8 at
+// 0.1 ms, where its gap closes within the slop and no stop is deferred.
 
 const (
 	// heldRelTol: in a clean deferred impact (one stop, the bodies' motion

@@ -58,7 +58,7 @@ func (s *Solver) matchPoints(points []Point) {
 		}
 		w := &prev[k]
 		ps := &s.pts[i]
-		ps.found, ps.prevSliding, ps.prevSlips, ps.pending, ps.held = true, w.sliding, w.slips, w.pending, w.held
+		ps.found, ps.prevSliding, ps.prevSlips, ps.pending, ps.held, ps.stop = true, w.sliding, w.slips, w.pending, w.held, w.stop
 		ps.prevN = w.normal
 	}
 }

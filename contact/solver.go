@@ -44,6 +44,7 @@ type pstate struct {
 	iN, iT1, iT2        float64 // impulses of the current impact processing
 	pending             float64 // approach speed of an impact deferred from the last step, 0 if none
 	held                float64 // energy its stops have taken so far, J (held.go)
+	stop                float64 // normal impulse its stops have given so far, N s (held.go)
 	aStart              float64 // a deferred point's approach at its stop (held.go)
 	aNow, aArr          float64 // an arriving deferred impact's approach now and on arrival (held.go)
 	arrived             bool    // a deferred impact arrives at it in this pass
@@ -70,6 +71,7 @@ type warmPoint struct {
 	pushed   bool    // the position pass's banded solve had it pressing (bandStart)
 	pending  float64 // approach speed of a deferred impact
 	held     float64 // energy its stops have taken, J (held.go)
+	stop     float64 // normal impulse its stops have given, N s (held.go)
 	a, b     int32   // bodies, for matching by position (match.go)
 	pos      vec     // world contact point
 }
@@ -435,7 +437,7 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		}
 
 		p.NormalImpulse, p.FrictionImpulse = 0, vec{}
-		p.ImpactImpulse, p.ImpactFriction, p.ImpactSpeed = 0, vec{}, 0
+		p.ImpactImpulse, p.ImpactFriction, p.ImpactSpeed, p.StopImpulse = 0, vec{}, 0, 0
 		p.Sliding = false
 	}
 	s.jrows = grow(s.jrows, len(rows))
@@ -595,7 +597,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// It carried load last step: a resting contact, whatever
 					// an unconverged solve or a sway left of approach. It
 					// takes part as a touching point, inelastic.
-					ps.pending, ps.held = 0, 0
+					ps.pending, ps.held, ps.stop = 0, 0, 0
 					ps.active = ps.sep <= ps.slop
 					ps.iTarget = rn.target
 					continue
@@ -625,6 +627,7 @@ func (s *Solver) impacts(dt float64, bodies []Body, points []Point, rep *Report)
 					// giving back no more than its stops took (held.go).
 					ps.arrived, ps.aNow, ps.aArr = true, max(approach, 0), ps.pending
 					approach = ps.pending
+					points[i].StopImpulse = ps.stop // the impact's first part (held.go)
 				}
 				ps.pending = 0
 				ps.active = true
@@ -876,9 +879,10 @@ func (s *Solver) store(dt float64, points []Point, rows []Row, rep *Report) {
 		// second pass over its bytes.
 		w := &s.curPts[i]
 		w.key, w.normal, w.friction = p.Key, rn.lambda, p.FrictionImpulse
-		w.sliding, w.slips, w.pending, w.held, w.pushed = p.Sliding, slips, pending, 0, false
+		w.sliding, w.slips, w.pending, w.held, w.stop, w.pushed = p.Sliding, slips, pending, 0, 0, false
 		if pending > 0 {
 			w.held = ps.held + stopEnergy(rn.lambda, ps.aStart, -rn.cdot(vel)) // held.go
+			w.stop = ps.stop + rn.lambda                                       // held.go
 		}
 		w.a, w.b, w.pos = p.A, p.B, p.Position
 		if ps.deferred > 0 {

@@ -81,6 +81,13 @@ type Point struct {
 	// impulse on B is (NormalImpulse+ImpactImpulse) Normal + FrictionImpulse + ImpactFriction.
 	ImpactImpulse  float64
 	ImpactFriction shapes.Vec3
+	// StopImpulse is the normal impulse (N s, on B along Normal) with which
+	// the velocity solves of earlier steps stopped this point at its gap
+	// while its impact was deferred (held.go), reported with the impact
+	// when it arrives this step; 0 otherwise. It acted in those steps and
+	// is counted in no other field: ImpactImpulse plus StopImpulse is the
+	// whole impact's impulse.
+	StopImpulse float64
 	// ImpactSpeed is the largest approach speed (m/s) at which the impact
 	// phase processed this point in this step, 0 if it was no impact.
 	ImpactSpeed float64

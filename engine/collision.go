@@ -357,7 +357,9 @@ func (w *World) impactEvents() {
 		best := -1
 		impulse := 0.0
 		for ; j < len(pts) && pts[j].A == pts[i].A && pts[j].B == pts[i].B; j++ {
-			impulse += pts[j].ImpactImpulse
+			// With what stopped a deferred impact at its gap in the steps
+			// before it arrived: part of the same impact (contact/held.go).
+			impulse += pts[j].ImpactImpulse + pts[j].StopImpulse
 			if pts[j].ImpactSpeed > 0 && (best < 0 || pts[j].ImpactSpeed > pts[best].ImpactSpeed) {
 				best = j
 			}
