@@ -12,11 +12,11 @@ import "math"
 // across a small gap is not, and a structure set down with gaps between
 // its parts must have those in its system. With the slop alone as the
 // mark of a neighbour, a tower of 20 boxes 18 mm high set down with
-// 0.47 mm between them (1 percent of their size) had at its first step at
-// 1/30 s no point within the slop, so the banded solve took none of its
-// 152 points and left the landing to the sweeps: their 30 sweeps spun the
-// boxes up to 0.7 rad/s, the tower leaned by 7e-3 rad and its top box sank
-// 3.6 mm into the boxes below (measured).
+// 0.47 mm between them (1 percent of their length) had at its first step
+// at 1/30 s no point within the slop, so the banded solve took none of its
+// 152 points and left the landing to the sweeps, which did not converge:
+// the tower leaned by 7e-3 rad and its top box sank 3.6 mm into the boxes
+// below (measured).
 //
 // A point is therefore near, one of a neighbour's, if it is within the
 // slop or it is a support across a gap smaller than its bodies' depth
