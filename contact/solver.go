@@ -53,6 +53,7 @@ type pstate struct {
 	struck              bool    // an impact reaches it this step, now or deferred (impacts)
 	tau                 float64 // how far into the step it lands from within its slop, s; 0 if not (landing.go)
 	pN, pTarget, pLo    float64 // position pass
+	reach               float64 // its moving bodies' mean depth along the normal if it is a support, else 0, m (bandnear.go)
 }
 
 // jpos is a joint row's state in the position pass.
@@ -415,6 +416,7 @@ func (s *Solver) prepare(dt float64, bodies []Body, points []Point, rows []Row) 
 		ps.e = max(p.Restitution, 0)
 		ps.sep = p.Separation
 		ps.slop = PointSlop(&s.Settings, A.Size, B.Size)
+		ps.reach = reach(A, B, &rA, &rB, &p.Normal, p.Separation, ps.muS)
 		if s.Settings.BounceSteps > 0 {
 			ps.turn = turnAcceleration(A, &rA, &p.Normal) + turnAcceleration(B, &rB, &p.Normal) // bounce.go
 		}

@@ -44,6 +44,7 @@ type towerCase struct {
 	tilt    float64 // degrees
 	seconds float64 // 3 if 0
 	sleep   bool    // sleeping on: the tower must fall asleep where it stands
+	gap     float64 // each box set this far (m) above the one below, to land on it
 }
 
 func TestTallTowersStand(t *testing.T) {
@@ -122,7 +123,8 @@ func standTower(t *testing.T, c towerCase) {
 	}
 	for i := range ids {
 		starts[i] = shapes.Vec3{0, 0, c.half[2] * float64(2*i+1)}
-		ids[i] = mustAdd(t, w, BodyDef{Name: "box", Shape: shape, Density: c.dense[i%2], Material: mat, Position: starts[i]})
+		at := starts[i].Add(shapes.Vec3{0, 0, c.gap * float64(i+1)})
+		ids[i] = mustAdd(t, w, BodyDef{Name: "box", Shape: shape, Density: c.dense[i%2], Material: mat, Position: at})
 	}
 	seconds := c.seconds
 	if seconds == 0 {
